@@ -1,0 +1,5 @@
+//! The `tinct` binary: a thin shell over the library.
+
+fn main() {
+    println!("tinct");
+}

@@ -1,0 +1,1 @@
+//! Integration tests, built as one binary to keep link time down.

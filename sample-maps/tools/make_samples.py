@@ -667,7 +667,7 @@ def vessland(preview_dir):
     pins = {i: p["pin"] for i, p in props.items() if p["pin"] is not None}
     k_pinned, _ = chromatic_number(graph, pins)
     hub, rim = odd_wheel(graph)
-    print(f"   planar: yes; chromatic number {k} (3 colours refuted by exhaustive search); with pins {k_pinned}")
+    print(f"   planar: yes; chromatic number {k} ({k - 1} colours refuted by exhaustive search); with pins {k_pinned}")
     print(f"   4-colour witness (odd wheel): hub {names[hub]}, rim " + " - ".join(names[v] for v in rim))
     assert k == 4 and k_pinned == 4 and len(rim) % 2 == 1
 
@@ -718,7 +718,7 @@ def three_valleys(preview_dir, seed=36):
     planar, _ = nx.check_planarity(graph)
     k, col = chromatic_number(graph)
     cycle = odd_cycle(graph)
-    print(f"   planar: {planar}; chromatic number {k}; bipartite (networkx): {nx.is_bipartite(graph)}")
+    print(f"   planar: {planar}; chromatic number {k} ({k - 1} colours refuted by exhaustive search); bipartite (networkx): {nx.is_bipartite(graph)}")
     print("   odd cycle (so 2 colours are impossible): " + " - ".join(names[v] for v in cycle))
     assert planar and k == 3 and not nx.is_bipartite(graph) and len(cycle) % 2 == 1
 

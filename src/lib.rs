@@ -6,3 +6,7 @@
 pub mod cli;
 pub mod doc;
 pub mod engine;
+pub mod formats;
+#[cfg(feature = "gui")]
+pub mod ui;
+pub mod worker;

@@ -1,1 +1,9 @@
-//! Integration tests, built as one binary to keep link time down.
+//! Integration tests, built as one binary to keep link time down on a small machine.
+
+mod cli;
+mod edits;
+mod graph_formats;
+mod invariants;
+mod project_file;
+mod sample_maps;
+mod support;

@@ -2,7 +2,6 @@
 //! 0 success, 1 the analysis found problems (only with `--strict`), 2 bad input, 3 could not write output.
 
 pub mod analyse;
-pub mod input;
 
 use std::io::Write;
 use std::path::PathBuf;
@@ -72,9 +71,8 @@ fn error(code: u8, e: &anyhow::Error) -> ExitCode {
 pub fn run(command: Command) -> ExitCode {
     match command {
         Command::Open { .. } => {
-            eprintln!(
-                "tinct: this build has no editor window (it was built without the `gui` feature); use `tinct analyse` or `tinct convert`"
-            );
+            // Opening a window is the binary's job (it owns the GUI); a headless caller gets a clear no.
+            eprintln!("tinct: `open` needs the editor window; run it as `tinct open FILE`");
             ExitCode::from(exit::BAD_INPUT)
         }
         Command::Analyse {
@@ -83,7 +81,7 @@ pub fn run(command: Command) -> ExitCode {
             strict,
             only: _,
         } => {
-            let loaded = match input::load(&file) {
+            let loaded = match crate::formats::load(&file) {
                 Ok(l) => l,
                 Err(e) => return error(exit::BAD_INPUT, &e),
             };
@@ -113,14 +111,14 @@ pub fn run(command: Command) -> ExitCode {
             input: from,
             output,
         } => {
-            let loaded = match input::load(&from) {
+            let loaded = match crate::formats::load(&from) {
                 Ok(l) => l,
                 Err(e) => return error(exit::BAD_INPUT, &e),
             };
             for n in &loaded.notices {
                 eprintln!("tinct: note: {}", n.message);
             }
-            match input::save(&loaded.doc, &output) {
+            match crate::formats::save(&loaded.doc, &output) {
                 Ok(()) => ExitCode::from(exit::OK),
                 Err(e) => error(exit::CANNOT_WRITE, &e),
             }

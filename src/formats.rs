@@ -1,4 +1,6 @@
-//! Reading any file Tinct understands into a document, chosen by the file's extension.
+//! Reading and writing every kind of file Tinct understands, chosen by the file's extension.
+//!
+//! It sits above the document and the importers, so the command line and the editor share one way in.
 
 use std::path::Path;
 

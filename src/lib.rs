@@ -4,3 +4,4 @@
 //! [`doc`] (the project document, edits, files) <- [`geo`] and the workers <- the GUI and [`cli`].
 
 pub mod engine;
+pub mod geo;

@@ -1,1 +1,2 @@
 //! Integration tests, built as one binary to keep link time down.
+mod geo;

@@ -14,9 +14,11 @@
 //! * **Contact**: two regions touch when some run exists (their boundaries come within `r`).
 //! * **Shared length**: each run is shortened by `r` at both ends (a run that covers the whole
 //!   ring is kept whole), because near a point contact a boundary lies within `r` of the other
-//!   region for about `r` on each side of the point; so a corner contact measures zero, and a
-//!   border of length `L` measures about `L`. The border's length is the mean of what the two
-//!   regions' boundaries measure.
+//!   region for about `r` on each side of the point; so a right-angled corner contact measures
+//!   zero, and a border of length `L` measures about `L`. The border's length is the mean of
+//!   what the two regions' boundaries measure. Contacts measuring less than twice the tolerance
+//!   plus a millionth of the map's diagonal count as point contacts (boundaries meeting at a
+//!   narrow angle stay within `r` of each other for `r / sin(angle)`).
 //! * **Rook** (after the rook's move in chess; common practice in spatial statistics, e.g. Anselin,
 //!   *Spatial Econometrics*, 1988): regions with a shared length of at least the minimum length.
 //! * **Queen**: any contact; contacts without shared length become [`BorderKind::Corner`].
@@ -320,8 +322,12 @@ impl Geometry {
             let key = (r.min(o) as usize, r.max(o) as usize);
             contacts.entry(key).or_default().length += length / 2.0;
         }
-        // Below this, a measured length is rounding left over from a point contact.
-        let floor = tolerance * 1e-3;
+        // Near a point contact a boundary stays within the tolerance for about `r / sin(angle)`
+        // beside the point, where `angle` is the angle between the two boundaries there; the
+        // erosion removes `r` of it. A contact measuring less than twice the user's tolerance
+        // (plus a millionth of the map's diagonal, for rounding and thin angles when the
+        // tolerance is zero) is therefore taken as a point contact.
+        let floor = 2.0 * options.tolerance.max(0.0) + 1e-6 * self.diagonal;
         for contact in contacts.values_mut() {
             if contact.length <= floor {
                 contact.length = 0.0;

@@ -16,6 +16,7 @@ mod geojson;
 pub mod project;
 mod rings;
 mod shp;
+pub mod synthetic;
 mod topojson;
 
 use std::collections::BTreeMap;

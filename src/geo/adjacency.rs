@@ -36,7 +36,10 @@ use std::collections::BTreeMap;
 
 use rstar::{AABB, RTree, RTreeObject};
 
-use super::{BorderKind, Diagnostic, DiagnosticKind, ImportedBorder, ImportedRegion, Point, Rule};
+use super::{
+    BorderKind, Diagnostic, DiagnosticKind, ImportedBorder, ImportedRegion,
+    LambertAzimuthalEqualArea, Point, Rule,
+};
 
 /// Settings for [`derive_borders`].
 #[derive(Clone, Debug, PartialEq)]
@@ -49,6 +52,10 @@ pub struct AdjacencyOptions {
     /// Regions closer than this but not touching get a gap diagnostic; default: three times the
     /// tolerance, at least 1e-4 of the map's diagonal.
     pub gap_width: Option<f64>,
+    /// For projected longitude/latitude data: measure shared lengths as great-circle distances
+    /// on this projection's sphere instead of in the plane (an equal-area projection stretches
+    /// lengths by a few per cent away from its centre).
+    pub lengths_on_sphere: Option<LambertAzimuthalEqualArea>,
 }
 
 impl Default for AdjacencyOptions {
@@ -58,6 +65,7 @@ impl Default for AdjacencyOptions {
             tolerance: 0.0,
             min_border_length: 0.0,
             gap_width: None,
+            lengths_on_sphere: None,
         }
     }
 }
@@ -77,7 +85,8 @@ struct Segment {
     /// Position of the edge within its ring and the ring's edge count, to tell adjacent edges.
     index: u32,
     ring_edges: u32,
-    /// Distance along the ring from its first position to `p`.
+    /// Distance along the ring from its first position to `p`, and the segment's length (both
+    /// great-circle metres when measuring on the sphere).
     offset: f64,
     length: f64,
 }
@@ -113,7 +122,7 @@ pub fn derive_borders(
     regions: &[ImportedRegion],
     options: &AdjacencyOptions,
 ) -> (Vec<ImportedBorder>, Vec<Diagnostic>) {
-    let geometry = Geometry::build(regions);
+    let geometry = Geometry::build(regions, options.lengths_on_sphere.as_ref());
     let (contacts, diagnostics) = geometry.contacts(regions, options);
     let (borders, more) = apply_rule(regions, contacts, options);
     let mut all = diagnostics;
@@ -131,7 +140,7 @@ struct Geometry {
 }
 
 impl Geometry {
-    fn build(regions: &[ImportedRegion]) -> Self {
+    fn build(regions: &[ImportedRegion], sphere: Option<&LambertAzimuthalEqualArea>) -> Self {
         let mut segments = Vec::new();
         let mut rings = Vec::new();
         let mut region_segments = Vec::with_capacity(regions.len() + 1);
@@ -145,10 +154,11 @@ impl Geometry {
                     let mut offset = 0.0;
                     for w in ring.windows(2) {
                         let (p, q) = (w[0], w[1]);
-                        let length = (q[0] - p[0]).hypot(q[1] - p[1]);
-                        if !(length > 0.0) {
+                        let planar = (q[0] - p[0]).hypot(q[1] - p[1]);
+                        if !(planar > 0.0) {
                             continue;
                         }
+                        let length = sphere.map_or(planar, |s| s.distance_m(p, q));
                         for v in [p, q] {
                             min = [min[0].min(v[0]), min[1].min(v[1])];
                             max = [max[0].max(v[0]), max[1].max(v[1])];

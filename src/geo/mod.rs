@@ -436,6 +436,7 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
         tolerance: options.tolerance,
         min_border_length: options.min_border_length,
         gap_width: options.gap_width,
+        lengths_on_sphere: projection,
     };
     let (borders, more) = match &raw.arcs {
         Some(arcs) => topojson::borders_from_arcs(&regions, &region_arcs, arcs, &adjacency),

@@ -91,6 +91,34 @@ impl LambertAzimuthalEqualArea {
         [x, y]
     }
 
+    /// The inverse: `[x, y]` in metres back to `[lon, lat]` in degrees (Snyder eqs. 20-14, 24-16
+    /// and 20-15 with `c = 2 asin(rho / 2R)`).
+    pub fn unproject(&self, [x, y]: Point) -> Point {
+        let rho = x.hypot(y);
+        if rho == 0.0 {
+            return [self.lon0_deg, self.lat0_deg];
+        }
+        let c = 2.0 * (rho / (2.0 * self.radius_m)).clamp(-1.0, 1.0).asin();
+        let (sin_c, cos_c) = c.sin_cos();
+        let (sin_phi1, cos_phi1) = self.lat0_deg.to_radians().sin_cos();
+        let phi = (cos_c * sin_phi1 + y * sin_c * cos_phi1 / rho)
+            .clamp(-1.0, 1.0)
+            .asin();
+        let dl = (x * sin_c).atan2(rho * cos_phi1 * cos_c - y * sin_phi1 * sin_c);
+        [self.lon0_deg + dl.to_degrees(), phi.to_degrees()]
+    }
+
+    /// Great-circle distance in metres between two projected points, on the projection's sphere
+    /// (haversine formula). Equal-area projections do not keep lengths, so shared border
+    /// lengths are measured with this instead.
+    pub fn distance_m(&self, a: Point, b: Point) -> f64 {
+        let ([l1, p1], [l2, p2]) = (self.unproject(a), self.unproject(b));
+        let (p1, p2) = (p1.to_radians(), p2.to_radians());
+        let (dp, dl) = (p2 - p1, (l2 - l1).to_radians());
+        let h = (dp / 2.0).sin().powi(2) + p1.cos() * p2.cos() * (dl / 2.0).sin().powi(2);
+        2.0 * self.radius_m * h.sqrt().min(1.0).asin()
+    }
+
     /// Projects a ring in place.
     pub fn project_ring(&self, ring: &mut [Point]) {
         for p in ring {
@@ -179,6 +207,21 @@ mod tests {
         let p = proj.project([10.0, 50.001]);
         let expected = AUTHALIC_RADIUS_M * 0.001f64.to_radians();
         assert!((p[1] - expected).abs() / expected < 1e-5);
+    }
+
+    #[test]
+    fn unproject_inverts_project_and_distance_is_great_circle() {
+        let proj = LambertAzimuthalEqualArea::new(-100.0, 40.0);
+        for p in [[-120.0, 45.0], [-80.0, 25.5], [-100.0, 40.0], [170.0, 60.0]] {
+            let q = proj.unproject(proj.project(p));
+            assert!(
+                (q[0] - p[0]).abs() < 1e-9 && (q[1] - p[1]).abs() < 1e-9,
+                "{p:?} {q:?}"
+            );
+        }
+        // One degree of a meridian is R * pi / 180 on the sphere.
+        let d = proj.distance_m(proj.project([-110.0, 30.0]), proj.project([-110.0, 31.0]));
+        assert!((d - AUTHALIC_RADIUS_M * 1f64.to_radians()).abs() < 1e-6);
     }
 
     #[test]

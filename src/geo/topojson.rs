@@ -298,7 +298,10 @@ pub(super) fn borders_from_arcs(
         let points = &arcs[arc];
         let length: f64 = points
             .windows(2)
-            .map(|w| (w[1][0] - w[0][0]).hypot(w[1][1] - w[0][1]))
+            .map(|w| match &options.lengths_on_sphere {
+                Some(sphere) => sphere.distance_m(w[0], w[1]),
+                None => (w[1][0] - w[0][0]).hypot(w[1][1] - w[0][1]),
+            })
             .sum();
         if u.len() > 2 {
             diagnostics.push(Diagnostic {

@@ -34,7 +34,9 @@
 
 use std::collections::BTreeMap;
 
-use rstar::{AABB, RTree, RTreeObject};
+use rstar::{
+    AABB, Envelope, ParentNode, RStarInsertionStrategy, RTree, RTreeNode, RTreeObject, RTreeParams,
+};
 
 use super::{
     BorderKind, Diagnostic, DiagnosticKind, ImportedBorder, ImportedRegion,
@@ -91,16 +93,79 @@ struct Segment {
     length: f64,
 }
 
-/// A segment's box in the R-tree, grown by half the search band.
+/// An R-tree entry: a chain of up to [`CHAIN`] consecutive edges of one ring, with their common
+/// box grown by half the search band. Indexing short chains rather than single edges keeps the
+/// tree several times smaller; pairs of chains are then checked edge by edge.
 struct Boxed {
     envelope: AABB<Point>,
-    segment: u32,
+    first: u32,
+    count: u32,
 }
+
+const CHAIN: usize = 8;
 
 impl RTreeObject for Boxed {
     type Envelope = AABB<Point>;
     fn envelope(&self) -> Self::Envelope {
         self.envelope
+    }
+}
+
+/// Wider nodes than rstar's default make bulk loading and the self-join cheaper for the many
+/// small, evenly spread boxes of a map's edges (measured in benches/adjacency.rs).
+struct WideNodes;
+
+impl RTreeParams for WideNodes {
+    const MIN_SIZE: usize = 6;
+    const MAX_SIZE: usize = 16;
+    const REINSERTION_COUNT: usize = 4;
+    type DefaultInsertionStrategy = RStarInsertionStrategy;
+}
+
+fn node_envelope(node: &RTreeNode<Boxed>) -> AABB<Point> {
+    match node {
+        RTreeNode::Leaf(b) => b.envelope,
+        RTreeNode::Parent(p) => p.envelope(),
+    }
+}
+
+/// Calls `found` once for every unordered pair of distinct leaves whose boxes intersect.
+/// (rstar's `intersection_candidates_with_other_tree` on the tree itself reports each pair in
+/// both orders and every leaf with itself; this walk does half the work.)
+fn self_join(node: &ParentNode<Boxed>, found: &mut dyn FnMut(&Boxed, &Boxed)) {
+    let children = node.children();
+    for (k, a) in children.iter().enumerate() {
+        if let RTreeNode::Parent(p) = a {
+            self_join(p, found);
+        }
+        let envelope = node_envelope(a);
+        for b in &children[k + 1..] {
+            if envelope.intersects(&node_envelope(b)) {
+                cross_join(a, b, found);
+            }
+        }
+    }
+}
+
+fn cross_join(a: &RTreeNode<Boxed>, b: &RTreeNode<Boxed>, found: &mut dyn FnMut(&Boxed, &Boxed)) {
+    match (a, b) {
+        (RTreeNode::Leaf(x), RTreeNode::Leaf(y)) => found(x, y),
+        (RTreeNode::Leaf(_), RTreeNode::Parent(p)) => {
+            let envelope = node_envelope(a);
+            for c in p.children() {
+                if envelope.intersects(&node_envelope(c)) {
+                    cross_join(a, c, found);
+                }
+            }
+        }
+        (RTreeNode::Parent(p), _) => {
+            let envelope = node_envelope(b);
+            for c in p.children() {
+                if node_envelope(c).intersects(&envelope) {
+                    cross_join(c, b, found);
+                }
+            }
+        }
     }
 }
 
@@ -212,29 +277,53 @@ impl Geometry {
             .unwrap_or((3.0 * options.tolerance).max(1e-4 * self.diagonal))
             .max(tolerance);
         let grow = band / 2.0;
-        let boxes: Vec<Boxed> = self
+        let boxes: Vec<[f64; 4]> = self
             .segments
             .iter()
-            .enumerate()
-            .map(|(i, s)| Boxed {
-                envelope: AABB::from_corners(
-                    [s.p[0].min(s.q[0]) - grow, s.p[1].min(s.q[1]) - grow],
-                    [s.p[0].max(s.q[0]) + grow, s.p[1].max(s.q[1]) + grow],
-                ),
-                segment: i as u32,
+            .map(|s| {
+                [
+                    s.p[0].min(s.q[0]) - grow,
+                    s.p[1].min(s.q[1]) - grow,
+                    s.p[0].max(s.q[0]) + grow,
+                    s.p[1].max(s.q[1]) + grow,
+                ]
             })
             .collect();
-        let tree = RTree::bulk_load(boxes);
+        let mut chains: Vec<Boxed> = Vec::with_capacity(self.segments.len() / CHAIN + 1);
+        let mut k = 0;
+        while k < self.segments.len() {
+            let ring = self.segments[k].ring;
+            let mut end = k + 1;
+            while end < self.segments.len() && end - k < CHAIN && self.segments[end].ring == ring {
+                end += 1;
+            }
+            let mut b = boxes[k];
+            for x in &boxes[k + 1..end] {
+                b = [
+                    b[0].min(x[0]),
+                    b[1].min(x[1]),
+                    b[2].max(x[2]),
+                    b[3].max(x[3]),
+                ];
+            }
+            chains.push(Boxed {
+                envelope: AABB::from_corners([b[0], b[1]], [b[2], b[3]]),
+                first: k as u32,
+                count: (end - k) as u32,
+            });
+            k = end;
+        }
+        let overlap = |a: &[f64; 4], b: &[f64; 4]| {
+            a[0] <= b[2] && b[0] <= a[2] && a[1] <= b[3] && b[1] <= a[3]
+        };
+        let tree: RTree<Boxed, WideNodes> = RTree::bulk_load_with_params(chains);
 
         let mut runs: Vec<Run> = Vec::new();
         let mut self_crossing_rings: Vec<u32> = Vec::new();
         let mut near: BTreeMap<(u32, u32), f64> = BTreeMap::new();
         let mut crossings: BTreeMap<(u32, u32), Vec<(u32, u32)>> = BTreeMap::new();
-        for (x, y) in tree.intersection_candidates_with_other_tree(&tree) {
-            let (i, j) = (x.segment, y.segment);
-            if i >= j {
-                continue;
-            }
+        let mut visit = |i: u32, j: u32| {
+            let (i, j) = (i.min(j), i.max(j));
             let (s, t) = (&self.segments[i as usize], &self.segments[j as usize]);
             if s.ring == t.ring {
                 let gap = s.index.abs_diff(t.index);
@@ -242,28 +331,47 @@ impl Geometry {
                 if !adjacent && segments_intersect(s.p, s.q, t.p, t.q) {
                     self_crossing_rings.push(s.ring);
                 }
-                continue;
+                return;
             }
             if s.region == t.region {
-                continue;
+                return;
             }
-            let distance = segment_distance(s.p, s.q, t.p, t.q);
             let key = (s.region.min(t.region), s.region.max(t.region));
-            if distance > tolerance {
-                if distance <= band {
-                    let d = near.entry(key).or_insert(f64::INFINITY);
-                    *d = d.min(distance);
-                }
-                continue;
-            }
-            if let Some((u0, u1)) = capsule_interval(s.p, s.q, t.p, t.q, tolerance) {
+            // The common case in clean data: the same edge in both regions (usually reversed).
+            // Each lies wholly within the other's capsule, and they cannot cross.
+            if (s.p == t.q && s.q == t.p) || (s.p == t.p && s.q == t.q) {
                 runs.push(Run {
                     ring: s.ring,
                     other: t.region,
-                    start: s.offset + u0 * s.length,
-                    end: s.offset + u1 * s.length,
+                    start: s.offset,
+                    end: s.offset + s.length,
                 });
+                runs.push(Run {
+                    ring: t.ring,
+                    other: s.region,
+                    start: t.offset,
+                    end: t.offset + t.length,
+                });
+                return;
             }
+            // The capsule test is empty exactly when the segments are further apart than the
+            // tolerance; only then is the distance needed, for the gap band.
+            let Some((u0, u1)) = capsule_interval(s.p, s.q, t.p, t.q, tolerance) else {
+                if band > tolerance {
+                    let distance = segment_distance(s.p, s.q, t.p, t.q);
+                    if distance <= band {
+                        let d = near.entry(key).or_insert(f64::INFINITY);
+                        *d = d.min(distance);
+                    }
+                }
+                return;
+            };
+            runs.push(Run {
+                ring: s.ring,
+                other: t.region,
+                start: s.offset + u0 * s.length,
+                end: s.offset + u1 * s.length,
+            });
             if let Some((u0, u1)) = capsule_interval(t.p, t.q, s.p, s.q, tolerance) {
                 runs.push(Run {
                     ring: t.ring,
@@ -279,59 +387,94 @@ impl Geometry {
                     list.push((i, j));
                 }
             }
-        }
-
-        // Merge runs along each ring, per neighbouring region, and measure them.
-        runs.sort_unstable_by(|a, b| {
-            (a.ring, a.other)
-                .cmp(&(b.ring, b.other))
-                .then(a.start.total_cmp(&b.start))
-        });
-        let eps = 1e-9 * self.diagonal;
-        let mut side: BTreeMap<(u32, u32), f64> = BTreeMap::new();
-        let mut start = 0;
-        while start < runs.len() {
-            let (ring, other) = (runs[start].ring, runs[start].other);
-            let mut end = start;
-            while end < runs.len() && runs[end].ring == ring && runs[end].other == other {
-                end += 1;
-            }
-            let perimeter = self.rings[ring as usize].1;
-            let mut merged: Vec<(f64, f64)> = Vec::new();
-            for run in &runs[start..end] {
-                match merged.last_mut() {
-                    Some(last) if run.start <= last.1 + eps => last.1 = last.1.max(run.end),
-                    _ => merged.push((run.start, run.end)),
+        };
+        let mut found = |a: &Boxed, b: &Boxed| {
+            for i in a.first..a.first + a.count {
+                let bi = &boxes[i as usize];
+                for j in b.first..b.first + b.count {
+                    if overlap(bi, &boxes[j as usize]) {
+                        visit(i, j);
+                    }
                 }
             }
-            // A run through the ring's first position appears as two pieces; join them.
-            let mut lengths: Vec<f64> = merged.iter().map(|(a, b)| b - a).collect();
-            if merged.len() >= 2
-                && merged[0].0 <= eps
-                && merged[merged.len() - 1].1 >= perimeter - eps
-            {
-                let last = lengths.pop().unwrap_or(0.0);
-                lengths[0] += last;
-            }
-            let measured: f64 = lengths
-                .iter()
-                .map(|&l| {
-                    if l >= perimeter - eps {
-                        perimeter
-                    } else {
-                        (l - 2.0 * tolerance).max(0.0)
+        };
+        self_join(tree.root(), &mut found);
+        // Pairs within one chain: only self-intersections of its ring can show there.
+        for chain in tree.iter() {
+            for i in chain.first..chain.first + chain.count {
+                for j in i + 2..chain.first + chain.count {
+                    if overlap(&boxes[i as usize], &boxes[j as usize]) {
+                        visit(i, j);
                     }
-                })
-                .sum();
-            let region = self.rings[ring as usize].0;
-            *side.entry((region, other)).or_insert(0.0) += measured;
-            start = end;
+                }
+            }
         }
-        let mut contacts: BTreeMap<(usize, usize), Contact> = BTreeMap::new();
-        for (&(r, o), &length) in &side {
-            let key = (r.min(o) as usize, r.max(o) as usize);
-            contacts.entry(key).or_default().length += length / 2.0;
+
+        // Bucket the runs by ring (counting sort: rings are numbered in order), then merge them
+        // along each ring per neighbouring region and measure them.
+        let mut first = vec![0usize; self.rings.len() + 1];
+        for run in &runs {
+            first[run.ring as usize + 1] += 1;
         }
+        for k in 1..first.len() {
+            first[k] += first[k - 1];
+        }
+        let mut bucketed = runs.clone();
+        let mut next = first.clone();
+        for run in runs {
+            bucketed[next[run.ring as usize]] = run;
+            next[run.ring as usize] += 1;
+        }
+        let eps = 1e-9 * self.diagonal;
+        let mut side: Vec<((u32, u32), f64)> = Vec::new();
+        let mut merged: Vec<(f64, f64)> = Vec::new();
+        for ring in 0..self.rings.len() {
+            let runs = &mut bucketed[first[ring]..first[ring + 1]];
+            if runs.is_empty() {
+                continue;
+            }
+            runs.sort_unstable_by(|a, b| a.other.cmp(&b.other).then(a.start.total_cmp(&b.start)));
+            let (region, perimeter) = self.rings[ring];
+            for group in runs.chunk_by(|a, b| a.other == b.other) {
+                merged.clear();
+                for run in group {
+                    match merged.last_mut() {
+                        Some(last) if run.start <= last.1 + eps => last.1 = last.1.max(run.end),
+                        _ => merged.push((run.start, run.end)),
+                    }
+                }
+                // A run through the ring's first position appears as two pieces; join them.
+                if merged.len() >= 2
+                    && merged[0].0 <= eps
+                    && merged[merged.len() - 1].1 >= perimeter - eps
+                {
+                    let (a, b) = merged.pop().unwrap_or((0.0, 0.0));
+                    merged[0].0 -= b - a;
+                }
+                let measured: f64 = merged
+                    .iter()
+                    .map(|&(a, b)| {
+                        let l = b - a;
+                        if l >= perimeter - eps {
+                            perimeter
+                        } else {
+                            (l - 2.0 * tolerance).max(0.0)
+                        }
+                    })
+                    .sum();
+                let other = group[0].other;
+                side.push(((region.min(other), region.max(other)), measured));
+            }
+        }
+        side.sort_unstable_by(|a, b| a.0.cmp(&b.0));
+        let mut contacts: BTreeMap<(usize, usize), Contact> = side
+            .chunk_by(|a, b| a.0 == b.0)
+            .map(|group| {
+                let ((a, b), _) = group[0];
+                let length = group.iter().map(|g| g.1).sum::<f64>() / 2.0;
+                ((a as usize, b as usize), Contact { length })
+            })
+            .collect();
         // Near a point contact a boundary stays within the tolerance for about `r / sin(angle)`
         // beside the point, where `angle` is the angle between the two boundaries there; the
         // erosion removes `r` of it. A contact measuring less than twice the user's tolerance

@@ -179,6 +179,7 @@ struct Run {
 }
 
 /// Derives the borders between regions, sorted by `(a, b)`, and the diagnostics found on the way.
+/// Contacts that the rule leaves out are dropped; [`derive_contacts`] keeps them.
 ///
 /// # Complexity
 /// `O((n + k) log n)` time for `n` segments and `k` candidate pairs within the search band
@@ -187,12 +188,29 @@ pub fn derive_borders(
     regions: &[ImportedRegion],
     options: &AdjacencyOptions,
 ) -> (Vec<ImportedBorder>, Vec<Diagnostic>) {
+    let derived = derive_contacts(regions, options);
+    (derived.borders, derived.diagnostics)
+}
+
+/// Every contact between regions, split by the rule into borders and excluded contacts.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Derived {
+    /// The borders the rule selects, sorted by `(a, b)`.
+    pub borders: Vec<ImportedBorder>,
+    /// Contacts the rule leaves out (corner contacts and, for rook, shared borders shorter than
+    /// the minimum length), sorted by `(a, b)`; kept so that a user can bring them back.
+    pub excluded: Vec<ImportedBorder>,
+    pub diagnostics: Vec<Diagnostic>,
+}
+
+/// Like [`derive_borders`], keeping the contacts the rule leaves out. Same complexity.
+pub fn derive_contacts(regions: &[ImportedRegion], options: &AdjacencyOptions) -> Derived {
     let geometry = Geometry::build(regions, options.lengths_on_sphere.as_ref());
-    let (contacts, diagnostics) = geometry.contacts(regions, options);
-    let (borders, more) = apply_rule(regions, contacts, options);
-    let mut all = diagnostics;
-    all.extend(more);
-    (borders, all)
+    let (contacts, mut diagnostics) = geometry.contacts(regions, options);
+    let mut derived = apply_rule(regions, contacts, options);
+    diagnostics.append(&mut derived.diagnostics);
+    derived.diagnostics = diagnostics;
+    derived
 }
 
 struct Geometry {
@@ -578,9 +596,12 @@ pub(super) fn apply_rule(
     regions: &[ImportedRegion],
     contacts: BTreeMap<(usize, usize), Contact>,
     options: &AdjacencyOptions,
-) -> (Vec<ImportedBorder>, Vec<Diagnostic>) {
-    let mut borders = Vec::new();
-    let mut diagnostics = Vec::new();
+) -> Derived {
+    let mut derived = Derived {
+        borders: Vec::new(),
+        excluded: Vec::new(),
+        diagnostics: Vec::new(),
+    };
     for ((a, b), contact) in contacts {
         let kind = if contact.length > 0.0 {
             BorderKind::Shared {
@@ -594,7 +615,7 @@ pub(super) fn apply_rule(
             (Rule::Rook, BorderKind::Corner) => false,
             (Rule::Rook, BorderKind::Shared { length }) => {
                 if length < options.min_border_length {
-                    diagnostics.push(Diagnostic {
+                    derived.diagnostics.push(Diagnostic {
                         kind: DiagnosticKind::ShortBorder,
                         regions: vec![a, b],
                         message: format!(
@@ -612,11 +633,14 @@ pub(super) fn apply_rule(
                 }
             }
         };
+        let border = ImportedBorder { a, b, kind };
         if keep {
-            borders.push(ImportedBorder { a, b, kind });
+            derived.borders.push(border);
+        } else {
+            derived.excluded.push(border);
         }
     }
-    (borders, diagnostics)
+    derived
 }
 
 fn fmt_length(x: f64) -> String {

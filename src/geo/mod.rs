@@ -12,6 +12,7 @@
 //! The layer does not depend on the document model yet; `ImportedMap` is its own result type.
 
 pub mod adjacency;
+pub mod document;
 mod geojson;
 pub mod project;
 mod rings;
@@ -22,7 +23,7 @@ mod topojson;
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 
-pub use adjacency::{AdjacencyOptions, derive_borders};
+pub use adjacency::{AdjacencyOptions, Derived, derive_borders, derive_contacts};
 pub use project::LambertAzimuthalEqualArea;
 
 /// A position in world units (`[x, y]`), or `[longitude, latitude]` in degrees before projection.
@@ -129,8 +130,15 @@ pub enum Units {
 #[derive(Clone, Debug, PartialEq)]
 pub struct ImportedMap {
     pub regions: Vec<ImportedRegion>,
-    /// Sorted by `(a, b)`.
+    /// The borders the rule selects, sorted by `(a, b)`.
     pub borders: Vec<ImportedBorder>,
+    /// Contacts the rule leaves out (corner contacts under rook, shared borders shorter than the
+    /// minimum length), sorted by `(a, b)`, so that a user can include them again.
+    pub excluded: Vec<ImportedBorder>,
+    /// The options the borders were derived with.
+    pub rule: Rule,
+    pub tolerance: f64,
+    pub min_border_length: f64,
     /// Sorted by kind, then regions, then message.
     pub diagnostics: Vec<Diagnostic>,
     pub units: Units,
@@ -438,16 +446,20 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
         gap_width: options.gap_width,
         lengths_on_sphere: projection,
     };
-    let (borders, more) = match &raw.arcs {
+    let derived = match &raw.arcs {
         Some(arcs) => topojson::borders_from_arcs(&regions, &region_arcs, arcs, &adjacency),
-        None => derive_borders(&regions, &adjacency),
+        None => derive_contacts(&regions, &adjacency),
     };
-    diagnostics.extend(more);
+    diagnostics.extend(derived.diagnostics);
     sort_diagnostics(&mut diagnostics);
 
     Ok(ImportedMap {
         regions,
-        borders,
+        borders: derived.borders,
+        excluded: derived.excluded,
+        rule: options.rule,
+        tolerance: options.tolerance,
+        min_border_length: options.min_border_length,
         diagnostics,
         units,
         projection,

@@ -13,8 +13,7 @@ use serde_json::Value;
 
 use super::adjacency::{self, AdjacencyOptions, Contact};
 use super::{
-    Diagnostic, DiagnosticKind, ImportError, ImportedBorder, ImportedRegion, Point, Polygon,
-    RawFeature, RawMap,
+    Diagnostic, DiagnosticKind, ImportError, ImportedRegion, Point, Polygon, RawFeature, RawMap,
 };
 
 fn topology_error(reason: impl Into<String>) -> ImportError {
@@ -280,7 +279,7 @@ pub(super) fn borders_from_arcs(
     region_arcs: &[Vec<usize>],
     arcs: &[Vec<Point>],
     options: &AdjacencyOptions,
-) -> (Vec<ImportedBorder>, Vec<Diagnostic>) {
+) -> adjacency::Derived {
     let mut users: Vec<Vec<usize>> = vec![Vec::new(); arcs.len()];
     for (region, used) in region_arcs.iter().enumerate() {
         for &arc in used {
@@ -337,13 +336,15 @@ pub(super) fn borders_from_arcs(
     }
 
     // Ring validity, overlaps and gaps from the geometric pass; its borders are not used.
-    let (_, geometric) = adjacency::derive_borders(regions, options);
+    let geometric = adjacency::derive_contacts(regions, options);
     diagnostics.extend(
         geometric
+            .diagnostics
             .into_iter()
             .filter(|d| d.kind != DiagnosticKind::ShortBorder),
     );
-    let (borders, rule_diagnostics) = adjacency::apply_rule(regions, contacts, options);
-    diagnostics.extend(rule_diagnostics);
-    (borders, diagnostics)
+    let mut derived = adjacency::apply_rule(regions, contacts, options);
+    diagnostics.append(&mut derived.diagnostics);
+    derived.diagnostics = diagnostics;
+    derived
 }

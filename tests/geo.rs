@@ -189,7 +189,8 @@ fn missing_name_field_lists_the_available_fields() {
 
 #[test]
 fn invalid_documents_give_clear_errors() {
-    let cases: [(&str, fn(&ImportError) -> bool); 6] = [
+    type Check = fn(&ImportError) -> bool;
+    let cases: [(&str, Check); 6] = [
         ("{\"type\": \"FeatureCollection\", \"features\": [", |e| {
             matches!(e, ImportError::Json { line: 1, .. })
         }),
@@ -822,7 +823,7 @@ fn sample_maps_match_their_shapely_borders() {
                 )
             })
             .collect();
-        expected.sort_by(|x, y| (x.0, x.1).cmp(&(y.0, y.1)));
+        expected.sort_by_key(|x| (x.0, x.1));
         let map = geo::import_path(&sample(file), &options(Rule::Queen)).unwrap();
         let mut got: Vec<(u64, u64, String, f64)> = map
             .borders
@@ -840,7 +841,7 @@ fn sample_maps_match_their_shapely_borders() {
                 (x.min(y), x.max(y), kind.to_string(), b.length())
             })
             .collect();
-        got.sort_by(|x, y| (x.0, x.1).cmp(&(y.0, y.1)));
+        got.sort_by_key(|x| (x.0, x.1));
         assert_eq!(got.len(), expected.len(), "{file}");
         for (g, e) in got.iter().zip(&expected) {
             assert_eq!((g.0, g.1, &g.2), (e.0, e.1, &e.2), "{file}");
@@ -850,7 +851,9 @@ fn sample_maps_match_their_shapely_borders() {
         // (three-valleys: Pollenstead and The Longwater come within 0.27 m without touching,
         // and shapely agrees that they do not touch).
         assert!(
-            map.diagnostics.iter().all(|d| d.kind == DiagnosticKind::Gap),
+            map.diagnostics
+                .iter()
+                .all(|d| d.kind == DiagnosticKind::Gap),
             "{file}: {:?}",
             map.diagnostics
         );
@@ -921,4 +924,89 @@ fn adjacency_report_names_regions_by_import_id() {
         .unwrap();
     assert_eq!(corner["kind"], "corner");
     assert_eq!(corner["length"], 0.0);
+}
+
+// ---------------------------------------------------------------------------------------------
+// Command line
+
+fn tinct(args: &[&std::ffi::OsStr]) -> std::process::Output {
+    std::process::Command::new(env!("CARGO_BIN_EXE_tinct"))
+        .args(args)
+        .output()
+        .unwrap()
+}
+
+#[test]
+fn cli_import_then_analyse_a_real_dataset() {
+    let dir = tempfile::tempdir().unwrap();
+    let project = dir.path().join("us.tinct");
+    let input = data("us_states_subset.topojson");
+    let out = tinct(&[
+        "import".as_ref(),
+        input.as_os_str(),
+        "--out".as_ref(),
+        project.as_os_str(),
+        "--rule".as_ref(),
+        "queen".as_ref(),
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let out = tinct(&["analyse".as_ref(), project.as_os_str(), "--json".as_ref()]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let report: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(report["summary"]["regions"], 14);
+    // 25 rook borders (libpysal, reference_edges.txt) plus the two Four Corners diagonals.
+    assert_eq!(report["borders"]["recorded"], 27);
+    assert_eq!(report["borders"]["corner"], 2);
+    assert_eq!(report["borders"]["active"], 27);
+}
+
+#[test]
+fn cli_analyse_reads_a_sample_map_directly_and_adjacency_prints_json() {
+    let map = sample("three-valleys.geojson");
+    let out = tinct(&["analyse".as_ref(), map.as_os_str(), "--json".as_ref()]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let report: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let text = std::fs::read_to_string(&map).unwrap();
+    let json: serde_json::Value = serde_json::from_str(&text).unwrap();
+    let features = json["features"].as_array().unwrap().len();
+    assert_eq!(report["summary"]["regions"], features);
+    let out = tinct(&["adjacency".as_ref(), map.as_os_str(), "--json".as_ref()]);
+    assert!(out.status.success());
+    let adjacency: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let shared = json["tinct_borders"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .filter(|b| b["kind"] == "shared")
+        .count();
+    assert_eq!(adjacency["borders"].as_array().unwrap().len(), shared);
+}
+
+#[test]
+fn cli_missing_name_field_exits_with_bad_input_and_lists_fields() {
+    let input = data("columbus.shp");
+    let out = tinct(&[
+        "adjacency".as_ref(),
+        input.as_os_str(),
+        "--name-field".as_ref(),
+        "NAMEX".as_ref(),
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        stderr.contains("available fields: AREA, PERIMETER"),
+        "{stderr}"
+    );
 }

@@ -6,7 +6,7 @@
 //! import order); `source_index` is the 0-based position of the feature in the input file.
 
 use std::io::Write;
-use std::path::{Path, PathBuf};
+use std::path::Path;
 use std::process::ExitCode;
 
 use anyhow::anyhow;
@@ -264,7 +264,7 @@ pub fn render_text(report: &AdjacencyReport) -> String {
 }
 
 /// `tinct adjacency FILE [--json]`.
-pub fn run_adjacency(file: &PathBuf, json: bool, args: &GeoArgs) -> ExitCode {
+pub fn run_adjacency(file: &Path, json: bool, args: &GeoArgs) -> ExitCode {
     let map = match import(file, &args.options()) {
         Ok(m) => m,
         Err(e) => return error(exit::BAD_INPUT, &e),

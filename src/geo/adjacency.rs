@@ -238,7 +238,7 @@ impl Geometry {
                     for w in ring.windows(2) {
                         let (p, q) = (w[0], w[1]);
                         let planar = (q[0] - p[0]).hypot(q[1] - p[1]);
-                        if !(planar > 0.0) {
+                        if planar.is_nan() || planar <= 0.0 {
                             continue;
                         }
                         let length = sphere.map_or(planar, |s| s.distance_m(p, q));
@@ -484,7 +484,7 @@ impl Geometry {
                 side.push(((region.min(other), region.max(other)), measured));
             }
         }
-        side.sort_unstable_by(|a, b| a.0.cmp(&b.0));
+        side.sort_unstable_by_key(|a| a.0);
         let mut contacts: BTreeMap<(usize, usize), Contact> = side
             .chunk_by(|a, b| a.0 == b.0)
             .map(|group| {

@@ -392,9 +392,7 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
     let mut region_arcs: Vec<Vec<usize>> = Vec::new();
     let mut ring_problems: Vec<(usize, rings::RingProblem)> = Vec::new();
     let mut empty: Vec<usize> = Vec::new();
-    for ((feature, name), (parts, arcs, problems)) in
-        raw.features.iter().zip(names).zip(cleaned.into_iter())
-    {
+    for ((feature, name), (parts, arcs, problems)) in raw.features.iter().zip(names).zip(cleaned) {
         let first_region = regions.len();
         if options.split_parts && parts.len() > 1 {
             for (k, (polygon, arcs)) in parts.into_iter().zip(arcs_or_empty(arcs)).enumerate() {

@@ -9,7 +9,44 @@
 //! rings) -> project longitude/latitude data ([`project`]) -> split parts if asked -> derive
 //! borders ([`adjacency`], or straight from shared arcs for TopoJSON) -> diagnostics.
 //!
-//! The layer does not depend on the document model yet; `ImportedMap` is its own result type.
+//! `ImportedMap` is the importers' own result; [`ImportedMap::into_document`] turns it into a
+//! project document (every contact recorded, the rule kept in the document's settings).
+//!
+//! # Rules, tolerance and lengths (user documentation)
+//!
+//! * **Rook**: two regions border each other when their boundaries share a stretch of positive
+//!   length, at least `min_border_length`. **Queen**: any shared point counts; contacts without
+//!   shared length are kept as [`BorderKind::Corner`] borders. Contacts a rule leaves out are
+//!   kept in [`ImportedMap::excluded`] so a user can bring them back. At a quadripoint rook gives
+//!   a 4-cycle and queen a K4.
+//! * **Tolerance** (`tolerance`, metres for longitude/latitude data, else map units): boundaries
+//!   that run within this distance of each other count as shared even when their vertices
+//!   differ (digitising gaps, slivers). Zero means exact, up to rounding (1e-9 of the map's
+//!   diagonal).
+//! * **Shared length**: the length of boundary lying within the tolerance of the neighbour's,
+//!   less the tolerance at both ends of each stretch, averaged over the two regions; contacts
+//!   measuring under twice the tolerance (plus 1e-6 of the diagonal) are corner contacts.
+//!   For longitude/latitude data lengths are great-circle lengths on the sphere.
+//! * **TopoJSON**: borders come from the topology itself: two regions whose rings use the same
+//!   arc share its length; regions whose arcs end at a common node touch there.
+//! * **Projection**: longitude/latitude data (GeoJSON per RFC 7946; Shapefile with a `GEOGCS`
+//!   .prj; otherwise detected from the coordinate range) is projected to metres with the Lambert
+//!   azimuthal equal-area projection centred on the data (see [`project`]); data crossing the
+//!   180-degree meridian stays whole.
+//!
+//! # Diagnostics
+//!
+//! Each [`Diagnostic`] names the regions involved: skipped non-polygon geometries, empty
+//! geometries, unclosed rings (closed), degenerate rings (dropped), self-intersecting rings,
+//! overlaps deeper than the tolerance, gaps (regions within the gap band, by default three times
+//! the tolerance or 1e-4 of the diagonal, that do not touch), duplicate names, and borders
+//! shorter than the minimum length. Errors ([`ImportError`]) only when the file cannot be read:
+//! not JSON or truncated, not GeoJSON/TopoJSON, an unreadable shapefile, a missing name field
+//! (the error lists the available fields) or TopoJSON object.
+//!
+//! Limitations: overlaps are found where boundaries cross with a vertex deeper than the
+//! tolerance inside the other region; one region entirely inside another without touching its
+//! boundary is not reported. Gaps are reported only for regions that do not touch at all.
 
 pub mod adjacency;
 pub mod document;

@@ -105,7 +105,10 @@ impl LambertAzimuthalEqualArea {
             .clamp(-1.0, 1.0)
             .asin();
         let dl = (x * sin_c).atan2(rho * cos_phi1 * cos_c - y * sin_phi1 * sin_c);
-        [normalise_lon(self.lon0_deg + dl.to_degrees()), phi.to_degrees()]
+        [
+            normalise_lon(self.lon0_deg + dl.to_degrees()),
+            phi.to_degrees(),
+        ]
     }
 
     /// Great-circle distance in metres between two projected points, on the projection's sphere

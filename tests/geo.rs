@@ -1010,3 +1010,55 @@ fn cli_missing_name_field_exits_with_bad_input_and_lists_fields() {
         "{stderr}"
     );
 }
+
+#[test]
+fn us_atlas_with_independently_jittered_vertices_needs_the_tolerance() {
+    // Move every vertex of every state by up to 50 m on its own, so that neighbours no longer
+    // share vertices (as when states are digitised separately). With a 200 m tolerance and a
+    // 1 km minimum the rook borders still equal libpysal's on the clean data. With no tolerance
+    // the two copies of each border cross back and forth: only the stretches near crossings
+    // count (a small part of the length) and the overlaps are reported.
+    let map = geo::import_path(&data("us_states_subset.geojson"), &options(Rule::Rook)).unwrap();
+    let mut rng = geo::synthetic::XorShift::new(5);
+    let mut regions = map.regions.clone();
+    for region in &mut regions {
+        for polygon in &mut region.parts {
+            for ring in std::iter::once(&mut polygon.exterior).chain(polygon.holes.iter_mut()) {
+                let n = ring.len();
+                for p in ring.iter_mut().take(n - 1) {
+                    p[0] += 50.0 * rng.symmetric();
+                    p[1] += 50.0 * rng.symmetric();
+                }
+                ring[n - 1] = ring[0];
+            }
+        }
+    }
+    let name_pairs = |borders: &[geo::ImportedBorder]| -> BTreeSet<(String, String)> {
+        borders
+            .iter()
+            .map(|b| {
+                let (x, y) = (regions[b.a].name.clone(), regions[b.b].name.clone());
+                if x <= y { (x, y) } else { (y, x) }
+            })
+            .collect()
+    };
+    let tolerant = AdjacencyOptions {
+        tolerance: 200.0,
+        min_border_length: 1000.0,
+        ..AdjacencyOptions::default()
+    };
+    let (borders, _) = geo::derive_borders(&regions, &tolerant);
+    assert_eq!(name_pairs(&borders), reference("us_states", "rook"));
+    let tolerant_length: f64 = borders.iter().map(|b| b.length()).sum();
+    let (borders, diagnostics) = geo::derive_borders(&regions, &AdjacencyOptions::default());
+    let exact_length: f64 = borders.iter().map(|b| b.length()).sum();
+    assert!(
+        exact_length < 0.2 * tolerant_length,
+        "{exact_length} vs {tolerant_length}"
+    );
+    let overlaps = diagnostics
+        .iter()
+        .filter(|d| d.kind == DiagnosticKind::Overlap)
+        .count();
+    assert!(overlaps >= 20, "{diagnostics:?}");
+}

@@ -37,6 +37,7 @@ fn main() {
         "rook/parse",
         "queen/parse"
     );
+    real_map();
     // (label, cols, rows, steps per cell edge, runs)
     let cases = [
         ("grid 60x50, 6 steps/edge", 60, 50, 6, 10),
@@ -85,4 +86,49 @@ fn main() {
             queen_time.as_secs_f64() / parse.as_secs_f64(),
         );
     }
+}
+
+/// The committed us-atlas extract (14 states, longitude/latitude GeoJSON), as a real-data row.
+fn real_map() {
+    let path = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/data/geo/us_states_subset.geojson"
+    );
+    let Ok(text) = std::fs::read_to_string(path) else {
+        return;
+    };
+    let runs = 20;
+    let parse = best_of(runs, || {
+        serde_json::from_str::<serde_json::Value>(&text).map(|_| ())
+    });
+    let import = best_of(runs, || {
+        geo::import_json(text.as_bytes(), &ImportOptions::default()).map(|m| m.borders.len())
+    });
+    let Ok(map) = geo::import_json(text.as_bytes(), &ImportOptions::default()) else {
+        return;
+    };
+    let vertices: usize = map
+        .regions
+        .iter()
+        .map(|r| r.parts.iter().map(|p| p.exterior.len() - 1).sum::<usize>())
+        .sum();
+    let rook = AdjacencyOptions::default();
+    let queen = AdjacencyOptions {
+        rule: Rule::Queen,
+        ..AdjacencyOptions::default()
+    };
+    let rook_time = best_of(runs, || geo::derive_borders(&map.regions, &rook).0.len());
+    let queen_time = best_of(runs, || geo::derive_borders(&map.regions, &queen).0.len());
+    println!(
+        "{:<28} {:>8} {:>9} {:>9.1} {:>10.1} {:>9.1} {:>9.1} {:>10.2} {:>10.2}",
+        "us-atlas 14 states (real)",
+        map.regions.len(),
+        vertices,
+        ms(parse),
+        ms(import),
+        ms(rook_time),
+        ms(queen_time),
+        rook_time.as_secs_f64() / parse.as_secs_f64(),
+        queen_time.as_secs_f64() / parse.as_secs_f64(),
+    );
 }

@@ -1062,3 +1062,36 @@ fn us_atlas_with_independently_jittered_vertices_needs_the_tolerance() {
         .count();
     assert!(overlaps >= 20, "{diagnostics:?}");
 }
+
+#[test]
+fn topojson_split_parts_keeps_arc_borders_per_part() {
+    // With split parts, multi-part states (Alaska's islands, California's and Texas's islands)
+    // become one region per part, in one same-colour group per state; mapping each part back to
+    // its state gives the libpysal rook edges again.
+    let opts = ImportOptions {
+        split_parts: true,
+        ..options(Rule::Rook)
+    };
+    let map = geo::import_path(&data("us_states_subset.topojson"), &opts).unwrap();
+    let base = |name: &str| name.rsplit_once(" (").map_or(name, |(b, _)| b).to_string();
+    let alaska_parts = map
+        .regions
+        .iter()
+        .filter(|r| base(&r.name) == "Alaska")
+        .count();
+    assert!(alaska_parts > 10, "{alaska_parts}");
+    let split_states: BTreeSet<String> = map
+        .regions
+        .iter()
+        .filter(|r| r.name.contains(" ("))
+        .map(|r| base(&r.name))
+        .collect();
+    let doc = map.clone().into_document("split");
+    assert_eq!(doc.groups.len(), split_states.len());
+    let by_state: BTreeSet<(String, String)> = named_edges(&map)
+        .into_iter()
+        .map(|(a, b)| (base(&a), base(&b)))
+        .filter(|(a, b)| a != b)
+        .collect();
+    assert_eq!(by_state, reference("us_states", "rook"));
+}

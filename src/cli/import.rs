@@ -47,6 +47,18 @@ pub struct GeoArgs {
     /// The TopoJSON object to import (default: the one with the most polygons).
     #[arg(long)]
     pub layer: Option<String>,
+    /// How to read coordinates: auto (longitude/latitude when the file says so or the values
+    /// fit that range), lon-lat, or planar (map units, no projection).
+    #[arg(long, value_enum, default_value = "auto")]
+    pub coordinates: CoordinatesArg,
+}
+
+/// Coordinate interpretation on the command line.
+#[derive(Copy, Clone, Debug, PartialEq, Eq, ValueEnum)]
+pub enum CoordinatesArg {
+    Auto,
+    LonLat,
+    Planar,
 }
 
 impl GeoArgs {
@@ -61,6 +73,11 @@ impl GeoArgs {
             name_field: self.name_field.clone(),
             split_parts: self.split_parts,
             layer: self.layer.clone(),
+            coordinates: match self.coordinates {
+                CoordinatesArg::Auto => geo::CoordinateMode::Auto,
+                CoordinatesArg::LonLat => geo::CoordinateMode::LonLat,
+                CoordinatesArg::Planar => geo::CoordinateMode::Planar,
+            },
             ..ImportOptions::default()
         }
     }

@@ -165,6 +165,10 @@ fn rfc7946_appendix_a_polygon_with_hole_and_multipolygon() {
     // the geometric pass reports as a border along both outlines: 4 + 4 * 0.6 units.
     assert_eq!(map.borders.len(), 1);
     assert!((map.borders[0].length() - 6.4).abs() < 1e-6);
+    // The same area twice is an overlap.
+    let overlaps: Vec<_> = map.diagnostics_of(DiagnosticKind::Overlap).collect();
+    assert_eq!(overlaps.len(), 1, "{:?}", map.diagnostics);
+    assert_eq!(overlaps[0].regions, vec![0, 1]);
 }
 
 #[test]
@@ -570,8 +574,9 @@ fn gap_within_tolerance_is_a_border_and_beyond_it_a_gap_diagnostic() {
 fn overlap_beyond_tolerance_is_reported() {
     let regions = vec![
         region("a", square(0.0, 0.0, 1.0)),
-        region("b", square(0.5, 0.25, 1.0)),
+        region("b", square(0.95, 0.25, 1.0)),
     ];
+    // b reaches 0.05 into a.
     let (_, diagnostics) = geo::derive_borders(&regions, &AdjacencyOptions::default());
     let overlaps: Vec<_> = diagnostics
         .iter()
@@ -579,12 +584,13 @@ fn overlap_beyond_tolerance_is_reported() {
         .collect();
     assert_eq!(overlaps.len(), 1, "{diagnostics:?}");
     assert_eq!(overlaps[0].regions, vec![0, 1]);
-    // Within a generous tolerance the same overlap is only a sliver.
+    // Within a 0.1 tolerance the same overlap is only a sliver along a shared border.
     let lenient = AdjacencyOptions {
-        tolerance: 0.6,
+        tolerance: 0.1,
         ..AdjacencyOptions::default()
     };
-    let (_, diagnostics) = geo::derive_borders(&regions, &lenient);
+    let (borders, diagnostics) = geo::derive_borders(&regions, &lenient);
+    assert_eq!(borders.len(), 1);
     assert!(
         diagnostics
             .iter()
@@ -1094,4 +1100,39 @@ fn topojson_split_parts_keeps_arc_borders_per_part() {
         .filter(|(a, b)| a != b)
         .collect();
     assert_eq!(by_state, reference("us_states", "rook"));
+}
+
+#[test]
+fn enclave_is_a_border_and_a_nested_region_is_an_overlap() {
+    // An enclave fills a hole of its neighbour: a border along the whole hole, no overlap.
+    let outer = ImportedRegion {
+        parts: vec![Polygon {
+            exterior: square(0.0, 0.0, 10.0),
+            holes: vec![square(4.0, 4.0, 2.0)],
+        }],
+        ..region("outer", vec![])
+    };
+    let regions = vec![outer.clone(), region("enclave", square(4.0, 4.0, 2.0))];
+    let (borders, diagnostics) = geo::derive_borders(&regions, &AdjacencyOptions::default());
+    assert_eq!(borders.len(), 1);
+    assert!((borders[0].length() - 8.0).abs() < 1e-9);
+    assert!(diagnostics.is_empty(), "{diagnostics:?}");
+    // A region drawn on top of another without touching its boundary.
+    let regions = vec![
+        region("big", square(0.0, 0.0, 10.0)),
+        region("inside", square(1.0, 1.0, 2.0)),
+    ];
+    let (borders, diagnostics) = geo::derive_borders(&regions, &AdjacencyOptions::default());
+    assert!(borders.is_empty());
+    assert_eq!(diagnostics.len(), 1, "{diagnostics:?}");
+    assert_eq!(diagnostics[0].kind, DiagnosticKind::Overlap);
+    assert_eq!(diagnostics[0].regions, vec![0, 1]);
+    // An island inside the hole of another region is neither.
+    let regions = vec![outer, region("island", square(4.5, 4.5, 1.0))];
+    let (borders, diagnostics) = geo::derive_borders(&regions, &AdjacencyOptions::default());
+    assert!(borders.is_empty());
+    assert!(
+        diagnostics.iter().all(|d| d.kind == DiagnosticKind::Gap),
+        "{diagnostics:?}"
+    );
 }

@@ -29,8 +29,9 @@
 //!
 //! Diagnostics from the same pass: self-intersecting rings (non-adjacent edges of one ring that
 //! meet), overlaps (edges of two regions that cross, with an end lying inside the other region
-//! further than the tolerance from its boundary), and gaps (regions that come within the gap
-//! band but not within the tolerance).
+//! further than the tolerance from its boundary; two exterior outlines lying wholly along each
+//! other; a region inside another without touching it, found with an R-tree of region boxes),
+//! and gaps (regions that come within the gap band but not within the tolerance).
 
 use std::collections::BTreeMap;
 
@@ -217,6 +218,8 @@ struct Geometry {
     segments: Vec<Segment>,
     /// Per ring: its region and perimeter.
     rings: Vec<(u32, f64)>,
+    /// Per ring: true for an exterior ring, false for a hole.
+    ring_is_exterior: Vec<bool>,
     /// Segments of region `r` are `region_segments[r]..region_segments[r + 1]`.
     region_segments: Vec<usize>,
     diagonal: f64,
@@ -226,12 +229,17 @@ impl Geometry {
     fn build(regions: &[ImportedRegion], sphere: Option<&LambertAzimuthalEqualArea>) -> Self {
         let mut segments = Vec::new();
         let mut rings = Vec::new();
+        let mut ring_is_exterior = Vec::new();
         let mut region_segments = Vec::with_capacity(regions.len() + 1);
         let (mut min, mut max) = ([f64::INFINITY; 2], [f64::NEG_INFINITY; 2]);
         for (r, region) in regions.iter().enumerate() {
             region_segments.push(segments.len());
             for polygon in &region.parts {
-                for ring in std::iter::once(&polygon.exterior).chain(&polygon.holes) {
+                for (k, ring) in std::iter::once(&polygon.exterior)
+                    .chain(&polygon.holes)
+                    .enumerate()
+                {
+                    ring_is_exterior.push(k == 0);
                     let ring_id = rings.len() as u32;
                     let first = segments.len();
                     let mut offset = 0.0;
@@ -275,6 +283,7 @@ impl Geometry {
         Self {
             segments,
             rings,
+            ring_is_exterior,
             region_segments,
             diagonal,
         }
@@ -446,6 +455,8 @@ impl Geometry {
         let eps = 1e-9 * self.diagonal;
         let mut side: Vec<((u32, u32), f64)> = Vec::new();
         let mut merged: Vec<(f64, f64)> = Vec::new();
+        // (region, other): an exterior ring of `region` lies wholly along `other`'s boundary.
+        let mut outline_covered: Vec<(u32, u32)> = Vec::new();
         for ring in 0..self.rings.len() {
             let runs = &mut bucketed[first[ring]..first[ring + 1]];
             if runs.is_empty() {
@@ -481,6 +492,11 @@ impl Geometry {
                     })
                     .sum();
                 let other = group[0].other;
+                if self.ring_is_exterior[ring]
+                    && merged.iter().any(|&(a, b)| b - a >= perimeter - eps)
+                {
+                    outline_covered.push((region, other));
+                }
                 side.push(((region.min(other), region.max(other)), measured));
             }
         }
@@ -518,6 +534,25 @@ impl Geometry {
                 ),
             });
         }
+
+        // Two exterior outlines lying wholly along each other: the same area twice (a duplicate
+        // feature), not an enclave (whose outline lies along a hole of its neighbour).
+        outline_covered.sort_unstable();
+        outline_covered.dedup();
+        for &(a, b) in &outline_covered {
+            if a < b && outline_covered.binary_search(&(b, a)).is_ok() {
+                let (a, b) = (a as usize, b as usize);
+                diagnostics.push(Diagnostic {
+                    kind: DiagnosticKind::Overlap,
+                    regions: vec![a, b],
+                    message: format!(
+                        "regions {:?} and {:?} have the same outline: one covers the other",
+                        regions[a].name, regions[b].name
+                    ),
+                });
+            }
+        }
+        self.nested_without_contact(regions, &contacts, tolerance, &mut diagnostics);
 
         for (&(a, b), list) in &crossings {
             let mut depth: f64 = 0.0;
@@ -570,6 +605,66 @@ impl Geometry {
             });
         }
         (contacts, diagnostics)
+    }
+
+    /// Reports regions lying inside another region without touching its boundary (so no edge
+    /// pair shows the overlap): an R-tree of region boxes finds the candidates, and a vertex of
+    /// the inner region is tested against the outer one.
+    fn nested_without_contact(
+        &self,
+        regions: &[ImportedRegion],
+        contacts: &BTreeMap<(usize, usize), Contact>,
+        tolerance: f64,
+        diagnostics: &mut Vec<Diagnostic>,
+    ) {
+        let mut boxes = Vec::new();
+        for r in 0..regions.len() {
+            let segments = &self.segments[self.region_segments[r]..self.region_segments[r + 1]];
+            let Some(first) = segments.first() else {
+                continue;
+            };
+            let (mut lo, mut hi) = (first.p, first.p);
+            for s in segments {
+                for v in [s.p, s.q] {
+                    lo = [lo[0].min(v[0]), lo[1].min(v[1])];
+                    hi = [hi[0].max(v[0]), hi[1].max(v[1])];
+                }
+            }
+            boxes.push(Boxed {
+                envelope: AABB::from_corners(lo, hi),
+                first: r as u32,
+                count: 0,
+            });
+        }
+        let tree: RTree<Boxed, WideNodes> = RTree::bulk_load_with_params(boxes);
+        let mut found = Vec::new();
+        for inner in tree.iter() {
+            let b = inner.first as usize;
+            let p = self.segments[self.region_segments[b]].p;
+            for outer in tree.locate_in_envelope_intersecting(inner.envelope) {
+                let a = outer.first as usize;
+                if a == b
+                    || !outer.envelope.contains_envelope(&inner.envelope)
+                    || contacts.contains_key(&(a.min(b), a.max(b)))
+                {
+                    continue;
+                }
+                if self.depth_inside(a, p).is_some_and(|d| d > tolerance) {
+                    found.push((a, b));
+                }
+            }
+        }
+        found.sort_unstable();
+        for (a, b) in found {
+            diagnostics.push(Diagnostic {
+                kind: DiagnosticKind::Overlap,
+                regions: vec![a.min(b), a.max(b)],
+                message: format!(
+                    "region {:?} lies inside region {:?} without touching its boundary",
+                    regions[b].name, regions[a].name
+                ),
+            });
+        }
     }
 
     /// How far `p` lies inside region `r` (distance to its boundary), or `None` if outside.

@@ -44,9 +44,10 @@
 //! not JSON or truncated, not GeoJSON/TopoJSON, an unreadable shapefile, a missing name field
 //! (the error lists the available fields) or TopoJSON object.
 //!
-//! Limitations: overlaps are found where boundaries cross with a vertex deeper than the
-//! tolerance inside the other region; one region entirely inside another without touching its
-//! boundary is not reported. Gaps are reported only for regions that do not touch at all.
+//! Overlaps are found three ways: boundaries that cross with a vertex deeper than the tolerance
+//! inside the other region; two exterior outlines lying wholly along each other (a duplicate);
+//! and a region inside another without touching its boundary. Limitation: gaps are reported
+//! only for regions that do not touch at all, not for a gap along part of a shared border.
 
 pub mod adjacency;
 pub mod document;

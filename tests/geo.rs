@@ -638,8 +638,13 @@ fn min_border_length_drops_short_borders_with_a_diagnostic() {
     let (borders, diagnostics) = geo::derive_borders(&regions, &opts);
     assert!(borders.is_empty());
     assert_eq!(diagnostics[0].kind, DiagnosticKind::ShortBorder);
+    // Exact up to the rounding reach (1e-9 of the map's diagonal) at the two T-junctions.
     let (borders, _) = geo::derive_borders(&regions, &AdjacencyOptions::default());
-    assert!((borders[0].length() - 0.1).abs() < 1e-9);
+    assert!(
+        (borders[0].length() - 0.1).abs() < 1e-7,
+        "{}",
+        borders[0].length()
+    );
 }
 
 #[test]

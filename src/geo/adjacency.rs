@@ -25,7 +25,8 @@
 //!
 //! A tolerance of zero means "exact": we still use a tiny tolerance of 1e-9 of the map's
 //! diagonal so that a vertex lying on another region's edge (a T-junction) counts despite
-//! rounding.
+//! rounding; edges that only share an end point then touch at that point alone, and runs are
+//! not shortened.
 //!
 //! Diagnostics from the same pass: self-intersecting rings (non-adjacent edges of one ring that
 //! meet), overlaps (edges of two regions that cross, with an end lying inside the other region
@@ -304,6 +305,10 @@ impl Geometry {
             .unwrap_or((3.0 * options.tolerance).max(1e-4 * self.diagonal))
             .max(tolerance);
         let grow = band / 2.0;
+        let exact = options.tolerance <= 0.0;
+        // Runs are shortened by the tolerance at both ends (see the module notes); with no
+        // tolerance, edges meeting at a point give point runs, so there is nothing to remove.
+        let erosion = if exact { 0.0 } else { tolerance };
         let boxes: Vec<[f64; 4]> = self
             .segments
             .iter()
@@ -380,6 +385,56 @@ impl Geometry {
                     end: t.offset + t.length,
                 });
                 return;
+            }
+            // Edges meeting only at a common end point (not along a line): with the tolerance at
+            // its rounding floor the part within reach is that point, so record it as such.
+            if exact {
+                // (position along s, along t, direction of s away from the point, of t)
+                let at = |sv: bool, tv: bool| {
+                    let (s_pos, s_dir) = if sv {
+                        (s.offset, sub(s.q, s.p))
+                    } else {
+                        (s.offset + s.length, sub(s.p, s.q))
+                    };
+                    let (t_pos, t_dir) = if tv {
+                        (t.offset, sub(t.q, t.p))
+                    } else {
+                        (t.offset + t.length, sub(t.p, t.q))
+                    };
+                    (s_pos, t_pos, s_dir, t_dir)
+                };
+                let shared = if s.p == t.p {
+                    Some(at(true, true))
+                } else if s.p == t.q {
+                    Some(at(true, false))
+                } else if s.q == t.p {
+                    Some(at(false, true))
+                } else if s.q == t.q {
+                    Some(at(false, false))
+                } else {
+                    None
+                };
+                if let Some((at_s, at_t, ds, dt)) = shared {
+                    // Only edges leaving the point in the same direction run along each other.
+                    let along = cross(ds, dt).abs()
+                        <= 1e-12 * dot(ds, ds).sqrt() * dot(dt, dt).sqrt()
+                        && dot(ds, dt) > 0.0;
+                    if !along {
+                        runs.push(Run {
+                            ring: s.ring,
+                            other: t.region,
+                            start: at_s,
+                            end: at_s,
+                        });
+                        runs.push(Run {
+                            ring: t.ring,
+                            other: s.region,
+                            start: at_t,
+                            end: at_t,
+                        });
+                        return;
+                    }
+                }
             }
             // The capsule test is empty exactly when the segments are further apart than the
             // tolerance; only then is the distance needed, for the gap band.
@@ -487,7 +542,7 @@ impl Geometry {
                         if l >= perimeter - eps {
                             perimeter
                         } else {
-                            (l - 2.0 * tolerance).max(0.0)
+                            (l - 2.0 * erosion).max(0.0)
                         }
                     })
                     .sum();

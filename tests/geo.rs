@@ -1141,3 +1141,45 @@ fn enclave_is_a_border_and_a_nested_region_is_an_overlap() {
         "{diagnostics:?}"
     );
 }
+
+#[test]
+fn topojson_specification_example_decodes_the_quantised_polygon() {
+    // The example topology of the TopoJSON Format Specification (section 1.1, reproduced from
+    // memory): a Point, a LineString and a Polygon; the polygon's delta-encoded arc decodes to the
+    // square with corners (100, 0) and (101, 1), up to quantisation.
+    let text = r#"{
+      "type": "Topology",
+      "transform": {"scale": [0.0005000500050005, 0.00010001000100010001], "translate": [100, 0]},
+      "objects": {"example": {"type": "GeometryCollection", "geometries": [
+        {"type": "Point", "properties": {"prop0": "value0"}, "coordinates": [4000, 5000]},
+        {"type": "LineString", "properties": {"prop0": "value0", "prop1": 0}, "arcs": [0]},
+        {"type": "Polygon", "properties": {"prop0": "value0", "prop1": {"this": "that"}}, "arcs": [[1]]}
+      ]}},
+      "arcs": [
+        [[4000, 0], [1999, 9999], [2000, -9999], [2000, 9999]],
+        [[0, 0], [0, 9999], [2000, 0], [0, -9999], [-2000, 0]]
+      ]
+    }"#;
+    let map = import_text(text, &planar(Rule::Rook));
+    assert_eq!(map.regions.len(), 1);
+    assert_eq!(map.regions[0].source_index, 2);
+    assert_eq!(
+        map.diagnostics_of(DiagnosticKind::SkippedGeometry).count(),
+        2
+    );
+    let ring = &map.regions[0].parts[0].exterior;
+    let expected = [
+        [100.0, 0.0],
+        [100.0, 1.0],
+        [101.0, 1.0],
+        [101.0, 0.0],
+        [100.0, 0.0],
+    ];
+    assert_eq!(ring.len(), expected.len());
+    for (got, want) in ring.iter().zip(expected) {
+        assert!(
+            (got[0] - want[0]).abs() < 1e-3 && (got[1] - want[1]).abs() < 1e-3,
+            "{got:?}"
+        );
+    }
+}

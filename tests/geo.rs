@@ -1183,3 +1183,33 @@ fn topojson_specification_example_decodes_the_quantised_polygon() {
         );
     }
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(48))]
+
+    /// Cut or corrupted files give a value or an error, never a panic (house rule: no panics
+    /// on user input).
+    #[test]
+    fn damaged_files_never_panic(cut in 0.0f64..1.0, flips in prop::collection::vec((0.0f64..1.0, any::<u8>()), 0..8)) {
+        let damage = |mut bytes: Vec<u8>| {
+            let keep = ((bytes.len() as f64) * cut) as usize;
+            for (at, value) in &flips {
+                let i = ((bytes.len() as f64) * at) as usize;
+                if i < bytes.len() {
+                    bytes[i] = *value;
+                }
+            }
+            bytes.truncate(keep.max(1));
+            bytes
+        };
+        for file in ["world_subset.topojson", "us_states_subset.geojson"] {
+            let bytes = damage(std::fs::read(data(file)).unwrap());
+            let _ = geo::import_json(&bytes, &ImportOptions::default());
+        }
+        let dir = tempfile::tempdir().unwrap();
+        let shp = damage(std::fs::read(data("columbus.shp")).unwrap());
+        std::fs::write(dir.path().join("d.shp"), shp).unwrap();
+        std::fs::copy(data("columbus.dbf"), dir.path().join("d.dbf")).unwrap();
+        let _ = geo::import_path(&dir.path().join("d.shp"), &ImportOptions::default());
+    }
+}

@@ -2,6 +2,7 @@
 
 mod cli;
 mod edits;
+mod geo;
 mod graph_formats;
 mod invariants;
 mod project_file;

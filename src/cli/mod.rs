@@ -2,6 +2,7 @@
 //! 0 success, 1 the analysis found problems (only with `--strict`), 2 bad input, 3 could not write output.
 
 pub mod analyse;
+pub mod import;
 
 use std::io::Write;
 use std::path::PathBuf;
@@ -44,6 +45,26 @@ pub enum Command {
         /// Run only this part of the analysis.
         #[arg(long, value_enum)]
         only: Option<Section>,
+    },
+    /// Import a boundary file (.geojson, .json, .topojson, .shp) into a project file.
+    Import {
+        /// The boundary file to read.
+        file: PathBuf,
+        /// The project file to write (.tinct).
+        #[arg(long)]
+        out: PathBuf,
+        #[command(flatten)]
+        geo: import::GeoArgs,
+    },
+    /// Derive which regions of a boundary file border each other, with diagnostics.
+    Adjacency {
+        /// The boundary file to read (.geojson, .json, .topojson, .shp).
+        file: PathBuf,
+        /// Print machine-readable JSON on standard output.
+        #[arg(long)]
+        json: bool,
+        #[command(flatten)]
+        geo: import::GeoArgs,
     },
     /// Convert between project and graph formats, chosen by the files' extensions.
     Convert {
@@ -107,6 +128,8 @@ pub fn run(command: Command) -> ExitCode {
                 ExitCode::from(exit::OK)
             }
         }
+        Command::Import { file, out, geo } => import::run_import(&file, &out, &geo),
+        Command::Adjacency { file, json, geo } => import::run_adjacency(&file, json, &geo),
         Command::Convert {
             input: from,
             output,

@@ -1,1 +1,4 @@
 //! Integration tests, built as one binary to keep link time down.
+
+mod planar_gen;
+mod planarity;

@@ -74,22 +74,19 @@ pub(super) struct LrState<'g> {
     g: &'g Graph,
     n: usize,
     m: usize,
-    /// Undirected edge id of each half-edge (CSR index).
-    edge_of_half: Vec<u32>,
-    /// The reverse of each half-edge.
-    twin: Vec<u32>,
-    /// Per edge, after orientation: the half-edge at its source.
-    half: Vec<u32>,
-    src: Vec<u32>,
+    /// Internal vertex numbers are depth-first preorder numbers; `orig[v]` is the caller's vertex.
+    /// Renumbering once makes subtrees contiguous, so the later phases mostly touch nearby memory
+    /// even when the caller's labels are shuffled.
+    orig: Vec<u32>,
+    /// Edges are numbered by source vertex, then nesting order: the outgoing edges of `v` are
+    /// exactly `out_offsets[v]..out_offsets[v + 1]`, already in the order the test visits them.
+    out_offsets: Vec<u32>,
     dst: Vec<u32>,
     height: Vec<u32>,
+    parent: Vec<u32>,
     parent_edge: Vec<u32>,
     lowpt: Vec<u32>,
-    lowpt2: Vec<u32>,
     nesting: Vec<u32>,
-    /// Outgoing edges per vertex, in nesting order.
-    out_offsets: Vec<u32>,
-    out_edges: Vec<u32>,
     lref: Vec<u32>,
     side: Vec<i8>,
     lowpt_edge: Vec<u32>,
@@ -108,18 +105,14 @@ impl<'g> LrState<'g> {
             g,
             n: g.vertex_count(),
             m: g.edge_count(),
-            edge_of_half: Vec::new(),
-            twin: Vec::new(),
-            half: Vec::new(),
-            src: Vec::new(),
+            orig: Vec::new(),
+            out_offsets: Vec::new(),
             dst: Vec::new(),
             height: Vec::new(),
+            parent: Vec::new(),
             parent_edge: Vec::new(),
             lowpt: Vec::new(),
-            lowpt2: Vec::new(),
             nesting: Vec::new(),
-            out_offsets: Vec::new(),
-            out_edges: Vec::new(),
             lref: Vec::new(),
             side: Vec::new(),
             lowpt_edge: Vec::new(),
@@ -137,9 +130,7 @@ impl<'g> LrState<'g> {
         monitor: &mut Monitor<'_>,
         mode: Mode,
     ) -> Result<Outcome, PlanarityError> {
-        self.index_edges();
         self.orient(monitor)?;
-        self.order_by_nesting(|_, depth| depth as u64, 2 * self.n as u64 + 2);
         self.lref = vec![NONE; self.m];
         self.side = vec![1; self.m];
         self.lowpt_edge = vec![NONE; self.m];
@@ -158,147 +149,184 @@ impl<'g> LrState<'g> {
         Ok(Outcome::Planar)
     }
 
-    /// Numbers undirected edges and pairs each half-edge with its reverse in one sweep: because
-    /// adjacency lists are sorted, the reverses of `u`'s half-edges towards larger vertices turn up
-    /// in ascending order of `u` at the front of each neighbour's list.
-    fn index_edges(&mut self) {
-        let (offsets, targets) = self.g.csr();
-        let halves = targets.len();
-        let mut edge_of_half = vec![NONE; halves];
-        let mut twin = vec![NONE; halves];
-        let mut cursor: Vec<u32> = offsets[..self.n].to_vec();
-        let mut next_id = 0u32;
-        for u in 0..self.n {
-            for i in offsets[u]..offsets[u + 1] {
-                let v = targets[i as usize] as usize;
-                if v > u {
-                    let j = cursor[v];
-                    cursor[v] += 1;
-                    debug_assert_eq!(targets[j as usize] as usize, u);
-                    twin[i as usize] = j;
-                    twin[j as usize] = i;
-                    edge_of_half[i as usize] = next_id;
-                    edge_of_half[j as usize] = next_id;
-                    next_id += 1;
-                }
-            }
-        }
-        self.edge_of_half = edge_of_half;
-        self.twin = twin;
-    }
-
-    /// Phase one: depth-first orientation, lowpoints and nesting depths (Brandes 2009, Alg. 2).
+    /// Phase one: depth-first orientation, lowpoints and nesting depths (Brandes 2009, Alg. 2),
+    /// on the caller's graph; then the renumbering into preorder and nesting order.
+    ///
+    /// An undirected depth-first search only produces tree edges and edges between a vertex and
+    /// an ancestor, so an edge to an already visited vertex is a new back edge exactly when that
+    /// vertex is higher up and is not the parent; from the other side it was already oriented.
     fn orient(&mut self, monitor: &mut Monitor<'_>) -> Result<(), PlanarityError> {
         let (offsets, targets) = self.g.csr();
         let (n, m) = (self.n, self.m);
-        self.half = vec![NONE; m];
-        self.src = vec![NONE; m];
-        self.dst = vec![NONE; m];
-        self.lowpt = vec![0; m];
-        self.lowpt2 = vec![0; m];
-        self.nesting = vec![0; m];
-        self.height = vec![NONE; n];
-        self.parent_edge = vec![NONE; n];
+        // Per edge, numbered in the order the search orients them; caller's vertex labels.
+        let mut src_o: Vec<u32> = Vec::with_capacity(m);
+        let mut dst_o: Vec<u32> = Vec::with_capacity(m);
+        let mut lowpt_o: Vec<u32> = Vec::with_capacity(m);
+        let mut lowpt2_o: Vec<u32> = Vec::with_capacity(m);
+        let mut nesting_o: Vec<u32> = vec![0; m];
+        let mut height_o = vec![NONE; n];
+        let mut parent_edge_o = vec![NONE; n];
+        let mut pre = vec![NONE; n];
+        let mut next_pre = 0u32;
         let mut cursor: Vec<u32> = offsets[..n].to_vec();
         let mut dfs: Vec<u32> = Vec::new();
-        let mut visited = 0u64;
-        for s in 0..n as u32 {
-            if self.height[s as usize] != NONE {
+        // Nesting depth of `e` (leaving `v`) and the lowpoint update of `v`'s parent edge.
+        let finish = |v: usize,
+                      e: usize,
+                      height_o: &[u32],
+                      parent_edge_o: &[u32],
+                      lowpt_o: &mut [u32],
+                      lowpt2_o: &mut [u32],
+                      nesting_o: &mut [u32]| {
+            let hv = height_o[v];
+            nesting_o[e] = 2 * lowpt_o[e] + u32::from(lowpt2_o[e] < hv);
+            let p = parent_edge_o[v];
+            if p != NONE {
+                let p = p as usize;
+                let (le, l2e) = (lowpt_o[e], lowpt2_o[e]);
+                if le < lowpt_o[p] {
+                    lowpt2_o[p] = lowpt_o[p].min(l2e);
+                    lowpt_o[p] = le;
+                } else if le > lowpt_o[p] {
+                    lowpt2_o[p] = lowpt2_o[p].min(le);
+                } else {
+                    lowpt2_o[p] = lowpt2_o[p].min(l2e);
+                }
+            }
+        };
+        for s in 0..n {
+            if height_o[s] != NONE {
                 continue;
             }
-            self.height[s as usize] = 0;
-            self.roots.push(s);
-            dfs.push(s);
+            height_o[s] = 0;
+            pre[s] = next_pre;
+            self.roots.push(next_pre);
+            next_pre += 1;
+            dfs.push(s as u32);
             while let Some(&v) = dfs.last() {
                 let vi = v as usize;
                 if cursor[vi] < offsets[vi + 1] {
                     let h = cursor[vi];
                     cursor[vi] += 1;
-                    let e = self.edge_of_half[h as usize] as usize;
-                    if self.half[e] != NONE {
-                        continue;
-                    }
                     let w = targets[h as usize];
-                    self.half[e] = h;
-                    self.src[e] = v;
-                    self.dst[e] = w;
-                    self.lowpt[e] = self.height[vi];
-                    self.lowpt2[e] = self.height[vi];
-                    if self.height[w as usize] == NONE {
-                        self.parent_edge[w as usize] = e as u32;
-                        self.height[w as usize] = self.height[vi] + 1;
+                    let hw = height_o[w as usize];
+                    let hv = height_o[vi];
+                    if hw == NONE {
+                        let e = src_o.len() as u32;
+                        src_o.push(v);
+                        dst_o.push(w);
+                        lowpt_o.push(hv);
+                        lowpt2_o.push(hv);
+                        parent_edge_o[w as usize] = e;
+                        height_o[w as usize] = hv + 1;
+                        pre[w as usize] = next_pre;
+                        next_pre += 1;
                         dfs.push(w);
-                        visited += 1;
-                        monitor.step(Phase::Orientation, visited, n as u64)?;
-                    } else {
-                        self.lowpt[e] = self.height[w as usize];
-                        self.finish_edge(v, e);
+                        monitor.step(Phase::Orientation, u64::from(next_pre), n as u64)?;
+                    } else if hw < hv
+                        && (parent_edge_o[vi] == NONE || src_o[parent_edge_o[vi] as usize] != w)
+                    {
+                        let e = src_o.len();
+                        src_o.push(v);
+                        dst_o.push(w);
+                        lowpt_o.push(hw);
+                        lowpt2_o.push(hv);
+                        finish(
+                            vi,
+                            e,
+                            &height_o,
+                            &parent_edge_o,
+                            &mut lowpt_o,
+                            &mut lowpt2_o,
+                            &mut nesting_o,
+                        );
                     }
                 } else {
                     dfs.pop();
-                    let e = self.parent_edge[vi];
+                    let e = parent_edge_o[vi];
                     if e != NONE {
-                        self.finish_edge(self.src[e as usize], e as usize);
+                        let u = src_o[e as usize] as usize;
+                        finish(
+                            u,
+                            e as usize,
+                            &height_o,
+                            &parent_edge_o,
+                            &mut lowpt_o,
+                            &mut lowpt2_o,
+                            &mut nesting_o,
+                        );
                     }
                 }
             }
         }
-        Ok(())
-    }
-
-    /// Nesting depth of `e` (leaving `v`) and the lowpoint update of `v`'s parent edge.
-    #[inline]
-    fn finish_edge(&mut self, v: Vertex, e: usize) {
-        let hv = self.height[v as usize];
-        self.nesting[e] = 2 * self.lowpt[e] + u32::from(self.lowpt2[e] < hv);
-        let p = self.parent_edge[v as usize];
-        if p != NONE {
-            let p = p as usize;
-            let (le, l2e) = (self.lowpt[e], self.lowpt2[e]);
-            if le < self.lowpt[p] {
-                self.lowpt2[p] = self.lowpt[p].min(l2e);
-                self.lowpt[p] = le;
-            } else if le > self.lowpt[p] {
-                self.lowpt2[p] = self.lowpt2[p].min(le);
-            } else {
-                self.lowpt2[p] = self.lowpt2[p].min(l2e);
-            }
+        debug_assert_eq!(src_o.len(), m);
+        drop(cursor);
+        drop(lowpt2_o);
+        // Renumber: vertices by preorder, edges by (source, nesting depth) through one global
+        // bucket sort on nesting depth followed by a stable distribution by source.
+        let mut out_offsets = vec![0u32; n + 1];
+        for &s in &src_o {
+            out_offsets[pre[s as usize] as usize + 1] += 1;
         }
-    }
-
-    /// Sorts every vertex's outgoing edges by `key(edge, nesting)` with one global bucket sort.
-    fn order_by_nesting(&mut self, key: impl Fn(usize, u32) -> u64, key_count: u64) {
-        let (n, m) = (self.n, self.m);
-        let mut bucket = vec![0u32; key_count as usize + 1];
-        for e in 0..m {
-            bucket[key(e, self.nesting[e]) as usize + 1] += 1;
+        for v in 0..n {
+            out_offsets[v + 1] += out_offsets[v];
+        }
+        let key_count = 2 * n + 2;
+        let mut bucket = vec![0u32; key_count + 1];
+        for &d in &nesting_o {
+            bucket[d as usize + 1] += 1;
         }
         for k in 1..bucket.len() {
             bucket[k] += bucket[k - 1];
         }
         let mut by_key = vec![0u32; m];
-        for e in 0..m {
-            let k = key(e, self.nesting[e]) as usize;
-            by_key[bucket[k] as usize] = e as u32;
-            bucket[k] += 1;
+        for (e, &d) in nesting_o.iter().enumerate() {
+            by_key[bucket[d as usize] as usize] = e as u32;
+            bucket[d as usize] += 1;
         }
         drop(bucket);
-        let mut out_offsets = vec![0u32; n + 1];
-        for e in 0..m {
-            out_offsets[self.src[e] as usize + 1] += 1;
-        }
-        for v in 0..n {
-            out_offsets[v + 1] += out_offsets[v];
-        }
-        let mut cursor = out_offsets.clone();
-        let mut out_edges = vec![0u32; m];
+        let mut fill = out_offsets.clone();
+        let mut new_id = vec![0u32; m];
         for &e in &by_key {
-            let s = self.src[e as usize] as usize;
-            out_edges[cursor[s] as usize] = e;
-            cursor[s] += 1;
+            let s = pre[src_o[e as usize] as usize] as usize;
+            new_id[e as usize] = fill[s];
+            fill[s] += 1;
         }
+        drop(by_key);
+        drop(fill);
+        let mut dst = vec![0u32; m];
+        let mut lowpt = vec![0u32; m];
+        let mut nesting = vec![0u32; m];
+        for e in 0..m {
+            let k = new_id[e] as usize;
+            dst[k] = pre[dst_o[e] as usize];
+            lowpt[k] = lowpt_o[e];
+            nesting[k] = nesting_o[e];
+        }
+        drop((dst_o, lowpt_o, nesting_o));
+        let mut orig = vec![0u32; n];
+        let mut height = vec![0u32; n];
+        let mut parent = vec![NONE; n];
+        let mut parent_edge = vec![NONE; n];
+        for v in 0..n {
+            let p = pre[v] as usize;
+            orig[p] = v as u32;
+            height[p] = height_o[v];
+            let e = parent_edge_o[v];
+            if e != NONE {
+                parent_edge[p] = new_id[e as usize];
+                parent[p] = pre[src_o[e as usize] as usize];
+            }
+        }
+        self.orig = orig;
         self.out_offsets = out_offsets;
-        self.out_edges = out_edges;
+        self.dst = dst;
+        self.height = height;
+        self.parent = parent;
+        self.parent_edge = parent_edge;
+        self.lowpt = lowpt;
+        self.nesting = nesting;
+        Ok(())
     }
 
     #[inline]
@@ -339,7 +367,7 @@ impl<'g> LrState<'g> {
         while let Some(&v) = dfs.last() {
             let vi = v as usize;
             if pos[vi] < self.out_offsets[vi + 1] {
-                let ei = self.out_edges[pos[vi] as usize];
+                let ei = pos[vi];
                 pos[vi] += 1;
                 let w = self.dst[ei as usize];
                 self.stack_bottom[ei as usize] = self.stack.len() as u32;
@@ -358,7 +386,7 @@ impl<'g> LrState<'g> {
                     right: Interval { low: ei, high: ei },
                 });
                 if record {
-                    self.processed.push((v, w));
+                    self.processed.push((self.orig[vi], self.orig[w as usize]));
                 }
                 if !self.integrate(v, ei) {
                     self.failed_at = v;
@@ -370,7 +398,7 @@ impl<'g> LrState<'g> {
                 if e == NONE {
                     continue;
                 }
-                let u = self.src[e as usize];
+                let u = self.parent[vi];
                 self.trim_back_edges(u);
                 // The side of `e` follows a highest return edge.
                 if self.lowpt_of(e) < self.height[u as usize] {
@@ -400,7 +428,7 @@ impl<'g> LrState<'g> {
         let vi = v as usize;
         if self.lowpt_of(ei) < self.height[vi] {
             let e = self.parent_edge[vi];
-            if self.out_edges[self.out_offsets[vi] as usize] == ei {
+            if self.out_offsets[vi] == ei {
                 if e != NONE {
                     self.lowpt_edge[e as usize] = self.lowpt_edge[ei as usize];
                 }
@@ -517,9 +545,10 @@ impl<'g> LrState<'g> {
     pub(super) fn failure_clue(&mut self) -> FailureClue {
         let n = self.n;
         let mut parent = vec![NONE; n];
-        for (w, &e) in self.parent_edge.iter().enumerate() {
-            if e != NONE {
-                parent[w] = self.src[e as usize];
+        for w in 0..n {
+            let p = self.parent[w];
+            if p != NONE {
+                parent[self.orig[w] as usize] = self.orig[p as usize];
             }
         }
         let processed = std::mem::take(&mut self.processed);
@@ -536,7 +565,7 @@ impl<'g> LrState<'g> {
                     window_starts.push(start);
                     last_size = size;
                 }
-                let p = parent[v as usize];
+                let p = self.parent[v as usize];
                 if p == NONE {
                     break;
                 }
@@ -575,30 +604,52 @@ impl<'g> LrState<'g> {
             }
             monitor.step(Phase::Embedding, u64::from(e), 2 * m as u64)?;
         }
-        let base = 2 * n as u64 + 1;
-        let side = std::mem::take(&mut self.side);
-        self.order_by_nesting(
-            |e, depth| {
-                if side[e] > 0 {
-                    base + u64::from(depth)
-                } else {
-                    base - u64::from(depth)
-                }
-            },
-            2 * base + 1,
-        );
-        self.side = side;
+        // Re-sort every vertex's outgoing edges by signed nesting depth: a global bucket sort,
+        // then a stable distribution into each vertex's range.
+        let base = 2 * n + 1;
+        let mut src = vec![0u32; m];
+        for v in 0..n {
+            for e in self.out_offsets[v]..self.out_offsets[v + 1] {
+                src[e as usize] = v as u32;
+            }
+        }
+        let key = |e: usize| -> usize {
+            let d = self.nesting[e] as usize;
+            if self.side[e] > 0 { base + d } else { base - d }
+        };
+        let mut bucket = vec![0u32; 2 * base + 2];
+        for e in 0..m {
+            bucket[key(e) + 1] += 1;
+        }
+        for k in 1..bucket.len() {
+            bucket[k] += bucket[k - 1];
+        }
+        let mut by_key = vec![0u32; m];
+        for e in 0..m {
+            let k = key(e);
+            by_key[bucket[k] as usize] = e as u32;
+            bucket[k] += 1;
+        }
+        drop(bucket);
+        let mut order = vec![0u32; m];
+        let mut fill: Vec<u32> = self.out_offsets[..n].to_vec();
+        for &e in &by_key {
+            let v = src[e as usize] as usize;
+            order[fill[v] as usize] = e;
+            fill[v] += 1;
+        }
+        drop(by_key);
+        drop(fill);
 
-        let (offsets, targets) = self.g.csr();
-        let halves = targets.len();
+        // Half-edges: 2e leaves the source of e, 2e + 1 leaves its target.
+        let halves = 2 * m;
         let mut cw = vec![NONE; halves];
         let mut ccw = vec![NONE; halves];
         let mut first = vec![NONE; n];
         for v in 0..n {
-            let range = self.out_offsets[v] as usize..self.out_offsets[v + 1] as usize;
             let mut previous = NONE;
-            for k in range.clone() {
-                let h = self.half[self.out_edges[k] as usize];
+            for k in self.out_offsets[v]..self.out_offsets[v + 1] {
+                let h = 2 * order[k as usize];
                 if previous == NONE {
                     first[v] = h;
                 } else {
@@ -632,11 +683,11 @@ impl<'g> LrState<'g> {
                     dfs.pop();
                     continue;
                 }
-                let ei = self.out_edges[pos[vi] as usize] as usize;
+                let ei = order[pos[vi] as usize] as usize;
                 pos[vi] += 1;
                 let w = self.dst[ei] as usize;
-                let h_out = self.half[ei];
-                let h_in = self.twin[h_out as usize];
+                let h_out = 2 * ei as u32;
+                let h_in = h_out + 1;
                 if self.parent_edge[w] == ei as u32 {
                     // The parent becomes the first neighbour of w, just before its children.
                     if first[w] == NONE {
@@ -661,20 +712,24 @@ impl<'g> LrState<'g> {
                 }
             }
         }
-        // Read the rotation lists out of the linked lists.
-        let mut rotation = Vec::with_capacity(halves);
+        drop(order);
+        // Read the rotation lists out of the linked lists, in the caller's labels.
+        let (offsets, _) = self.g.csr();
+        let mut rotation = vec![0u32; 2 * m];
         for v in 0..n {
-            let degree = (offsets[v + 1] - offsets[v]) as usize;
-            if degree == 0 {
+            let o = self.orig[v] as usize;
+            let (lo, hi) = (offsets[o] as usize, offsets[o + 1] as usize);
+            if lo == hi {
                 continue;
             }
-            let start = first[v];
-            let mut h = start;
-            for _ in 0..degree {
-                rotation.push(targets[h as usize]);
+            let mut h = first[v];
+            for slot in rotation[lo..hi].iter_mut() {
+                let e = (h / 2) as usize;
+                let other = if h % 2 == 0 { self.dst[e] } else { src[e] };
+                *slot = self.orig[other as usize];
                 h = cw[h as usize];
             }
-            debug_assert_eq!(h, start);
+            debug_assert_eq!(h, first[v]);
         }
         Ok(Embedding::from_parts(offsets.to_vec(), rotation))
     }

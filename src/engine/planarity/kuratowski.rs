@@ -59,27 +59,36 @@ pub(super) fn isolate(
     clue: FailureClue,
     monitor: &mut Monitor<'_>,
 ) -> Result<Kuratowski, PlanarityError> {
+    // Everything below works in the test's internal numbering; the certificate is translated
+    // back at the end.
     let n = g.vertex_count();
     monitor.checkpoint(Phase::Kuratowski, 0, 3)?;
     monitor.inner = true;
     let mut iso = Isolator {
-        arena: Vec::with_capacity(2 * n),
+        arena: Vec::new(),
         local: vec![NONE; n],
         monitor,
         oracle_calls: 0,
     };
-    let mut tree: Vec<u32> = Vec::with_capacity(n);
-    for (w, &p) in clue.parent.iter().enumerate() {
-        if p != NONE {
-            tree.push(iso.leaf(p, w as Vertex, false));
-        }
-    }
-    // Find a window of back edges that keeps the tree non-planar.
+    // Find a window of back edges that keeps the tree non-planar. For the subtree of `a`, only
+    // the tree inside it and the path from `a` up to the highest return point matter: every other
+    // tree edge hangs off that part without a back edge and would be pruned anyway.
     let mut start_graph: Option<Vec<u32>> = None;
-    for &start in &clue.window_starts {
-        let mut input = tree.clone();
+    for &(start, a) in &clue.windows {
+        let mut input: Vec<u32> = Vec::new();
+        let mut top = clue.height[a as usize];
         for &(u, v) in &clue.processed[start..] {
             input.push(iso.leaf(u, v, true));
+            top = top.min(clue.height[v as usize]);
+        }
+        for x in a + 1..clue.subtree_end[a as usize] {
+            input.push(iso.leaf(clue.parent[x as usize], x, false));
+        }
+        let mut x = a;
+        while clue.height[x as usize] > top {
+            let p = clue.parent[x as usize];
+            input.push(iso.leaf(p, x, false));
+            x = p;
         }
         let compressed = iso.compress(&input);
         if !iso.test_compressed(&compressed)? {
@@ -90,17 +99,20 @@ pub(super) fn isolate(
     let h0 = match start_graph {
         Some(h) => h,
         None => {
-            let parent = &clue.parent;
-            let mut input = tree.clone();
+            // Every edge of the graph, in internal numbering.
+            let mut internal = vec![NONE; n];
+            for (v, &o) in clue.orig.iter().enumerate() {
+                internal[o as usize] = v as u32;
+            }
+            let mut input = Vec::with_capacity(g.edge_count());
             for (u, v) in g.edges() {
-                if parent[v as usize] != u && parent[u as usize] != v {
-                    input.push(iso.leaf(u, v, true));
-                }
+                let (iu, iv) = (internal[u as usize], internal[v as usize]);
+                let tree = clue.parent[iv as usize] == iu || clue.parent[iu as usize] == iv;
+                input.push(iso.leaf(iu, iv, !tree));
             }
             iso.compress(&input)
         }
     };
-    drop(tree);
     iso.monitor.checkpoint(Phase::Kuratowski, 1, 3)?;
 
     // Shrink the back-edge pieces to a minimal set with the tree pieces always present.
@@ -113,6 +125,9 @@ pub(super) fn isolate(
             base.push(p);
         }
     }
+    // Back edges met just before the failure are the likeliest to be needed; QuickXplain needs
+    // the fewest calls when the needed candidates come first.
+    candidates.reverse();
     let mut background = base.clone();
     let needed = iso.quick_xplain(&mut background, false, &candidates)?;
     let mut keep = base;
@@ -133,7 +148,7 @@ pub(super) fn isolate(
         }
     }
     let keep = iso.compress(&keep);
-    let result = iso.certificate(&keep);
+    let result = iso.certificate(&keep, &clue.orig);
     iso.monitor.inner = false;
     iso.monitor.checkpoint(Phase::Kuratowski, 3, 3)?;
     Ok(result)
@@ -360,10 +375,11 @@ impl Isolator<'_, '_> {
     }
 
     /// Turns the suppressed minimal non-planar graph into the certificate.
-    fn certificate(&self, pieces: &[u32]) -> Kuratowski {
+    fn certificate(&self, pieces: &[u32], orig: &[u32]) -> Kuratowski {
         let mut branch: Vec<Vertex> = pieces
             .iter()
             .flat_map(|&p| [self.arena[p as usize].a, self.arena[p as usize].b])
+            .map(|v| orig[v as usize])
             .collect();
         branch.sort_unstable();
         branch.dedup();
@@ -380,7 +396,7 @@ impl Isolator<'_, '_> {
             for _ in 0..branch.len() {
                 for &p in pieces {
                     let node = self.arena[p as usize];
-                    let (i, j) = (index(node.a), index(node.b));
+                    let (i, j) = (index(orig[node.a as usize]), index(orig[node.b as usize]));
                     if colour[i] != u8::MAX && colour[j] == u8::MAX {
                         colour[j] = 1 - colour[i];
                     } else if colour[j] != u8::MAX && colour[i] == u8::MAX {
@@ -406,7 +422,15 @@ impl Isolator<'_, '_> {
             .iter()
             .map(|&p| {
                 let node = self.arena[p as usize];
-                self.expand(p, node.a.min(node.b))
+                let mut path: Vec<Vertex> = self
+                    .expand(p, node.a)
+                    .into_iter()
+                    .map(|v| orig[v as usize])
+                    .collect();
+                if path.first() > path.last() {
+                    path.reverse();
+                }
+                path
             })
             .collect();
         paths.sort_unstable();

@@ -58,16 +58,22 @@ impl ConflictPair {
     }
 }
 
-/// What the test saw when it failed: the depth-first forest and the back edges it had processed,
-/// with nested windows of them around the failure (smallest first).
+/// What the test saw when it failed, in the test's internal vertex numbering (depth-first
+/// preorder, so every subtree is a contiguous range).
 pub(super) struct FailureClue {
-    /// Parent of each vertex in the depth-first forest (`NONE` for roots).
+    /// `orig[v]` is the caller's label of internal vertex `v`.
+    pub orig: Vec<u32>,
+    /// Parent in the depth-first forest (`NONE` for roots).
     pub parent: Vec<u32>,
+    /// Depth in the depth-first forest.
+    pub height: Vec<u32>,
+    /// The subtree of `v` is `v..subtree_end[v]`.
+    pub subtree_end: Vec<u32>,
     /// Back edges in the order the testing search met them, as `(descendant, ancestor)`.
     pub processed: Vec<(Vertex, Vertex)>,
-    /// Start indices into `processed`, decreasing: `processed[start..]` are the back edges met
-    /// inside the subtree of the failing vertex or one of its ancestors.
-    pub window_starts: Vec<usize>,
+    /// `(start, a)`, smallest first: `processed[start..]` are the back edges met inside the
+    /// subtree of `a`, the failing vertex or one of its ancestors.
+    pub windows: Vec<(usize, Vertex)>,
 }
 
 pub(super) struct LrState<'g> {
@@ -386,7 +392,7 @@ impl<'g> LrState<'g> {
                     right: Interval { low: ei, high: ei },
                 });
                 if record {
-                    self.processed.push((self.orig[vi], self.orig[w as usize]));
+                    self.processed.push((v, w));
                 }
                 if !self.integrate(v, ei) {
                     self.failed_at = v;
@@ -544,15 +550,16 @@ impl<'g> LrState<'g> {
     /// What the Kuratowski isolation needs after a failed run in `Certify` mode.
     pub(super) fn failure_clue(&mut self) -> FailureClue {
         let n = self.n;
-        let mut parent = vec![NONE; n];
-        for w in 0..n {
-            let p = self.parent[w];
+        // Preorder numbering: a reverse sweep accumulates subtree sizes.
+        let mut subtree_end: Vec<u32> = (1..=n as u32).collect();
+        for v in (0..n).rev() {
+            let p = self.parent[v];
             if p != NONE {
-                parent[self.orig[w] as usize] = self.orig[p as usize];
+                subtree_end[p as usize] = subtree_end[p as usize].max(subtree_end[v]);
             }
         }
         let processed = std::mem::take(&mut self.processed);
-        let mut window_starts = Vec::new();
+        let mut windows = Vec::new();
         if self.failed_at != NONE && !self.entered_at.is_empty() {
             // The failing vertex's subtree, then ancestors whose windows grow eightfold each time.
             let total = processed.len();
@@ -560,25 +567,25 @@ impl<'g> LrState<'g> {
             let mut last_size = 0usize;
             loop {
                 let start = self.entered_at[v as usize] as usize;
-                let size = total - start;
-                if window_starts.is_empty() || size >= 8 * last_size.max(1) {
-                    window_starts.push(start);
+                let size = total - start + (subtree_end[v as usize] - v) as usize;
+                let p = self.parent[v as usize];
+                if windows.is_empty() || size >= 8 * last_size.max(1) || p == NONE {
+                    windows.push((start, v));
                     last_size = size;
                 }
-                let p = self.parent[v as usize];
                 if p == NONE {
                     break;
                 }
                 v = p;
             }
-            if window_starts.last() != Some(&0) {
-                window_starts.push(0);
-            }
         }
         FailureClue {
-            parent,
+            orig: std::mem::take(&mut self.orig),
+            parent: std::mem::take(&mut self.parent),
+            height: std::mem::take(&mut self.height),
+            subtree_end,
             processed,
-            window_starts,
+            windows,
         }
     }
 

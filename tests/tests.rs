@@ -1,4 +1,5 @@
 //! Integration tests, built as one binary to keep link time down.
 
+mod blocks;
 mod planar_gen;
 mod planarity;

@@ -133,7 +133,7 @@ fn octahedron() -> Vec<(u32, u32)> {
     // K6 minus the perfect matching {0-1, 2-3, 4-5}.
     complete(6)
         .into_iter()
-        .filter(|&(a, b)| !(a / 2 == b / 2))
+        .filter(|&(a, b)| a / 2 != b / 2)
         .collect()
 }
 
@@ -207,11 +207,14 @@ fn almost_kuratowski_graphs_are_planar() {
     }
 }
 
+/// Vertex count, edges, and the face count Euler's formula predicts.
+type Solid = (usize, Vec<(u32, u32)>, usize);
+
 #[test]
 fn platonic_solids_grids_and_wheels_are_planar() {
     // The five Platonic solids have planar graphs (their Schlegel diagrams); Euler's formula
     // V - E + F = 2 gives F = 4, 6, 8, 12, 20 faces.
-    let solids: [(usize, Vec<(u32, u32)>, usize); 5] = [
+    let solids: [Solid; 5] = [
         (4, complete(4), 4),
         (8, cube(), 6),
         (6, octahedron(), 8),

@@ -56,7 +56,7 @@ pub fn check_two_colouring(g: &Graph, colour: &[u8]) -> Result<(), TwoColouringR
 /// O(k log d) for a cycle of length k in a graph of maximum degree d, plus O(n) for the marks.
 pub fn check_odd_cycle(g: &Graph, cycle: &[Vertex]) -> Result<(), OddCycleRejection> {
     let k = cycle.len();
-    if k < 3 || k % 2 == 0 {
+    if k < 3 || k.is_multiple_of(2) {
         return Err(OddCycleRejection::Length { length: k });
     }
     let mut seen = vec![false; g.vertex_count()];

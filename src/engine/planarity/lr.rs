@@ -407,17 +407,16 @@ impl<'g> LrState<'g> {
                 let u = self.parent[vi];
                 self.trim_back_edges(u);
                 // The side of `e` follows a highest return edge.
-                if self.lowpt_of(e) < self.height[u as usize] {
-                    if let Some(top) = self.stack.last() {
-                        let (hl, hr) = (top.left.high, top.right.high);
-                        self.lref[e as usize] = if hl != NONE
-                            && (hr == NONE || self.lowpt_of(hl) > self.lowpt_of(hr))
-                        {
+                if self.lowpt_of(e) < self.height[u as usize]
+                    && let Some(top) = self.stack.last()
+                {
+                    let (hl, hr) = (top.left.high, top.right.high);
+                    self.lref[e as usize] =
+                        if hl != NONE && (hr == NONE || self.lowpt_of(hl) > self.lowpt_of(hr)) {
                             hl
                         } else {
                             hr
                         };
-                    }
                 }
                 if !self.integrate(u, e) {
                     self.failed_at = u;
@@ -452,10 +451,7 @@ impl<'g> LrState<'g> {
         };
         let bottom = self.stack_bottom[ei as usize] as usize;
         // Merge the return edges of `ei` into p.right.
-        loop {
-            let Some(mut q) = self.stack.pop() else {
-                break;
-            };
+        while let Some(mut q) = self.stack.pop() {
             if !q.left.is_empty() {
                 q.swap();
             }
@@ -723,6 +719,7 @@ impl<'g> LrState<'g> {
         // Read the rotation lists out of the linked lists, in the caller's labels.
         let (offsets, _) = self.g.csr();
         let mut rotation = vec![0u32; 2 * m];
+        #[allow(clippy::needless_range_loop)]
         for v in 0..n {
             let o = self.orig[v] as usize;
             let (lo, hi) = (offsets[o] as usize, offsets[o + 1] as usize);

@@ -1,0 +1,129 @@
+//! The command line: thin commands over the library. Errors are mapped to exit codes here, once:
+//! 0 success, 1 the analysis found problems (only with `--strict`), 2 bad input, 3 could not write output.
+
+pub mod analyse;
+pub mod input;
+
+use std::io::Write;
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+use clap::{Parser, Subcommand, ValueEnum};
+
+/// Tinct: colour maps with the fewest colours, and prove it.
+#[derive(Parser, Debug)]
+#[command(name = "tinct", version, about, long_about = None)]
+pub struct Cli {
+    #[command(subcommand)]
+    pub command: Option<Command>,
+}
+
+/// A section of `tinct analyse` that can be asked for alone with `--only`.
+#[derive(Copy, Clone, Debug, PartialEq, Eq, ValueEnum)]
+pub enum Section {
+    /// Regions, borders, groups, pins and the current colouring's problems.
+    Rules,
+}
+
+#[derive(Subcommand, Debug)]
+pub enum Command {
+    /// Open a project or graph file in the editor window.
+    Open {
+        /// The file to open (.tinct, .col, .edges).
+        file: PathBuf,
+    },
+    /// Report on a map: regions, borders, rules, clashes and uncoloured regions.
+    Analyse {
+        /// The file to analyse (.tinct, .col, .edges).
+        file: PathBuf,
+        /// Print machine-readable JSON on standard output (shape documented in the README).
+        #[arg(long)]
+        json: bool,
+        /// Exit with status 1 when the analysis finds problems (clashes, uncoloured land, rule conflicts).
+        #[arg(long)]
+        strict: bool,
+        /// Run only this part of the analysis.
+        #[arg(long, value_enum)]
+        only: Option<Section>,
+    },
+    /// Convert between project and graph formats, chosen by the files' extensions.
+    Convert {
+        /// The file to read (.tinct, .col, .dimacs, .edges).
+        input: PathBuf,
+        /// The file to write (.tinct, .col, .dimacs, .edges); graph formats receive the constraint graph.
+        output: PathBuf,
+    },
+}
+
+/// Exit statuses.
+pub mod exit {
+    pub const OK: u8 = 0;
+    pub const PROBLEMS: u8 = 1;
+    pub const BAD_INPUT: u8 = 2;
+    pub const CANNOT_WRITE: u8 = 3;
+}
+
+fn error(code: u8, e: &anyhow::Error) -> ExitCode {
+    eprintln!("tinct: {e:#}");
+    ExitCode::from(code)
+}
+
+/// Runs a headless command.
+pub fn run(command: Command) -> ExitCode {
+    match command {
+        Command::Open { .. } => {
+            eprintln!(
+                "tinct: this build has no editor window (it was built without the `gui` feature); use `tinct analyse` or `tinct convert`"
+            );
+            ExitCode::from(exit::BAD_INPUT)
+        }
+        Command::Analyse {
+            file,
+            json,
+            strict,
+            only: _,
+        } => {
+            let loaded = match input::load(&file) {
+                Ok(l) => l,
+                Err(e) => return error(exit::BAD_INPUT, &e),
+            };
+            let report = analyse::report(&file.display().to_string(), &loaded.doc, &loaded.notices);
+            let text = if json {
+                match serde_json::to_string_pretty(&report) {
+                    Ok(t) => t + "\n",
+                    Err(e) => return error(exit::CANNOT_WRITE, &e.into()),
+                }
+            } else {
+                analyse::render_text(&report, &loaded.doc)
+            };
+            let mut stdout = std::io::stdout().lock();
+            if let Err(e) = stdout
+                .write_all(text.as_bytes())
+                .and_then(|_| stdout.flush())
+            {
+                return error(exit::CANNOT_WRITE, &e.into());
+            }
+            if strict && !report.ok {
+                ExitCode::from(exit::PROBLEMS)
+            } else {
+                ExitCode::from(exit::OK)
+            }
+        }
+        Command::Convert {
+            input: from,
+            output,
+        } => {
+            let loaded = match input::load(&from) {
+                Ok(l) => l,
+                Err(e) => return error(exit::BAD_INPUT, &e),
+            };
+            for n in &loaded.notices {
+                eprintln!("tinct: note: {}", n.message);
+            }
+            match input::save(&loaded.doc, &output) {
+                Ok(()) => ExitCode::from(exit::OK),
+                Err(e) => error(exit::CANNOT_WRITE, &e),
+            }
+        }
+    }
+}

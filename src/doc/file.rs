@@ -1,0 +1,663 @@
+//! The `.tinct` project file: pretty RON text, `format_version` first, every list sorted so that two
+//! versions of a project diff cleanly. The only module that knows RON.
+//!
+//! Saving is atomic: the text goes to a temporary file in the same folder, is flushed to disk, and
+//! then renamed over the target, so a crash leaves either the old file or the new one, whole.
+//! Loading never falls back to defaults: a damaged file is an error that names the line and column.
+
+use std::collections::BTreeMap;
+use std::io::Write;
+use std::path::{Path, PathBuf};
+use std::sync::Arc;
+
+use serde::{Deserialize, Serialize};
+
+use super::model::{
+    AttrValue, Border, BorderKind, Document, Geometry, Group, GroupId, Palette, Polygon, Region,
+    RegionId, RegionPair, Rgb, Role, Settings, Slot, Units,
+};
+
+/// The format version this build writes, and the newest it reads.
+pub const FORMAT_VERSION: u32 = 1;
+
+/// The file name extension of project files.
+pub const EXTENSION: &str = "tinct";
+
+/// Why a project file could not be read or written.
+#[derive(Debug, thiserror::Error)]
+pub enum FileError {
+    #[error("cannot read {path}: {source}")]
+    Read {
+        path: PathBuf,
+        source: std::io::Error,
+    },
+    #[error("cannot save {path}: {source}")]
+    Write {
+        path: PathBuf,
+        source: std::io::Error,
+    },
+    #[error("the project file is empty")]
+    Empty,
+    #[error("line {line}, column {column}: {message}")]
+    Syntax {
+        line: usize,
+        column: usize,
+        message: String,
+    },
+    #[error(
+        "this project was saved by a newer Tinct (file format {found}); this version reads format {supported} and older. Open it with a newer Tinct"
+    )]
+    NewerVersion { found: u32, supported: u32 },
+    #[error("the project file is not valid: {0}")]
+    Invalid(String),
+}
+
+// ---- The version 1 records. Field order here is the order in the file. ----
+
+#[derive(Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct ProjectV1 {
+    format_version: u32,
+    title: String,
+    settings: SettingsV1,
+    palette_name: String,
+    palette: Vec<SlotV1>,
+    #[serde(default)]
+    groups: Vec<GroupV1>,
+    #[serde(default)]
+    regions: Vec<RegionV1>,
+    #[serde(default)]
+    borders: Vec<BorderV1>,
+    #[serde(default)]
+    colouring: BTreeMap<u64, u32>,
+    #[serde(default)]
+    next_region_id: u64,
+    #[serde(default)]
+    next_group_id: u64,
+}
+
+#[derive(Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct SettingsV1 {
+    corners_count: bool,
+    min_border_length: f64,
+    tolerance: f64,
+    units: UnitsV1,
+}
+
+#[derive(Serialize, Deserialize)]
+enum UnitsV1 {
+    Metres,
+    Unitless,
+}
+
+#[derive(Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct SlotV1 {
+    name: String,
+    colour: String,
+}
+
+#[derive(Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct GroupV1 {
+    id: u64,
+    name: String,
+}
+
+#[derive(Serialize, Deserialize)]
+enum RoleV1 {
+    Land,
+    Water,
+}
+
+#[derive(Serialize, Deserialize)]
+enum AttrV1 {
+    Null,
+    Bool(bool),
+    Number(f64),
+    Text(String),
+}
+
+#[derive(Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RegionV1 {
+    id: u64,
+    name: String,
+    role: RoleV1,
+    anchor: (f64, f64),
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pin: Option<u32>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    group: Option<u64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    source_index: Option<u64>,
+    #[serde(default, skip_serializing_if = "BTreeMap::is_empty")]
+    attributes: BTreeMap<String, AttrV1>,
+    /// Each polygon is a list of rings: the exterior first, then the holes.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    geometry: Option<Vec<PolygonV1>>,
+}
+
+/// A polygon as its rings: the exterior first, then the holes.
+type PolygonV1 = Vec<Vec<(f64, f64)>>;
+
+#[derive(Serialize, Deserialize)]
+enum KindV1 {
+    Shared,
+    Corner,
+    Manual,
+}
+
+#[derive(Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct BorderV1 {
+    a: u64,
+    b: u64,
+    kind: KindV1,
+    #[serde(default)]
+    length: f64,
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    suppressed: bool,
+}
+
+/// Only the version, read first so that a newer file is refused with the right message.
+#[derive(Deserialize)]
+struct VersionProbe {
+    format_version: u32,
+}
+
+// ---- Writing ----
+
+fn ring_out(ring: &[[f64; 2]]) -> Vec<(f64, f64)> {
+    ring.iter().map(|p| (p[0], p[1])).collect()
+}
+
+fn to_records(doc: &Document) -> ProjectV1 {
+    ProjectV1 {
+        format_version: FORMAT_VERSION,
+        title: doc.title.clone(),
+        settings: SettingsV1 {
+            corners_count: doc.settings.corners_count,
+            min_border_length: doc.settings.min_border_length,
+            tolerance: doc.settings.tolerance,
+            units: match doc.settings.units {
+                Units::Metres => UnitsV1::Metres,
+                Units::Unitless => UnitsV1::Unitless,
+            },
+        },
+        palette_name: doc.palette.name.clone(),
+        palette: doc
+            .palette
+            .slots
+            .iter()
+            .map(|s| SlotV1 {
+                name: s.name.clone(),
+                colour: s.colour.to_hex(),
+            })
+            .collect(),
+        groups: doc
+            .groups
+            .iter()
+            .map(|(id, g)| GroupV1 {
+                id: id.0,
+                name: g.name.clone(),
+            })
+            .collect(),
+        regions: doc
+            .regions
+            .iter()
+            .map(|(id, r)| RegionV1 {
+                id: id.0,
+                name: r.name.clone(),
+                role: match r.role {
+                    Role::Land => RoleV1::Land,
+                    Role::Water => RoleV1::Water,
+                },
+                anchor: (r.anchor[0], r.anchor[1]),
+                pin: r.pin,
+                group: r.group.map(|g| g.0),
+                source_index: r.source_index,
+                attributes: r
+                    .attributes
+                    .iter()
+                    .map(|(k, v)| {
+                        let v = match v {
+                            AttrValue::Null => AttrV1::Null,
+                            AttrValue::Bool(b) => AttrV1::Bool(*b),
+                            AttrValue::Number(n) => AttrV1::Number(*n),
+                            AttrValue::Text(t) => AttrV1::Text(t.clone()),
+                        };
+                        (k.clone(), v)
+                    })
+                    .collect(),
+                geometry: r.geometry.as_ref().map(|g| {
+                    g.polygons
+                        .iter()
+                        .map(|p| {
+                            std::iter::once(ring_out(&p.exterior))
+                                .chain(p.holes.iter().map(|h| ring_out(h)))
+                                .collect()
+                        })
+                        .collect()
+                }),
+            })
+            .collect(),
+        borders: doc
+            .borders
+            .iter()
+            .map(|(pair, b)| BorderV1 {
+                a: pair.a().0,
+                b: pair.b().0,
+                kind: match b.kind {
+                    BorderKind::Shared => KindV1::Shared,
+                    BorderKind::Corner => KindV1::Corner,
+                    BorderKind::Manual => KindV1::Manual,
+                },
+                length: b.length,
+                suppressed: b.suppressed,
+            })
+            .collect(),
+        colouring: doc.colouring.iter().map(|(id, s)| (id.0, *s)).collect(),
+        next_region_id: doc.peek_region_id().0,
+        next_group_id: doc.peek_group_id().0,
+    }
+}
+
+/// The project as `.tinct` text.
+pub fn to_string(doc: &Document) -> String {
+    // Depth 2 puts each region, border, slot and group on one line of its own: a change touches only its line.
+    let config = ron::ser::PrettyConfig::new()
+        .depth_limit(2)
+        .indentor("  ")
+        .separate_tuple_members(false);
+    match ron::ser::to_string_pretty(&to_records(doc), config) {
+        Ok(mut text) => {
+            text.push('\n');
+            text
+        }
+        // Serialising plain records into a string cannot fail; keep a readable fallback anyway.
+        Err(e) => format!("// could not write project: {e}\n"),
+    }
+}
+
+/// Saves `doc` to `path` atomically (temporary file in the same folder, flushed, then renamed).
+pub fn save(doc: &Document, path: &Path) -> Result<(), FileError> {
+    write_atomically(path, to_string(doc).as_bytes())
+}
+
+/// Writes `bytes` to `path` so that `path` holds either its old content or all of `bytes`, never a mix.
+pub fn write_atomically(path: &Path, bytes: &[u8]) -> Result<(), FileError> {
+    let err = |source| FileError::Write {
+        path: path.to_path_buf(),
+        source,
+    };
+    let folder = match path.parent() {
+        Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
+        _ => PathBuf::from("."),
+    };
+    let file_name = path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "project".into());
+    let temp = folder.join(format!(".{file_name}.{}.saving", std::process::id()));
+    let result = (|| {
+        let mut file = std::fs::File::create(&temp)?;
+        file.write_all(bytes)?;
+        file.sync_all()?;
+        drop(file);
+        std::fs::rename(&temp, path)?;
+        // Make the rename itself durable.
+        #[cfg(unix)]
+        if let Ok(dir) = std::fs::File::open(&folder) {
+            let _ = dir.sync_all();
+        }
+        Ok(())
+    })();
+    if result.is_err() {
+        let _ = std::fs::remove_file(&temp);
+    }
+    result.map_err(err)
+}
+
+// ---- Reading ----
+
+fn syntax(e: ron::error::SpannedError) -> FileError {
+    let message = match &e.code {
+        ron::Error::Eof => "the file ends too early (is it truncated?)".to_string(),
+        other => other.to_string(),
+    };
+    FileError::Syntax {
+        line: e.span.start.line,
+        column: e.span.start.col,
+        message,
+    }
+}
+
+/// Parses `.tinct` text into a document.
+pub fn from_str(text: &str) -> Result<Document, FileError> {
+    if text.trim().is_empty() {
+        return Err(FileError::Empty);
+    }
+    if let Ok(probe) = ron::de::from_str::<VersionProbe>(text)
+        && probe.format_version > FORMAT_VERSION
+    {
+        return Err(FileError::NewerVersion {
+            found: probe.format_version,
+            supported: FORMAT_VERSION,
+        });
+    }
+    let records: ProjectV1 = ron::de::from_str(text).map_err(syntax)?;
+    if records.format_version == 0 {
+        return Err(FileError::Invalid(
+            "format_version 0 does not exist; the first version is 1".into(),
+        ));
+    }
+    from_records(records)
+}
+
+/// Reads a project file.
+pub fn load(path: &Path) -> Result<Document, FileError> {
+    let bytes = std::fs::read(path).map_err(|source| FileError::Read {
+        path: path.to_path_buf(),
+        source,
+    })?;
+    let text = String::from_utf8(bytes).map_err(|e| {
+        let upto = &e.as_bytes()[..e.utf8_error().valid_up_to()];
+        let line = upto.iter().filter(|&&b| b == b'\n').count() + 1;
+        let column = upto.iter().rev().take_while(|&&b| b != b'\n').count() + 1;
+        FileError::Syntax {
+            line,
+            column,
+            message: "the text is not valid UTF-8".into(),
+        }
+    })?;
+    from_str(&text)
+}
+
+fn finite(p: (f64, f64)) -> bool {
+    p.0.is_finite() && p.1.is_finite()
+}
+
+fn from_records(r: ProjectV1) -> Result<Document, FileError> {
+    let invalid = |m: String| Err(FileError::Invalid(m));
+    let mut doc = Document::new(r.title);
+    if !(r.settings.min_border_length.is_finite()
+        && r.settings.min_border_length >= 0.0
+        && r.settings.tolerance.is_finite()
+        && r.settings.tolerance >= 0.0)
+    {
+        return invalid(
+            "settings: min_border_length and tolerance must be finite and not negative".into(),
+        );
+    }
+    doc.settings = Settings {
+        corners_count: r.settings.corners_count,
+        min_border_length: r.settings.min_border_length,
+        tolerance: r.settings.tolerance,
+        units: match r.settings.units {
+            UnitsV1::Metres => Units::Metres,
+            UnitsV1::Unitless => Units::Unitless,
+        },
+    };
+    let mut slots = Vec::with_capacity(r.palette.len());
+    for (i, s) in r.palette.into_iter().enumerate() {
+        let Some(colour) = Rgb::from_hex(&s.colour) else {
+            return invalid(format!(
+                "palette slot {} ({}): colour {:?} is not of the form #rrggbb",
+                i + 1,
+                s.name,
+                s.colour
+            ));
+        };
+        slots.push(Slot {
+            name: s.name,
+            colour,
+        });
+    }
+    doc.palette = Palette {
+        name: r.palette_name,
+        slots,
+    };
+    for g in r.groups {
+        if doc
+            .groups
+            .insert(GroupId(g.id), Group { name: g.name })
+            .is_some()
+        {
+            return invalid(format!("group id {} appears twice", g.id));
+        }
+    }
+    let slot_count = doc.palette.slots.len();
+    for rec in r.regions {
+        let id = RegionId(rec.id);
+        if !finite(rec.anchor) {
+            return invalid(format!(
+                "region {}: the anchor is not a finite point",
+                rec.id
+            ));
+        }
+        if let Some(g) = rec.group
+            && !doc.groups.contains_key(&GroupId(g))
+        {
+            return invalid(format!(
+                "region {} is in group {g}, which the file does not define",
+                rec.id
+            ));
+        }
+        if let Some(pin) = rec.pin
+            && pin as usize >= slot_count
+        {
+            return invalid(format!(
+                "region {} is pinned to slot {pin}, but the palette has {slot_count} slots",
+                rec.id
+            ));
+        }
+        let geometry = match rec.geometry {
+            None => None,
+            Some(polys) => {
+                let mut polygons = Vec::with_capacity(polys.len());
+                for rings in polys {
+                    let mut rings = rings.into_iter();
+                    let Some(exterior) = rings.next() else {
+                        return invalid(format!("region {}: a polygon has no rings", rec.id));
+                    };
+                    let to_points = |ring: Vec<(f64, f64)>| -> Option<Vec<[f64; 2]>> {
+                        ring.into_iter()
+                            .map(|p| finite(p).then_some([p.0, p.1]))
+                            .collect()
+                    };
+                    let Some(exterior) = to_points(exterior) else {
+                        return invalid(format!(
+                            "region {}: a coordinate is not a finite number",
+                            rec.id
+                        ));
+                    };
+                    let mut holes = Vec::new();
+                    for ring in rings {
+                        let Some(h) = to_points(ring) else {
+                            return invalid(format!(
+                                "region {}: a coordinate is not a finite number",
+                                rec.id
+                            ));
+                        };
+                        holes.push(h);
+                    }
+                    polygons.push(Polygon { exterior, holes });
+                }
+                Some(Arc::new(Geometry { polygons }))
+            }
+        };
+        let region = Region {
+            name: rec.name,
+            role: match rec.role {
+                RoleV1::Land => Role::Land,
+                RoleV1::Water => Role::Water,
+            },
+            anchor: [rec.anchor.0, rec.anchor.1],
+            geometry,
+            pin: rec.pin,
+            group: rec.group.map(GroupId),
+            source_index: rec.source_index,
+            attributes: rec
+                .attributes
+                .into_iter()
+                .map(|(k, v)| {
+                    let v = match v {
+                        AttrV1::Null => AttrValue::Null,
+                        AttrV1::Bool(b) => AttrValue::Bool(b),
+                        AttrV1::Number(n) => AttrValue::Number(n),
+                        AttrV1::Text(t) => AttrValue::Text(t),
+                    };
+                    (k, v)
+                })
+                .collect(),
+        };
+        if doc.regions.insert(id, region).is_some() {
+            return invalid(format!("region id {} appears twice", rec.id));
+        }
+    }
+    for b in r.borders {
+        let Some(pair) = RegionPair::new(RegionId(b.a), RegionId(b.b)) else {
+            return invalid(format!("a border joins region {} to itself", b.a));
+        };
+        for end in [b.a, b.b] {
+            if !doc.regions.contains_key(&RegionId(end)) {
+                return invalid(format!(
+                    "a border names region {end}, which the file does not define"
+                ));
+            }
+        }
+        if !(b.length.is_finite() && b.length >= 0.0) {
+            return invalid(format!(
+                "the border between {} and {} has a length that is not a finite number >= 0",
+                b.a, b.b
+            ));
+        }
+        let kind = match b.kind {
+            KindV1::Shared => BorderKind::Shared,
+            KindV1::Corner => BorderKind::Corner,
+            KindV1::Manual => BorderKind::Manual,
+        };
+        if doc
+            .borders
+            .insert(
+                pair,
+                Border {
+                    kind,
+                    length: b.length,
+                    suppressed: b.suppressed,
+                },
+            )
+            .is_some()
+        {
+            return invalid(format!(
+                "the border between {} and {} appears twice",
+                b.a, b.b
+            ));
+        }
+    }
+    for (id, slot) in r.colouring {
+        if !doc.regions.contains_key(&RegionId(id)) {
+            return invalid(format!(
+                "the colouring names region {id}, which the file does not define"
+            ));
+        }
+        if slot as usize >= slot_count {
+            return invalid(format!(
+                "region {id} is coloured with slot {slot}, but the palette has {slot_count} slots"
+            ));
+        }
+        doc.colouring.insert(RegionId(id), slot);
+    }
+    doc.next_region_id = r.next_region_id.max(doc.peek_region_id().0);
+    doc.next_group_id = r.next_group_id.max(doc.peek_group_id().0);
+    Ok(doc)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn sample() -> Document {
+        let mut doc = Document::new("Test map");
+        let (_, e) = doc.add_group_edit("Pair");
+        doc.apply(e).unwrap();
+        let mut a = Region::new("Alpha", [1.5, 2.0]);
+        a.geometry = Some(Arc::new(Geometry {
+            polygons: vec![Polygon {
+                exterior: vec![[0.0, 0.0], [4.0, 0.0], [4.0, 4.0], [0.0, 4.0]],
+                holes: vec![vec![[1.0, 1.0], [2.0, 1.0], [2.0, 2.0]]],
+            }],
+        }));
+        a.group = Some(GroupId(1));
+        a.attributes
+            .insert("code".into(), AttrValue::Text("A-1".into()));
+        let (_, e) = doc.add_region_edit(a);
+        doc.apply(e).unwrap();
+        let mut b = Region::new("Beta", [5.0, 2.0]);
+        b.pin = Some(2);
+        let (_, e) = doc.add_region_edit(b);
+        doc.apply(e).unwrap();
+        let pair = RegionPair::new(RegionId(1), RegionId(2)).unwrap();
+        doc.apply(super::super::edit::Edit::PutBorder {
+            pair,
+            border: Some(Border::shared(4.0)),
+        })
+        .unwrap();
+        doc.apply(super::super::edit::Edit::PutColour {
+            id: RegionId(2),
+            slot: Some(2),
+        })
+        .unwrap();
+        doc
+    }
+
+    #[test]
+    fn round_trips_and_starts_with_format_version() {
+        let doc = sample();
+        let text = to_string(&doc);
+        assert!(text.starts_with("(\n  format_version: 1,"), "{text}");
+        let back = from_str(&text).unwrap();
+        assert_eq!(back, doc);
+        assert_eq!(to_string(&back), text);
+    }
+
+    #[test]
+    fn truncated_file_names_line_and_column() {
+        let text = to_string(&sample());
+        let cut = &text[..text.len() / 2];
+        match from_str(cut) {
+            Err(FileError::Syntax { line, message, .. }) => {
+                assert!(line > 1);
+                assert!(
+                    message.contains("truncated") || !message.is_empty(),
+                    "{message}"
+                );
+            }
+            other => panic!("expected a syntax error, got {other:?}"),
+        }
+    }
+
+    #[test]
+    fn newer_version_is_refused() {
+        let text = to_string(&sample()).replacen("format_version: 1", "format_version: 7", 1);
+        let err = from_str(&text).unwrap_err();
+        assert!(
+            matches!(
+                err,
+                FileError::NewerVersion {
+                    found: 7,
+                    supported: 1
+                }
+            ),
+            "{err}"
+        );
+        assert!(err.to_string().contains("newer Tinct"));
+    }
+
+    #[test]
+    fn empty_file_is_an_error() {
+        assert!(matches!(from_str("  \n"), Err(FileError::Empty)));
+    }
+}

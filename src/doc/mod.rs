@@ -1,0 +1,21 @@
+//! The document: regions, borders, groups, pins, palette and colouring; the edits that change it and
+//! the history that undoes them; the constraint graph handed to the engines; project and graph files.
+//!
+//! Nothing here knows about the GUI or threads. Only [`file`] knows RON.
+
+pub mod checks;
+pub mod constraint;
+pub mod edit;
+pub mod file;
+pub mod graph_formats;
+pub mod history;
+pub mod model;
+
+pub use checks::{ColouringCheck, check_colouring};
+pub use constraint::{ConstraintGraph, RuleConflict};
+pub use edit::{Edit, EditError, RegionChange};
+pub use history::History;
+pub use model::{
+    AttrValue, Border, BorderKind, Document, Geometry, Group, GroupId, Palette, Point, Polygon,
+    Region, RegionId, RegionPair, Rgb, Role, Settings, Slot, Units,
+};

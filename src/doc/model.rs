@@ -1,0 +1,544 @@
+//! The project document: regions, borders, groups, pins, palette, colouring and settings.
+//!
+//! This is the single source of truth for a map. It changes only through [`crate::doc::Edit`]s applied
+//! with [`Document::apply`]; fields are public for reading, and the only code that writes them is the
+//! edit module and the loaders that build a fresh document.
+
+use std::collections::BTreeMap;
+use std::fmt;
+use std::sync::Arc;
+
+/// A region's stable identifier. Chosen by Tinct, saved in project files, never reused within a
+/// document (the counter only grows), and independent of any graph library's indices.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub struct RegionId(pub u64);
+
+impl fmt::Display for RegionId {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{}", self.0)
+    }
+}
+
+/// A same-colour group's stable identifier.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub struct GroupId(pub u64);
+
+impl fmt::Display for GroupId {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{}", self.0)
+    }
+}
+
+/// A point in projected world units (metres for imported geographic data, free units for sketches).
+pub type Point = [f64; 2];
+
+/// One polygon: an exterior ring and any holes. Rings are stored without repeating the first point.
+#[derive(Clone, Debug, PartialEq, Default)]
+pub struct Polygon {
+    pub exterior: Vec<Point>,
+    pub holes: Vec<Vec<Point>>,
+}
+
+/// A region's area on the map: one or more polygons (a multi-polygon).
+#[derive(Clone, Debug, PartialEq, Default)]
+pub struct Geometry {
+    pub polygons: Vec<Polygon>,
+}
+
+impl Geometry {
+    /// The axis-aligned bounding box `[min, max]`, or `None` when there are no points.
+    pub fn bounds(&self) -> Option<[Point; 2]> {
+        let mut points = self
+            .polygons
+            .iter()
+            .flat_map(|p| p.exterior.iter().chain(p.holes.iter().flatten()));
+        let first = *points.next()?;
+        let mut lo = first;
+        let mut hi = first;
+        for p in points {
+            lo = [lo[0].min(p[0]), lo[1].min(p[1])];
+            hi = [hi[0].max(p[0]), hi[1].max(p[1])];
+        }
+        Some([lo, hi])
+    }
+
+    /// Total area (exterior minus holes), by the shoelace formula.
+    pub fn area(&self) -> f64 {
+        self.polygons
+            .iter()
+            .map(|p| {
+                ring_area(&p.exterior).abs()
+                    - p.holes.iter().map(|h| ring_area(h).abs()).sum::<f64>()
+            })
+            .sum()
+    }
+
+    /// True when every coordinate is a finite number.
+    pub fn is_finite(&self) -> bool {
+        self.polygons
+            .iter()
+            .flat_map(|p| p.exterior.iter().chain(p.holes.iter().flatten()))
+            .all(|p| p[0].is_finite() && p[1].is_finite())
+    }
+
+    /// Number of vertices over all rings.
+    pub fn vertex_count(&self) -> usize {
+        self.polygons
+            .iter()
+            .map(|p| p.exterior.len() + p.holes.iter().map(Vec::len).sum::<usize>())
+            .sum()
+    }
+}
+
+/// Signed area of a ring (positive when counter-clockwise).
+pub fn ring_area(ring: &[Point]) -> f64 {
+    let n = ring.len();
+    if n < 3 {
+        return 0.0;
+    }
+    let mut twice = 0.0;
+    for i in 0..n {
+        let a = ring[i];
+        let b = ring[(i + 1) % n];
+        twice += a[0] * b[1] - b[0] * a[1];
+    }
+    twice / 2.0
+}
+
+/// Whether a region takes a fill colour.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash, Default)]
+pub enum Role {
+    /// Land: takes a colour and must differ from its land neighbours.
+    #[default]
+    Land,
+    /// Water or background: drawn, but takes no colour and constrains nothing.
+    Water,
+}
+
+impl Role {
+    /// The word used in files, JSON and the interface.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Role::Land => "land",
+            Role::Water => "water",
+        }
+    }
+}
+
+/// A value kept from an imported feature's attributes, so that exports can give them back.
+#[derive(Clone, Debug, PartialEq)]
+pub enum AttrValue {
+    Null,
+    Bool(bool),
+    Number(f64),
+    Text(String),
+}
+
+/// One region of the map.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Region {
+    /// The name shown on the map and in lists.
+    pub name: String,
+    pub role: Role,
+    /// Where the label or the marker of a schematic region sits, in world units.
+    pub anchor: Point,
+    /// The outline, if the region has one; schematic regions have none and are drawn as markers.
+    /// Shared so that edits which do not touch the outline copy it cheaply.
+    pub geometry: Option<Arc<Geometry>>,
+    /// A fixed colour: the palette slot this region must take.
+    pub pin: Option<u32>,
+    /// A same-colour group (exclaves, multi-part units): all members take one colour.
+    pub group: Option<GroupId>,
+    /// The 0-based position of the feature in the file it was imported from.
+    pub source_index: Option<u64>,
+    /// Attributes carried over from the imported feature.
+    pub attributes: BTreeMap<String, AttrValue>,
+}
+
+impl Region {
+    /// A land region with a name and an anchor point, and nothing else set.
+    pub fn new(name: impl Into<String>, anchor: Point) -> Region {
+        Region {
+            name: name.into(),
+            role: Role::Land,
+            anchor,
+            geometry: None,
+            pin: None,
+            group: None,
+            source_index: None,
+            attributes: BTreeMap::new(),
+        }
+    }
+}
+
+/// An unordered pair of distinct regions, stored with the smaller id first.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub struct RegionPair {
+    a: RegionId,
+    b: RegionId,
+}
+
+impl RegionPair {
+    /// The pair `{x, y}`, or `None` when `x == y` (a region cannot border itself).
+    pub fn new(x: RegionId, y: RegionId) -> Option<RegionPair> {
+        match x.cmp(&y) {
+            std::cmp::Ordering::Less => Some(RegionPair { a: x, b: y }),
+            std::cmp::Ordering::Greater => Some(RegionPair { a: y, b: x }),
+            std::cmp::Ordering::Equal => None,
+        }
+    }
+    /// The smaller id.
+    pub fn a(self) -> RegionId {
+        self.a
+    }
+    /// The larger id.
+    pub fn b(self) -> RegionId {
+        self.b
+    }
+    /// True when `id` is one of the two.
+    pub fn contains(self, id: RegionId) -> bool {
+        self.a == id || self.b == id
+    }
+    /// The other region of the pair, if `id` is one of them.
+    pub fn other(self, id: RegionId) -> Option<RegionId> {
+        if self.a == id {
+            Some(self.b)
+        } else if self.b == id {
+            Some(self.a)
+        } else {
+            None
+        }
+    }
+}
+
+/// How two regions came to border each other.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub enum BorderKind {
+    /// Derived from geometry: the boundaries share a stretch of positive length.
+    Shared,
+    /// Derived from geometry: the regions touch only at points (a corner contact).
+    Corner,
+    /// Added by hand: the two must differ, whatever the geometry says.
+    Manual,
+}
+
+impl BorderKind {
+    /// The word used in files, JSON and the interface.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            BorderKind::Shared => "shared",
+            BorderKind::Corner => "corner",
+            BorderKind::Manual => "manual",
+        }
+    }
+}
+
+/// A border between two regions.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Border {
+    pub kind: BorderKind,
+    /// Length of the shared boundary in world units (0 for corner and hand-made borders).
+    pub length: f64,
+    /// The user removed this border: it stays on record (so re-deriving adjacency does not bring it
+    /// back unnoticed) but constrains nothing.
+    pub suppressed: bool,
+}
+
+impl Border {
+    /// A border added by hand.
+    pub fn manual() -> Border {
+        Border {
+            kind: BorderKind::Manual,
+            length: 0.0,
+            suppressed: false,
+        }
+    }
+    /// A shared boundary of the given length.
+    pub fn shared(length: f64) -> Border {
+        Border {
+            kind: BorderKind::Shared,
+            length,
+            suppressed: false,
+        }
+    }
+    /// A corner contact.
+    pub fn corner() -> Border {
+        Border {
+            kind: BorderKind::Corner,
+            length: 0.0,
+            suppressed: false,
+        }
+    }
+}
+
+/// A same-colour group.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Group {
+    pub name: String,
+}
+
+/// An sRGB colour with 8 bits per channel.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+pub struct Rgb(pub [u8; 3]);
+
+impl Rgb {
+    /// `#rrggbb`, lower case.
+    pub fn to_hex(self) -> String {
+        format!("#{:02x}{:02x}{:02x}", self.0[0], self.0[1], self.0[2])
+    }
+
+    /// Parses `#rrggbb` or `rrggbb` (either case).
+    pub fn from_hex(text: &str) -> Option<Rgb> {
+        let digits = text.strip_prefix('#').unwrap_or(text);
+        if digits.len() != 6 || !digits.is_ascii() {
+            return None;
+        }
+        let channel = |i: usize| u8::from_str_radix(&digits[i..i + 2], 16).ok();
+        Some(Rgb([channel(0)?, channel(2)?, channel(4)?]))
+    }
+}
+
+/// One named colour of the palette.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Slot {
+    pub name: String,
+    pub colour: Rgb,
+}
+
+/// The fill colours a map may use, in slot order. Colourings and pins refer to slots by index.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Palette {
+    pub name: String,
+    pub slots: Vec<Slot>,
+}
+
+impl Default for Palette {
+    /// Tinct's own default: six muted fills that print well, listed in the order the colouring
+    /// uses them, so a four-colour map takes the first four.
+    fn default() -> Palette {
+        let slots = [
+            ("Meadow", [0x9c, 0xc9, 0x8a]),
+            ("Sandstone", [0xe8, 0xc6, 0x8e]),
+            ("Heather", [0xb5, 0xa1, 0xcf]),
+            ("Shallows", [0x86, 0xc0, 0xc9]),
+            ("Clay", [0xd9, 0x94, 0x80]),
+            ("Slate", [0xa7, 0xad, 0xb5]),
+        ];
+        Palette {
+            name: "Tinct fields".to_string(),
+            slots: slots
+                .iter()
+                .map(|(n, c)| Slot {
+                    name: n.to_string(),
+                    colour: Rgb(*c),
+                })
+                .collect(),
+        }
+    }
+}
+
+/// What world units mean.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+pub enum Units {
+    /// Projected metres (imported geographic data).
+    Metres,
+    /// Free units of a sketch or of a graph loaded without geometry.
+    #[default]
+    Unitless,
+}
+
+impl Units {
+    /// The word used in files and the interface.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Units::Metres => "metres",
+            Units::Unitless => "unitless",
+        }
+    }
+}
+
+/// Project settings that decide which recorded borders constrain the colouring.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Settings {
+    /// Count corner (point) contacts as borders (queen contiguity) rather than ignoring them (rook).
+    pub corners_count: bool,
+    /// Shared boundaries shorter than this (in world units) count as corner contacts.
+    pub min_border_length: f64,
+    /// Boundaries closer than this (in world units) are treated as touching when deriving borders.
+    pub tolerance: f64,
+    pub units: Units,
+}
+
+impl Default for Settings {
+    fn default() -> Settings {
+        Settings {
+            corners_count: false,
+            min_border_length: 0.0,
+            tolerance: 0.0,
+            units: Units::Unitless,
+        }
+    }
+}
+
+/// The whole project.
+#[derive(Clone, Debug, Default)]
+pub struct Document {
+    pub title: String,
+    pub settings: Settings,
+    pub palette: Palette,
+    pub groups: BTreeMap<GroupId, Group>,
+    pub regions: BTreeMap<RegionId, Region>,
+    pub borders: BTreeMap<RegionPair, Border>,
+    /// The current colouring: region -> palette slot. Land regions without an entry are uncoloured.
+    pub colouring: BTreeMap<RegionId, u32>,
+    /// The next region id to hand out; only grows, so ids are never reused.
+    pub(crate) next_region_id: u64,
+    /// The next group id to hand out; only grows.
+    pub(crate) next_group_id: u64,
+    /// Increases on every change; not saved. Analysis results carry the revision they were made for.
+    pub(crate) revision: u64,
+}
+
+/// Two documents are equal when their content is: the revision counter and the id counters are
+/// bookkeeping, not content.
+impl PartialEq for Document {
+    fn eq(&self, other: &Document) -> bool {
+        self.title == other.title
+            && self.settings == other.settings
+            && self.palette == other.palette
+            && self.groups == other.groups
+            && self.regions == other.regions
+            && self.borders == other.borders
+            && self.colouring == other.colouring
+    }
+}
+
+impl Document {
+    /// An empty project with the default palette and settings.
+    pub fn new(title: impl Into<String>) -> Document {
+        Document {
+            title: title.into(),
+            next_region_id: 1,
+            next_group_id: 1,
+            ..Default::default()
+        }
+    }
+
+    /// The revision counter: it increases on every applied edit.
+    pub fn revision(&self) -> u64 {
+        self.revision
+    }
+
+    /// The id the next new region will get.
+    pub fn peek_region_id(&self) -> RegionId {
+        RegionId(
+            self.next_region_id
+                .max(self.regions.keys().next_back().map_or(1, |id| id.0 + 1)),
+        )
+    }
+
+    /// The id the next new group will get.
+    pub fn peek_group_id(&self) -> GroupId {
+        GroupId(
+            self.next_group_id
+                .max(self.groups.keys().next_back().map_or(1, |id| id.0 + 1)),
+        )
+    }
+
+    /// Whether a recorded border constrains the colouring under the current settings: it is not
+    /// suppressed, both regions are land, and it is a hand-made border, a shared boundary at least the
+    /// minimum length, or a corner contact (or too-short boundary) while corners count.
+    pub fn border_is_active(&self, pair: RegionPair, border: &Border) -> bool {
+        if border.suppressed {
+            return false;
+        }
+        let land = |id: RegionId| self.regions.get(&id).is_some_and(|r| r.role == Role::Land);
+        if !land(pair.a()) || !land(pair.b()) {
+            return false;
+        }
+        match border.kind {
+            BorderKind::Manual => true,
+            BorderKind::Shared if border.length >= self.settings.min_border_length => true,
+            BorderKind::Shared | BorderKind::Corner => self.settings.corners_count,
+        }
+    }
+
+    /// The active borders, in pair order.
+    pub fn active_borders(&self) -> impl Iterator<Item = (RegionPair, &Border)> + '_ {
+        self.borders
+            .iter()
+            .filter(|(p, b)| self.border_is_active(**p, b))
+            .map(|(p, b)| (*p, b))
+    }
+
+    /// Every recorded border of one region (active or not), with the neighbour's id.
+    pub fn borders_of(&self, id: RegionId) -> Vec<(RegionId, RegionPair, Border)> {
+        // Borders are keyed by (smaller, larger): those where `id` is the smaller sit in one range;
+        // the others need a scan. Regions have few borders, maps have many regions, so index lazily.
+        let mut out: Vec<_> = self
+            .borders
+            .range(
+                RegionPair {
+                    a: id,
+                    b: RegionId(0),
+                }..,
+            )
+            .take_while(|(p, _)| p.a() == id)
+            .map(|(p, b)| (p.b(), *p, *b))
+            .collect();
+        out.extend(
+            self.borders
+                .iter()
+                .filter(|(p, _)| p.b() == id)
+                .map(|(p, b)| (p.a(), *p, *b)),
+        );
+        out.sort_by_key(|(other, _, _)| *other);
+        out
+    }
+
+    /// The land regions, in id order.
+    pub fn land_regions(&self) -> impl Iterator<Item = (RegionId, &Region)> + '_ {
+        self.regions
+            .iter()
+            .filter(|(_, r)| r.role == Role::Land)
+            .map(|(id, r)| (*id, r))
+    }
+
+    /// The bounding box of all geometry and anchors, or `None` for an empty map.
+    pub fn bounds(&self) -> Option<[Point; 2]> {
+        let mut out: Option<[Point; 2]> = None;
+        let mut grow = |b: [Point; 2]| {
+            out = Some(match out {
+                None => b,
+                Some([lo, hi]) => [
+                    [lo[0].min(b[0][0]), lo[1].min(b[0][1])],
+                    [hi[0].max(b[1][0]), hi[1].max(b[1][1])],
+                ],
+            })
+        };
+        for region in self.regions.values() {
+            grow([region.anchor, region.anchor]);
+            if let Some(b) = region.geometry.as_ref().and_then(|g| g.bounds()) {
+                grow(b);
+            }
+        }
+        out
+    }
+
+    /// The members of a group, in id order.
+    pub fn group_members(&self, group: GroupId) -> Vec<RegionId> {
+        self.regions
+            .iter()
+            .filter(|(_, r)| r.group == Some(group))
+            .map(|(id, _)| *id)
+            .collect()
+    }
+
+    /// Finds a region by exact name (the first in id order).
+    pub fn region_by_name(&self, name: &str) -> Option<RegionId> {
+        self.regions
+            .iter()
+            .find(|(_, r)| r.name == name)
+            .map(|(id, _)| *id)
+    }
+}

@@ -544,3 +544,149 @@ proptest! {
         prop_assert!(faces.iter().all(|f| f.len() == 3));
     }
 }
+
+// --- Sample maps and the command line ---------------------------------------------------------
+
+/// The land adjacency of a sample map from its GeoJSON (`tinct_borders` of kind `shared` between
+/// land regions), with each same-colour group merged into one vertex when `merge_groups` is set.
+/// Returns the vertex count, the edges, and the vertex of the group named `group` if any.
+fn sample_map_graph(
+    file: &str,
+    merge_groups: bool,
+    group: &str,
+) -> (usize, Vec<(u32, u32)>, Option<u32>) {
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("sample-maps")
+        .join(file);
+    let text = std::fs::read_to_string(&path).unwrap();
+    let value: serde_json::Value = serde_json::from_str(&text).unwrap();
+    let mut vertex_of: std::collections::BTreeMap<u64, u32> = Default::default();
+    let mut group_vertex: std::collections::BTreeMap<String, u32> = Default::default();
+    let mut count = 0u32;
+    for feature in value["features"].as_array().unwrap() {
+        let props = &feature["properties"];
+        if props["role"] != "land" {
+            continue;
+        }
+        let id = feature["id"].as_u64().unwrap();
+        let v = match props["group"].as_str() {
+            Some(g) if merge_groups => *group_vertex.entry(g.to_string()).or_insert_with(|| {
+                count += 1;
+                count - 1
+            }),
+            _ => {
+                count += 1;
+                count - 1
+            }
+        };
+        vertex_of.insert(id, v);
+    }
+    let mut edges = Vec::new();
+    for border in value["tinct_borders"].as_array().unwrap() {
+        if border["kind"] != "shared" {
+            continue;
+        }
+        let (a, b) = (border["a"].as_u64().unwrap(), border["b"].as_u64().unwrap());
+        if let (Some(&u), Some(&v)) = (vertex_of.get(&a), vertex_of.get(&b)) {
+            if u != v {
+                edges.push((u, v));
+            }
+        }
+    }
+    (count as usize, edges, group_vertex.get(group).copied())
+}
+
+#[test]
+fn sample_maps_agree_with_their_generator() {
+    // sample-maps/README.md (facts asserted by make_samples.py with networkx.check_planarity):
+    // Vessland and the Three Valleys are planar; the Exclave Coast is planar until the group
+    // "Aldwyn" (a district and its exclave) is merged into one vertex, and then it is not.
+    for file in ["vessland-province.geojson", "three-valleys.geojson"] {
+        let (n, edges, _) = sample_map_graph(file, true, "");
+        assert!(verdict(n, &edges).is_planar(), "{file}");
+    }
+    let (n, edges, _) = sample_map_graph("exclave-coast.geojson", false, "Aldwyn");
+    assert!(verdict(n, &edges).is_planar());
+    let (n, edges, aldwyn) = sample_map_graph("exclave-coast.geojson", true, "Aldwyn");
+    let k = expect_non_planar(n, &edges);
+    // Without the merged vertex the graph is a subgraph of the planar unmerged map, so every
+    // Kuratowski subgraph must pass through it.
+    let aldwyn = aldwyn.unwrap();
+    assert!(k.edges.iter().any(|&(a, b)| a == aldwyn || b == aldwyn));
+}
+
+#[test]
+fn analyse_json_and_certificate_file_round_trip() {
+    use tinct::cli::Section;
+    use tinct::cli::planarity::attach;
+    use tinct::doc::graph_formats::read_edge_list;
+    // The Petersen graph as an edge list: not planar (Bondy and Murty 2008).
+    let mut text = String::from("10 15\n");
+    for (a, b) in generalised_petersen(5, 2) {
+        text.push_str(&format!("{a} {b}\n"));
+    }
+    let (doc, notices) = read_edge_list(&text, "petersen").unwrap();
+    let report = tinct::cli::analyse::report("petersen.edges", &doc, &notices);
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("certificate.json");
+    let json = attach(
+        &report,
+        &doc,
+        true,
+        Some(Section::Planarity),
+        false,
+        Some(&out),
+    )
+    .unwrap();
+    let value: serde_json::Value = serde_json::from_str(&json).unwrap();
+    assert_eq!(value["planarity"]["planar"], false);
+    assert_eq!(value["planarity"]["kind"], "K3,3");
+    // The certificate file, read back as a third party would, passes our checker.
+    let written: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&out).unwrap()).unwrap();
+    let edges: Vec<(u32, u32)> = written["edges"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|e| (e[0].as_u64().unwrap() as u32, e[1].as_u64().unwrap() as u32))
+        .collect();
+    let paths: Vec<Vec<u32>> = written["paths"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|p| {
+            p.as_array()
+                .unwrap()
+                .iter()
+                .map(|v| v.as_u64().unwrap() as u32)
+                .collect()
+        })
+        .collect();
+    let branch: Vec<u32> = written["branch_vertices"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|v| v.as_u64().unwrap() as u32)
+        .collect();
+    let (g, _) = Graph::from_edges(10, &generalised_petersen(5, 2)).unwrap();
+    let k = Kuratowski {
+        kind: KuratowskiKind::K33,
+        branch_vertices: branch,
+        paths,
+        edges,
+    };
+    check_kuratowski(&g, &k).unwrap();
+    // The full report keeps its other keys and gains `planarity`; text mode names the verdict.
+    let json = attach(&report, &doc, true, None, false, None).unwrap();
+    let value: serde_json::Value = serde_json::from_str(&json).unwrap();
+    assert!(value.get("summary").is_some() && value.get("planarity").is_some());
+    let text = attach(&report, &doc, false, None, false, None).unwrap();
+    assert!(text.contains("NOT planar: a K3,3 subdivision"));
+    // A planar map with --embedding lists every vertex's rotation.
+    let (doc, notices) = read_edge_list("4 6\n0 1\n0 2\n0 3\n1 2\n1 3\n2 3\n", "k4").unwrap();
+    let report = tinct::cli::analyse::report("k4.edges", &doc, &notices);
+    let json = attach(&report, &doc, true, None, true, None).unwrap();
+    let value: serde_json::Value = serde_json::from_str(&json).unwrap();
+    assert_eq!(value["planarity"]["planar"], true);
+    assert_eq!(value["planarity"]["embedding"].as_array().unwrap().len(), 4);
+}

@@ -587,10 +587,10 @@ fn sample_map_graph(
             continue;
         }
         let (a, b) = (border["a"].as_u64().unwrap(), border["b"].as_u64().unwrap());
-        if let (Some(&u), Some(&v)) = (vertex_of.get(&a), vertex_of.get(&b)) {
-            if u != v {
-                edges.push((u, v));
-            }
+        if let (Some(&u), Some(&v)) = (vertex_of.get(&a), vertex_of.get(&b))
+            && u != v
+        {
+            edges.push((u, v));
         }
     }
     (count as usize, edges, group_vertex.get(group).copied())

@@ -1,10 +1,13 @@
 //! Integration tests, built as one binary to keep link time down on a small machine.
 
+mod blocks;
 mod cli;
 mod edits;
 mod geo;
 mod graph_formats;
 mod invariants;
+mod planar_gen;
+mod planarity;
 mod project_file;
 mod sample_maps;
 mod support;

@@ -3,6 +3,7 @@
 
 pub mod analyse;
 pub mod import;
+pub mod planarity;
 
 use std::io::Write;
 use std::path::PathBuf;
@@ -23,6 +24,8 @@ pub struct Cli {
 pub enum Section {
     /// Regions, borders, groups, pins and the current colouring's problems.
     Rules,
+    /// Planarity of the constraint graph, with a Kuratowski subgraph or an embedding as proof.
+    Planarity,
 }
 
 #[derive(Subcommand, Debug)]
@@ -45,6 +48,12 @@ pub enum Command {
         /// Run only this part of the analysis.
         #[arg(long, value_enum)]
         only: Option<Section>,
+        /// With `--json`: add the planar embedding (clockwise neighbours of every region).
+        #[arg(long)]
+        embedding: bool,
+        /// Write the planarity certificate (Kuratowski subgraph or embedding) as JSON to FILE.
+        #[arg(long, value_name = "FILE")]
+        certificate_out: Option<PathBuf>,
     },
     /// Import a boundary file (.geojson, .json, .topojson, .shp) into a project file.
     Import {
@@ -100,20 +109,26 @@ pub fn run(command: Command) -> ExitCode {
             file,
             json,
             strict,
-            only: _,
+            only,
+            embedding,
+            certificate_out,
         } => {
             let loaded = match crate::formats::load(&file) {
                 Ok(l) => l,
                 Err(e) => return error(exit::BAD_INPUT, &e),
             };
             let report = analyse::report(&file.display().to_string(), &loaded.doc, &loaded.notices);
-            let text = if json {
-                match serde_json::to_string_pretty(&report) {
-                    Ok(t) => t + "\n",
-                    Err(e) => return error(exit::CANNOT_WRITE, &e.into()),
-                }
-            } else {
-                analyse::render_text(&report, &loaded.doc)
+            // The planarity section lives in src/cli/planarity.rs.
+            let text = match planarity::attach(
+                &report,
+                &loaded.doc,
+                json,
+                only,
+                embedding,
+                certificate_out.as_deref(),
+            ) {
+                Ok(t) => t,
+                Err(e) => return error(exit::CANNOT_WRITE, &e),
             };
             let mut stdout = std::io::stdout().lock();
             if let Err(e) = stdout

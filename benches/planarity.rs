@@ -1,0 +1,192 @@
+//! Planarity benchmark: random maximal planar graphs (labels shuffled), planar and with one edge
+//! moved, against a plain depth-first search over the same CSR graph measured in the same run.
+//!
+//! Run with `cargo bench --no-default-features --bench planarity`. Prints one table; the ratios
+//! are the numbers to quote.
+
+#[path = "../tests/planar_gen.rs"]
+mod planar_gen;
+
+use std::hint::black_box;
+use std::sync::atomic::AtomicBool;
+use std::time::{Duration, Instant};
+
+use tinct::engine::Graph;
+use tinct::engine::certify::{check_embedding, check_kuratowski};
+use tinct::engine::planarity::{Planarity, is_planar, planarity};
+
+use planar_gen::{Rng, move_one_edge, permutation, random_triangulation, relabel};
+
+/// The floor: one iterative depth-first search touching every half-edge once.
+fn plain_dfs(g: &Graph) -> u64 {
+    let n = g.vertex_count();
+    let (offsets, targets) = g.csr();
+    let mut seen = vec![false; n];
+    let mut cursor: Vec<u32> = offsets[..n].to_vec();
+    let mut stack: Vec<u32> = Vec::new();
+    let mut order_sum = 0u64;
+    for s in 0..n as u32 {
+        if seen[s as usize] {
+            continue;
+        }
+        seen[s as usize] = true;
+        stack.push(s);
+        while let Some(&v) = stack.last() {
+            let vi = v as usize;
+            if cursor[vi] < offsets[vi + 1] {
+                let w = targets[cursor[vi] as usize];
+                cursor[vi] += 1;
+                if !seen[w as usize] {
+                    seen[w as usize] = true;
+                    order_sum += u64::from(w);
+                    stack.push(w);
+                }
+            } else {
+                stack.pop();
+            }
+        }
+    }
+    order_sum
+}
+
+/// Median wall time of `runs` calls.
+fn time<T>(runs: usize, mut f: impl FnMut() -> T) -> Duration {
+    let mut times: Vec<Duration> = (0..runs)
+        .map(|_| {
+            let start = Instant::now();
+            black_box(f());
+            start.elapsed()
+        })
+        .collect();
+    times.sort();
+    times[runs / 2]
+}
+
+/// Peak resident set size of this process in MiB (VmHWM), if the platform reports it.
+fn peak_rss_mib() -> Option<f64> {
+    let status = std::fs::read_to_string("/proc/self/status").ok()?;
+    let line = status.lines().find(|l| l.starts_with("VmHWM:"))?;
+    let kib: f64 = line.split_whitespace().nth(1)?.parse().ok()?;
+    Some(kib / 1024.0)
+}
+
+/// Resets the peak RSS counter (Linux: writing 5 to clear_refs), so that the next reading covers
+/// only what follows. Returns false where unsupported.
+fn reset_peak_rss() -> bool {
+    std::fs::write("/proc/self/clear_refs", "5").is_ok()
+}
+
+fn ms(d: Duration) -> f64 {
+    d.as_secs_f64() * 1e3
+}
+
+fn main() {
+    let never = AtomicBool::new(false);
+    println!(
+        "{:>9} {:>9} | {:>8} {:>9} {:>9} {:>8} | {:>9} {:>9} {:>7} | {:>8} {:>8}",
+        "n",
+        "m",
+        "DFS ms",
+        "test ms",
+        "t+emb ms",
+        "emb/DFS",
+        "test* ms",
+        "t+K ms",
+        "K/test",
+        "t/DFS",
+        "K pieces"
+    );
+    // TINCT_BENCH_SIZES=100000,1000000 restricts the sizes (for profiling).
+    let sizes: Vec<usize> = std::env::var("TINCT_BENCH_SIZES")
+        .ok()
+        .map(|s| s.split(',').filter_map(|x| x.trim().parse().ok()).collect())
+        .unwrap_or_else(|| vec![10_000, 100_000, 1_000_000]);
+    for &n in &sizes {
+        let runs = if n >= 1_000_000 { 3 } else { 7 };
+        let mut rng = Rng::new(n as u64);
+        let tri = random_triangulation(n, n, &mut rng);
+        let p = permutation(n, &mut rng);
+        let tri = relabel(&tri, &p, &mut rng);
+        let mut moved = move_one_edge(n, &tri, &mut rng);
+        let (g, _) = Graph::from_edges(n, &tri).expect("generated edges are in range");
+        let mut h = Graph::from_edges(n, &moved).expect("in range").0;
+        while is_planar(&h, &never, &mut |_| {}).unwrap_or(true) {
+            moved = move_one_edge(n, &tri, &mut rng);
+            h = Graph::from_edges(n, &moved).expect("in range").0;
+        }
+        drop((tri, moved, p));
+
+        // Certificates are checked once, outside the timings.
+        match planarity(&g, &never, &mut |_| {}) {
+            Ok(Planarity::Planar(e)) => check_embedding(&g, &e).expect("embedding verifies"),
+            other => panic!(
+                "triangulation must be planar: {:?}",
+                other.map(|v| v.is_planar())
+            ),
+        }
+        let pieces = match planarity(&h, &never, &mut |_| {}) {
+            Ok(Planarity::NonPlanar(k)) => {
+                check_kuratowski(&h, &k).expect("Kuratowski subgraph verifies");
+                k.edges.len()
+            }
+            other => panic!(
+                "moved edge must be non-planar: {:?}",
+                other.map(|v| v.is_planar())
+            ),
+        };
+
+        let dfs = time(runs, || plain_dfs(&g));
+        let test = time(runs, || is_planar(&g, &never, &mut |_| {}));
+        let with_embedding = time(runs, || planarity(&g, &never, &mut |_| {}));
+        let test_np = time(runs, || is_planar(&h, &never, &mut |_| {}));
+        let with_kuratowski = time(runs, || planarity(&h, &never, &mut |_| {}));
+        println!(
+            "{:>9} {:>9} | {:>8.2} {:>9.2} {:>9.2} {:>8.2} | {:>9.2} {:>9.2} {:>7.2} | {:>8.2} {:>8}",
+            n,
+            g.edge_count(),
+            ms(dfs),
+            ms(test),
+            ms(with_embedding),
+            ms(with_embedding) / ms(dfs),
+            ms(test_np),
+            ms(with_kuratowski),
+            ms(with_kuratowski) / ms(test_np),
+            ms(test) / ms(dfs),
+            pieces,
+        );
+        // Where the time goes: the first progress report of each phase, relative to the start.
+        let mut seen: Vec<(String, f64)> = Vec::new();
+        let start = Instant::now();
+        let _ = black_box(planarity(&g, &never, &mut |p| {
+            let name = format!("{:?}", p.phase);
+            if seen.last().map(|(s, _)| s != &name).unwrap_or(true) {
+                seen.push((name, ms(start.elapsed())));
+            }
+        }));
+        let total = ms(start.elapsed());
+        println!("  phases (first report, ms): {seen:?}, end {total:.1}");
+        if n == 1_000_000 {
+            let before = peak_rss_mib();
+            let reset = reset_peak_rss();
+            let _ = black_box(planarity(&g, &never, &mut |_| {}));
+            let _ = black_box(planarity(&h, &never, &mut |_| {}));
+            let after = peak_rss_mib();
+            println!(
+                "peak RSS at n = 10^6: {:.0} MiB for the whole run including generation; {} MiB \
+                 during test+embedding and test+Kuratowski with both graphs resident{}",
+                before.unwrap_or(f64::NAN),
+                after.map_or("?".to_string(), |v| format!("{v:.0}")),
+                if reset {
+                    ""
+                } else {
+                    " (peak reset unsupported: whole-run figure)"
+                }
+            );
+        }
+    }
+    println!(
+        "columns: test = is_planar on the planar graph; t+emb = planarity() with embedding; \
+         test* = is_planar on the graph with one edge moved; t+K = planarity() with Kuratowski \
+         subgraph; K pieces = edges in the certificate"
+    );
+}

@@ -1,0 +1,450 @@
+//! Isolating a subdivision of K5 or K3,3 after the left-right test has failed.
+//!
+//! The method combines three standard ideas:
+//! - *Suppression.* Deleting vertices of degree 1 and replacing each vertex of degree 2 by one
+//!   edge (its two edges joined into a "piece") never changes planarity. A spanning tree plus
+//!   k extra edges shrinks this way to O(k) pieces, whatever the tree's size.
+//! - *A local start.* The depth-first tree of the failed test plus the back edges the test had
+//!   processed inside the subtree of the failing vertex is usually already non-planar; nested
+//!   windows (ancestors' subtrees, all processed back edges, all back edges) are tried in turn,
+//!   each checked by the planarity test itself, so the start is always correct.
+//! - *QuickXplain* (U. Junker, "QuickXplain: Preferred Explanations and Relaxations for
+//!   Over-Constrained Problems", AAAI 2004) finds a minimal set of back-edge pieces that keeps the
+//!   tree non-planar with O(k log(w / k)) oracle calls on suppressed graphs of size O(w), where w
+//!   is the window size and k the number of pieces needed. A last pass deletes pieces one by one
+//!   from the resulting O(k)-piece graph. An edge-minimal non-planar graph is a subdivision of K5
+//!   or K3,3 (Kuratowski 1930), so what is left is the certificate.
+//!
+//! # Complexity
+//! O(n + m) per window tried (at most about log m of them, usually one), then
+//! O(w * k log(w / k) + k^2) for the shrinking, where k is usually a small constant. This is not
+//! linear in the worst case: when a Kuratowski subdivision needs Θ(n) back edges of the depth-first
+//! tree, the shrinking is quadratic.
+
+use super::lr::{FailureClue, LrState, Mode, Outcome};
+use super::{Kuratowski, KuratowskiKind, Monitor, Phase, PlanarityError};
+use crate::engine::graph::{Graph, Vertex};
+
+const NONE: u32 = u32::MAX;
+
+/// A piece: one input edge (leaf) or two pieces joined at a suppressed vertex.
+#[derive(Clone, Copy)]
+struct Node {
+    a: Vertex,
+    b: Vertex,
+    /// For a join: `left` runs from `a` to the suppressed vertex, `right` from there to `b`.
+    left: u32,
+    right: u32,
+    /// Contains at least one back edge.
+    back: bool,
+}
+
+impl Node {
+    #[inline]
+    fn other(&self, end: Vertex) -> Vertex {
+        if self.a == end { self.b } else { self.a }
+    }
+}
+
+struct Isolator<'m, 'a> {
+    arena: Vec<Node>,
+    /// Scratch map from original vertex to local index; all `NONE` between calls.
+    local: Vec<u32>,
+    monitor: &'m mut Monitor<'a>,
+    oracle_calls: u64,
+}
+
+pub(super) fn isolate(
+    g: &Graph,
+    clue: FailureClue,
+    monitor: &mut Monitor<'_>,
+) -> Result<Kuratowski, PlanarityError> {
+    // Everything below works in the test's internal numbering; the certificate is translated
+    // back at the end.
+    let n = g.vertex_count();
+    monitor.checkpoint(Phase::Kuratowski, 0, 3)?;
+    monitor.inner = true;
+    let mut iso = Isolator {
+        arena: Vec::new(),
+        local: vec![NONE; n],
+        monitor,
+        oracle_calls: 0,
+    };
+    // Find a window of back edges that keeps the tree non-planar. For the subtree of `a`, only
+    // the tree inside it and the path from `a` up to the highest return point matter: every other
+    // tree edge hangs off that part without a back edge and would be pruned anyway.
+    let mut start_graph: Option<Vec<u32>> = None;
+    for &(start, a) in &clue.windows {
+        let mut input: Vec<u32> = Vec::new();
+        let mut top = clue.height[a as usize];
+        for &(u, v) in &clue.processed[start..] {
+            input.push(iso.leaf(u, v, true));
+            top = top.min(clue.height[v as usize]);
+        }
+        for x in a + 1..clue.subtree_end[a as usize] {
+            input.push(iso.leaf(clue.parent[x as usize], x, false));
+        }
+        let mut x = a;
+        while clue.height[x as usize] > top {
+            let p = clue.parent[x as usize];
+            input.push(iso.leaf(p, x, false));
+            x = p;
+        }
+        let compressed = iso.compress(&input);
+        if !iso.test_compressed(&compressed)? {
+            start_graph = Some(compressed);
+            break;
+        }
+    }
+    let h0 = match start_graph {
+        Some(h) => h,
+        None => {
+            // Every edge of the graph, in internal numbering.
+            let mut internal = vec![NONE; n];
+            for (v, &o) in clue.orig.iter().enumerate() {
+                internal[o as usize] = v as u32;
+            }
+            let mut input = Vec::with_capacity(g.edge_count());
+            for (u, v) in g.edges() {
+                let (iu, iv) = (internal[u as usize], internal[v as usize]);
+                let tree = clue.parent[iv as usize] == iu || clue.parent[iu as usize] == iv;
+                input.push(iso.leaf(iu, iv, !tree));
+            }
+            iso.compress(&input)
+        }
+    };
+    iso.monitor.checkpoint(Phase::Kuratowski, 1, 3)?;
+
+    // Shrink the back-edge pieces to a minimal set with the tree pieces always present.
+    let mut base: Vec<u32> = Vec::new();
+    let mut candidates: Vec<u32> = Vec::new();
+    for &p in &h0 {
+        if iso.arena[p as usize].back {
+            candidates.push(p);
+        } else {
+            base.push(p);
+        }
+    }
+    // Back edges met just before the failure are the likeliest to be needed; QuickXplain needs
+    // the fewest calls when the needed candidates come first.
+    candidates.reverse();
+    let mut background = base.clone();
+    let needed = iso.quick_xplain(&mut background, false, &candidates)?;
+    let mut keep = base;
+    keep.extend_from_slice(&needed);
+    let mut keep = iso.compress(&keep);
+    iso.monitor.checkpoint(Phase::Kuratowski, 2, 3)?;
+
+    // Delete whatever piece can go. A piece found essential stays essential after later
+    // deletions (a subgraph of a planar graph is planar), so one pass suffices.
+    let mut i = 0;
+    while i < keep.len() {
+        let mut trial = keep.clone();
+        trial.swap_remove(i);
+        if !iso.planar_pieces(&trial)? {
+            keep = trial;
+        } else {
+            i += 1;
+        }
+    }
+    let keep = iso.compress(&keep);
+    let result = iso.certificate(&keep, &clue.orig);
+    iso.monitor.inner = false;
+    iso.monitor.checkpoint(Phase::Kuratowski, 3, 3)?;
+    Ok(result)
+}
+
+impl Isolator<'_, '_> {
+    fn leaf(&mut self, a: Vertex, b: Vertex, back: bool) -> u32 {
+        self.arena.push(Node {
+            a,
+            b,
+            left: NONE,
+            right: NONE,
+            back,
+        });
+        (self.arena.len() - 1) as u32
+    }
+
+    /// QuickXplain: a minimal subset D of `candidates` with `background + D` non-planar, given
+    /// that `background + candidates` is non-planar. `check` says whether `background` alone
+    /// must be tested first (Junker 2004, Alg. QUICKXPLAIN).
+    fn quick_xplain(
+        &mut self,
+        background: &mut Vec<u32>,
+        check: bool,
+        candidates: &[u32],
+    ) -> Result<Vec<u32>, PlanarityError> {
+        if check && !self.planar_pieces(background)? {
+            return Ok(Vec::new());
+        }
+        if candidates.len() <= 1 {
+            return Ok(candidates.to_vec());
+        }
+        let (c1, c2) = candidates.split_at(candidates.len() / 2);
+        let mark = background.len();
+        background.extend_from_slice(c1);
+        let d2 = self.quick_xplain(background, !c1.is_empty(), c2)?;
+        background.truncate(mark);
+        background.extend_from_slice(&d2);
+        let mut d1 = self.quick_xplain(background, !d2.is_empty(), c1)?;
+        background.truncate(mark);
+        d1.extend_from_slice(&d2);
+        Ok(d1)
+    }
+
+    fn planar_pieces(&mut self, pieces: &[u32]) -> Result<bool, PlanarityError> {
+        let compressed = self.compress(pieces);
+        self.test_compressed(&compressed)
+    }
+
+    /// Runs the left-right test on the simple graph underlying some pieces.
+    fn test_compressed(&mut self, pieces: &[u32]) -> Result<bool, PlanarityError> {
+        self.oracle_calls += 1;
+        self.monitor
+            .checkpoint(Phase::Kuratowski, self.oracle_calls, 0)?;
+        if pieces.is_empty() {
+            return Ok(true);
+        }
+        let mut verts: Vec<Vertex> = Vec::new();
+        let mut edges: Vec<(u32, u32)> = Vec::with_capacity(pieces.len());
+        for &p in pieces {
+            let node = self.arena[p as usize];
+            let mut ends = [0u32; 2];
+            for (slot, v) in [node.a, node.b].into_iter().enumerate() {
+                if self.local[v as usize] == NONE {
+                    self.local[v as usize] = verts.len() as u32;
+                    verts.push(v);
+                }
+                ends[slot] = self.local[v as usize];
+            }
+            edges.push((ends[0], ends[1]));
+        }
+        for &v in &verts {
+            self.local[v as usize] = NONE;
+        }
+        let Ok((h, _)) = Graph::from_edges(verts.len(), &edges) else {
+            debug_assert!(false, "local indices are always in range");
+            return Ok(true);
+        };
+        let k = h.vertex_count();
+        if k >= 3 && h.edge_count() > 3 * k - 6 {
+            return Ok(false);
+        }
+        let mut state = LrState::new(&h);
+        Ok(state.run(self.monitor, Mode::TestOnly)? == Outcome::Planar)
+    }
+
+    /// Deletes degree-1 vertices and suppresses degree-2 vertices until neither is left, and
+    /// returns the surviving pieces. Loops are dropped (they never affect planarity); parallel
+    /// pieces are kept, since removing one of them later must leave the other.
+    fn compress(&mut self, input: &[u32]) -> Vec<u32> {
+        let mut verts: Vec<Vertex> = Vec::new();
+        let mut slot_node: Vec<u32> = Vec::with_capacity(input.len());
+        let mut slot_ends: Vec<(u32, u32)> = Vec::with_capacity(input.len());
+        for &p in input {
+            let node = self.arena[p as usize];
+            if node.a == node.b {
+                continue;
+            }
+            let mut ends = [0u32; 2];
+            for (slot, v) in [node.a, node.b].into_iter().enumerate() {
+                if self.local[v as usize] == NONE {
+                    self.local[v as usize] = verts.len() as u32;
+                    verts.push(v);
+                }
+                ends[slot] = self.local[v as usize];
+            }
+            slot_node.push(p);
+            slot_ends.push((ends[0], ends[1]));
+        }
+        for &v in &verts {
+            self.local[v as usize] = NONE;
+        }
+        let k = verts.len();
+        let mut head = vec![NONE; k];
+        let mut next: Vec<u32> = Vec::with_capacity(2 * slot_ends.len());
+        let mut incident_slot: Vec<u32> = Vec::with_capacity(2 * slot_ends.len());
+        let mut degree = vec![0u32; k];
+        fn attach(head: &mut [u32], next: &mut Vec<u32>, incident: &mut Vec<u32>, x: u32, s: u32) {
+            incident.push(s);
+            next.push(head[x as usize]);
+            head[x as usize] = (incident.len() - 1) as u32;
+        }
+        for (s, &(a, b)) in slot_ends.iter().enumerate() {
+            attach(&mut head, &mut next, &mut incident_slot, a, s as u32);
+            attach(&mut head, &mut next, &mut incident_slot, b, s as u32);
+            degree[a as usize] += 1;
+            degree[b as usize] += 1;
+        }
+        let mut dead = vec![false; slot_ends.len()];
+        let mut removed = vec![false; k];
+        let mut queue: Vec<u32> = (0..k as u32).filter(|&x| degree[x as usize] <= 2).collect();
+        while let Some(x) = queue.pop() {
+            let xi = x as usize;
+            if removed[xi] || degree[xi] > 2 {
+                continue;
+            }
+            let mut alive = [NONE; 2];
+            let mut found = 0;
+            let mut r = head[xi];
+            while r != NONE && found < degree[xi] as usize {
+                let s = incident_slot[r as usize];
+                if !dead[s as usize] {
+                    alive[found] = s;
+                    found += 1;
+                }
+                r = next[r as usize];
+            }
+            removed[xi] = true;
+            let other = |s: u32| {
+                let (a, b) = slot_ends[s as usize];
+                if a == x { b } else { a }
+            };
+            match degree[xi] {
+                1 => {
+                    let s = alive[0];
+                    dead[s as usize] = true;
+                    let y = other(s);
+                    degree[y as usize] -= 1;
+                    if degree[y as usize] <= 2 {
+                        queue.push(y);
+                    }
+                }
+                2 => {
+                    let (s1, s2) = (alive[0], alive[1]);
+                    dead[s1 as usize] = true;
+                    dead[s2 as usize] = true;
+                    let (y1, y2) = (other(s1), other(s2));
+                    if y1 == y2 {
+                        degree[y1 as usize] -= 2;
+                        if degree[y1 as usize] <= 2 {
+                            queue.push(y1);
+                        }
+                    } else {
+                        let (n1, n2) = (slot_node[s1 as usize], slot_node[s2 as usize]);
+                        let back = self.arena[n1 as usize].back || self.arena[n2 as usize].back;
+                        self.arena.push(Node {
+                            a: verts[y1 as usize],
+                            b: verts[y2 as usize],
+                            left: n1,
+                            right: n2,
+                            back,
+                        });
+                        let s = slot_ends.len() as u32;
+                        slot_node.push((self.arena.len() - 1) as u32);
+                        slot_ends.push((y1, y2));
+                        dead.push(false);
+                        attach(&mut head, &mut next, &mut incident_slot, y1, s);
+                        attach(&mut head, &mut next, &mut incident_slot, y2, s);
+                    }
+                }
+                _ => {}
+            }
+            degree[xi] = 0;
+        }
+        slot_node
+            .iter()
+            .zip(&dead)
+            .filter(|&(_, &d)| !d)
+            .map(|(&p, _)| p)
+            .collect()
+    }
+
+    /// The vertex sequence of a piece walked from its end `from`.
+    fn expand(&self, piece: u32, from: Vertex) -> Vec<Vertex> {
+        let mut out = vec![from];
+        let mut tasks = vec![(piece, from)];
+        while let Some((p, f)) = tasks.pop() {
+            let node = self.arena[p as usize];
+            if node.left == NONE {
+                out.push(node.other(f));
+                continue;
+            }
+            if f == node.a {
+                let mid = self.arena[node.left as usize].other(node.a);
+                tasks.push((node.right, mid));
+                tasks.push((node.left, node.a));
+            } else {
+                let mid = self.arena[node.right as usize].other(node.b);
+                tasks.push((node.left, mid));
+                tasks.push((node.right, node.b));
+            }
+        }
+        out
+    }
+
+    /// Turns the suppressed minimal non-planar graph into the certificate.
+    fn certificate(&self, pieces: &[u32], orig: &[u32]) -> Kuratowski {
+        let mut branch: Vec<Vertex> = pieces
+            .iter()
+            .flat_map(|&p| [self.arena[p as usize].a, self.arena[p as usize].b])
+            .map(|v| orig[v as usize])
+            .collect();
+        branch.sort_unstable();
+        branch.dedup();
+        let kind = if branch.len() == 5 {
+            KuratowskiKind::K5
+        } else {
+            KuratowskiKind::K33
+        };
+        if kind == KuratowskiKind::K33 {
+            // Two-colour the six branch vertices along the pieces; the side of the smallest first.
+            let index = |v: Vertex| branch.binary_search(&v).unwrap_or(0);
+            let mut colour = vec![u8::MAX; branch.len()];
+            colour[0] = 0;
+            for _ in 0..branch.len() {
+                for &p in pieces {
+                    let node = self.arena[p as usize];
+                    let (i, j) = (index(orig[node.a as usize]), index(orig[node.b as usize]));
+                    if colour[i] != u8::MAX && colour[j] == u8::MAX {
+                        colour[j] = 1 - colour[i];
+                    } else if colour[j] != u8::MAX && colour[i] == u8::MAX {
+                        colour[i] = 1 - colour[j];
+                    }
+                }
+            }
+            let mut sides: Vec<Vertex> = Vec::with_capacity(branch.len());
+            for c in [0u8, 1] {
+                sides.extend(
+                    branch
+                        .iter()
+                        .zip(&colour)
+                        .filter(|&(_, &k)| k == c)
+                        .map(|(&v, _)| v),
+                );
+            }
+            if sides.len() == branch.len() {
+                branch = sides;
+            }
+        }
+        let mut paths: Vec<Vec<Vertex>> = pieces
+            .iter()
+            .map(|&p| {
+                let node = self.arena[p as usize];
+                let mut path: Vec<Vertex> = self
+                    .expand(p, node.a)
+                    .into_iter()
+                    .map(|v| orig[v as usize])
+                    .collect();
+                if path.first() > path.last() {
+                    path.reverse();
+                }
+                path
+            })
+            .collect();
+        paths.sort_unstable();
+        let mut edges: Vec<(Vertex, Vertex)> = paths
+            .iter()
+            .flat_map(|path| path.windows(2).map(|w| (w[0].min(w[1]), w[0].max(w[1]))))
+            .collect();
+        edges.sort_unstable();
+        edges.dedup();
+        Kuratowski {
+            kind,
+            branch_vertices: branch,
+            paths,
+            edges,
+        }
+    }
+}

@@ -1,0 +1,740 @@
+//! The left-right planarity test and its embedding phase (Brandes 2009), iterative throughout.
+//!
+//! This follows U. Brandes, "The Left-Right Planarity Test" (2009): a first depth-first search
+//! orients the graph and computes lowpoints and nesting depths; a second one, visiting children in
+//! nesting order, merges conflict pairs of return-edge intervals on a stack; the embedding phase
+//! turns the resulting left/right sides into a rotation system. Both searches use explicit stacks
+//! so that graphs with millions of vertices (and depth-first trees just as deep) cannot overflow
+//! the call stack. Lowpoints and nesting depths are small integers, so adjacency lists are ordered
+//! by bucket sort, keeping the whole test linear.
+
+use super::{Embedding, Monitor, Phase, PlanarityError};
+use crate::engine::graph::{Graph, Vertex};
+
+const NONE: u32 = u32::MAX;
+
+#[derive(Clone, Copy, PartialEq, Eq)]
+pub(super) enum Mode {
+    /// Only the yes/no answer.
+    TestOnly,
+    /// Remember what is needed for an embedding or for isolating a Kuratowski subgraph.
+    Certify,
+}
+
+#[derive(Clone, Copy, PartialEq, Eq, Debug)]
+pub(super) enum Outcome {
+    Planar,
+    NonPlanar,
+}
+
+/// An interval of return edges, from `low` (lowest return point) to `high`, linked through `lref`.
+#[derive(Clone, Copy)]
+struct Interval {
+    low: u32,
+    high: u32,
+}
+
+impl Interval {
+    const EMPTY: Interval = Interval {
+        low: NONE,
+        high: NONE,
+    };
+    #[inline]
+    fn is_empty(&self) -> bool {
+        self.low == NONE && self.high == NONE
+    }
+}
+
+#[derive(Clone, Copy)]
+struct ConflictPair {
+    left: Interval,
+    right: Interval,
+}
+
+impl ConflictPair {
+    #[inline]
+    fn swap(&mut self) {
+        std::mem::swap(&mut self.left, &mut self.right);
+    }
+}
+
+/// What the test saw when it failed, in the test's internal vertex numbering (depth-first
+/// preorder, so every subtree is a contiguous range).
+pub(super) struct FailureClue {
+    /// `orig[v]` is the caller's label of internal vertex `v`.
+    pub orig: Vec<u32>,
+    /// Parent in the depth-first forest (`NONE` for roots).
+    pub parent: Vec<u32>,
+    /// Depth in the depth-first forest.
+    pub height: Vec<u32>,
+    /// The subtree of `v` is `v..subtree_end[v]`.
+    pub subtree_end: Vec<u32>,
+    /// Back edges in the order the testing search met them, as `(descendant, ancestor)`.
+    pub processed: Vec<(Vertex, Vertex)>,
+    /// `(start, a)`, smallest first: `processed[start..]` are the back edges met inside the
+    /// subtree of `a`, the failing vertex or one of its ancestors.
+    pub windows: Vec<(usize, Vertex)>,
+}
+
+pub(super) struct LrState<'g> {
+    g: &'g Graph,
+    n: usize,
+    m: usize,
+    /// Internal vertex numbers are depth-first preorder numbers; `orig[v]` is the caller's vertex.
+    /// Renumbering once makes subtrees contiguous, so the later phases mostly touch nearby memory
+    /// even when the caller's labels are shuffled.
+    orig: Vec<u32>,
+    /// Edges are numbered by source vertex, then nesting order: the outgoing edges of `v` are
+    /// exactly `out_offsets[v]..out_offsets[v + 1]`, already in the order the test visits them.
+    out_offsets: Vec<u32>,
+    dst: Vec<u32>,
+    height: Vec<u32>,
+    parent: Vec<u32>,
+    parent_edge: Vec<u32>,
+    lowpt: Vec<u32>,
+    nesting: Vec<u32>,
+    lref: Vec<u32>,
+    side: Vec<i8>,
+    lowpt_edge: Vec<u32>,
+    stack_bottom: Vec<u32>,
+    stack: Vec<ConflictPair>,
+    roots: Vec<Vertex>,
+    // failure bookkeeping (Certify mode only)
+    processed: Vec<(Vertex, Vertex)>,
+    entered_at: Vec<u32>,
+    failed_at: u32,
+}
+
+impl<'g> LrState<'g> {
+    pub(super) fn new(g: &'g Graph) -> Self {
+        LrState {
+            g,
+            n: g.vertex_count(),
+            m: g.edge_count(),
+            orig: Vec::new(),
+            out_offsets: Vec::new(),
+            dst: Vec::new(),
+            height: Vec::new(),
+            parent: Vec::new(),
+            parent_edge: Vec::new(),
+            lowpt: Vec::new(),
+            nesting: Vec::new(),
+            lref: Vec::new(),
+            side: Vec::new(),
+            lowpt_edge: Vec::new(),
+            stack_bottom: Vec::new(),
+            stack: Vec::new(),
+            roots: Vec::new(),
+            processed: Vec::new(),
+            entered_at: Vec::new(),
+            failed_at: NONE,
+        }
+    }
+
+    pub(super) fn run(
+        &mut self,
+        monitor: &mut Monitor<'_>,
+        mode: Mode,
+    ) -> Result<Outcome, PlanarityError> {
+        self.orient(monitor)?;
+        self.lref = vec![NONE; self.m];
+        self.side = vec![1; self.m];
+        self.lowpt_edge = vec![NONE; self.m];
+        self.stack_bottom = vec![0; self.m];
+        let record = mode == Mode::Certify;
+        if record {
+            self.entered_at = vec![0; self.n];
+        }
+        let mut pos: Vec<u32> = self.out_offsets[..self.n].to_vec();
+        for i in 0..self.roots.len() {
+            let root = self.roots[i];
+            if !self.test_from(root, &mut pos, record, monitor)? {
+                return Ok(Outcome::NonPlanar);
+            }
+        }
+        Ok(Outcome::Planar)
+    }
+
+    /// Phase one: depth-first orientation, lowpoints and nesting depths (Brandes 2009, Alg. 2),
+    /// on the caller's graph; then the renumbering into preorder and nesting order.
+    ///
+    /// An undirected depth-first search only produces tree edges and edges between a vertex and
+    /// an ancestor, so an edge to an already visited vertex is a new back edge exactly when that
+    /// vertex is higher up and is not the parent; from the other side it was already oriented.
+    fn orient(&mut self, monitor: &mut Monitor<'_>) -> Result<(), PlanarityError> {
+        let (offsets, targets) = self.g.csr();
+        let (n, m) = (self.n, self.m);
+        // Per edge, numbered in the order the search orients them; caller's vertex labels.
+        let mut src_o: Vec<u32> = Vec::with_capacity(m);
+        let mut dst_o: Vec<u32> = Vec::with_capacity(m);
+        let mut lowpt_o: Vec<u32> = Vec::with_capacity(m);
+        let mut lowpt2_o: Vec<u32> = Vec::with_capacity(m);
+        let mut nesting_o: Vec<u32> = vec![0; m];
+        let mut height_o = vec![NONE; n];
+        let mut parent_edge_o = vec![NONE; n];
+        let mut pre = vec![NONE; n];
+        let mut next_pre = 0u32;
+        let mut cursor: Vec<u32> = offsets[..n].to_vec();
+        let mut dfs: Vec<u32> = Vec::new();
+        // Nesting depth of `e` (leaving `v`) and the lowpoint update of `v`'s parent edge.
+        let finish = |v: usize,
+                      e: usize,
+                      height_o: &[u32],
+                      parent_edge_o: &[u32],
+                      lowpt_o: &mut [u32],
+                      lowpt2_o: &mut [u32],
+                      nesting_o: &mut [u32]| {
+            let hv = height_o[v];
+            nesting_o[e] = 2 * lowpt_o[e] + u32::from(lowpt2_o[e] < hv);
+            let p = parent_edge_o[v];
+            if p != NONE {
+                let p = p as usize;
+                let (le, l2e) = (lowpt_o[e], lowpt2_o[e]);
+                if le < lowpt_o[p] {
+                    lowpt2_o[p] = lowpt_o[p].min(l2e);
+                    lowpt_o[p] = le;
+                } else if le > lowpt_o[p] {
+                    lowpt2_o[p] = lowpt2_o[p].min(le);
+                } else {
+                    lowpt2_o[p] = lowpt2_o[p].min(l2e);
+                }
+            }
+        };
+        for s in 0..n {
+            if height_o[s] != NONE {
+                continue;
+            }
+            height_o[s] = 0;
+            pre[s] = next_pre;
+            self.roots.push(next_pre);
+            next_pre += 1;
+            dfs.push(s as u32);
+            while let Some(&v) = dfs.last() {
+                let vi = v as usize;
+                if cursor[vi] < offsets[vi + 1] {
+                    let h = cursor[vi];
+                    cursor[vi] += 1;
+                    let w = targets[h as usize];
+                    let hw = height_o[w as usize];
+                    let hv = height_o[vi];
+                    if hw == NONE {
+                        let e = src_o.len() as u32;
+                        src_o.push(v);
+                        dst_o.push(w);
+                        lowpt_o.push(hv);
+                        lowpt2_o.push(hv);
+                        parent_edge_o[w as usize] = e;
+                        height_o[w as usize] = hv + 1;
+                        pre[w as usize] = next_pre;
+                        next_pre += 1;
+                        dfs.push(w);
+                        monitor.step(Phase::Orientation, u64::from(next_pre), n as u64)?;
+                    } else if hw < hv
+                        && (parent_edge_o[vi] == NONE || src_o[parent_edge_o[vi] as usize] != w)
+                    {
+                        let e = src_o.len();
+                        src_o.push(v);
+                        dst_o.push(w);
+                        lowpt_o.push(hw);
+                        lowpt2_o.push(hv);
+                        finish(
+                            vi,
+                            e,
+                            &height_o,
+                            &parent_edge_o,
+                            &mut lowpt_o,
+                            &mut lowpt2_o,
+                            &mut nesting_o,
+                        );
+                    }
+                } else {
+                    dfs.pop();
+                    let e = parent_edge_o[vi];
+                    if e != NONE {
+                        let u = src_o[e as usize] as usize;
+                        finish(
+                            u,
+                            e as usize,
+                            &height_o,
+                            &parent_edge_o,
+                            &mut lowpt_o,
+                            &mut lowpt2_o,
+                            &mut nesting_o,
+                        );
+                    }
+                }
+            }
+        }
+        debug_assert_eq!(src_o.len(), m);
+        drop(cursor);
+        drop(lowpt2_o);
+        // Renumber: vertices by preorder, edges by (source, nesting depth) through one global
+        // bucket sort on nesting depth followed by a stable distribution by source.
+        let mut out_offsets = vec![0u32; n + 1];
+        for &s in &src_o {
+            out_offsets[pre[s as usize] as usize + 1] += 1;
+        }
+        for v in 0..n {
+            out_offsets[v + 1] += out_offsets[v];
+        }
+        let key_count = 2 * n + 2;
+        let mut bucket = vec![0u32; key_count + 1];
+        for &d in &nesting_o {
+            bucket[d as usize + 1] += 1;
+        }
+        for k in 1..bucket.len() {
+            bucket[k] += bucket[k - 1];
+        }
+        let mut by_key = vec![0u32; m];
+        for (e, &d) in nesting_o.iter().enumerate() {
+            by_key[bucket[d as usize] as usize] = e as u32;
+            bucket[d as usize] += 1;
+        }
+        drop(bucket);
+        let mut fill = out_offsets.clone();
+        let mut new_id = vec![0u32; m];
+        for &e in &by_key {
+            let s = pre[src_o[e as usize] as usize] as usize;
+            new_id[e as usize] = fill[s];
+            fill[s] += 1;
+        }
+        drop(by_key);
+        drop(fill);
+        let mut dst = vec![0u32; m];
+        let mut lowpt = vec![0u32; m];
+        let mut nesting = vec![0u32; m];
+        for e in 0..m {
+            let k = new_id[e] as usize;
+            dst[k] = pre[dst_o[e] as usize];
+            lowpt[k] = lowpt_o[e];
+            nesting[k] = nesting_o[e];
+        }
+        drop((dst_o, lowpt_o, nesting_o));
+        let mut orig = vec![0u32; n];
+        let mut height = vec![0u32; n];
+        let mut parent = vec![NONE; n];
+        let mut parent_edge = vec![NONE; n];
+        for v in 0..n {
+            let p = pre[v] as usize;
+            orig[p] = v as u32;
+            height[p] = height_o[v];
+            let e = parent_edge_o[v];
+            if e != NONE {
+                parent_edge[p] = new_id[e as usize];
+                parent[p] = pre[src_o[e as usize] as usize];
+            }
+        }
+        self.orig = orig;
+        self.out_offsets = out_offsets;
+        self.dst = dst;
+        self.height = height;
+        self.parent = parent;
+        self.parent_edge = parent_edge;
+        self.lowpt = lowpt;
+        self.nesting = nesting;
+        Ok(())
+    }
+
+    #[inline]
+    fn lowpt_of(&self, e: u32) -> u32 {
+        self.lowpt[e as usize]
+    }
+
+    #[inline]
+    fn conflicting(&self, i: Interval, b: u32) -> bool {
+        !i.is_empty() && self.lowpt_of(i.high) > self.lowpt_of(b)
+    }
+
+    #[inline]
+    fn lowest(&self, p: &ConflictPair) -> u32 {
+        if p.left.is_empty() {
+            return self.lowpt_of(p.right.low);
+        }
+        if p.right.is_empty() {
+            return self.lowpt_of(p.left.low);
+        }
+        self.lowpt_of(p.left.low).min(self.lowpt_of(p.right.low))
+    }
+
+    /// Phase two from one root (Brandes 2009, Alg. 3-5). Returns false when a constraint fails.
+    fn test_from(
+        &mut self,
+        root: Vertex,
+        pos: &mut [u32],
+        record: bool,
+        monitor: &mut Monitor<'_>,
+    ) -> Result<bool, PlanarityError> {
+        let n = self.n as u64;
+        let mut dfs: Vec<u32> = vec![root];
+        if record {
+            self.entered_at[root as usize] = self.processed.len() as u32;
+        }
+        let mut visited = 0u64;
+        while let Some(&v) = dfs.last() {
+            let vi = v as usize;
+            if pos[vi] < self.out_offsets[vi + 1] {
+                let ei = pos[vi];
+                pos[vi] += 1;
+                let w = self.dst[ei as usize];
+                self.stack_bottom[ei as usize] = self.stack.len() as u32;
+                if self.parent_edge[w as usize] == ei {
+                    if record {
+                        self.entered_at[w as usize] = self.processed.len() as u32;
+                    }
+                    dfs.push(w);
+                    visited += 1;
+                    monitor.step(Phase::Testing, visited, n)?;
+                    continue;
+                }
+                self.lowpt_edge[ei as usize] = ei;
+                self.stack.push(ConflictPair {
+                    left: Interval::EMPTY,
+                    right: Interval { low: ei, high: ei },
+                });
+                if record {
+                    self.processed.push((v, w));
+                }
+                if !self.integrate(v, ei) {
+                    self.failed_at = v;
+                    return Ok(false);
+                }
+            } else {
+                dfs.pop();
+                let e = self.parent_edge[vi];
+                if e == NONE {
+                    continue;
+                }
+                let u = self.parent[vi];
+                self.trim_back_edges(u);
+                // The side of `e` follows a highest return edge.
+                if self.lowpt_of(e) < self.height[u as usize]
+                    && let Some(top) = self.stack.last()
+                {
+                    let (hl, hr) = (top.left.high, top.right.high);
+                    self.lref[e as usize] =
+                        if hl != NONE && (hr == NONE || self.lowpt_of(hl) > self.lowpt_of(hr)) {
+                            hl
+                        } else {
+                            hr
+                        };
+                }
+                if !self.integrate(u, e) {
+                    self.failed_at = u;
+                    return Ok(false);
+                }
+            }
+        }
+        Ok(true)
+    }
+
+    /// Integrates the return edges of `ei` (leaving `v`) into the constraints of `v`'s parent edge.
+    #[inline]
+    fn integrate(&mut self, v: Vertex, ei: u32) -> bool {
+        let vi = v as usize;
+        if self.lowpt_of(ei) < self.height[vi] {
+            let e = self.parent_edge[vi];
+            if self.out_offsets[vi] == ei {
+                if e != NONE {
+                    self.lowpt_edge[e as usize] = self.lowpt_edge[ei as usize];
+                }
+            } else if !self.add_constraints(ei, e) {
+                return false;
+            }
+        }
+        true
+    }
+
+    fn add_constraints(&mut self, ei: u32, e: u32) -> bool {
+        let mut p = ConflictPair {
+            left: Interval::EMPTY,
+            right: Interval::EMPTY,
+        };
+        let bottom = self.stack_bottom[ei as usize] as usize;
+        // Merge the return edges of `ei` into p.right.
+        while let Some(mut q) = self.stack.pop() {
+            if !q.left.is_empty() {
+                q.swap();
+            }
+            if !q.left.is_empty() {
+                return false;
+            }
+            if self.lowpt_of(q.right.low) > self.lowpt_of(e) {
+                if p.right.is_empty() {
+                    p.right = q.right;
+                } else {
+                    self.lref[p.right.low as usize] = q.right.high;
+                }
+                p.right.low = q.right.low;
+            } else {
+                self.lref[q.right.low as usize] = self.lowpt_edge[e as usize];
+            }
+            if self.stack.len() == bottom {
+                break;
+            }
+        }
+        // Merge the conflicting return edges of earlier siblings into p.left.
+        while let Some(top) = self.stack.last() {
+            if !(self.conflicting(top.left, ei) || self.conflicting(top.right, ei)) {
+                break;
+            }
+            let mut q = self.stack.pop().unwrap_or(ConflictPair {
+                left: Interval::EMPTY,
+                right: Interval::EMPTY,
+            });
+            if self.conflicting(q.right, ei) {
+                q.swap();
+            }
+            if self.conflicting(q.right, ei) {
+                return false;
+            }
+            if p.right.low != NONE {
+                self.lref[p.right.low as usize] = q.right.high;
+            }
+            if q.right.low != NONE {
+                p.right.low = q.right.low;
+            }
+            if p.left.is_empty() {
+                p.left = q.left;
+            } else if p.left.low != NONE {
+                self.lref[p.left.low as usize] = q.left.high;
+            }
+            p.left.low = q.left.low;
+        }
+        if !(p.left.is_empty() && p.right.is_empty()) {
+            self.stack.push(p);
+        }
+        true
+    }
+
+    /// Drops return edges that end at `u` from the top of the stack.
+    fn trim_back_edges(&mut self, u: Vertex) {
+        let hu = self.height[u as usize];
+        while let Some(top) = self.stack.last() {
+            if self.lowest(top) != hu {
+                break;
+            }
+            let p = self.stack.pop().unwrap_or(ConflictPair {
+                left: Interval::EMPTY,
+                right: Interval::EMPTY,
+            });
+            if p.left.low != NONE {
+                self.side[p.left.low as usize] = -1;
+            }
+        }
+        let Some(mut p) = self.stack.pop() else {
+            return;
+        };
+        while p.left.high != NONE && self.dst[p.left.high as usize] == u {
+            p.left.high = self.lref[p.left.high as usize];
+        }
+        if p.left.high == NONE && p.left.low != NONE {
+            self.lref[p.left.low as usize] = p.right.low;
+            self.side[p.left.low as usize] = -1;
+            p.left.low = NONE;
+        }
+        while p.right.high != NONE && self.dst[p.right.high as usize] == u {
+            p.right.high = self.lref[p.right.high as usize];
+        }
+        if p.right.high == NONE && p.right.low != NONE {
+            self.lref[p.right.low as usize] = p.left.low;
+            self.side[p.right.low as usize] = -1;
+            p.right.low = NONE;
+        }
+        self.stack.push(p);
+    }
+
+    /// What the Kuratowski isolation needs after a failed run in `Certify` mode.
+    pub(super) fn failure_clue(&mut self) -> FailureClue {
+        let n = self.n;
+        // Preorder numbering: a reverse sweep accumulates subtree sizes.
+        let mut subtree_end: Vec<u32> = (1..=n as u32).collect();
+        for v in (0..n).rev() {
+            let p = self.parent[v];
+            if p != NONE {
+                subtree_end[p as usize] = subtree_end[p as usize].max(subtree_end[v]);
+            }
+        }
+        let processed = std::mem::take(&mut self.processed);
+        let mut windows = Vec::new();
+        if self.failed_at != NONE && !self.entered_at.is_empty() {
+            // The failing vertex's subtree, then ancestors whose windows grow eightfold each time.
+            let total = processed.len();
+            let mut v = self.failed_at;
+            let mut last_size = 0usize;
+            loop {
+                let start = self.entered_at[v as usize] as usize;
+                let size = total - start + (subtree_end[v as usize] - v) as usize;
+                let p = self.parent[v as usize];
+                if windows.is_empty() || size >= 8 * last_size.max(1) || p == NONE {
+                    windows.push((start, v));
+                    last_size = size;
+                }
+                if p == NONE {
+                    break;
+                }
+                v = p;
+            }
+        }
+        FailureClue {
+            orig: std::mem::take(&mut self.orig),
+            parent: std::mem::take(&mut self.parent),
+            height: std::mem::take(&mut self.height),
+            subtree_end,
+            processed,
+            windows,
+        }
+    }
+
+    /// Phase three: the sides of all edges, the final nesting order and the rotation system
+    /// (Brandes 2009, Alg. 6-7).
+    pub(super) fn embedding(
+        &mut self,
+        monitor: &mut Monitor<'_>,
+    ) -> Result<Embedding, PlanarityError> {
+        let (n, m) = (self.n, self.m);
+        // Resolve each edge's side by following its reference chain once.
+        let mut chain: Vec<u32> = Vec::new();
+        for e in 0..m as u32 {
+            let mut x = e;
+            while self.lref[x as usize] != NONE {
+                chain.push(x);
+                x = self.lref[x as usize];
+            }
+            while let Some(y) = chain.pop() {
+                let r = self.lref[y as usize];
+                self.side[y as usize] *= self.side[r as usize];
+                self.lref[y as usize] = NONE;
+            }
+            monitor.step(Phase::Embedding, u64::from(e), 2 * m as u64)?;
+        }
+        // Re-sort every vertex's outgoing edges by signed nesting depth: a global bucket sort,
+        // then a stable distribution into each vertex's range.
+        let base = 2 * n + 1;
+        let mut src = vec![0u32; m];
+        for v in 0..n {
+            for e in self.out_offsets[v]..self.out_offsets[v + 1] {
+                src[e as usize] = v as u32;
+            }
+        }
+        let key = |e: usize| -> usize {
+            let d = self.nesting[e] as usize;
+            if self.side[e] > 0 { base + d } else { base - d }
+        };
+        let mut bucket = vec![0u32; 2 * base + 2];
+        for e in 0..m {
+            bucket[key(e) + 1] += 1;
+        }
+        for k in 1..bucket.len() {
+            bucket[k] += bucket[k - 1];
+        }
+        let mut by_key = vec![0u32; m];
+        for e in 0..m {
+            let k = key(e);
+            by_key[bucket[k] as usize] = e as u32;
+            bucket[k] += 1;
+        }
+        drop(bucket);
+        let mut order = vec![0u32; m];
+        let mut fill: Vec<u32> = self.out_offsets[..n].to_vec();
+        for &e in &by_key {
+            let v = src[e as usize] as usize;
+            order[fill[v] as usize] = e;
+            fill[v] += 1;
+        }
+        drop(by_key);
+        drop(fill);
+
+        // Half-edges: 2e leaves the source of e, 2e + 1 leaves its target.
+        let halves = 2 * m;
+        let mut cw = vec![NONE; halves];
+        let mut ccw = vec![NONE; halves];
+        let mut first = vec![NONE; n];
+        for v in 0..n {
+            let mut previous = NONE;
+            for k in self.out_offsets[v]..self.out_offsets[v + 1] {
+                let h = 2 * order[k as usize];
+                if previous == NONE {
+                    first[v] = h;
+                } else {
+                    cw[previous as usize] = h;
+                    ccw[h as usize] = previous;
+                }
+                previous = h;
+            }
+            if previous != NONE {
+                cw[previous as usize] = first[v];
+                ccw[first[v] as usize] = previous;
+            }
+        }
+        let insert_after = |cw: &mut Vec<u32>, ccw: &mut Vec<u32>, reference: u32, h: u32| {
+            let next = cw[reference as usize];
+            cw[reference as usize] = h;
+            ccw[h as usize] = reference;
+            cw[h as usize] = next;
+            ccw[next as usize] = h;
+        };
+        let mut left_ref = vec![NONE; n];
+        let mut right_ref = vec![NONE; n];
+        let mut pos: Vec<u32> = self.out_offsets[..n].to_vec();
+        let mut dfs: Vec<u32> = Vec::new();
+        let mut visited = 0u64;
+        for i in 0..self.roots.len() {
+            dfs.push(self.roots[i]);
+            while let Some(&v) = dfs.last() {
+                let vi = v as usize;
+                if pos[vi] >= self.out_offsets[vi + 1] {
+                    dfs.pop();
+                    continue;
+                }
+                let ei = order[pos[vi] as usize] as usize;
+                pos[vi] += 1;
+                let w = self.dst[ei] as usize;
+                let h_out = 2 * ei as u32;
+                let h_in = h_out + 1;
+                if self.parent_edge[w] == ei as u32 {
+                    // The parent becomes the first neighbour of w, just before its children.
+                    if first[w] == NONE {
+                        cw[h_in as usize] = h_in;
+                        ccw[h_in as usize] = h_in;
+                    } else {
+                        let before = ccw[first[w] as usize];
+                        insert_after(&mut cw, &mut ccw, before, h_in);
+                    }
+                    first[w] = h_in;
+                    left_ref[vi] = h_out;
+                    right_ref[vi] = h_out;
+                    dfs.push(w as u32);
+                    visited += 1;
+                    monitor.step(Phase::Embedding, m as u64 + visited, 2 * m as u64)?;
+                } else if self.side[ei] == 1 {
+                    insert_after(&mut cw, &mut ccw, right_ref[w], h_in);
+                } else {
+                    let before = ccw[left_ref[w] as usize];
+                    insert_after(&mut cw, &mut ccw, before, h_in);
+                    left_ref[w] = h_in;
+                }
+            }
+        }
+        drop(order);
+        // Read the rotation lists out of the linked lists, in the caller's labels.
+        let (offsets, _) = self.g.csr();
+        let mut rotation = vec![0u32; 2 * m];
+        #[allow(clippy::needless_range_loop)]
+        for v in 0..n {
+            let o = self.orig[v] as usize;
+            let (lo, hi) = (offsets[o] as usize, offsets[o + 1] as usize);
+            if lo == hi {
+                continue;
+            }
+            let mut h = first[v];
+            for slot in rotation[lo..hi].iter_mut() {
+                let e = (h / 2) as usize;
+                let other = if h % 2 == 0 { self.dst[e] } else { src[e] };
+                *slot = self.orig[other as usize];
+                h = cw[h as usize];
+            }
+            debug_assert_eq!(h, first[v]);
+        }
+        Ok(Embedding::from_parts(offsets.to_vec(), rotation))
+    }
+}

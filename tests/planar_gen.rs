@@ -1,0 +1,153 @@
+//! Seeded generators of planar and non-planar test graphs, shared by the tests and the benchmark.
+#![allow(dead_code)]
+
+use std::collections::{HashMap, HashSet};
+
+/// SplitMix64 (S. Vigna, public-domain reference code): small, fast and reproducible.
+pub struct Rng(u64);
+
+impl Rng {
+    pub fn new(seed: u64) -> Rng {
+        Rng(seed)
+    }
+    pub fn next_u64(&mut self) -> u64 {
+        self.0 = self.0.wrapping_add(0x9e37_79b9_7f4a_7c15);
+        let mut z = self.0;
+        z = (z ^ (z >> 30)).wrapping_mul(0xbf58_476d_1ce4_e5b9);
+        z = (z ^ (z >> 27)).wrapping_mul(0x94d0_49bb_1331_11eb);
+        z ^ (z >> 31)
+    }
+    /// Uniform in `0..bound` (bound > 0); the tiny modulo bias does not matter here.
+    pub fn below(&mut self, bound: u64) -> u64 {
+        self.next_u64() % bound
+    }
+}
+
+/// A random maximal planar graph (triangulation) on `n >= 3` vertices: vertices are inserted one
+/// at a time into a random triangular face (which alone gives an Apollonian network), then
+/// `flips` random edge flips make the degrees less regular. Every step keeps a plane
+/// triangulation, so the result has exactly 3n - 6 edges.
+pub fn random_triangulation(n: usize, flips: usize, rng: &mut Rng) -> Vec<(u32, u32)> {
+    assert!(n >= 3);
+    // Faces are oriented triples; `face_of[(a, b)]` is the face containing the dart a -> b.
+    let mut faces: Vec<[u32; 3]> = vec![[0, 1, 2], [0, 2, 1]];
+    let mut face_of: HashMap<(u32, u32), usize> = HashMap::with_capacity(6 * n);
+    let register = |face_of: &mut HashMap<(u32, u32), usize>, f: usize, t: [u32; 3]| {
+        face_of.insert((t[0], t[1]), f);
+        face_of.insert((t[1], t[2]), f);
+        face_of.insert((t[2], t[0]), f);
+    };
+    register(&mut face_of, 0, faces[0]);
+    register(&mut face_of, 1, faces[1]);
+    for v in 3..n as u32 {
+        let f = rng.below(faces.len() as u64) as usize;
+        let [a, b, c] = faces[f];
+        let t0 = [a, b, v];
+        let t1 = [b, c, v];
+        let t2 = [c, a, v];
+        faces[f] = t0;
+        faces.push(t1);
+        faces.push(t2);
+        let (f1, f2) = (faces.len() - 2, faces.len() - 1);
+        register(&mut face_of, f, t0);
+        register(&mut face_of, f1, t1);
+        register(&mut face_of, f2, t2);
+    }
+    let mut edges: Vec<(u32, u32)> = face_of.keys().filter(|&&(a, b)| a < b).copied().collect();
+    edges.sort_unstable();
+    for _ in 0..flips {
+        let (a, b) = edges[rng.below(edges.len() as u64) as usize];
+        let (Some(&f1), Some(&f2)) = (face_of.get(&(a, b)), face_of.get(&(b, a))) else {
+            continue;
+        };
+        let third = |t: [u32; 3]| t.into_iter().find(|&x| x != a && x != b).unwrap();
+        let (c, d) = (third(faces[f1]), third(faces[f2]));
+        if c == d || face_of.contains_key(&(c, d)) {
+            continue;
+        }
+        // Quadrilateral a -> d -> b -> c -> a; replace diagonal a-b by c-d.
+        face_of.remove(&(a, b));
+        face_of.remove(&(b, a));
+        let t1 = [a, d, c];
+        let t2 = [d, b, c];
+        faces[f1] = t1;
+        faces[f2] = t2;
+        register(&mut face_of, f1, t1);
+        register(&mut face_of, f2, t2);
+    }
+    let mut edges: Vec<(u32, u32)> = face_of.keys().filter(|&&(a, b)| a < b).copied().collect();
+    edges.sort_unstable();
+    edges
+}
+
+/// A random permutation of `0..n` (Fisher-Yates).
+pub fn permutation(n: usize, rng: &mut Rng) -> Vec<u32> {
+    let mut p: Vec<u32> = (0..n as u32).collect();
+    for i in (1..n).rev() {
+        let j = rng.below(i as u64 + 1) as usize;
+        p.swap(i, j);
+    }
+    p
+}
+
+/// Renames every vertex `v` to `p[v]` and shuffles the edge order.
+pub fn relabel(edges: &[(u32, u32)], p: &[u32], rng: &mut Rng) -> Vec<(u32, u32)> {
+    let mut out: Vec<(u32, u32)> = edges
+        .iter()
+        .map(|&(a, b)| (p[a as usize], p[b as usize]))
+        .collect();
+    for i in (1..out.len()).rev() {
+        let j = rng.below(i as u64 + 1) as usize;
+        out.swap(i, j);
+    }
+    out
+}
+
+/// A pair of distinct vertices that is not an edge yet.
+pub fn random_non_edge(n: usize, edges: &[(u32, u32)], rng: &mut Rng) -> (u32, u32) {
+    let present: HashSet<(u32, u32)> = edges.iter().map(|&(a, b)| (a.min(b), a.max(b))).collect();
+    loop {
+        let a = rng.below(n as u64) as u32;
+        let b = rng.below(n as u64) as u32;
+        if a != b && !present.contains(&(a.min(b), a.max(b))) {
+            return (a.min(b), a.max(b));
+        }
+    }
+}
+
+/// Removes one random edge and adds one random non-edge (other than the removed one).
+pub fn move_one_edge(n: usize, edges: &[(u32, u32)], rng: &mut Rng) -> Vec<(u32, u32)> {
+    let mut out = edges.to_vec();
+    let i = rng.below(out.len() as u64) as usize;
+    let removed = out.swap_remove(i);
+    loop {
+        let e = random_non_edge(n, &out, rng);
+        if e != (removed.0.min(removed.1), removed.0.max(removed.1)) {
+            out.push(e);
+            return out;
+        }
+    }
+}
+
+/// Replaces every edge by a path with 0..=max_extra new inner vertices; returns the new vertex
+/// count and edges.
+pub fn subdivide(
+    n: usize,
+    edges: &[(u32, u32)],
+    max_extra: u64,
+    rng: &mut Rng,
+) -> (usize, Vec<(u32, u32)>) {
+    let mut next = n as u32;
+    let mut out = Vec::new();
+    for &(a, b) in edges {
+        let extra = rng.below(max_extra + 1);
+        let mut previous = a;
+        for _ in 0..extra {
+            out.push((previous, next));
+            previous = next;
+            next += 1;
+        }
+        out.push((previous, b));
+    }
+    (next as usize, out)
+}

@@ -1213,3 +1213,25 @@ proptest! {
         let _ = geo::import_path(&dir.path().join("d.shp"), &ImportOptions::default());
     }
 }
+
+#[test]
+fn real_data_quirks_are_reported() {
+    // us-atlas: Oregon's ring has a spike at the California-Nevada-Oregon tripoint; shapely 2.2.0
+    // explain_validity says "Self-intersection[-119.999364 41.994196]" (PROVENANCE.md).
+    for file in ["us_states_subset.geojson", "us_states_subset.topojson"] {
+        let map = geo::import_path(&data(file), &options(Rule::Rook)).unwrap();
+        let oregon = map.region_named("Oregon").unwrap();
+        let selfx: Vec<_> = map
+            .diagnostics_of(DiagnosticKind::SelfIntersection)
+            .collect();
+        assert_eq!(selfx.len(), 1, "{file}: {:?}", map.diagnostics);
+        assert_eq!(selfx[0].regions, vec![oregon]);
+    }
+    // world-atlas 110m: North Korea's ring [47, 47, 47] over a zero-length arc is degenerate.
+    let map = geo::import_path(&data("world_subset.topojson"), &options(Rule::Rook)).unwrap();
+    let nk = map.region_named("North Korea").unwrap();
+    let degenerate: Vec<_> = map.diagnostics_of(DiagnosticKind::DegenerateRing).collect();
+    assert_eq!(degenerate.len(), 1);
+    assert_eq!(degenerate[0].regions, vec![nk]);
+    assert_eq!(map.regions[nk].parts.len(), 1);
+}

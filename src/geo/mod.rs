@@ -28,7 +28,8 @@
 //!   measuring under twice the tolerance (plus 1e-6 of the diagonal) are corner contacts.
 //!   For longitude/latitude data lengths are great-circle lengths on the sphere.
 //! * **TopoJSON**: borders come from the topology itself: two regions whose rings use the same
-//!   arc share its length; regions whose arcs end at a common node touch there.
+//!   arc share its length; regions whose arcs end at a common node touch there. The tolerance
+//!   then applies only to the geometric diagnostics (gaps, overlaps).
 //! * **Projection**: longitude/latitude data (GeoJSON per RFC 7946; Shapefile with a `GEOGCS`
 //!   .prj; otherwise detected from the coordinate range) is projected to metres with the Lambert
 //!   azimuthal equal-area projection centred on the data (see [`project`]); data crossing the

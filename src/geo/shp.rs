@@ -33,7 +33,11 @@ pub(super) fn read_path(path: &Path, mode: CoordinateMode) -> Result<RawMap, Imp
     let mut records: Vec<Option<dbase::Record>> = Vec::new();
     let dbf = path.with_extension("dbf");
     if dbf.exists() {
-        let mut table = dbase::Reader::from_path(&dbf).map_err(|e| shp_error(&dbf, e))?;
+        // Lossy decoding: a name in a legacy code page should not stop the import.
+        let mut table = dbase::ReaderBuilder::new()
+            .with_encoding(dbase::encoding::UnicodeLossy)
+            .open(&dbf)
+            .map_err(|e| shp_error(&dbf, e))?;
         raw.field_names = table
             .fields()
             .iter()

@@ -307,7 +307,8 @@ pub(super) fn borders_from_arcs(
                 kind: DiagnosticKind::Overlap,
                 regions: u.clone(),
                 message: format!(
-                    "arc {arc} is used by {} regions ({}); a boundary line belongs to at most two",
+                    "arc {arc} is used by {} regions ({}); a boundary line belongs to at most two \
+                     (a spike in one ring, or overlapping regions)",
                     u.len(),
                     u.iter()
                         .map(|&r| format!("{:?}", regions[r].name))

@@ -7,6 +7,7 @@ use std::time::{Duration, Instant};
 use crate::doc::{
     self, ColouringCheck, ConstraintGraph, Document, Edit, GroupId, History, RegionId, RuleConflict,
 };
+use crate::worker::analysis::{self, Analysis};
 use crate::worker::{Event, JobKind, Worker};
 
 use super::commands::{Command, Tool};
@@ -82,9 +83,20 @@ impl Checks {
 pub enum JobResult {
     Loaded {
         path: PathBuf,
-        result: Result<(Document, Vec<String>), String>,
+        result: Result<Box<(Document, Vec<String>)>, String>,
     },
+    Analysed(Box<Analysis>),
 }
+
+/// Which certificate the map highlights.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Highlight {
+    /// The regions whose borders cannot be drawn flat (a Kuratowski subdivision).
+    NotPlanar,
+}
+
+/// How long the document must rest after an edit before the background analysis starts.
+pub const ANALYSIS_DEBOUNCE: Duration = Duration::from_millis(250);
 
 /// How serious a message in the status area is.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -136,6 +148,7 @@ pub struct ViewState {
     pub name_draft: Option<(RegionId, String)>,
     /// A marker being dragged: its region and the drag offset in world units so far.
     pub dragging: Option<(RegionId, [f64; 2])>,
+    pub highlight: Option<Highlight>,
 }
 
 impl Default for ViewState {
@@ -154,6 +167,7 @@ impl Default for ViewState {
             region_filter: String::new(),
             name_draft: None,
             dragging: None,
+            highlight: None,
         }
     }
 }
@@ -169,6 +183,13 @@ pub struct App {
     /// A command waiting for the user to decide about unsaved changes.
     pub confirm_discard: Option<Command>,
     pub command_search: Option<String>,
+    /// The latest background analysis (possibly for an older revision: then it is shown as stale).
+    pub analysis: Option<Analysis>,
+    /// The revision the latest analysis job was started for.
+    analysis_requested: Option<u64>,
+    /// When the document last changed (for the debounce).
+    changed_at: Instant,
+    seen_revision: u64,
     worker: Option<Worker<JobResult>>,
     /// Paths chosen in a system file dialog, delivered from its thread.
     dialog_results: std::sync::mpsc::Receiver<(PathPurpose, Option<PathBuf>)>,
@@ -197,6 +218,10 @@ impl App {
             path_prompt: None,
             confirm_discard: None,
             command_search: None,
+            analysis: None,
+            analysis_requested: None,
+            changed_at: Instant::now(),
+            seen_revision: u64::MAX,
             worker,
             dialog_results,
             dialog_sender,
@@ -238,7 +263,7 @@ impl App {
         let job_path = path.clone();
         let job = move || {
             let result = crate::formats::load(&job_path)
-                .map(|l| (l.doc, l.notices.into_iter().map(|n| n.message).collect()))
+                .map(|l| Box::new((l.doc, l.notices.into_iter().map(|n| n.message).collect())))
                 .map_err(|e| format!("{e:#}"));
             JobResult::Loaded {
                 path: job_path,
@@ -261,10 +286,10 @@ impl App {
         match result {
             JobResult::Loaded {
                 path,
-                result: Ok((doc, notices)),
+                result: Ok(loaded),
             } => {
-                self.session = Session::new(doc, Some(path.clone()));
-                self.view = ViewState::default();
+                let (doc, notices) = *loaded;
+                self.replace_session(Session::new(doc, Some(path.clone())));
                 self.say(Level::Info, format!("Opened {}", path.display()));
                 for n in notices {
                     self.say(Level::Warning, n);
@@ -279,6 +304,70 @@ impl App {
                     Level::Error,
                     format!("Could not open {}: {e}", path.display()),
                 );
+            }
+            JobResult::Analysed(a) => self.analysis = Some(*a),
+        }
+    }
+
+    /// Puts another document in front of the user. Everything derived from the old one goes:
+    /// revisions restart with each document, so nothing keyed by revision may survive.
+    fn replace_session(&mut self, session: Session) {
+        if let Some(w) = &mut self.worker {
+            w.cancel(JobKind::Analysis);
+        }
+        self.session = session;
+        self.view = ViewState::default();
+        self.checks = Checks::of(&self.session.doc);
+        self.analysis = None;
+        self.analysis_requested = None;
+        self.seen_revision = u64::MAX;
+    }
+
+    /// True when the analysis on show was computed for an older revision of the document.
+    pub fn analysis_is_stale(&self) -> bool {
+        self.analysis
+            .as_ref()
+            .is_none_or(|a| a.revision != self.session.doc.revision())
+    }
+
+    /// The running analysis, if any: its stage and fraction done.
+    pub fn analysis_progress(&self) -> Option<(String, f64)> {
+        self.worker
+            .as_ref()
+            .and_then(|w| w.busy(JobKind::Analysis))
+            .map(|(_, p)| p)
+    }
+
+    /// Stops the running analysis.
+    pub fn cancel_analysis(&mut self) {
+        if let Some(w) = &mut self.worker {
+            w.cancel(JobKind::Analysis);
+            self.say(
+                Level::Info,
+                "Analysis cancelled; it starts again after the next change",
+            );
+        }
+    }
+
+    /// Starts an analysis of the current revision (on the worker, or here when there is none).
+    pub fn start_analysis(&mut self) {
+        let revision = self.session.doc.revision();
+        self.analysis_requested = Some(revision);
+        let snapshot = crate::worker::snapshot(&self.session.doc);
+        match &mut self.worker {
+            Some(w) => w.submit(
+                revision,
+                JobKind::Analysis,
+                Box::new(move |ctx| {
+                    JobResult::Analysed(Box::new(analysis::analyse(&snapshot, ctx)))
+                }),
+            ),
+            None => {
+                let ctx = crate::worker::JobContext {
+                    cancel: Default::default(),
+                    progress: Default::default(),
+                };
+                self.analysis = Some(analysis::analyse(&snapshot, &ctx));
             }
         }
     }
@@ -352,6 +441,19 @@ impl App {
         if self.checks.revision != self.session.doc.revision() {
             self.checks = Checks::of(&self.session.doc);
         }
+        let revision = self.session.doc.revision();
+        if revision != self.seen_revision {
+            self.seen_revision = revision;
+            self.changed_at = Instant::now();
+        }
+        if self.analysis_requested != Some(revision) {
+            let rest = self.changed_at.elapsed();
+            if rest >= ANALYSIS_DEBOUNCE || self.worker.is_none() {
+                self.start_analysis();
+            } else {
+                ctx.request_repaint_after(ANALYSIS_DEBOUNCE - rest);
+            }
+        }
         self.meshes.sync(&self.session.doc);
         let title = self.session.title();
         if title != self.last_title {
@@ -420,10 +522,7 @@ impl App {
         }
         self.confirm_discard = None;
         match command {
-            Command::New => {
-                self.session = Session::new(Document::new("Untitled"), None);
-                self.view = ViewState::default();
-            }
+            Command::New => self.replace_session(Session::new(Document::new("Untitled"), None)),
             Command::Open => {
                 self.path_prompt = Some(PathPrompt {
                     purpose: PathPurpose::Open,

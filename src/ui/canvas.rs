@@ -7,9 +7,10 @@ use egui::{Align2, Color32, FontId, Pos2, Sense, Stroke};
 
 use crate::doc::{BorderKind, Document, Edit, Region, RegionChange, RegionId, RegionPair, Role};
 
-use super::app::App;
+use super::app::{App, Highlight};
 use super::commands::Tool;
 use super::view::{Camera, hit_test, outline_bounds};
+use crate::worker::analysis::PlanarityVerdict;
 
 /// Colours of the canvas (our own choices: quiet neutrals, with strong colours kept for warnings).
 pub mod style {
@@ -26,6 +27,7 @@ pub mod style {
     pub const LINK_SUPPRESSED: Color32 = Color32::from_rgb(0xb0, 0xb0, 0xb0);
     pub const GROUP: Color32 = Color32::from_rgb(0x6b, 0x2f, 0x9e);
     pub const LABEL: Color32 = Color32::from_rgb(0x22, 0x22, 0x22);
+    pub const CERTIFICATE: Color32 = Color32::from_rgb(0xa3, 0x1a, 0x8c);
 }
 
 /// Screen radius of a marker, in points.
@@ -340,6 +342,36 @@ fn draw(app: &App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Rect) 
         painter.line_segment([to_screen(a), to_screen(b)], Stroke::new(3.0, style::CLASH));
         for id in [clash.pair.a(), clash.pair.b()] {
             outline_region(doc, id, painter, &to_screen, Stroke::new(2.0, style::CLASH));
+        }
+    }
+
+    // The certificate that the borders cannot be drawn flat, when asked for.
+    if app.view.highlight == Some(Highlight::NotPlanar)
+        && let Some(a) = &app.analysis
+        && let PlanarityVerdict::NotPlanar(o) = &a.planarity
+    {
+        for id in &o.regions {
+            outline_region(
+                doc,
+                *id,
+                painter,
+                &to_screen,
+                Stroke::new(2.0, style::CERTIFICATE),
+            );
+        }
+        for link in &o.links {
+            let (Some(a), Some(b)) = (anchor_of(link.a()), anchor_of(link.b())) else {
+                continue;
+            };
+            painter.line_segment(
+                [to_screen(a), to_screen(b)],
+                Stroke::new(2.5, style::CERTIFICATE),
+            );
+        }
+        for id in &o.branch_regions {
+            if let Some(a) = anchor_of(*id) {
+                painter.circle_filled(to_screen(a), 6.0, style::CERTIFICATE);
+            }
         }
     }
 

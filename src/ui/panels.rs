@@ -6,9 +6,10 @@ use egui::{Color32, RichText};
 
 use crate::doc::{BorderKind, Document, Edit, GroupId, RegionChange, RegionId, Role};
 
-use super::app::{App, Checks, Level, PathPurpose};
+use super::app::{App, Checks, Highlight, Level, PathPurpose};
 use super::canvas::style;
 use super::commands::{Command, Menu, Tool, search};
+use crate::worker::analysis::PlanarityVerdict;
 
 /// One line of the verdict panel.
 #[derive(Clone, Debug, PartialEq)]
@@ -76,9 +77,10 @@ pub fn verdict_lines(doc: &Document, checks: &Checks) -> Vec<VerdictLine> {
     for p in &c.pins_broken {
         out.push(VerdictLine::Problem {
             text: format!(
-                "{} is pinned to colour {} but coloured otherwise",
+                "{} is pinned to colour {} but {}",
                 name(doc, p.region),
-                p.pinned + 1
+                p.pinned + 1,
+                if p.coloured.is_some() { "coloured otherwise" } else { "has no colour yet" }
             ),
             regions: vec![p.region],
         });
@@ -417,6 +419,88 @@ pub fn verdict_ui(app: &mut App, ui: &mut egui::Ui) {
                 });
             }
         }
+    }
+    if let Some(id) = jump {
+        app.view.selection = Some(id);
+    }
+    ui.add_space(6.0);
+    planarity_ui(app, ui);
+}
+
+/// The planarity verdict, its certificate and the background job's progress.
+fn planarity_ui(app: &mut App, ui: &mut egui::Ui) {
+    ui.label(RichText::new("Can the borders be drawn flat?").strong());
+    if let Some((stage, fraction)) = app.analysis_progress() {
+        ui.horizontal(|ui| {
+            ui.spinner();
+            ui.label(format!("{stage}…"));
+            if ui
+                .button("Cancel")
+                .on_hover_text("Stop the background analysis")
+                .clicked()
+            {
+                app.cancel_analysis();
+            }
+        });
+        ui.add(egui::ProgressBar::new(fraction as f32).show_percentage());
+    }
+    let stale = app.analysis_is_stale();
+    let Some(analysis) = &app.analysis else {
+        ui.label("Not analysed yet.");
+        return;
+    };
+    if stale {
+        ui.label(RichText::new("(for an earlier version of the map; updating)").italics());
+    }
+    let mut toggle = false;
+    let mut jump = None;
+    match &analysis.planarity {
+        PlanarityVerdict::Planar => {
+            ui.label(
+                RichText::new("✔ Yes: the border graph is planar.")
+                    .color(Color32::from_rgb(0x2e, 0x7d, 0x32)),
+            );
+            ui.label("Four colours always suffice unless pinned colours say otherwise.");
+        }
+        PlanarityVerdict::NotPlanar(o) => {
+            ui.label(RichText::new(format!(
+                "✖ No: {} regions form a subdivided {} (Kuratowski), so four colours are not guaranteed.",
+                o.regions.len(),
+                o.kind
+            ))
+            .color(style::CLASH));
+            ui.label("Its corner regions:");
+            ui.horizontal_wrapped(|ui| {
+                for id in &o.branch_regions {
+                    if ui.link(name(&app.session.doc, *id)).clicked() {
+                        jump = Some(*id);
+                    }
+                }
+            });
+            let showing = app.view.highlight == Some(Highlight::NotPlanar);
+            let label = if showing {
+                "Hide on map"
+            } else {
+                "Show on map"
+            };
+            if ui
+                .button(label)
+                .on_hover_text("Draw the crossing-forcing borders and their regions on the map")
+                .clicked()
+            {
+                toggle = true;
+            }
+        }
+        PlanarityVerdict::Unknown => {
+            ui.label("Not known: the analysis was stopped.");
+        }
+    }
+    if toggle {
+        app.view.highlight = if app.view.highlight == Some(Highlight::NotPlanar) {
+            None
+        } else {
+            Some(Highlight::NotPlanar)
+        };
     }
     if let Some(id) = jump {
         app.view.selection = Some(id);

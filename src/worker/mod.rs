@@ -14,6 +14,8 @@ use std::thread::JoinHandle;
 
 use crate::doc::Document;
 
+pub mod analysis;
+
 /// Shared progress of the running job, readable at any time without waiting.
 #[derive(Default)]
 pub struct Progress {

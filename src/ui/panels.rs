@@ -80,7 +80,11 @@ pub fn verdict_lines(doc: &Document, checks: &Checks) -> Vec<VerdictLine> {
                 "{} is pinned to colour {} but {}",
                 name(doc, p.region),
                 p.pinned + 1,
-                if p.coloured.is_some() { "coloured otherwise" } else { "has no colour yet" }
+                if p.coloured.is_some() {
+                    "coloured otherwise"
+                } else {
+                    "has no colour yet"
+                }
             ),
             regions: vec![p.region],
         });

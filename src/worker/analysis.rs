@@ -43,11 +43,18 @@ pub struct Analysis {
 /// The two regions behind a graph edge that actually border each other. For a same-colour group
 /// this is the member on that border, not just any member, so the map shows the real contact.
 fn bordering_pair(doc: &Document, cg: &ConstraintGraph, u: u32, v: u32) -> Option<RegionPair> {
-    let (us, vs) = (&cg.vertex_regions[u as usize], &cg.vertex_regions[v as usize]);
+    let (us, vs) = (
+        &cg.vertex_regions[u as usize],
+        &cg.vertex_regions[v as usize],
+    );
     us.iter()
         .flat_map(|a| vs.iter().map(move |b| (*a, *b)))
         .filter_map(|(a, b)| RegionPair::new(a, b))
-        .find(|pair| doc.borders.get(pair).is_some_and(|border| doc.border_is_active(*pair, border)))
+        .find(|pair| {
+            doc.borders
+                .get(pair)
+                .is_some_and(|border| doc.border_is_active(*pair, border))
+        })
         .or_else(|| RegionPair::new(us[0], vs[0]))
 }
 
@@ -87,7 +94,7 @@ pub fn analyse(doc: &Document, ctx: &JobContext) -> Analysis {
                 links: k
                     .edges
                     .iter()
-                    .filter_map(|&(u, v)| RegionPair::new(first(u), first(v)))
+                    .filter_map(|&(u, v)| bordering_pair(doc, &cg, u, v))
                     .collect(),
             })
         }

@@ -32,12 +32,12 @@ pub enum Section {
 pub enum Command {
     /// Open a project or graph file in the editor window.
     Open {
-        /// The file to open (.tinct, .col, .edges).
+        /// The file to open (.tinct, .col, .edges; boundary files .geojson, .topojson, .shp are imported).
         file: PathBuf,
     },
     /// Report on a map: regions, borders, rules, clashes and uncoloured regions.
     Analyse {
-        /// The file to analyse (.tinct, .col, .edges).
+        /// The file to analyse (.tinct, .col, .edges, or a boundary file: .geojson, .json, .topojson, .shp).
         file: PathBuf,
         /// Print machine-readable JSON on standard output (shape documented in the README).
         #[arg(long)]

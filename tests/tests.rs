@@ -5,6 +5,8 @@ mod cli;
 mod edits;
 mod geo;
 mod graph_formats;
+#[cfg(feature = "gui")]
+mod gui;
 mod invariants;
 mod planar_gen;
 mod planarity;

@@ -149,6 +149,8 @@ pub struct ViewState {
     /// A marker being dragged: its region and the drag offset in world units so far.
     pub dragging: Option<(RegionId, [f64; 2])>,
     pub highlight: Option<Highlight>,
+    /// Where the canvas was drawn last frame (screen points), so tests and tools can aim at regions.
+    pub canvas_rect: Option<egui::Rect>,
 }
 
 impl Default for ViewState {
@@ -168,6 +170,7 @@ impl Default for ViewState {
             name_draft: None,
             dragging: None,
             highlight: None,
+            canvas_rect: None,
         }
     }
 }
@@ -496,7 +499,11 @@ impl App {
             .spawn(move || {
                 let dialog = rfd::FileDialog::new()
                     .add_filter("Tinct project", &["tinct"])
-                    .add_filter("Graph (DIMACS, edge list)", &["col", "dimacs", "edges"]);
+                    .add_filter("Graph (DIMACS, edge list)", &["col", "dimacs", "edges"])
+                    .add_filter(
+                        "Boundary data (GeoJSON, TopoJSON, Shapefile)",
+                        &["geojson", "json", "topojson", "shp"],
+                    );
                 let picked = match purpose {
                     PathPurpose::Open => dialog.pick_file(),
                     PathPurpose::SaveAs => dialog.set_file_name("map.tinct").save_file(),

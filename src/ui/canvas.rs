@@ -47,6 +47,15 @@ fn fill_of(doc: &Document, id: RegionId, region: &Region) -> Color32 {
     }
 }
 
+/// Where a world point is on screen, given the canvas drawn last frame (for tests and tools).
+pub fn screen_of(app: &App, p: [f64; 2]) -> Option<Pos2> {
+    let rect = app.view.canvas_rect?;
+    Some(pos(app
+        .view
+        .camera
+        .to_screen([rect.center().x, rect.center().y], p)))
+}
+
 fn pos(p: [f32; 2]) -> Pos2 {
     Pos2::new(p[0], p[1])
 }
@@ -57,6 +66,7 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
     let (response, painter) = ui.allocate_painter(size, Sense::click_and_drag());
     response.widget_info(|| egui::WidgetInfo::labeled(egui::Role::Canvas, true, "Map canvas"));
     let rect = response.rect;
+    app.view.canvas_rect = Some(rect);
     painter.rect_filled(rect, 0.0, style::BACKGROUND);
     let centre = [rect.center().x, rect.center().y];
 

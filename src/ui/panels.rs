@@ -25,6 +25,30 @@ pub enum VerdictLine {
     Note(String),
 }
 
+/// A filled square of colour, drawn rather than typed so it needs no glyph from any font.
+fn swatch(ui: &mut egui::Ui, colour: Color32, size: f32) {
+    let (rect, _) = ui.allocate_exact_size(egui::vec2(size, size), egui::Sense::hover());
+    ui.painter().rect_filled(rect, 2.0, colour);
+    ui.painter().rect_stroke(
+        rect,
+        2.0,
+        egui::Stroke::new(0.5, style::OUTLINE),
+        egui::StrokeKind::Inside,
+    );
+}
+
+/// A line of text with a coloured dot before it: green for good news, red for a problem.
+fn marked(ui: &mut egui::Ui, good: bool, text: String) {
+    let colour = if good { GOOD } else { style::CLASH };
+    ui.horizontal_wrapped(|ui| {
+        let (rect, _) = ui.allocate_exact_size(egui::vec2(10.0, 10.0), egui::Sense::hover());
+        ui.painter().circle_filled(rect.center(), 4.5, colour);
+        ui.label(RichText::new(text).color(colour));
+    });
+}
+
+const GOOD: Color32 = Color32::from_rgb(0x2e, 0x7d, 0x32);
+
 fn name(doc: &Document, id: RegionId) -> String {
     doc.regions
         .get(&id)
@@ -167,9 +191,9 @@ pub fn toolbar_ui(app: &mut App, ui: &mut egui::Ui) {
             let slots = app.session.doc.palette.slots.clone();
             for (i, slot) in slots.iter().enumerate() {
                 let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
-                let text = RichText::new(format!("■ {}", slot.name)).color(c);
+                swatch(ui, c, 12.0);
                 if ui
-                    .selectable_label(app.view.pin_slot == i as u32, text)
+                    .selectable_label(app.view.pin_slot == i as u32, &slot.name)
                     .clicked()
                 {
                     app.view.pin_slot = i as u32;
@@ -239,8 +263,7 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
         .show_rows(ui, row_height, rows.len(), |ui, range| {
             for (id, name, colour) in &rows[range] {
                 ui.horizontal(|ui| {
-                    let swatch = RichText::new("■").color(colour.unwrap_or(style::UNCOLOURED));
-                    ui.label(swatch);
+                    swatch(ui, colour.unwrap_or(style::UNCOLOURED), 12.0);
                     if ui
                         .selectable_label(app.view.selection == Some(*id), name)
                         .clicked()
@@ -401,15 +424,13 @@ pub fn verdict_ui(app: &mut App, ui: &mut egui::Ui) {
     for line in lines {
         match line {
             VerdictLine::Good(text) => {
-                ui.label(
-                    RichText::new(format!("✔ {text}")).color(Color32::from_rgb(0x2e, 0x7d, 0x32)),
-                );
+                marked(ui, true, text);
             }
             VerdictLine::Note(text) => {
                 ui.label(text);
             }
             VerdictLine::Problem { text, regions } => {
-                ui.label(RichText::new(format!("✖ {text}")).color(style::CLASH));
+                marked(ui, false, text);
                 ui.horizontal_wrapped(|ui| {
                     for id in regions {
                         if ui
@@ -460,19 +481,19 @@ fn planarity_ui(app: &mut App, ui: &mut egui::Ui) {
     let mut jump = None;
     match &analysis.planarity {
         PlanarityVerdict::Planar => {
-            ui.label(
-                RichText::new("✔ Yes: the border graph is planar.")
-                    .color(Color32::from_rgb(0x2e, 0x7d, 0x32)),
-            );
+            marked(ui, true, "Yes: the border graph is planar.".into());
             ui.label("Four colours always suffice unless pinned colours say otherwise.");
         }
         PlanarityVerdict::NotPlanar(o) => {
-            ui.label(RichText::new(format!(
-                "✖ No: {} regions form a subdivided {} (Kuratowski), so four colours are not guaranteed.",
-                o.regions.len(),
-                o.kind
-            ))
-            .color(style::CLASH));
+            marked(
+                ui,
+                false,
+                format!(
+                    "No: {} regions form a subdivided {} (Kuratowski), so four colours are not guaranteed.",
+                    o.regions.len(),
+                    o.kind
+                ),
+            );
             ui.label("Its corner regions:");
             ui.horizontal_wrapped(|ui| {
                 for id in &o.branch_regions {
@@ -525,7 +546,7 @@ pub fn palette_ui(app: &mut App, ui: &mut egui::Ui) {
     for (i, slot) in doc.palette.slots.iter().enumerate() {
         let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
         ui.horizontal(|ui| {
-            ui.label(RichText::new("■■").color(c).size(16.0));
+            swatch(ui, c, 16.0);
             ui.label(format!(
                 "{}. {} {} — {} regions",
                 i + 1,

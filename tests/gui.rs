@@ -178,3 +178,35 @@ fn every_sample_map_renders_and_the_exclave_map_shows_its_certificate() {
         }
     }
 }
+
+#[test]
+fn unsaved_work_is_offered_back_after_a_crash_and_a_damaged_recovery_file_is_not_trusted() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut app = App::new_with(None, None, Some(dir.path().to_path_buf()));
+    app.autosave_every = std::time::Duration::ZERO;
+    let mut h = harness(app);
+    let (a, b) = non_neighbours(&h.state().session.doc);
+    h.get_by_label("Border").click();
+    h.run_steps(2);
+    click_region(&mut h, a);
+    click_region(&mut h, b);
+    h.run_steps(2);
+    let unsaved = h.state().session.doc.clone();
+    // The window goes away without saving: a crash, as far as the document is concerned.
+    drop(h);
+
+    let mut h = harness(App::new_with(None, None, Some(dir.path().to_path_buf())));
+    assert!(h.query_by_label("Unsaved work found").is_some());
+    h.get_by_label("Recover it").click();
+    h.run_steps(3);
+    assert_eq!(h.state().session.doc, unsaved);
+    assert!(h.state().session.is_dirty(), "recovered work is not saved anywhere yet");
+    drop(h);
+
+    std::fs::write(dir.path().join("recovery.tinct"), "(format_version: 1, title: \"half").unwrap();
+    let h = harness(App::new_with(None, None, Some(dir.path().to_path_buf())));
+    assert!(h.state().recovery_offer.is_none());
+    let message = h.state().messages.last().map(|m| m.text.clone()).unwrap_or_default();
+    assert!(message.contains("could not be read and was not used"), "{message}");
+    assert_eq!(h.state().session.doc.title, "Vessland Province, Kingdom of Estmarrow");
+}

@@ -10,6 +10,7 @@ pub mod file;
 pub mod graph_formats;
 pub mod history;
 pub mod model;
+pub mod recovery;
 
 pub use checks::{ColouringCheck, check_colouring};
 pub use constraint::{ConstraintGraph, RuleConflict};

@@ -95,6 +95,9 @@ pub enum Highlight {
     NotPlanar,
 }
 
+/// How often unsaved work is written to the recovery file.
+pub const AUTOSAVE_EVERY: Duration = Duration::from_secs(5);
+
 /// How long the document must rest after an edit before the background analysis starts.
 pub const ANALYSIS_DEBOUNCE: Duration = Duration::from_millis(250);
 
@@ -201,12 +204,32 @@ pub struct App {
     pending: Vec<Command>,
     /// Set once the user has agreed to close.
     pub quit_confirmed: bool,
+    /// Where unsaved work is written aside (`None`: nowhere).
+    pub recovery_dir: Option<PathBuf>,
+    /// Unsaved work from an earlier session, offered back to the user.
+    pub recovery_offer: Option<doc::recovery::Recovered>,
+    /// How often unsaved work is written aside.
+    pub autosave_every: Duration,
+    autosaved_at: Instant,
+    /// The revision last written aside, if any.
+    autosaved_revision: Option<u64>,
     last_title: String,
 }
 
 impl App {
     /// The editor on the embedded sample map, or on `path` if given (read in the background).
     pub fn new(ctx: Option<egui::Context>, path: Option<PathBuf>) -> App {
+        // The real window keeps a recovery file; headless uses (tests) choose their own folder.
+        let recovery = ctx.is_some().then(doc::recovery::recovery_dir);
+        App::new_with(ctx, path, recovery)
+    }
+
+    /// The editor with an explicit recovery folder (`None`: no recovery file).
+    pub fn new_with(
+        ctx: Option<egui::Context>,
+        path: Option<PathBuf>,
+        recovery: Option<PathBuf>,
+    ) -> App {
         let doc = doc::file::from_str(DEFAULT_MAP).unwrap_or_else(|_| Document::new("Untitled"));
         let worker =
             ctx.and_then(|ctx| Worker::start(Box::new(move || ctx.request_repaint())).ok());
@@ -231,11 +254,80 @@ impl App {
             pending: Vec::new(),
             quit_confirmed: false,
             last_title: String::new(),
+            recovery_dir: recovery,
+            recovery_offer: None,
+            autosave_every: AUTOSAVE_EVERY,
+            autosaved_at: Instant::now(),
+            autosaved_revision: None,
         };
+        if let Some(dir) = app.recovery_dir.clone() {
+            match doc::recovery::read(&dir) {
+                Ok(found) => app.recovery_offer = found,
+                Err(e) => app.say(
+                    Level::Error,
+                    format!(
+                        "Unsaved work from an earlier session could not be read and was not used ({e}); the file is kept at {}",
+                        doc::recovery::file_in(&dir).display()
+                    ),
+                ),
+            }
+        }
         if let Some(path) = path {
             app.open_path(path);
         }
         app
+    }
+
+    /// Writes unsaved work to the recovery file every few seconds; removes it once nothing is unsaved.
+    fn autosave(&mut self) {
+        let Some(dir) = self.recovery_dir.clone() else {
+            return;
+        };
+        if self.recovery_offer.is_some() {
+            // Do not overwrite work the user has not yet decided about.
+            return;
+        }
+        let revision = self.session.doc.revision();
+        if !self.session.is_dirty() {
+            if self.autosaved_revision.take().is_some() {
+                doc::recovery::clear(&dir);
+            }
+            return;
+        }
+        if self.autosaved_revision != Some(revision)
+            && self.autosaved_at.elapsed() >= self.autosave_every
+        {
+            self.autosaved_at = Instant::now();
+            match doc::recovery::write(&dir, &self.session.doc, self.session.path.as_deref()) {
+                Ok(()) => self.autosaved_revision = Some(revision),
+                Err(e) => self.say(
+                    Level::Warning,
+                    format!("Unsaved work could not be written aside: {e}"),
+                ),
+            }
+        }
+    }
+
+    /// Takes back the unsaved work of an earlier session (as unsaved work again).
+    pub fn recover(&mut self) {
+        if let Some(r) = self.recovery_offer.take() {
+            let mut session = Session::new(r.doc, r.original);
+            // It is not saved anywhere yet: mark it changed so it is saved (and written aside) again.
+            session.saved_revision = u64::MAX;
+            self.replace_session(session);
+            self.say(
+                Level::Info,
+                "Unsaved work from the earlier session is back; save it to keep it",
+            );
+        }
+    }
+
+    /// Drops the unsaved work of an earlier session, at the user's word.
+    pub fn discard_recovery(&mut self) {
+        self.recovery_offer = None;
+        if let Some(dir) = &self.recovery_dir {
+            doc::recovery::clear(dir);
+        }
     }
 
     /// Queues a command for the end of this frame.
@@ -458,6 +550,7 @@ impl App {
             }
         }
         self.meshes.sync(&self.session.doc);
+        self.autosave();
         let title = self.session.title();
         if title != self.last_title {
             ctx.send_viewport_cmd(egui::ViewportCommand::Title(title.clone()));

@@ -584,6 +584,43 @@ pub fn status_ui(app: &mut App, ui: &mut egui::Ui) {
 
 /// Dialog windows: the path prompt, the unsaved-changes question and the command list.
 pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
+    if let Some(offer) = &app.recovery_offer {
+        let when = offer
+            .written
+            .and_then(|t| t.elapsed().ok())
+            .map(|d| format!("{} minutes ago", d.as_secs() / 60))
+            .unwrap_or_else(|| "recently".into());
+        let what = format!(
+            "\"{}\" ({} regions), written aside {when}{}.",
+            offer.doc.title,
+            offer.doc.regions.len(),
+            offer
+                .original
+                .as_ref()
+                .map(|p| format!(", belonging to {}", p.display()))
+                .unwrap_or_default()
+        );
+        let mut choice = None;
+        egui::Modal::new(egui::Id::unique("recover")).show(ctx, |ui| {
+            ui.heading("Unsaved work found");
+            ui.label("Tinct closed without saving last time. It kept this work:");
+            ui.label(what);
+            ui.horizontal(|ui| {
+                if ui.button("Recover it").clicked() {
+                    choice = Some(true);
+                }
+                if ui.button("Discard it").clicked() {
+                    choice = Some(false);
+                }
+            });
+        });
+        match choice {
+            Some(true) => app.recover(),
+            Some(false) => app.discard_recovery(),
+            None => {}
+        }
+        return;
+    }
     if let Some(command) = app.confirm_discard {
         let mut choice = None;
         egui::Modal::new(egui::Id::unique("confirm-discard")).show(ctx, |ui| {

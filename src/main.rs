@@ -3,19 +3,34 @@
 use std::process::ExitCode;
 
 use clap::Parser;
-use tinct::cli::{Cli, Command, run};
+use tinct::cli::{Cli, Command, exit, run};
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
     match cli.command {
-        None => {
-            eprintln!(
-                "tinct: the editor window is not part of this version yet. Headless commands work now: \
-                 `tinct analyse FILE`, `tinct convert IN OUT` (see `tinct --help`)."
-            );
-            ExitCode::from(tinct::cli::exit::BAD_INPUT)
-        }
-        Some(command @ Command::Open { .. }) => run(command),
+        None => editor(None),
+        Some(Command::Open { file }) => editor(Some(file)),
         Some(command) => run(command),
     }
+}
+
+#[cfg(feature = "gui")]
+fn editor(path: Option<std::path::PathBuf>) -> ExitCode {
+    match tinct::ui::run(path) {
+        Ok(()) => ExitCode::from(exit::OK),
+        Err(e) => {
+            eprintln!("tinct: {e:#}");
+            ExitCode::from(exit::BAD_INPUT)
+        }
+    }
+}
+
+#[cfg(not(feature = "gui"))]
+fn editor(path: Option<std::path::PathBuf>) -> ExitCode {
+    let _ = path;
+    eprintln!(
+        "tinct: this build has no editor window (it was built without the `gui` feature); \
+         use `tinct analyse FILE` or `tinct convert IN OUT` (see `tinct --help`)"
+    );
+    ExitCode::from(exit::BAD_INPUT)
 }

@@ -1,5 +1,15 @@
-//! Integration tests, built as one binary to keep link time down.
+//! Integration tests, built as one binary to keep link time down on a small machine.
 
 mod blocks;
+mod cli;
+mod edits;
+mod geo;
+mod graph_formats;
+#[cfg(feature = "gui")]
+mod gui;
+mod invariants;
 mod planar_gen;
 mod planarity;
+mod project_file;
+mod sample_maps;
+mod support;

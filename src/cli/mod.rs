@@ -2,7 +2,7 @@
 //! 0 success, 1 the analysis found problems (only with `--strict`), 2 bad input, 3 could not write output.
 
 pub mod analyse;
-pub mod input;
+pub mod import;
 pub mod planarity;
 
 use std::io::Write;
@@ -32,12 +32,12 @@ pub enum Section {
 pub enum Command {
     /// Open a project or graph file in the editor window.
     Open {
-        /// The file to open (.tinct, .col, .edges).
+        /// The file to open (.tinct, .col, .edges; boundary files .geojson, .topojson, .shp are imported).
         file: PathBuf,
     },
     /// Report on a map: regions, borders, rules, clashes and uncoloured regions.
     Analyse {
-        /// The file to analyse (.tinct, .col, .edges).
+        /// The file to analyse (.tinct, .col, .edges, or a boundary file: .geojson, .json, .topojson, .shp).
         file: PathBuf,
         /// Print machine-readable JSON on standard output (shape documented in the README).
         #[arg(long)]
@@ -54,6 +54,26 @@ pub enum Command {
         /// Write the planarity certificate (Kuratowski subgraph or embedding) as JSON to FILE.
         #[arg(long, value_name = "FILE")]
         certificate_out: Option<PathBuf>,
+    },
+    /// Import a boundary file (.geojson, .json, .topojson, .shp) into a project file.
+    Import {
+        /// The boundary file to read.
+        file: PathBuf,
+        /// The project file to write (.tinct).
+        #[arg(long)]
+        out: PathBuf,
+        #[command(flatten)]
+        geo: import::GeoArgs,
+    },
+    /// Derive which regions of a boundary file border each other, with diagnostics.
+    Adjacency {
+        /// The boundary file to read (.geojson, .json, .topojson, .shp).
+        file: PathBuf,
+        /// Print machine-readable JSON on standard output.
+        #[arg(long)]
+        json: bool,
+        #[command(flatten)]
+        geo: import::GeoArgs,
     },
     /// Convert between project and graph formats, chosen by the files' extensions.
     Convert {
@@ -81,9 +101,8 @@ fn error(code: u8, e: &anyhow::Error) -> ExitCode {
 pub fn run(command: Command) -> ExitCode {
     match command {
         Command::Open { .. } => {
-            eprintln!(
-                "tinct: this build has no editor window (it was built without the `gui` feature); use `tinct analyse` or `tinct convert`"
-            );
+            // Opening a window is the binary's job (it owns the GUI); a headless caller gets a clear no.
+            eprintln!("tinct: `open` needs the editor window; run it as `tinct open FILE`");
             ExitCode::from(exit::BAD_INPUT)
         }
         Command::Analyse {
@@ -94,7 +113,7 @@ pub fn run(command: Command) -> ExitCode {
             embedding,
             certificate_out,
         } => {
-            let loaded = match input::load(&file) {
+            let loaded = match crate::formats::load(&file) {
                 Ok(l) => l,
                 Err(e) => return error(exit::BAD_INPUT, &e),
             };
@@ -124,18 +143,20 @@ pub fn run(command: Command) -> ExitCode {
                 ExitCode::from(exit::OK)
             }
         }
+        Command::Import { file, out, geo } => import::run_import(&file, &out, &geo),
+        Command::Adjacency { file, json, geo } => import::run_adjacency(&file, json, &geo),
         Command::Convert {
             input: from,
             output,
         } => {
-            let loaded = match input::load(&from) {
+            let loaded = match crate::formats::load(&from) {
                 Ok(l) => l,
                 Err(e) => return error(exit::BAD_INPUT, &e),
             };
             for n in &loaded.notices {
                 eprintln!("tinct: note: {}", n.message);
             }
-            match input::save(&loaded.doc, &output) {
+            match crate::formats::save(&loaded.doc, &output) {
                 Ok(()) => ExitCode::from(exit::OK),
                 Err(e) => error(exit::CANNOT_WRITE, &e),
             }

@@ -62,14 +62,20 @@ pub enum Edit {
 }
 
 /// Why an edit was refused. The document is unchanged when an edit is refused.
+///
+/// Colour slots are deliberately not checked against the palette: a palette may shrink while
+/// regions still use its old slots, and an inverse edit must always apply. Slots the palette lacks
+/// are reported by the colouring checks instead.
+///
+/// Colour slots are deliberately not checked against the palette: a palette may shrink while
+/// regions still use its old slots, and an inverse edit must always apply. Slots the palette lacks
+/// are reported by the colouring checks instead.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum EditError {
     #[error("there is no region {0}")]
     NoSuchRegion(RegionId),
     #[error("there is no group {0}")]
     NoSuchGroup(GroupId),
-    #[error("palette slot {slot} does not exist: the palette has {slots} slots")]
-    NoSuchSlot { slot: u32, slots: usize },
     #[error("region {0} has coordinates that are not finite numbers")]
     NotFinite(RegionId),
 }
@@ -116,16 +122,6 @@ impl Document {
         Ok(inverse)
     }
 
-    fn check_slot(&self, slot: Option<u32>) -> Result<(), EditError> {
-        match slot {
-            Some(s) if s as usize >= self.palette.slots.len() => Err(EditError::NoSuchSlot {
-                slot: s,
-                slots: self.palette.slots.len(),
-            }),
-            _ => Ok(()),
-        }
-    }
-
     fn apply_inner(&mut self, edit: Edit) -> Result<Edit, EditError> {
         Ok(match edit {
             Edit::PutRegion {
@@ -142,7 +138,6 @@ impl Document {
                 {
                     return Err(EditError::NoSuchGroup(g));
                 }
-                self.check_slot(region.pin)?;
                 self.next_region_id = self.next_region_id.max(id.0 + 1);
                 let old = self.regions.insert(id, region);
                 Edit::PutRegion { id, region: old }
@@ -187,7 +182,6 @@ impl Document {
             Edit::UpdateRegion { id, change } => {
                 // Validate before borrowing the region mutably.
                 match &change {
-                    RegionChange::Pin(pin) => self.check_slot(*pin)?,
                     RegionChange::Group(Some(g)) if !self.groups.contains_key(g) => {
                         return Err(EditError::NoSuchGroup(*g));
                     }
@@ -241,7 +235,6 @@ impl Document {
                 if !self.regions.contains_key(&id) {
                     return Err(EditError::NoSuchRegion(id));
                 }
-                self.check_slot(slot)?;
                 let old = match slot {
                     Some(s) => self.colouring.insert(id, s),
                     None => self.colouring.remove(&id),
@@ -251,15 +244,6 @@ impl Document {
             Edit::SetColouring(colouring) => {
                 if let Some(id) = colouring.keys().find(|id| !self.regions.contains_key(id)) {
                     return Err(EditError::NoSuchRegion(*id));
-                }
-                if let Some(&slot) = colouring
-                    .values()
-                    .find(|&&s| s as usize >= self.palette.slots.len())
-                {
-                    return Err(EditError::NoSuchSlot {
-                        slot,
-                        slots: self.palette.slots.len(),
-                    });
                 }
                 Edit::SetColouring(std::mem::replace(&mut self.colouring, colouring))
             }
@@ -443,13 +427,13 @@ mod tests {
                 edits: vec![
                     Edit::SetTitle("changed".into()),
                     Edit::PutColour {
-                        id: RegionId(1),
-                        slot: Some(99),
+                        id: RegionId(99),
+                        slot: Some(1),
                     },
                 ],
             })
             .unwrap_err();
-        assert_eq!(err, EditError::NoSuchSlot { slot: 99, slots: 6 });
+        assert_eq!(err, EditError::NoSuchRegion(RegionId(99)));
         assert_eq!(doc, before);
         assert_eq!(doc.revision(), revision);
     }

@@ -428,7 +428,6 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
             return invalid(format!("group id {} appears twice", g.id));
         }
     }
-    let slot_count = doc.palette.slots.len();
     for rec in r.regions {
         let id = RegionId(rec.id);
         if !finite(rec.anchor) {
@@ -442,14 +441,6 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
         {
             return invalid(format!(
                 "region {} is in group {g}, which the file does not define",
-                rec.id
-            ));
-        }
-        if let Some(pin) = rec.pin
-            && pin as usize >= slot_count
-        {
-            return invalid(format!(
-                "region {} is pinned to slot {pin}, but the palette has {slot_count} slots",
                 rec.id
             ));
         }
@@ -561,11 +552,6 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
         if !doc.regions.contains_key(&RegionId(id)) {
             return invalid(format!(
                 "the colouring names region {id}, which the file does not define"
-            ));
-        }
-        if slot as usize >= slot_count {
-            return invalid(format!(
-                "region {id} is coloured with slot {slot}, but the palette has {slot_count} slots"
             ));
         }
         doc.colouring.insert(RegionId(id), slot);

@@ -81,6 +81,46 @@ impl Geometry {
             .all(|p| p[0].is_finite() && p[1].is_finite())
     }
 
+    /// A point inside the region for its label: the middle of the widest horizontal run through the
+    /// interior, over a few scan lines. Unlike the vertex average it always falls inside, even for
+    /// concave outlines and rings with holes. `None` when there is no area.
+    pub fn label_point(&self) -> Option<Point> {
+        let [lo, hi] = self.bounds()?;
+        let rings: Vec<&Vec<Point>> = self
+            .polygons
+            .iter()
+            .flat_map(|p| std::iter::once(&p.exterior).chain(p.holes.iter()))
+            .collect();
+        let mut best: Option<(f64, Point)> = None;
+        const LINES: usize = 15;
+        for k in 0..LINES {
+            // Offset the scan lines a little so they do not run exactly along horizontal edges.
+            let y = lo[1] + (hi[1] - lo[1]) * (k as f64 + 0.5 + 1e-7) / LINES as f64;
+            let mut xs = Vec::new();
+            for ring in &rings {
+                let n = ring.len();
+                for i in 0..n {
+                    let a = ring[i];
+                    let b = ring[(i + 1) % n];
+                    if (a[1] <= y) != (b[1] <= y) {
+                        xs.push(a[0] + (y - a[1]) / (b[1] - a[1]) * (b[0] - a[0]));
+                    }
+                }
+            }
+            xs.sort_by(f64::total_cmp);
+            for pair in xs.chunks_exact(2) {
+                let width = pair[1] - pair[0];
+                // Prefer runs near the vertical middle when widths are close.
+                let centrality = 1.0 - ((k as f64 + 0.5) / LINES as f64 - 0.5).abs();
+                let score = width * (0.75 + 0.25 * centrality);
+                if best.is_none_or(|(s, _)| score > s) {
+                    best = Some((score, [(pair[0] + pair[1]) / 2.0, y]));
+                }
+            }
+        }
+        best.map(|(_, p)| p)
+    }
+
     /// Number of vertices over all rings.
     pub fn vertex_count(&self) -> usize {
         self.polygons

@@ -1,4 +1,6 @@
-//! Reading any file Tinct understands into a document, chosen by the file's extension.
+//! Reading and writing every kind of file Tinct understands, chosen by the file's extension.
+//!
+//! It sits above the document and the importers, so the command line and the editor share one way in.
 
 use std::path::Path;
 
@@ -13,7 +15,8 @@ pub struct Loaded {
 }
 
 /// The kinds of input Tinct reads, by extension.
-pub const READABLE: &str = ".tinct (project), .col or .dimacs (DIMACS graph), .edges (edge list)";
+pub const READABLE: &str = ".tinct (project), .col or .dimacs (DIMACS graph), .edges (edge list), \
+                             .geojson, .json, .topojson or .shp (boundaries)";
 
 fn title_of(path: &Path) -> String {
     path.file_stem()
@@ -60,6 +63,23 @@ pub fn load(path: &Path) -> anyhow::Result<Loaded> {
             let (doc, notices) = doc::graph_formats::read_edge_list(&text, &title_of(path))
                 .map_err(|e| anyhow!("{}: {e}", path.display()))?;
             Ok(Loaded { doc, notices })
+        }
+        "geojson" | "json" | "topojson" | "shp" => {
+            // Boundary files are imported with the default rule (rook, no tolerance).
+            let map = crate::geo::import_path(path, &crate::geo::ImportOptions::default())
+                .map_err(|e| anyhow!("{}: {e}", path.display()))?;
+            let notices = map
+                .diagnostics
+                .iter()
+                .map(|d| doc::graph_formats::Notice {
+                    line: None,
+                    message: d.message.clone(),
+                })
+                .collect();
+            Ok(Loaded {
+                doc: map.into_document(title_of(path)),
+                notices,
+            })
         }
         other => Err(anyhow!(
             "{}: cannot tell what kind of file this is (extension {:?}); Tinct reads {READABLE}",

@@ -1,0 +1,306 @@
+//! `tinct import` and `tinct adjacency`: boundary files (GeoJSON, TopoJSON, Shapefile) in,
+//! a project file or an adjacency report out.
+//!
+//! The JSON printed by `tinct adjacency --json` is stable: later versions add fields, never
+//! rename or remove them. Region ids are those `tinct import` gives the regions (1, 2, ... in
+//! import order); `source_index` is the 0-based position of the feature in the input file.
+
+use std::io::Write;
+use std::path::Path;
+use std::process::ExitCode;
+
+use anyhow::anyhow;
+use clap::{Args, ValueEnum};
+use serde::Serialize;
+
+use super::{error, exit};
+use crate::geo::{self, BorderKind, ImportOptions, ImportedMap, Rule, Units};
+
+/// Contiguity rule on the command line.
+#[derive(Copy, Clone, Debug, PartialEq, Eq, ValueEnum)]
+pub enum RuleArg {
+    /// A shared boundary of positive length (at least --min-border).
+    Rook,
+    /// Any shared point, corner contacts included.
+    Queen,
+}
+
+/// Options shared by `import` and `adjacency`.
+#[derive(Args, Debug, Clone)]
+pub struct GeoArgs {
+    /// Which contacts count as borders.
+    #[arg(long, value_enum, default_value = "rook")]
+    pub rule: RuleArg,
+    /// Boundaries within this distance count as shared (metres for longitude/latitude data,
+    /// else map units).
+    #[arg(long, default_value_t = 0.0)]
+    pub tolerance: f64,
+    /// With the rook rule, shared borders shorter than this are left out (same units).
+    #[arg(long = "min-border", default_value_t = 0.0)]
+    pub min_border: f64,
+    /// The property that names a region (default: the first of name, NAME, Name, id, ID).
+    #[arg(long = "name-field")]
+    pub name_field: Option<String>,
+    /// One region per polygon part instead of one per feature (parts share a colour group).
+    #[arg(long = "split-parts")]
+    pub split_parts: bool,
+    /// The TopoJSON object to import (default: the one with the most polygons).
+    #[arg(long)]
+    pub layer: Option<String>,
+    /// How to read coordinates: auto (longitude/latitude when the file says so or the values
+    /// fit that range), lon-lat, or planar (map units, no projection).
+    #[arg(long, value_enum, default_value = "auto")]
+    pub coordinates: CoordinatesArg,
+}
+
+/// Coordinate interpretation on the command line.
+#[derive(Copy, Clone, Debug, PartialEq, Eq, ValueEnum)]
+pub enum CoordinatesArg {
+    Auto,
+    LonLat,
+    Planar,
+}
+
+impl GeoArgs {
+    pub fn options(&self) -> ImportOptions {
+        ImportOptions {
+            rule: match self.rule {
+                RuleArg::Rook => Rule::Rook,
+                RuleArg::Queen => Rule::Queen,
+            },
+            tolerance: self.tolerance,
+            min_border_length: self.min_border,
+            name_field: self.name_field.clone(),
+            split_parts: self.split_parts,
+            layer: self.layer.clone(),
+            coordinates: match self.coordinates {
+                CoordinatesArg::Auto => geo::CoordinateMode::Auto,
+                CoordinatesArg::LonLat => geo::CoordinateMode::LonLat,
+                CoordinatesArg::Planar => geo::CoordinateMode::Planar,
+            },
+            ..ImportOptions::default()
+        }
+    }
+}
+
+/// True for the extensions the geometry importers read.
+pub fn is_boundary_file(path: &Path) -> bool {
+    matches!(
+        path.extension()
+            .map(|e| e.to_string_lossy().to_ascii_lowercase())
+            .as_deref(),
+        Some("geojson" | "json" | "topojson" | "shp")
+    )
+}
+
+/// Imports a boundary file, naming the file in the error.
+pub fn import(path: &Path, options: &ImportOptions) -> anyhow::Result<ImportedMap> {
+    geo::import_path(path, options).map_err(|e| anyhow!("{}: {e}", path.display()))
+}
+
+fn title_of(path: &Path) -> String {
+    path.file_stem()
+        .map(|s| s.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "Untitled".into())
+}
+
+/// `tinct import FILE --out PROJECT.tinct`.
+pub fn run_import(file: &Path, out: &Path, args: &GeoArgs) -> ExitCode {
+    let map = match import(file, &args.options()) {
+        Ok(m) => m,
+        Err(e) => return error(exit::BAD_INPUT, &e),
+    };
+    for d in &map.diagnostics {
+        eprintln!("tinct: note: {}", d.message);
+    }
+    let (regions, borders) = (map.regions.len(), map.borders.len());
+    let document = map.into_document(title_of(file));
+    if let Err(e) = crate::formats::save(&document, out) {
+        return error(exit::CANNOT_WRITE, &e);
+    }
+    eprintln!(
+        "tinct: imported {regions} regions and {borders} borders into {}",
+        out.display()
+    );
+    ExitCode::from(exit::OK)
+}
+
+/// The adjacency report (`tinct adjacency --json` prints exactly this).
+#[derive(Serialize)]
+pub struct AdjacencyReport {
+    /// Version of this JSON shape.
+    pub schema: u32,
+    pub file: String,
+    /// "rook" or "queen".
+    pub rule: &'static str,
+    /// "metres" (projected longitude/latitude) or "map units".
+    pub units: &'static str,
+    pub tolerance: f64,
+    pub min_border_length: f64,
+    pub regions: Vec<RegionOut>,
+    /// The borders the rule selects.
+    pub borders: Vec<BorderOut>,
+    /// Contacts the rule leaves out (corner contacts under rook, too-short borders).
+    pub excluded: Vec<BorderOut>,
+    pub diagnostics: Vec<DiagnosticOut>,
+}
+
+#[derive(Serialize)]
+pub struct RegionOut {
+    pub id: u64,
+    pub name: String,
+    pub source_index: usize,
+}
+
+#[derive(Serialize)]
+pub struct BorderOut {
+    pub a: u64,
+    pub b: u64,
+    /// "shared" or "corner".
+    pub kind: &'static str,
+    /// Shared length in `units` (0 for a corner contact).
+    pub length: f64,
+}
+
+#[derive(Serialize)]
+pub struct DiagnosticOut {
+    /// For example "gap", "overlap", "self-intersection".
+    pub kind: String,
+    /// Region ids involved.
+    pub regions: Vec<u64>,
+    pub message: String,
+}
+
+fn kind_word(kind: geo::DiagnosticKind) -> String {
+    use geo::DiagnosticKind as K;
+    match kind {
+        K::SkippedGeometry => "skipped-geometry",
+        K::EmptyGeometry => "empty-geometry",
+        K::UnclosedRing => "unclosed-ring",
+        K::DegenerateRing => "degenerate-ring",
+        K::SelfIntersection => "self-intersection",
+        K::Overlap => "overlap",
+        K::Gap => "gap",
+        K::DuplicateName => "duplicate-name",
+        K::ShortBorder => "short-border",
+        K::File => "file",
+    }
+    .to_string()
+}
+
+/// Builds the report; region ids are 1-based positions, as `tinct import` assigns them.
+pub fn report(file: &str, map: &ImportedMap) -> AdjacencyReport {
+    let id = |i: usize| i as u64 + 1;
+    let border = |b: &geo::ImportedBorder| BorderOut {
+        a: id(b.a),
+        b: id(b.b),
+        kind: match b.kind {
+            BorderKind::Shared { .. } => "shared",
+            BorderKind::Corner => "corner",
+        },
+        length: b.length(),
+    };
+    AdjacencyReport {
+        schema: 1,
+        file: file.to_string(),
+        rule: match map.rule {
+            Rule::Rook => "rook",
+            Rule::Queen => "queen",
+        },
+        units: match map.units {
+            Units::Metres => "metres",
+            Units::MapUnits => "map units",
+        },
+        tolerance: map.tolerance,
+        min_border_length: map.min_border_length,
+        regions: map
+            .regions
+            .iter()
+            .enumerate()
+            .map(|(i, r)| RegionOut {
+                id: id(i),
+                name: r.name.clone(),
+                source_index: r.source_index,
+            })
+            .collect(),
+        borders: map.borders.iter().map(border).collect(),
+        excluded: map.excluded.iter().map(border).collect(),
+        diagnostics: map
+            .diagnostics
+            .iter()
+            .map(|d| DiagnosticOut {
+                kind: kind_word(d.kind),
+                regions: d.regions.iter().map(|&r| id(r)).collect(),
+                message: d.message.clone(),
+            })
+            .collect(),
+    }
+}
+
+/// Plain-text rendering of the report.
+pub fn render_text(report: &AdjacencyReport) -> String {
+    use std::fmt::Write as _;
+    let mut out = String::new();
+    let name = |id: u64| {
+        report
+            .regions
+            .get(id as usize - 1)
+            .map_or("?", |r| r.name.as_str())
+    };
+    let _ = writeln!(
+        out,
+        "{}: {} regions, {} borders ({} rule, tolerance {} {}), {} contacts left out",
+        report.file,
+        report.regions.len(),
+        report.borders.len(),
+        report.rule,
+        report.tolerance,
+        report.units,
+        report.excluded.len()
+    );
+    for b in &report.borders {
+        let _ = match b.kind {
+            "corner" => writeln!(out, "  {} - {}: corner", name(b.a), name(b.b)),
+            _ => writeln!(
+                out,
+                "  {} - {}: shared, {:.1} {}",
+                name(b.a),
+                name(b.b),
+                b.length,
+                report.units
+            ),
+        };
+    }
+    if !report.diagnostics.is_empty() {
+        let _ = writeln!(out, "{} diagnostics:", report.diagnostics.len());
+        for d in &report.diagnostics {
+            let _ = writeln!(out, "  {}: {}", d.kind, d.message);
+        }
+    }
+    out
+}
+
+/// `tinct adjacency FILE [--json]`.
+pub fn run_adjacency(file: &Path, json: bool, args: &GeoArgs) -> ExitCode {
+    let map = match import(file, &args.options()) {
+        Ok(m) => m,
+        Err(e) => return error(exit::BAD_INPUT, &e),
+    };
+    let report = report(&file.display().to_string(), &map);
+    let text = if json {
+        match serde_json::to_string_pretty(&report) {
+            Ok(t) => t + "\n",
+            Err(e) => return error(exit::CANNOT_WRITE, &e.into()),
+        }
+    } else {
+        render_text(&report)
+    };
+    let mut stdout = std::io::stdout().lock();
+    if let Err(e) = stdout
+        .write_all(text.as_bytes())
+        .and_then(|_| stdout.flush())
+    {
+        return error(exit::CANNOT_WRITE, &e.into());
+    }
+    ExitCode::from(exit::OK)
+}

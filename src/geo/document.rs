@@ -1,0 +1,234 @@
+//! Turning an imported map into a project document.
+//!
+//! Every contact is recorded, including those the import rule left out, and the document's
+//! settings say which ones constrain the colouring (`corners_count` for queen, the minimum border
+//! length for rook), so the user can switch rules later without importing again.
+//! Properties `role` ("land" or "water"), `group` (a name) and `pin` (a palette slot), as written
+//! by Tinct's sample maps, become the region's role, same-colour group and pin. Parts of one
+//! feature split into several regions (`split_parts`) share a same-colour group.
+
+use std::collections::BTreeMap;
+use std::sync::Arc;
+
+use serde_json::Value;
+
+use super::{BorderKind as GeoBorderKind, ImportedMap, Point, Polygon as GeoPolygon, Rule, Units};
+use crate::doc::{
+    self, AttrValue, Border, Document, Geometry, Group, GroupId, Region, RegionId, RegionPair,
+    Role, Settings,
+};
+
+impl ImportedMap {
+    /// Builds a fresh document titled `title`: one region per imported region (ids from 1 in
+    /// import order), every contact as a border, settings from the import options.
+    pub fn into_document(self, title: impl Into<String>) -> Document {
+        let mut document = Document::new(title);
+        document.settings = Settings {
+            corners_count: self.rule == Rule::Queen,
+            min_border_length: self.min_border_length,
+            tolerance: self.tolerance,
+            units: match self.units {
+                Units::Metres => doc::Units::Metres,
+                Units::MapUnits => doc::Units::Unitless,
+            },
+        };
+
+        // Same-colour groups: named in the properties, or the parts of one split feature.
+        let mut per_feature: BTreeMap<usize, usize> = BTreeMap::new();
+        for region in &self.regions {
+            *per_feature.entry(region.source_index).or_default() += 1;
+        }
+        let mut group_ids: BTreeMap<String, GroupId> = BTreeMap::new();
+        let mut group_of = |name: String, document: &mut Document| {
+            let next = GroupId(group_ids.len() as u64 + 1);
+            let id = *group_ids.entry(name.clone()).or_insert(next);
+            document.groups.entry(id).or_insert(Group { name });
+            id
+        };
+
+        let first_id = document.peek_region_id().0;
+        for (i, imported) in self.regions.into_iter().enumerate() {
+            let properties = &imported.properties;
+            let role = match properties.get("role").and_then(Value::as_str) {
+                Some("water") => Role::Water,
+                _ => Role::Land,
+            };
+            let group = match properties.get("group") {
+                Some(Value::String(name)) if !name.trim().is_empty() => {
+                    Some(group_of(name.trim().to_string(), &mut document))
+                }
+                _ if per_feature
+                    .get(&imported.source_index)
+                    .copied()
+                    .unwrap_or(0)
+                    > 1 =>
+                {
+                    let base = imported
+                        .name
+                        .rsplit_once(" (")
+                        .map_or(imported.name.as_str(), |(b, _)| b);
+                    Some(group_of(base.to_string(), &mut document))
+                }
+                _ => None,
+            };
+            let pin = properties
+                .get("pin")
+                .and_then(Value::as_u64)
+                .and_then(|p| u32::try_from(p).ok());
+            let anchor = anchor_of(&imported.parts);
+            let geometry = (!imported.parts.is_empty()).then(|| {
+                Arc::new(Geometry {
+                    polygons: imported.parts.iter().map(to_doc_polygon).collect(),
+                })
+            });
+            let attributes = properties
+                .iter()
+                .map(|(k, v)| (k.clone(), attr_value(v)))
+                .collect();
+            let region = Region {
+                name: imported.name,
+                role,
+                anchor,
+                geometry,
+                pin,
+                group,
+                source_index: Some(imported.source_index as u64),
+                attributes,
+            };
+            document
+                .regions
+                .insert(RegionId(first_id + i as u64), region);
+        }
+        document.next_region_id = first_id + document.regions.len() as u64;
+        document.next_group_id = group_ids.len() as u64 + 1;
+
+        for border in self.borders.iter().chain(&self.excluded) {
+            let pair = RegionPair::new(
+                RegionId(first_id + border.a as u64),
+                RegionId(first_id + border.b as u64),
+            );
+            let Some(pair) = pair else { continue };
+            let value = match border.kind {
+                GeoBorderKind::Shared { length } => Border::shared(length),
+                GeoBorderKind::Corner => Border::corner(),
+            };
+            document.borders.insert(pair, value);
+        }
+        document
+    }
+}
+
+/// The document stores rings without repeating the first point.
+fn to_doc_polygon(polygon: &GeoPolygon) -> doc::Polygon {
+    let open = |ring: &Vec<Point>| {
+        let mut ring = ring.clone();
+        if ring.len() > 1 && ring.first() == ring.last() {
+            ring.pop();
+        }
+        ring
+    };
+    doc::Polygon {
+        exterior: open(&polygon.exterior),
+        holes: polygon.holes.iter().map(open).collect(),
+    }
+}
+
+fn attr_value(value: &Value) -> AttrValue {
+    match value {
+        Value::Null => AttrValue::Null,
+        Value::Bool(b) => AttrValue::Bool(*b),
+        Value::Number(n) => n.as_f64().map_or(AttrValue::Null, AttrValue::Number),
+        Value::String(s) => AttrValue::Text(s.clone()),
+        other => AttrValue::Text(other.to_string()),
+    }
+}
+
+fn signed_area(ring: &[Point]) -> f64 {
+    ring.windows(2)
+        .map(|w| w[0][0] * w[1][1] - w[1][0] * w[0][1])
+        .sum::<f64>()
+        / 2.0
+}
+
+/// A label point inside the largest part: its centroid when that lies inside, otherwise the
+/// middle of the widest inside stretch of the horizontal line through the centroid.
+pub fn anchor_of(parts: &[GeoPolygon]) -> Point {
+    let Some(largest) = parts.iter().max_by(|a, b| {
+        signed_area(&a.exterior)
+            .abs()
+            .total_cmp(&signed_area(&b.exterior).abs())
+    }) else {
+        return [0.0, 0.0];
+    };
+    let ring = &largest.exterior;
+    let area = signed_area(ring);
+    let centroid = if area.abs() > 0.0 {
+        let (mut cx, mut cy) = (0.0, 0.0);
+        for w in ring.windows(2) {
+            let f = w[0][0] * w[1][1] - w[1][0] * w[0][1];
+            cx += (w[0][0] + w[1][0]) * f;
+            cy += (w[0][1] + w[1][1]) * f;
+        }
+        [cx / (6.0 * area), cy / (6.0 * area)]
+    } else {
+        ring.first().copied().unwrap_or([0.0, 0.0])
+    };
+    let rings: Vec<&Vec<Point>> = std::iter::once(ring).chain(&largest.holes).collect();
+    let inside = |p: Point| {
+        let mut inside = false;
+        for r in &rings {
+            for w in r.windows(2) {
+                let (a, b) = (w[0], w[1]);
+                if (a[1] > p[1]) != (b[1] > p[1])
+                    && p[0] < a[0] + (p[1] - a[1]) / (b[1] - a[1]) * (b[0] - a[0])
+                {
+                    inside = !inside;
+                }
+            }
+        }
+        inside
+    };
+    if inside(centroid) {
+        return centroid;
+    }
+    let y = centroid[1];
+    let mut xs: Vec<f64> = Vec::new();
+    for r in &rings {
+        for w in r.windows(2) {
+            let (a, b) = (w[0], w[1]);
+            if (a[1] > y) != (b[1] > y) {
+                xs.push(a[0] + (y - a[1]) / (b[1] - a[1]) * (b[0] - a[0]));
+            }
+        }
+    }
+    xs.sort_by(f64::total_cmp);
+    xs.chunks_exact(2)
+        .max_by(|a, b| (a[1] - a[0]).total_cmp(&(b[1] - b[0])))
+        .map_or(centroid, |w| [(w[0] + w[1]) / 2.0, y])
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn anchor_of_a_c_shape_lies_inside_it() {
+        // A C-shaped polygon whose centroid falls in the notch.
+        let ring = vec![
+            [0.0, 0.0],
+            [3.0, 0.0],
+            [3.0, 1.0],
+            [1.0, 1.0],
+            [1.0, 2.0],
+            [3.0, 2.0],
+            [3.0, 3.0],
+            [0.0, 3.0],
+            [0.0, 0.0],
+        ];
+        let p = anchor_of(&[GeoPolygon {
+            exterior: ring,
+            holes: vec![],
+        }]);
+        assert!(p[0] > 0.0 && p[0] < 1.0, "{p:?}");
+    }
+}

@@ -1,0 +1,610 @@
+//! Geometry import: GeoJSON, TopoJSON and Shapefile readers, projection and adjacency derivation.
+//!
+//! The readers turn a boundary file into an [`ImportedMap`]: one region per feature (or per
+//! polygon part with [`ImportOptions::split_parts`]), in projected world units, plus the borders
+//! between regions and a list of [`Diagnostic`]s about questionable data. Problems in the data are
+//! reported, never fatal; [`ImportError`] means the file cannot be read at all.
+//!
+//! Pipeline: read (format module) -> choose names -> clean rings (closure, duplicates, degenerate
+//! rings) -> project longitude/latitude data ([`project`]) -> split parts if asked -> derive
+//! borders ([`adjacency`], or straight from shared arcs for TopoJSON) -> diagnostics.
+//!
+//! `ImportedMap` is the importers' own result; [`ImportedMap::into_document`] turns it into a
+//! project document (every contact recorded, the rule kept in the document's settings).
+//!
+//! # Rules, tolerance and lengths (user documentation)
+//!
+//! * **Rook**: two regions border each other when their boundaries share a stretch of positive
+//!   length, at least `min_border_length`. **Queen**: any shared point counts; contacts without
+//!   shared length are kept as [`BorderKind::Corner`] borders. Contacts a rule leaves out are
+//!   kept in [`ImportedMap::excluded`] so a user can bring them back. At a quadripoint rook gives
+//!   a 4-cycle and queen a K4.
+//! * **Tolerance** (`tolerance`, metres for longitude/latitude data, else map units): boundaries
+//!   that run within this distance of each other count as shared even when their vertices
+//!   differ (digitising gaps, slivers). Zero means exact, up to rounding (1e-9 of the map's
+//!   diagonal).
+//! * **Shared length**: the length of boundary lying within the tolerance of the neighbour's,
+//!   less the tolerance at both ends of each stretch, averaged over the two regions; contacts
+//!   measuring under twice the tolerance (plus 1e-6 of the diagonal) are corner contacts.
+//!   For longitude/latitude data lengths are great-circle lengths on the sphere.
+//! * **TopoJSON**: borders come from the topology itself: two regions whose rings use the same
+//!   arc share its length; regions whose arcs end at a common node touch there. The tolerance
+//!   then applies only to the geometric diagnostics (gaps, overlaps).
+//! * **Projection**: longitude/latitude data (GeoJSON per RFC 7946; Shapefile with a `GEOGCS`
+//!   .prj; otherwise detected from the coordinate range) is projected to metres with the Lambert
+//!   azimuthal equal-area projection centred on the data (see [`project`]); data crossing the
+//!   180-degree meridian stays whole.
+//!
+//! # Diagnostics
+//!
+//! Each [`Diagnostic`] names the regions involved: skipped non-polygon geometries, empty
+//! geometries, unclosed rings (closed), degenerate rings (dropped), self-intersecting rings,
+//! overlaps deeper than the tolerance, gaps (regions within the gap band, by default three times
+//! the tolerance or 1e-4 of the diagonal, that do not touch), duplicate names, and borders
+//! shorter than the minimum length. Errors ([`ImportError`]) only when the file cannot be read:
+//! not JSON or truncated, not GeoJSON/TopoJSON, an unreadable shapefile, a missing name field
+//! (the error lists the available fields) or TopoJSON object.
+//!
+//! Overlaps are found three ways: boundaries that cross with a vertex deeper than the tolerance
+//! inside the other region; two exterior outlines lying wholly along each other (a duplicate);
+//! and a region inside another without touching its boundary. Limitation: gaps are reported
+//! only for regions that do not touch at all, not for a gap along part of a shared border.
+
+pub mod adjacency;
+pub mod document;
+mod geojson;
+pub mod project;
+mod rings;
+mod shp;
+pub mod synthetic;
+mod topojson;
+
+use std::collections::BTreeMap;
+use std::path::{Path, PathBuf};
+
+pub use adjacency::{AdjacencyOptions, Derived, derive_borders, derive_contacts};
+pub use project::LambertAzimuthalEqualArea;
+
+/// A position in world units (`[x, y]`), or `[longitude, latitude]` in degrees before projection.
+pub type Point = [f64; 2];
+
+/// A closed ring: the first position equals the last one.
+pub type Ring = Vec<Point>;
+
+/// A polygon with one exterior ring and any number of holes. Rings are stored closed.
+#[derive(Clone, Debug, PartialEq, Default)]
+pub struct Polygon {
+    pub exterior: Ring,
+    pub holes: Vec<Ring>,
+}
+
+/// A multi-part region: the parts share one colour.
+pub type MultiPolygon = Vec<Polygon>;
+
+/// One region of an imported map.
+#[derive(Clone, Debug, PartialEq)]
+pub struct ImportedRegion {
+    /// 0-based position of the feature (or shape record, or TopoJSON geometry) in the input file.
+    pub source_index: usize,
+    /// The region's name, from the name field; `"#<source_index>"` when the feature has no value.
+    pub name: String,
+    /// The geometry in projected world units (see [`ImportedMap::units`]). May be empty when the
+    /// feature had no usable geometry (an [`DiagnosticKind::EmptyGeometry`] says so).
+    pub parts: MultiPolygon,
+    /// The feature's properties (Shapefile: the .dbf record), for display and export.
+    pub properties: BTreeMap<String, serde_json::Value>,
+}
+
+/// How two regions touch.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum BorderKind {
+    /// A shared boundary of positive length, in world units.
+    Shared { length: f64 },
+    /// The regions touch only at points (corner contact, such as a quadripoint).
+    Corner,
+}
+
+/// A border between regions `a < b` (indices into [`ImportedMap::regions`]).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct ImportedBorder {
+    pub a: usize,
+    pub b: usize,
+    pub kind: BorderKind,
+}
+
+impl ImportedBorder {
+    /// Shared length in world units; zero for a corner contact.
+    pub fn length(&self) -> f64 {
+        match self.kind {
+            BorderKind::Shared { length } => length,
+            BorderKind::Corner => 0.0,
+        }
+    }
+}
+
+/// What kind of questionable data a diagnostic reports.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub enum DiagnosticKind {
+    /// A feature with a geometry that is not a polygon (point, line) was skipped.
+    SkippedGeometry,
+    /// A feature had no geometry or only degenerate rings.
+    EmptyGeometry,
+    /// A ring whose last position differs from its first; it was closed.
+    UnclosedRing,
+    /// A ring with fewer than three distinct positions; it was dropped.
+    DegenerateRing,
+    /// A ring crosses or touches itself.
+    SelfIntersection,
+    /// Two regions overlap by more than the tolerance.
+    Overlap,
+    /// Two regions come close (within the gap band) but do not touch within the tolerance.
+    Gap,
+    /// Several regions carry the same name.
+    DuplicateName,
+    /// A shared border shorter than the minimum length was left out by the rook rule.
+    ShortBorder,
+    /// Something about the file as a whole (a coordinate system assumption, an unknown member).
+    File,
+}
+
+/// Questionable data found during import; names the regions involved.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Diagnostic {
+    pub kind: DiagnosticKind,
+    /// Indices into [`ImportedMap::regions`], sorted.
+    pub regions: Vec<usize>,
+    pub message: String,
+}
+
+/// Units of the world coordinates.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Units {
+    /// Longitude/latitude input projected to metres (Lambert azimuthal equal-area).
+    Metres,
+    /// Planar input kept in its own units.
+    MapUnits,
+}
+
+/// The result of an import.
+#[derive(Clone, Debug, PartialEq)]
+pub struct ImportedMap {
+    pub regions: Vec<ImportedRegion>,
+    /// The borders the rule selects, sorted by `(a, b)`.
+    pub borders: Vec<ImportedBorder>,
+    /// Contacts the rule leaves out (corner contacts under rook, shared borders shorter than the
+    /// minimum length), sorted by `(a, b)`, so that a user can include them again.
+    pub excluded: Vec<ImportedBorder>,
+    /// The options the borders were derived with.
+    pub rule: Rule,
+    pub tolerance: f64,
+    pub min_border_length: f64,
+    /// Sorted by kind, then regions, then message.
+    pub diagnostics: Vec<Diagnostic>,
+    pub units: Units,
+    /// The projection used for longitude/latitude input (`None` for planar data).
+    pub projection: Option<LambertAzimuthalEqualArea>,
+}
+
+/// Which contacts count as borders.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+pub enum Rule {
+    /// Shared boundary of positive length, at least [`ImportOptions::min_border_length`].
+    #[default]
+    Rook,
+    /// Any shared point; corner contacts become [`BorderKind::Corner`] borders.
+    Queen,
+}
+
+/// How to read coordinates.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+pub enum CoordinateMode {
+    /// Longitude/latitude when the file says so (GeoJSON per RFC 7946, a .prj with `GEOGCS`) or,
+    /// failing that, when every coordinate lies within the longitude/latitude range.
+    #[default]
+    Auto,
+    LonLat,
+    Planar,
+}
+
+/// Options for [`import_path`].
+#[derive(Clone, Debug, PartialEq)]
+pub struct ImportOptions {
+    pub rule: Rule,
+    /// Boundaries within this distance count as shared (world units: metres for lon/lat data).
+    pub tolerance: f64,
+    /// The rook rule drops shared borders shorter than this (world units).
+    pub min_border_length: f64,
+    /// The property naming a region; default: the first of `name`, `NAME`, `Name`, `id`, `ID`
+    /// present in the file, else the feature id, else `#<index>`.
+    pub name_field: Option<String>,
+    /// One region per polygon part instead of one per feature.
+    pub split_parts: bool,
+    /// TopoJSON object to import; default: the one with the most polygon geometries.
+    pub layer: Option<String>,
+    pub coordinates: CoordinateMode,
+    /// Regions closer than this but not within the tolerance get a [`DiagnosticKind::Gap`];
+    /// default (`None`): three times the tolerance, at least 1e-4 of the map's diagonal.
+    pub gap_width: Option<f64>,
+}
+
+impl Default for ImportOptions {
+    fn default() -> Self {
+        Self {
+            rule: Rule::Rook,
+            tolerance: 0.0,
+            min_border_length: 0.0,
+            name_field: None,
+            split_parts: false,
+            layer: None,
+            coordinates: CoordinateMode::Auto,
+            gap_width: None,
+        }
+    }
+}
+
+/// Why a file could not be imported at all.
+#[derive(Debug, thiserror::Error)]
+pub enum ImportError {
+    #[error("cannot read {path}: {source}")]
+    Io {
+        path: PathBuf,
+        #[source]
+        source: std::io::Error,
+    },
+    #[error("cannot tell the format of {path}: expected .geojson, .json, .topojson or .shp")]
+    UnknownFormat { path: PathBuf },
+    #[error("not valid JSON at line {line}, column {column}: {message}")]
+    Json {
+        line: usize,
+        column: usize,
+        message: String,
+    },
+    #[error("not a GeoJSON or TopoJSON document: {reason}")]
+    NotGeoJson { reason: String },
+    #[error("invalid TopoJSON: {reason}")]
+    Topology { reason: String },
+    #[error("invalid Shapefile: {reason}")]
+    Shapefile { reason: String },
+    #[error("no property {field:?} names the regions; available fields: {}", available.join(", "))]
+    MissingNameField {
+        field: String,
+        available: Vec<String>,
+    },
+    #[error("TopoJSON object {layer:?} not found; available objects: {}", available.join(", "))]
+    MissingLayer {
+        layer: String,
+        available: Vec<String>,
+    },
+}
+
+/// Input formats.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Format {
+    GeoJson,
+    TopoJson,
+    Shapefile,
+}
+
+/// A feature as read, before names, projection and adjacency.
+#[derive(Clone, Debug, Default)]
+struct RawFeature {
+    source_index: usize,
+    /// Feature id (GeoJSON `id`, TopoJSON geometry `id`), used when no name field exists.
+    id: Option<String>,
+    properties: BTreeMap<String, serde_json::Value>,
+    parts: MultiPolygon,
+    /// TopoJSON only: per part, the arc indices (non-negative) its rings use.
+    part_arcs: Vec<Vec<usize>>,
+    /// The geometry was missing or null.
+    geometry_missing: bool,
+}
+
+/// What a reader hands on.
+#[derive(Debug, Default)]
+struct RawMap {
+    features: Vec<RawFeature>,
+    diagnostics: Vec<Diagnostic>,
+    /// Field names in file order (dbf) or first-seen order (JSON), for the name-field error.
+    field_names: Vec<String>,
+    /// The reader knows the coordinates are longitude/latitude (`Some(true)`) or planar.
+    lon_lat_hint: Option<bool>,
+    /// TopoJSON: the decoded arcs in input coordinates.
+    arcs: Option<Vec<Vec<Point>>>,
+}
+
+/// Reads and imports a boundary file; the format comes from the extension (and, for `.json`,
+/// from the document's `type`).
+pub fn import_path(path: &Path, options: &ImportOptions) -> Result<ImportedMap, ImportError> {
+    let ext = path
+        .extension()
+        .and_then(|e| e.to_str())
+        .map(|e| e.to_ascii_lowercase())
+        .unwrap_or_default();
+    match ext.as_str() {
+        "shp" => {
+            let raw = shp::read_path(path, options.coordinates)?;
+            finish(raw, options)
+        }
+        "geojson" | "json" | "topojson" => {
+            let bytes = std::fs::read(path).map_err(|source| ImportError::Io {
+                path: path.to_path_buf(),
+                source,
+            })?;
+            import_json(&bytes, options)
+        }
+        _ => Err(ImportError::UnknownFormat {
+            path: path.to_path_buf(),
+        }),
+    }
+}
+
+/// Imports a GeoJSON or TopoJSON document held in memory (the `type` member decides).
+pub fn import_json(bytes: &[u8], options: &ImportOptions) -> Result<ImportedMap, ImportError> {
+    let value: serde_json::Value =
+        serde_json::from_slice(bytes).map_err(|e| ImportError::Json {
+            line: e.line(),
+            column: e.column(),
+            message: e.to_string(),
+        })?;
+    let raw = if value.get("type").and_then(|t| t.as_str()) == Some("Topology") {
+        topojson::read_value(&value, options.layer.as_deref())?
+    } else {
+        geojson::read_value(&value)?
+    };
+    finish(raw, options)
+}
+
+/// Detects the format of an in-memory document or file name (for callers that need to say which).
+pub fn format_of(path: &Path, bytes: Option<&[u8]>) -> Option<Format> {
+    let ext = path.extension()?.to_str()?.to_ascii_lowercase();
+    match ext.as_str() {
+        "shp" => Some(Format::Shapefile),
+        "topojson" => Some(Format::TopoJson),
+        "geojson" => Some(Format::GeoJson),
+        "json" => {
+            let text = bytes.map(|b| String::from_utf8_lossy(&b[..b.len().min(4096)]).into_owned());
+            match text {
+                Some(t) if t.contains("\"Topology\"") => Some(Format::TopoJson),
+                _ => Some(Format::GeoJson),
+            }
+        }
+        _ => None,
+    }
+}
+
+/// Names, ring cleaning, projection, part splitting, borders and diagnostics.
+fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, ImportError> {
+    let names = choose_names(&raw, options.name_field.as_deref())?;
+    let mut diagnostics = std::mem::take(&mut raw.diagnostics);
+
+    // Clean rings first, in input coordinates, so that the projection sees valid rings.
+    let mut cleaned: Vec<(MultiPolygon, Vec<Vec<usize>>, Vec<rings::RingProblem>)> = Vec::new();
+    for feature in &mut raw.features {
+        let parts = std::mem::take(&mut feature.parts);
+        let arcs = std::mem::take(&mut feature.part_arcs);
+        let (parts, arcs, problems) = rings::clean_parts(parts, arcs);
+        cleaned.push((parts, arcs, problems));
+    }
+
+    // Decide on longitude/latitude and project.
+    let lon_lat = match options.coordinates {
+        CoordinateMode::LonLat => true,
+        CoordinateMode::Planar => false,
+        CoordinateMode::Auto => raw.lon_lat_hint.unwrap_or_else(|| {
+            let mut all = cleaned
+                .iter()
+                .flat_map(|(p, _, _)| all_points(p))
+                .peekable();
+            all.peek().is_some() && project::looks_like_lon_lat(all)
+        }),
+    };
+    let projection = if lon_lat {
+        let points = cleaned.iter().flat_map(|(p, _, _)| all_points(p));
+        let arc_points = raw.arcs.iter().flatten().flatten().copied();
+        LambertAzimuthalEqualArea::fit(points.chain(arc_points))
+    } else {
+        None
+    };
+    if let Some(proj) = &projection {
+        for (parts, _, _) in &mut cleaned {
+            for polygon in parts.iter_mut() {
+                proj.project_ring(&mut polygon.exterior);
+                for hole in &mut polygon.holes {
+                    proj.project_ring(hole);
+                }
+            }
+        }
+        if let Some(arcs) = &mut raw.arcs {
+            for arc in arcs.iter_mut() {
+                proj.project_ring(arc);
+            }
+        }
+    }
+    let units = if projection.is_some() {
+        Units::Metres
+    } else {
+        Units::MapUnits
+    };
+
+    // Build regions (splitting parts if asked), remembering each region's arcs.
+    let mut regions = Vec::new();
+    let mut region_arcs: Vec<Vec<usize>> = Vec::new();
+    let mut ring_problems: Vec<(usize, rings::RingProblem)> = Vec::new();
+    let mut empty: Vec<usize> = Vec::new();
+    for ((feature, name), (parts, arcs, problems)) in raw.features.iter().zip(names).zip(cleaned) {
+        let first_region = regions.len();
+        if options.split_parts && parts.len() > 1 {
+            for (k, (polygon, arcs)) in parts.into_iter().zip(arcs_or_empty(arcs)).enumerate() {
+                regions.push(ImportedRegion {
+                    source_index: feature.source_index,
+                    name: format!("{name} ({})", k + 1),
+                    parts: vec![polygon],
+                    properties: feature.properties.clone(),
+                });
+                region_arcs.push(arcs);
+            }
+        } else {
+            let all_arcs: Vec<usize> = arcs.into_iter().flatten().collect();
+            if parts.is_empty() {
+                empty.push(first_region);
+            }
+            regions.push(ImportedRegion {
+                source_index: feature.source_index,
+                name,
+                parts,
+                properties: feature.properties.clone(),
+            });
+            region_arcs.push(all_arcs);
+        }
+        for problem in problems {
+            ring_problems.push((first_region, problem));
+        }
+    }
+
+    for (region, problem) in ring_problems {
+        diagnostics.push(problem.into_diagnostic(region, &regions[region].name));
+    }
+    for region in empty {
+        diagnostics.push(Diagnostic {
+            kind: DiagnosticKind::EmptyGeometry,
+            regions: vec![region],
+            message: format!(
+                "region {:?} (feature {}) has no polygon geometry; it is kept without a shape",
+                regions[region].name, regions[region].source_index
+            ),
+        });
+    }
+    diagnostics.extend(duplicate_names(&regions));
+
+    let adjacency = AdjacencyOptions {
+        rule: options.rule,
+        tolerance: options.tolerance,
+        min_border_length: options.min_border_length,
+        gap_width: options.gap_width,
+        lengths_on_sphere: projection,
+    };
+    let derived = match &raw.arcs {
+        Some(arcs) => topojson::borders_from_arcs(&regions, &region_arcs, arcs, &adjacency),
+        None => derive_contacts(&regions, &adjacency),
+    };
+    diagnostics.extend(derived.diagnostics);
+    sort_diagnostics(&mut diagnostics);
+
+    Ok(ImportedMap {
+        regions,
+        borders: derived.borders,
+        excluded: derived.excluded,
+        rule: options.rule,
+        tolerance: options.tolerance,
+        min_border_length: options.min_border_length,
+        diagnostics,
+        units,
+        projection,
+    })
+}
+
+fn arcs_or_empty(arcs: Vec<Vec<usize>>) -> impl Iterator<Item = Vec<usize>> {
+    arcs.into_iter().chain(std::iter::repeat_with(Vec::new))
+}
+
+fn all_points(parts: &MultiPolygon) -> impl Iterator<Item = Point> + '_ {
+    parts
+        .iter()
+        .flat_map(|p| p.exterior.iter().chain(p.holes.iter().flatten()).copied())
+}
+
+/// Name fields tried in order when none is given (common practice in boundary datasets).
+const DEFAULT_NAME_FIELDS: [&str; 5] = ["name", "NAME", "Name", "id", "ID"];
+
+fn choose_names(raw: &RawMap, field: Option<&str>) -> Result<Vec<String>, ImportError> {
+    let has_field = |f: &str| {
+        raw.field_names.iter().any(|n| n == f)
+            || raw.features.iter().any(|x| x.properties.contains_key(f))
+    };
+    let field = match field {
+        Some(f) => {
+            if !has_field(f) {
+                let mut available = raw.field_names.clone();
+                for feature in &raw.features {
+                    for key in feature.properties.keys() {
+                        if !available.contains(key) {
+                            available.push(key.clone());
+                        }
+                    }
+                }
+                if raw.features.iter().any(|x| x.id.is_some()) {
+                    available.push("(feature id: leave the name field unset)".to_string());
+                }
+                return Err(ImportError::MissingNameField {
+                    field: f.to_string(),
+                    available,
+                });
+            }
+            Some(f.to_string())
+        }
+        None => DEFAULT_NAME_FIELDS
+            .iter()
+            .find(|f| has_field(f))
+            .map(|f| f.to_string()),
+    };
+    Ok(raw
+        .features
+        .iter()
+        .map(|feature| {
+            let from_field = field
+                .as_ref()
+                .and_then(|f| feature.properties.get(f))
+                .and_then(value_as_name);
+            from_field
+                .or_else(|| feature.id.clone())
+                .unwrap_or_else(|| format!("#{}", feature.source_index))
+        })
+        .collect())
+}
+
+fn value_as_name(value: &serde_json::Value) -> Option<String> {
+    match value {
+        serde_json::Value::String(s) => Some(s.trim().to_string()).filter(|s| !s.is_empty()),
+        serde_json::Value::Number(n) => Some(n.to_string()),
+        serde_json::Value::Bool(b) => Some(b.to_string()),
+        _ => None,
+    }
+}
+
+fn duplicate_names(regions: &[ImportedRegion]) -> Vec<Diagnostic> {
+    let mut by_name: BTreeMap<&str, Vec<usize>> = BTreeMap::new();
+    for (i, region) in regions.iter().enumerate() {
+        by_name.entry(region.name.as_str()).or_default().push(i);
+    }
+    by_name
+        .into_iter()
+        .filter(|(_, ids)| ids.len() > 1)
+        .map(|(name, ids)| Diagnostic {
+            kind: DiagnosticKind::DuplicateName,
+            message: format!("{} regions are named {name:?}", ids.len()),
+            regions: ids,
+        })
+        .collect()
+}
+
+fn sort_diagnostics(diagnostics: &mut [Diagnostic]) {
+    diagnostics
+        .sort_by(|x, y| (x.kind, &x.regions, &x.message).cmp(&(y.kind, &y.regions, &y.message)));
+}
+
+impl ImportedMap {
+    /// The borders as index pairs, for comparisons and graph building.
+    pub fn edges(&self) -> Vec<(usize, usize)> {
+        self.borders.iter().map(|b| (b.a, b.b)).collect()
+    }
+
+    /// Diagnostics of one kind.
+    pub fn diagnostics_of(&self, kind: DiagnosticKind) -> impl Iterator<Item = &Diagnostic> {
+        self.diagnostics.iter().filter(move |d| d.kind == kind)
+    }
+
+    /// The index of the region with this name (the first if several share it).
+    pub fn region_named(&self, name: &str) -> Option<usize> {
+        self.regions.iter().position(|r| r.name == name)
+    }
+}

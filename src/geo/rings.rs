@@ -1,0 +1,155 @@
+//! Ring cleaning: closes unclosed rings, drops repeated positions and degenerate rings.
+//!
+//! Runs before projection and adjacency so that later stages can rely on closed rings with at
+//! least three distinct positions and no zero-length edges. Everything it changes is reported.
+
+use super::{Diagnostic, DiagnosticKind, MultiPolygon, Point, Polygon, Ring};
+
+/// Something the cleaner fixed or dropped in one ring.
+#[derive(Clone, Debug, PartialEq)]
+pub(super) enum RingProblem {
+    Unclosed { part: usize, hole: Option<usize> },
+    Degenerate { part: usize, hole: Option<usize> },
+    NonFinite { part: usize },
+}
+
+impl RingProblem {
+    pub(super) fn into_diagnostic(self, region: usize, name: &str) -> Diagnostic {
+        let which = |part: usize, hole: Option<usize>| match hole {
+            None => format!("exterior ring of part {}", part + 1),
+            Some(h) => format!("hole {} of part {}", h + 1, part + 1),
+        };
+        let (kind, message) = match self {
+            RingProblem::Unclosed { part, hole } => (
+                DiagnosticKind::UnclosedRing,
+                format!(
+                    "{} of region {name:?} does not end where it starts; closed it",
+                    which(part, hole)
+                ),
+            ),
+            RingProblem::Degenerate { part, hole } => (
+                DiagnosticKind::DegenerateRing,
+                format!(
+                    "{} of region {name:?} has fewer than three distinct positions; dropped it",
+                    which(part, hole)
+                ),
+            ),
+            RingProblem::NonFinite { part } => (
+                DiagnosticKind::DegenerateRing,
+                format!(
+                    "part {} of region {name:?} has a coordinate that is not a finite number; dropped it",
+                    part + 1
+                ),
+            ),
+        };
+        Diagnostic {
+            kind,
+            regions: vec![region],
+            message,
+        }
+    }
+}
+
+/// Cleans every ring of a feature; parts whose exterior is degenerate are dropped (with their
+/// arcs). Returns the kept parts, their arcs (empty when the input had none) and the problems.
+pub(super) fn clean_parts(
+    parts: MultiPolygon,
+    arcs: Vec<Vec<usize>>,
+) -> (MultiPolygon, Vec<Vec<usize>>, Vec<RingProblem>) {
+    let mut kept = Vec::with_capacity(parts.len());
+    let mut kept_arcs = Vec::new();
+    let mut problems = Vec::new();
+    let has_arcs = !arcs.is_empty();
+    let mut arcs = arcs.into_iter();
+    for (k, polygon) in parts.into_iter().enumerate() {
+        let part_arcs = arcs.next().unwrap_or_default();
+        let finite = polygon
+            .exterior
+            .iter()
+            .chain(polygon.holes.iter().flatten())
+            .all(|p| p[0].is_finite() && p[1].is_finite());
+        if !finite {
+            problems.push(RingProblem::NonFinite { part: k });
+            continue;
+        }
+        let Some(exterior) = clean_ring(polygon.exterior, k, None, &mut problems) else {
+            continue;
+        };
+        let holes = polygon
+            .holes
+            .into_iter()
+            .enumerate()
+            .filter_map(|(h, ring)| clean_ring(ring, k, Some(h), &mut problems))
+            .collect();
+        kept.push(Polygon { exterior, holes });
+        if has_arcs {
+            kept_arcs.push(part_arcs);
+        }
+    }
+    (kept, kept_arcs, problems)
+}
+
+fn clean_ring(
+    ring: Ring,
+    part: usize,
+    hole: Option<usize>,
+    problems: &mut Vec<RingProblem>,
+) -> Option<Ring> {
+    let mut out: Vec<Point> = Vec::with_capacity(ring.len() + 1);
+    for p in ring {
+        if out.last() != Some(&p) {
+            out.push(p);
+        }
+    }
+    if out.len() >= 2 && out.first() != out.last() {
+        problems.push(RingProblem::Unclosed { part, hole });
+        let first = out[0];
+        out.push(first);
+    }
+    // A closed ring needs three distinct positions plus the closing one.
+    if out.len() < 4 {
+        problems.push(RingProblem::Degenerate { part, hole });
+        return None;
+    }
+    Some(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn closes_unclosed_ring_and_reports_it() {
+        let parts = vec![Polygon {
+            exterior: vec![[0.0, 0.0], [1.0, 0.0], [1.0, 1.0]],
+            holes: vec![],
+        }];
+        let (kept, _, problems) = clean_parts(parts, vec![]);
+        assert_eq!(kept[0].exterior.len(), 4);
+        assert_eq!(kept[0].exterior[3], [0.0, 0.0]);
+        assert_eq!(
+            problems,
+            vec![RingProblem::Unclosed {
+                part: 0,
+                hole: None
+            }]
+        );
+    }
+
+    #[test]
+    fn drops_degenerate_ring_and_repeated_positions() {
+        let parts = vec![Polygon {
+            exterior: vec![[0.0, 0.0], [0.0, 0.0], [1.0, 0.0], [0.0, 0.0]],
+            holes: vec![],
+        }];
+        let (kept, _, problems) = clean_parts(parts, vec![]);
+        assert!(kept.is_empty());
+        assert_eq!(
+            problems,
+            vec![RingProblem::Degenerate {
+                part: 0,
+                hole: None
+            }]
+        );
+    }
+}

@@ -1,0 +1,611 @@
+//! The editor's state and its frame loop: drain worker events, draw the panels (which read state and
+//! emit commands), then apply the commands in one place at the end of the frame.
+
+use std::path::{Path, PathBuf};
+use std::time::{Duration, Instant};
+
+use crate::doc::{
+    self, ColouringCheck, ConstraintGraph, Document, Edit, GroupId, History, RegionId, RuleConflict,
+};
+use crate::worker::analysis::{self, Analysis};
+use crate::worker::{Event, JobKind, Worker};
+
+use super::commands::{Command, Tool};
+use super::mesh::MeshCache;
+use super::view::Camera;
+
+/// The invented map the editor opens with.
+pub const DEFAULT_MAP: &str = include_str!("../../sample-maps/vessland-province.tinct");
+
+/// The open document with its undo history and where it lives on disk.
+pub struct Session {
+    pub doc: Document,
+    pub history: History,
+    pub path: Option<PathBuf>,
+    /// The revision that was last saved or loaded; the document is "changed" when it differs.
+    pub saved_revision: u64,
+}
+
+impl Session {
+    pub fn new(doc: Document, path: Option<PathBuf>) -> Session {
+        let saved_revision = doc.revision();
+        Session {
+            doc,
+            history: History::default(),
+            path,
+            saved_revision,
+        }
+    }
+
+    pub fn is_dirty(&self) -> bool {
+        self.doc.revision() != self.saved_revision
+    }
+
+    /// The window title: file name, and a mark when there are unsaved changes.
+    pub fn title(&self) -> String {
+        let name = self
+            .path
+            .as_ref()
+            .and_then(|p| p.file_name())
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_else(|| format!("{} (not saved)", self.doc.title));
+        format!(
+            "{}{} — Tinct",
+            if self.is_dirty() { "• " } else { "" },
+            name
+        )
+    }
+}
+
+/// What the checks found for one revision of the document.
+pub struct Checks {
+    pub revision: u64,
+    pub colouring: ColouringCheck,
+    pub conflicts: Vec<RuleConflict>,
+    pub graph_vertices: usize,
+    pub graph_edges: usize,
+}
+
+impl Checks {
+    pub fn of(doc: &Document) -> Checks {
+        let cg = ConstraintGraph::build(doc);
+        Checks {
+            revision: doc.revision(),
+            colouring: doc::check_colouring(doc),
+            conflicts: cg.conflicts,
+            graph_vertices: cg.graph.vertex_count(),
+            graph_edges: cg.graph.edge_count(),
+        }
+    }
+}
+
+/// Results of background jobs.
+pub enum JobResult {
+    Loaded {
+        path: PathBuf,
+        result: Result<Box<(Document, Vec<String>)>, String>,
+    },
+    Analysed(Box<Analysis>),
+}
+
+/// Which certificate the map highlights.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Highlight {
+    /// The regions whose borders cannot be drawn flat (a Kuratowski subdivision).
+    NotPlanar,
+}
+
+/// How long the document must rest after an edit before the background analysis starts.
+pub const ANALYSIS_DEBOUNCE: Duration = Duration::from_millis(250);
+
+/// How serious a message in the status area is.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Level {
+    Info,
+    Warning,
+    Error,
+}
+
+/// A message shown to the user.
+#[derive(Clone, Debug)]
+pub struct Message {
+    pub level: Level,
+    pub text: String,
+    pub at: Instant,
+}
+
+/// The purpose of the file-path prompt.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum PathPurpose {
+    Open,
+    SaveAs,
+}
+
+/// The small window that asks for a file path (typed, or chosen with the system dialog).
+pub struct PathPrompt {
+    pub purpose: PathPurpose,
+    pub text: String,
+}
+
+/// Everything about how the map is shown; never saved in the project.
+pub struct ViewState {
+    pub camera: Camera,
+    /// The canvas needs fitting to the map on its next frame.
+    pub fit_pending: bool,
+    pub tool: Tool,
+    pub selection: Option<RegionId>,
+    pub hover: Option<RegionId>,
+    /// The first region clicked with the border tool.
+    pub border_first: Option<RegionId>,
+    pub show_borders: bool,
+    pub show_labels: bool,
+    /// The palette slot the pin tool uses.
+    pub pin_slot: u32,
+    /// The group the group tool adds to.
+    pub group: Option<GroupId>,
+    pub region_filter: String,
+    /// A name being typed for the selected region.
+    pub name_draft: Option<(RegionId, String)>,
+    /// A marker being dragged: its region and the drag offset in world units so far.
+    pub dragging: Option<(RegionId, [f64; 2])>,
+    pub highlight: Option<Highlight>,
+    /// Where the canvas was drawn last frame (screen points), so tests and tools can aim at regions.
+    pub canvas_rect: Option<egui::Rect>,
+}
+
+impl Default for ViewState {
+    fn default() -> ViewState {
+        ViewState {
+            camera: Camera::default(),
+            fit_pending: true,
+            tool: Tool::Select,
+            selection: None,
+            hover: None,
+            border_first: None,
+            show_borders: false,
+            show_labels: true,
+            pin_slot: 0,
+            group: None,
+            region_filter: String::new(),
+            name_draft: None,
+            dragging: None,
+            highlight: None,
+            canvas_rect: None,
+        }
+    }
+}
+
+/// The editor.
+pub struct App {
+    pub session: Session,
+    pub view: ViewState,
+    pub meshes: MeshCache,
+    pub checks: Checks,
+    pub messages: Vec<Message>,
+    pub path_prompt: Option<PathPrompt>,
+    /// A command waiting for the user to decide about unsaved changes.
+    pub confirm_discard: Option<Command>,
+    pub command_search: Option<String>,
+    /// The latest background analysis (possibly for an older revision: then it is shown as stale).
+    pub analysis: Option<Analysis>,
+    /// The revision the latest analysis job was started for.
+    analysis_requested: Option<u64>,
+    /// When the document last changed (for the debounce).
+    changed_at: Instant,
+    seen_revision: u64,
+    worker: Option<Worker<JobResult>>,
+    /// Paths chosen in a system file dialog, delivered from its thread.
+    dialog_results: std::sync::mpsc::Receiver<(PathPurpose, Option<PathBuf>)>,
+    dialog_sender: std::sync::mpsc::Sender<(PathPurpose, Option<PathBuf>)>,
+    /// Commands emitted while drawing this frame, applied at its end.
+    pending: Vec<Command>,
+    /// Set once the user has agreed to close.
+    pub quit_confirmed: bool,
+    last_title: String,
+}
+
+impl App {
+    /// The editor on the embedded sample map, or on `path` if given (read in the background).
+    pub fn new(ctx: Option<egui::Context>, path: Option<PathBuf>) -> App {
+        let doc = doc::file::from_str(DEFAULT_MAP).unwrap_or_else(|_| Document::new("Untitled"));
+        let worker =
+            ctx.and_then(|ctx| Worker::start(Box::new(move || ctx.request_repaint())).ok());
+        let (dialog_sender, dialog_results) = std::sync::mpsc::channel();
+        let checks = Checks::of(&doc);
+        let mut app = App {
+            session: Session::new(doc, None),
+            view: ViewState::default(),
+            meshes: MeshCache::default(),
+            checks,
+            messages: Vec::new(),
+            path_prompt: None,
+            confirm_discard: None,
+            command_search: None,
+            analysis: None,
+            analysis_requested: None,
+            changed_at: Instant::now(),
+            seen_revision: u64::MAX,
+            worker,
+            dialog_results,
+            dialog_sender,
+            pending: Vec::new(),
+            quit_confirmed: false,
+            last_title: String::new(),
+        };
+        if let Some(path) = path {
+            app.open_path(path);
+        }
+        app
+    }
+
+    /// Queues a command for the end of this frame.
+    pub fn emit(&mut self, command: Command) {
+        self.pending.push(command);
+    }
+
+    pub fn say(&mut self, level: Level, text: impl Into<String>) {
+        self.messages.push(Message {
+            level,
+            text: text.into(),
+            at: Instant::now(),
+        });
+        if self.messages.len() > 50 {
+            self.messages.remove(0);
+        }
+    }
+
+    /// Applies an edit through the undo history; refusals become messages.
+    pub fn edit(&mut self, edit: Edit) {
+        if let Err(e) = self.session.history.apply(&mut self.session.doc, edit) {
+            self.say(Level::Warning, format!("Not changed: {e}"));
+        }
+    }
+
+    /// Reads a file on the worker (or here, when there is no worker, as in tests).
+    pub fn open_path(&mut self, path: PathBuf) {
+        let job_path = path.clone();
+        let job = move || {
+            let result = crate::formats::load(&job_path)
+                .map(|l| Box::new((l.doc, l.notices.into_iter().map(|n| n.message).collect())))
+                .map_err(|e| format!("{e:#}"));
+            JobResult::Loaded {
+                path: job_path,
+                result,
+            }
+        };
+        match &mut self.worker {
+            Some(w) => {
+                w.submit(0, JobKind::Load, Box::new(move |_| job()));
+                self.say(Level::Info, format!("Opening {}…", path.display()));
+            }
+            None => {
+                let result = job();
+                self.receive(result);
+            }
+        }
+    }
+
+    fn receive(&mut self, result: JobResult) {
+        match result {
+            JobResult::Loaded {
+                path,
+                result: Ok(loaded),
+            } => {
+                let (doc, notices) = *loaded;
+                self.replace_session(Session::new(doc, Some(path.clone())));
+                self.say(Level::Info, format!("Opened {}", path.display()));
+                for n in notices {
+                    self.say(Level::Warning, n);
+                }
+            }
+            JobResult::Loaded {
+                path,
+                result: Err(e),
+            } => {
+                // The open document is untouched: nothing is lost.
+                self.say(
+                    Level::Error,
+                    format!("Could not open {}: {e}", path.display()),
+                );
+            }
+            JobResult::Analysed(a) => self.analysis = Some(*a),
+        }
+    }
+
+    /// Puts another document in front of the user. Everything derived from the old one goes:
+    /// revisions restart with each document, so nothing keyed by revision may survive.
+    fn replace_session(&mut self, session: Session) {
+        if let Some(w) = &mut self.worker {
+            w.cancel(JobKind::Analysis);
+        }
+        self.session = session;
+        self.view = ViewState::default();
+        self.checks = Checks::of(&self.session.doc);
+        self.analysis = None;
+        self.analysis_requested = None;
+        self.seen_revision = u64::MAX;
+    }
+
+    /// True when the analysis on show was computed for an older revision of the document.
+    pub fn analysis_is_stale(&self) -> bool {
+        self.analysis
+            .as_ref()
+            .is_none_or(|a| a.revision != self.session.doc.revision())
+    }
+
+    /// The running analysis, if any: its stage and fraction done.
+    pub fn analysis_progress(&self) -> Option<(String, f64)> {
+        self.worker
+            .as_ref()
+            .and_then(|w| w.busy(JobKind::Analysis))
+            .map(|(_, p)| p)
+    }
+
+    /// Stops the running analysis.
+    pub fn cancel_analysis(&mut self) {
+        if let Some(w) = &mut self.worker {
+            w.cancel(JobKind::Analysis);
+            self.say(
+                Level::Info,
+                "Analysis cancelled; it starts again after the next change",
+            );
+        }
+    }
+
+    /// Starts an analysis of the current revision (on the worker, or here when there is none).
+    pub fn start_analysis(&mut self) {
+        let revision = self.session.doc.revision();
+        self.analysis_requested = Some(revision);
+        let snapshot = crate::worker::snapshot(&self.session.doc);
+        match &mut self.worker {
+            Some(w) => w.submit(
+                revision,
+                JobKind::Analysis,
+                Box::new(move |ctx| {
+                    JobResult::Analysed(Box::new(analysis::analyse(&snapshot, ctx)))
+                }),
+            ),
+            None => {
+                let ctx = crate::worker::JobContext {
+                    cancel: Default::default(),
+                    progress: Default::default(),
+                };
+                self.analysis = Some(analysis::analyse(&snapshot, &ctx));
+            }
+        }
+    }
+
+    /// Saves to `path` (atomically) and remembers it as the document's file.
+    pub fn save_to(&mut self, path: &Path) {
+        let path = if path.extension().is_none() {
+            path.with_extension(doc::file::EXTENSION)
+        } else {
+            path.to_path_buf()
+        };
+        match crate::formats::save(&self.session.doc, &path) {
+            Ok(()) => {
+                let is_project = path.extension().is_some_and(|e| e == doc::file::EXTENSION);
+                if is_project {
+                    self.session.path = Some(path.clone());
+                    self.session.saved_revision = self.session.doc.revision();
+                }
+                self.say(Level::Info, format!("Saved {}", path.display()));
+            }
+            Err(e) => self.say(Level::Error, format!("Not saved: {e:#}")),
+        }
+    }
+
+    /// One frame of work that does not draw: worker events, dialog results, the checks.
+    pub fn logic(&mut self, ctx: &egui::Context) {
+        while let Some(event) = self.worker.as_mut().and_then(|w| w.try_next()) {
+            match event {
+                Event::Done {
+                    result,
+                    cancelled: false,
+                    ..
+                } => self.receive(result),
+                Event::Done {
+                    cancelled: true, ..
+                } => {}
+                Event::Failed { message, .. } => {
+                    self.say(Level::Error, format!("A background job failed: {message}"))
+                }
+            }
+        }
+        while let Ok((purpose, picked)) = self.dialog_results.try_recv() {
+            match picked {
+                Some(path) => match purpose {
+                    PathPurpose::Open => {
+                        self.path_prompt = None;
+                        self.open_path(path);
+                    }
+                    PathPurpose::SaveAs => {
+                        self.path_prompt = None;
+                        self.save_to(&path);
+                    }
+                },
+                None => self.say(
+                    Level::Info,
+                    "No file was chosen (if no dialog appeared, this system has no file dialog service: type the path instead)",
+                ),
+            }
+        }
+        let dropped: Vec<PathBuf> = ctx.input(|i| {
+            i.raw
+                .dropped_files
+                .iter()
+                .map(|f| f.path().to_path_buf())
+                .collect()
+        });
+        if let Some(path) = dropped.into_iter().next() {
+            self.request(Command::Open);
+            self.confirm_or_run_open(path);
+        }
+        if self.checks.revision != self.session.doc.revision() {
+            self.checks = Checks::of(&self.session.doc);
+        }
+        let revision = self.session.doc.revision();
+        if revision != self.seen_revision {
+            self.seen_revision = revision;
+            self.changed_at = Instant::now();
+        }
+        if self.analysis_requested != Some(revision) {
+            let rest = self.changed_at.elapsed();
+            if rest >= ANALYSIS_DEBOUNCE || self.worker.is_none() {
+                self.start_analysis();
+            } else {
+                ctx.request_repaint_after(ANALYSIS_DEBOUNCE - rest);
+            }
+        }
+        self.meshes.sync(&self.session.doc);
+        let title = self.session.title();
+        if title != self.last_title {
+            ctx.send_viewport_cmd(egui::ViewportCommand::Title(title.clone()));
+            self.last_title = title;
+        }
+        if ctx.input(|i| i.viewport().close_requested())
+            && !self.quit_confirmed
+            && self.session.is_dirty()
+        {
+            ctx.send_viewport_cmd(egui::ViewportCommand::CancelClose);
+            self.confirm_discard = Some(Command::Quit);
+        }
+        self.messages
+            .retain(|m| m.level == Level::Error || m.at.elapsed() < Duration::from_secs(12));
+    }
+
+    fn confirm_or_run_open(&mut self, path: PathBuf) {
+        self.pending.retain(|c| *c != Command::Open);
+        if self.session.is_dirty() {
+            self.say(
+                Level::Warning,
+                "Save or discard your changes first, then drop the file again",
+            );
+        } else {
+            self.open_path(path);
+        }
+    }
+
+    /// Asks for a command through the normal path (used by drag-and-drop).
+    fn request(&mut self, command: Command) {
+        self.pending.push(command);
+    }
+
+    /// Starts the system file dialog on its own thread (it blocks while open).
+    pub fn browse(&self, purpose: PathPurpose) {
+        let sender = self.dialog_sender.clone();
+        let _ = std::thread::Builder::new()
+            .name("tinct-file-dialog".into())
+            .spawn(move || {
+                let dialog = rfd::FileDialog::new()
+                    .add_filter("Tinct project", &["tinct"])
+                    .add_filter("Graph (DIMACS, edge list)", &["col", "dimacs", "edges"])
+                    .add_filter(
+                        "Boundary data (GeoJSON, TopoJSON, Shapefile)",
+                        &["geojson", "json", "topojson", "shp"],
+                    );
+                let picked = match purpose {
+                    PathPurpose::Open => dialog.pick_file(),
+                    PathPurpose::SaveAs => dialog.set_file_name("map.tinct").save_file(),
+                };
+                let _ = sender.send((purpose, picked));
+            });
+    }
+
+    /// Applies the commands emitted during this frame.
+    pub fn run_pending(&mut self, ctx: &egui::Context) {
+        let pending = std::mem::take(&mut self.pending);
+        for command in pending {
+            self.run(ctx, command);
+        }
+    }
+
+    /// Runs one command now.
+    pub fn run(&mut self, ctx: &egui::Context, command: Command) {
+        let discards = matches!(command, Command::New | Command::Open | Command::Quit);
+        if discards && self.session.is_dirty() && self.confirm_discard != Some(command) {
+            self.confirm_discard = Some(command);
+            return;
+        }
+        self.confirm_discard = None;
+        match command {
+            Command::New => self.replace_session(Session::new(Document::new("Untitled"), None)),
+            Command::Open => {
+                self.path_prompt = Some(PathPrompt {
+                    purpose: PathPurpose::Open,
+                    text: String::new(),
+                })
+            }
+            Command::Save => match self.session.path.clone() {
+                Some(path) => self.save_to(&path),
+                None => self.run(ctx, Command::SaveAs),
+            },
+            Command::SaveAs => {
+                let text = self
+                    .session
+                    .path
+                    .as_ref()
+                    .map(|p| p.display().to_string())
+                    .unwrap_or_default();
+                self.path_prompt = Some(PathPrompt {
+                    purpose: PathPurpose::SaveAs,
+                    text,
+                });
+            }
+            Command::Quit => {
+                self.quit_confirmed = true;
+                ctx.send_viewport_cmd(egui::ViewportCommand::Close);
+            }
+            Command::Undo => match self.session.history.undo(&mut self.session.doc) {
+                Ok(Some(label)) => self.say(Level::Info, format!("Undone: {label}")),
+                Ok(None) => self.say(Level::Info, "Nothing to undo"),
+                Err(e) => self.say(Level::Error, format!("Cannot undo: {e}")),
+            },
+            Command::Redo => match self.session.history.redo(&mut self.session.doc) {
+                Ok(Some(label)) => self.say(Level::Info, format!("Redone: {label}")),
+                Ok(None) => self.say(Level::Info, "Nothing to redo"),
+                Err(e) => self.say(Level::Error, format!("Cannot redo: {e}")),
+            },
+            Command::DeleteRegion => {
+                if let Some(id) = self.view.selection.take() {
+                    self.edit(Edit::PutRegion { id, region: None });
+                }
+            }
+            Command::ClearSelection => {
+                self.view.selection = None;
+                self.view.border_first = None;
+                self.view.group = None;
+                self.command_search = None;
+            }
+            Command::FitView => self.view.fit_pending = true,
+            Command::ToggleBorders => self.view.show_borders = !self.view.show_borders,
+            Command::ToggleLabels => self.view.show_labels = !self.view.show_labels,
+            Command::CommandList => self.command_search = Some(String::new()),
+            Command::UseTool(tool) => {
+                self.view.tool = tool;
+                self.view.border_first = None;
+            }
+            Command::ClearColours => {
+                if !self.session.doc.colouring.is_empty() {
+                    self.edit(Edit::SetColouring(Default::default()));
+                }
+            }
+        }
+    }
+
+    /// Keyboard shortcuts: single keys only when no text field has focus.
+    pub fn shortcuts(&mut self, ctx: &egui::Context) {
+        let typing = ctx.egui_wants_keyboard_input();
+        for command in Command::all() {
+            let Some(shortcut) = command.shortcut() else {
+                continue;
+            };
+            if typing && command.needs_modifier_free_keyboard() {
+                continue;
+            }
+            if ctx.input_mut(|i| i.consume_shortcut(&shortcut)) {
+                self.emit(command);
+            }
+        }
+    }
+}

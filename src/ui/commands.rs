@@ -1,0 +1,268 @@
+//! Every action a user can take, as one closed list. Menus, keyboard shortcuts, tooltips and the
+//! searchable command list are all generated from it, so they can never disagree.
+
+use egui::{Key, KeyboardShortcut, Modifiers};
+
+/// The editing tools: what a click on the map does.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Tool {
+    /// Click to select a region; drag to pan, or to move a marker.
+    Select,
+    /// Click empty map to place a new region drawn as a marker.
+    Place,
+    /// Click one region, then another, to add a border between them or take it away.
+    Border,
+    /// Click a region to fix it to the chosen palette colour (again to release it).
+    Pin,
+    /// Click regions to put them in the chosen same-colour group (again to take them out).
+    Group,
+    /// Click a region to switch it between land and water.
+    Water,
+}
+
+impl Tool {
+    pub const ALL: [Tool; 6] = [
+        Tool::Select,
+        Tool::Place,
+        Tool::Border,
+        Tool::Pin,
+        Tool::Group,
+        Tool::Water,
+    ];
+
+    pub fn label(self) -> &'static str {
+        match self {
+            Tool::Select => "Select",
+            Tool::Place => "Place marker",
+            Tool::Border => "Border",
+            Tool::Pin => "Pin colour",
+            Tool::Group => "Same-colour group",
+            Tool::Water => "Land / water",
+        }
+    }
+
+    /// What the status bar says while the tool is active.
+    pub fn hint(self) -> &'static str {
+        match self {
+            Tool::Select => {
+                "Click a region to select it. Drag to pan, wheel to zoom; drag a marker to move it."
+            }
+            Tool::Place => "Click on the map to place a new region drawn as a marker.",
+            Tool::Border => {
+                "Click a region, then a second one: adds a border, or takes an existing one away."
+            }
+            Tool::Pin => {
+                "Click a region to pin it to the chosen colour; click again to release it."
+            }
+            Tool::Group => {
+                "Click regions to add them to the chosen group (the first click starts a new group)."
+            }
+            Tool::Water => {
+                "Click a region to switch it between land and water (water takes no colour)."
+            }
+        }
+    }
+}
+
+/// A command. Each knows its label, its tooltip and its keyboard shortcut.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Command {
+    New,
+    Open,
+    Save,
+    SaveAs,
+    Quit,
+    Undo,
+    Redo,
+    DeleteRegion,
+    ClearSelection,
+    FitView,
+    ToggleBorders,
+    ToggleLabels,
+    UseTool(Tool),
+    ClearColours,
+    CommandList,
+}
+
+/// Which menu a command appears in.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Menu {
+    File,
+    Edit,
+    View,
+    Tools,
+    Colour,
+}
+
+impl Menu {
+    pub const ALL: [Menu; 5] = [
+        Menu::File,
+        Menu::Edit,
+        Menu::View,
+        Menu::Tools,
+        Menu::Colour,
+    ];
+    pub fn label(self) -> &'static str {
+        match self {
+            Menu::File => "File",
+            Menu::Edit => "Edit",
+            Menu::View => "View",
+            Menu::Tools => "Tools",
+            Menu::Colour => "Colour",
+        }
+    }
+}
+
+impl Command {
+    /// Every command, in menu order.
+    pub fn all() -> Vec<Command> {
+        let mut out = vec![
+            Command::New,
+            Command::Open,
+            Command::Save,
+            Command::SaveAs,
+            Command::Quit,
+            Command::Undo,
+            Command::Redo,
+            Command::DeleteRegion,
+            Command::ClearSelection,
+            Command::FitView,
+            Command::ToggleBorders,
+            Command::ToggleLabels,
+            Command::CommandList,
+        ];
+        out.extend(Tool::ALL.iter().map(|t| Command::UseTool(*t)));
+        out.push(Command::ClearColours);
+        out
+    }
+
+    pub fn menu(self) -> Menu {
+        match self {
+            Command::New | Command::Open | Command::Save | Command::SaveAs | Command::Quit => {
+                Menu::File
+            }
+            Command::Undo | Command::Redo | Command::DeleteRegion | Command::ClearSelection => {
+                Menu::Edit
+            }
+            Command::FitView
+            | Command::ToggleBorders
+            | Command::ToggleLabels
+            | Command::CommandList => Menu::View,
+            Command::UseTool(_) => Menu::Tools,
+            Command::ClearColours => Menu::Colour,
+        }
+    }
+
+    pub fn label(self) -> String {
+        match self {
+            Command::New => "New project".into(),
+            Command::Open => "Open…".into(),
+            Command::Save => "Save".into(),
+            Command::SaveAs => "Save as…".into(),
+            Command::Quit => "Quit".into(),
+            Command::Undo => "Undo".into(),
+            Command::Redo => "Redo".into(),
+            Command::DeleteRegion => "Delete selected region".into(),
+            Command::ClearSelection => "Clear selection".into(),
+            Command::FitView => "Fit map to window".into(),
+            Command::ToggleBorders => "Show borders as links".into(),
+            Command::ToggleLabels => "Show region names".into(),
+            Command::CommandList => "Find a command…".into(),
+            Command::UseTool(t) => format!("{} tool", t.label()),
+            Command::ClearColours => "Remove all colours".into(),
+        }
+    }
+
+    pub fn tooltip(self) -> &'static str {
+        match self {
+            Command::New => "Start an empty project (asks before discarding unsaved work)",
+            Command::Open => "Open a project or graph file",
+            Command::Save => "Save the project (asks for a file name the first time)",
+            Command::SaveAs => "Save the project under a new file name",
+            Command::Quit => "Close Tinct (asks before discarding unsaved work)",
+            Command::Undo => "Undo the last change",
+            Command::Redo => "Redo the change just undone",
+            Command::DeleteRegion => "Delete the selected region with its borders (undoable)",
+            Command::ClearSelection => "Select nothing, and cancel a half-made border",
+            Command::FitView => "Zoom and pan so the whole map fits the window",
+            Command::ToggleBorders => {
+                "Draw a line between neighbouring regions, styled by border kind"
+            }
+            Command::ToggleLabels => "Write region names on the map",
+            Command::CommandList => "Search every command by name",
+            Command::UseTool(t) => t.hint(),
+            Command::ClearColours => "Remove the colour of every region (undoable)",
+        }
+    }
+
+    pub fn shortcut(self) -> Option<KeyboardShortcut> {
+        let ctrl = |k| Some(KeyboardShortcut::new(Modifiers::COMMAND, k));
+        let plain = |k| Some(KeyboardShortcut::new(Modifiers::NONE, k));
+        match self {
+            Command::New => ctrl(Key::N),
+            Command::Open => ctrl(Key::O),
+            Command::Save => ctrl(Key::S),
+            Command::SaveAs => Some(KeyboardShortcut::new(
+                Modifiers::COMMAND | Modifiers::SHIFT,
+                Key::S,
+            )),
+            Command::Quit => ctrl(Key::Q),
+            Command::Undo => ctrl(Key::Z),
+            Command::Redo => ctrl(Key::Y),
+            Command::DeleteRegion => plain(Key::Delete),
+            Command::ClearSelection => plain(Key::Escape),
+            Command::FitView => plain(Key::F),
+            Command::ToggleBorders => plain(Key::L),
+            Command::ToggleLabels => plain(Key::T),
+            Command::CommandList => ctrl(Key::K),
+            Command::UseTool(Tool::Select) => plain(Key::S),
+            Command::UseTool(Tool::Place) => plain(Key::M),
+            Command::UseTool(Tool::Border) => plain(Key::B),
+            Command::UseTool(Tool::Pin) => plain(Key::P),
+            Command::UseTool(Tool::Group) => plain(Key::G),
+            Command::UseTool(Tool::Water) => plain(Key::W),
+            Command::ClearColours => None,
+        }
+    }
+
+    /// Single-key shortcuts must not fire while the user types in a text field.
+    pub fn needs_modifier_free_keyboard(self) -> bool {
+        self.shortcut()
+            .is_some_and(|s| s.modifiers == Modifiers::NONE)
+    }
+}
+
+/// Commands whose label contains every word of `query` (case-insensitive), in menu order.
+pub fn search(query: &str) -> Vec<Command> {
+    let words: Vec<String> = query.split_whitespace().map(str::to_lowercase).collect();
+    Command::all()
+        .into_iter()
+        .filter(|c| {
+            let text = format!("{} {}", c.label(), c.tooltip()).to_lowercase();
+            words.iter().all(|w| text.contains(w))
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn shortcuts_are_unique() {
+        let mut seen = Vec::new();
+        for c in Command::all() {
+            if let Some(s) = c.shortcut() {
+                assert!(!seen.contains(&s), "{c:?} repeats a shortcut");
+                seen.push(s);
+            }
+        }
+    }
+
+    #[test]
+    fn search_matches_every_word() {
+        assert_eq!(search("remove colour"), vec![Command::ClearColours]);
+        assert!(search("tool").len() >= Tool::ALL.len());
+        assert!(search("no such command at all").is_empty());
+    }
+}

@@ -1,0 +1,756 @@
+//! The panels around the map. Each `*_ui` function only draws: what it shows comes from state (or
+//! from a pure function such as [`verdict_lines`]), and what the user asks for goes out as commands
+//! or edits.
+
+use egui::{Color32, RichText};
+
+use crate::doc::{BorderKind, Document, Edit, GroupId, RegionChange, RegionId, Role};
+
+use super::app::{App, Checks, Highlight, Level, PathPurpose};
+use super::canvas::style;
+use super::commands::{Command, Menu, Tool, search};
+use crate::worker::analysis::PlanarityVerdict;
+
+/// One line of the verdict panel.
+#[derive(Clone, Debug, PartialEq)]
+pub enum VerdictLine {
+    /// All is well with this aspect.
+    Good(String),
+    /// Something the user should fix; the regions are offered as links.
+    Problem {
+        text: String,
+        regions: Vec<RegionId>,
+    },
+    /// Plain information.
+    Note(String),
+}
+
+/// A filled square of colour, drawn rather than typed so it needs no glyph from any font.
+fn swatch(ui: &mut egui::Ui, colour: Color32, size: f32) {
+    let (rect, _) = ui.allocate_exact_size(egui::vec2(size, size), egui::Sense::hover());
+    ui.painter().rect_filled(rect, 2.0, colour);
+    ui.painter().rect_stroke(
+        rect,
+        2.0,
+        egui::Stroke::new(0.5, style::OUTLINE),
+        egui::StrokeKind::Inside,
+    );
+}
+
+/// A line of text with a coloured dot before it: green for good news, red for a problem.
+fn marked(ui: &mut egui::Ui, good: bool, text: String) {
+    let colour = if good { GOOD } else { style::CLASH };
+    ui.horizontal_wrapped(|ui| {
+        let (rect, _) = ui.allocate_exact_size(egui::vec2(10.0, 10.0), egui::Sense::hover());
+        ui.painter().circle_filled(rect.center(), 4.5, colour);
+        ui.label(RichText::new(text).color(colour));
+    });
+}
+
+const GOOD: Color32 = Color32::from_rgb(0x2e, 0x7d, 0x32);
+
+fn name(doc: &Document, id: RegionId) -> String {
+    doc.regions
+        .get(&id)
+        .map_or_else(|| format!("#{id}"), |r| r.name.clone())
+}
+
+/// What the verdict panel says about the current colouring and rules. Pure, so it is unit-tested.
+pub fn verdict_lines(doc: &Document, checks: &Checks) -> Vec<VerdictLine> {
+    let mut out = Vec::new();
+    let c = &checks.colouring;
+    out.push(VerdictLine::Note(format!(
+        "{} land regions as {} colouring units with {} borders",
+        doc.land_regions().count(),
+        checks.graph_vertices,
+        checks.graph_edges
+    )));
+    for conflict in &checks.conflicts {
+        out.push(VerdictLine::Problem {
+            text: format!("Rules contradict: {}", conflict.describe(doc)),
+            regions: conflict.regions(),
+        });
+    }
+    if c.clashes.is_empty() {
+        if c.uncoloured.is_empty() {
+            out.push(VerdictLine::Good("No neighbours share a colour".into()));
+        }
+    } else {
+        out.push(VerdictLine::Note(format!(
+            "{} clash(es): neighbours with the same colour",
+            c.clashes.len()
+        )));
+        for clash in &c.clashes {
+            out.push(VerdictLine::Problem {
+                text: format!(
+                    "{} and {} both have colour {}",
+                    name(doc, clash.pair.a()),
+                    name(doc, clash.pair.b()),
+                    clash.slot + 1
+                ),
+                regions: vec![clash.pair.a(), clash.pair.b()],
+            });
+        }
+    }
+    if !c.uncoloured.is_empty() {
+        out.push(VerdictLine::Problem {
+            text: format!("{} land region(s) have no colour yet", c.uncoloured.len()),
+            regions: c.uncoloured.iter().take(12).copied().collect(),
+        });
+    }
+    for p in &c.pins_broken {
+        out.push(VerdictLine::Problem {
+            text: format!(
+                "{} is pinned to colour {} but {}",
+                name(doc, p.region),
+                p.pinned + 1,
+                if p.coloured.is_some() {
+                    "coloured otherwise"
+                } else {
+                    "has no colour yet"
+                }
+            ),
+            regions: vec![p.region],
+        });
+    }
+    for (g, members) in &c.groups_split {
+        let group = doc.groups.get(g).map_or("?", |g| g.name.as_str());
+        out.push(VerdictLine::Problem {
+            text: format!("Group \"{group}\" is split across colours"),
+            regions: members.clone(),
+        });
+    }
+    if c.is_clean() && checks.conflicts.is_empty() {
+        let used: std::collections::BTreeSet<u32> = doc.colouring.values().copied().collect();
+        out.push(VerdictLine::Good(format!(
+            "The colouring is complete and valid, with {} colours",
+            used.len()
+        )));
+    }
+    out
+}
+
+/// The menu bar, generated from the command list.
+pub fn menu_ui(app: &mut App, ui: &mut egui::Ui) {
+    egui::MenuBar::new().ui(ui, |ui| {
+        for menu in Menu::ALL {
+            ui.menu_button(menu.label(), |ui| {
+                for command in Command::all().into_iter().filter(|c| c.menu() == menu) {
+                    let mut button = egui::Button::new(command.label());
+                    if let Some(s) = command.shortcut() {
+                        button = button.shortcut_text(ui.ctx().format_shortcut(&s));
+                    }
+                    let enabled = match command {
+                        Command::Undo => app.session.history.undo_label().is_some(),
+                        Command::Redo => app.session.history.redo_label().is_some(),
+                        Command::DeleteRegion => app.view.selection.is_some(),
+                        _ => true,
+                    };
+                    let selected = match command {
+                        Command::UseTool(t) => app.view.tool == t,
+                        Command::ToggleBorders => app.view.show_borders,
+                        Command::ToggleLabels => app.view.show_labels,
+                        _ => false,
+                    };
+                    let button = button.selected(selected);
+                    if ui
+                        .add_enabled(enabled, button)
+                        .on_hover_text(command.tooltip())
+                        .clicked()
+                    {
+                        app.emit(command);
+                        ui.close();
+                    }
+                }
+            });
+        }
+    });
+}
+
+/// The tool strip above the map.
+pub fn toolbar_ui(app: &mut App, ui: &mut egui::Ui) {
+    ui.horizontal_wrapped(|ui| {
+        for tool in Tool::ALL {
+            let command = Command::UseTool(tool);
+            let key = command
+                .shortcut()
+                .map(|s| ui.ctx().format_shortcut(&s))
+                .unwrap_or_default();
+            let hint = format!("{} ({key})", tool.hint());
+            if ui
+                .selectable_label(app.view.tool == tool, tool.label())
+                .on_hover_text(hint)
+                .clicked()
+            {
+                app.emit(command);
+            }
+        }
+        ui.separator();
+        if app.view.tool == Tool::Pin {
+            ui.label("Pin to:");
+            let slots = app.session.doc.palette.slots.clone();
+            for (i, slot) in slots.iter().enumerate() {
+                let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
+                swatch(ui, c, 12.0);
+                if ui
+                    .selectable_label(app.view.pin_slot == i as u32, &slot.name)
+                    .clicked()
+                {
+                    app.view.pin_slot = i as u32;
+                }
+            }
+        }
+        if app.view.tool == Tool::Group {
+            let groups: Vec<(GroupId, String)> = app
+                .session
+                .doc
+                .groups
+                .iter()
+                .map(|(id, g)| (*id, g.name.clone()))
+                .collect();
+            ui.label("Add to:");
+            let current = app
+                .view
+                .group
+                .and_then(|g| groups.iter().find(|(id, _)| *id == g))
+                .map(|(_, n)| n.clone());
+            egui::ComboBox::from_id_salt("group-choice")
+                .selected_text(current.unwrap_or_else(|| "a new group".into()))
+                .show_ui(ui, |ui| {
+                    ui.selectable_value(&mut app.view.group, None, "a new group");
+                    for (id, name) in &groups {
+                        ui.selectable_value(&mut app.view.group, Some(*id), name);
+                    }
+                });
+        }
+        if ui
+            .button("Fit")
+            .on_hover_text(Command::FitView.tooltip())
+            .clicked()
+        {
+            app.emit(Command::FitView);
+        }
+    });
+}
+
+/// The list of regions with a search field.
+pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
+    ui.heading("Regions");
+    ui.add(egui::TextEdit::singleline(&mut app.view.region_filter).hint_text("Search by name"))
+        .widget_info(|| egui::WidgetInfo::labeled(egui::Role::TextInput, true, "Search regions"));
+    let filter = app.view.region_filter.to_lowercase();
+    let doc = &app.session.doc;
+    let rows: Vec<(RegionId, String, Option<Color32>)> = doc
+        .regions
+        .iter()
+        .filter(|(_, r)| filter.is_empty() || r.name.to_lowercase().contains(&filter))
+        .map(|(id, r)| {
+            let colour = match r.role {
+                Role::Water => Some(style::WATER),
+                Role::Land => doc
+                    .colouring
+                    .get(id)
+                    .and_then(|s| doc.palette.slots.get(*s as usize))
+                    .map(|s| Color32::from_rgb(s.colour.0[0], s.colour.0[1], s.colour.0[2])),
+            };
+            (*id, r.name.clone(), colour)
+        })
+        .collect();
+    ui.label(format!("{} shown of {}", rows.len(), doc.regions.len()));
+    let row_height = ui.text_style_height(&egui::TextStyle::Body) + 4.0;
+    egui::ScrollArea::vertical()
+        .auto_shrink([false, false])
+        .show_rows(ui, row_height, rows.len(), |ui, range| {
+            for (id, name, colour) in &rows[range] {
+                ui.horizontal(|ui| {
+                    swatch(ui, colour.unwrap_or(style::UNCOLOURED), 12.0);
+                    if ui
+                        .selectable_label(app.view.selection == Some(*id), name)
+                        .clicked()
+                    {
+                        app.view.selection = Some(*id);
+                    }
+                });
+            }
+        });
+}
+
+/// The selected region's details, editable.
+pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
+    ui.heading("Region");
+    let Some(id) = app
+        .view
+        .selection
+        .filter(|id| app.session.doc.regions.contains_key(id))
+    else {
+        ui.label("Click a region on the map or in the list.");
+        return;
+    };
+    let region = app.session.doc.regions[&id].clone();
+    let mut edits: Vec<Edit> = Vec::new();
+
+    // Name: typed into a draft, committed on Enter or when the field loses focus. While the field
+    // is not being edited it shows the document's name (which undo may have changed).
+    let field_id = egui::Id::unique(("region-name", id));
+    let focused = ui.memory(|m| m.has_focus(field_id));
+    let mut text = match &app.view.name_draft {
+        Some((d, t)) if *d == id && focused => t.clone(),
+        _ => region.name.clone(),
+    };
+    ui.horizontal(|ui| {
+        ui.label("Name");
+        let r = ui.add(egui::TextEdit::singleline(&mut text).id(field_id));
+        r.widget_info(|| egui::WidgetInfo::labeled(egui::Role::TextInput, true, "Region name"));
+        if r.lost_focus() && text.trim() != region.name && !text.trim().is_empty() {
+            edits.push(Edit::UpdateRegion {
+                id,
+                change: RegionChange::Name(text.trim().to_string()),
+            });
+        }
+    });
+    app.view.name_draft = Some((id, text));
+    ui.label(format!(
+        "Id {id}{}",
+        region.source_index.map_or(String::new(), |i| format!(
+            ", feature {i} of its source file"
+        ))
+    ));
+
+    let mut water = region.role == Role::Water;
+    if ui
+        .checkbox(&mut water, "Water or background (takes no colour)")
+        .changed()
+    {
+        edits.push(Edit::UpdateRegion {
+            id,
+            change: RegionChange::Role(if water { Role::Water } else { Role::Land }),
+        });
+    }
+
+    let doc = &app.session.doc;
+    let slot_name = |s: Option<u32>| match s {
+        None => "none".to_string(),
+        Some(s) => doc
+            .palette
+            .slots
+            .get(s as usize)
+            .map_or(format!("slot {}", s + 1), |slot| slot.name.clone()),
+    };
+    let colour = doc.colouring.get(&id).copied();
+    ui.label(format!("Colour: {}", slot_name(colour)));
+    let mut pin = region.pin;
+    egui::ComboBox::from_label("Pinned colour")
+        .selected_text(slot_name(pin))
+        .show_ui(ui, |ui| {
+            ui.selectable_value(&mut pin, None, "none");
+            for (i, slot) in doc.palette.slots.iter().enumerate() {
+                ui.selectable_value(&mut pin, Some(i as u32), &slot.name);
+            }
+        });
+    if pin != region.pin {
+        edits.push(Edit::UpdateRegion {
+            id,
+            change: RegionChange::Pin(pin),
+        });
+    }
+    let group_name = |g: Option<GroupId>| {
+        g.and_then(|g| doc.groups.get(&g))
+            .map_or("none".to_string(), |g| g.name.clone())
+    };
+    let mut group = region.group;
+    egui::ComboBox::from_label("Same-colour group")
+        .selected_text(group_name(group))
+        .show_ui(ui, |ui| {
+            ui.selectable_value(&mut group, None, "none");
+            for (gid, g) in &doc.groups {
+                ui.selectable_value(&mut group, Some(*gid), &g.name);
+            }
+        });
+    if group != region.group {
+        edits.push(Edit::UpdateRegion {
+            id,
+            change: RegionChange::Group(group),
+        });
+    }
+
+    ui.separator();
+    let neighbours = doc.borders_of(id);
+    ui.label(RichText::new(format!("Borders ({})", neighbours.len())).strong());
+    let units = if doc.settings.units == crate::doc::Units::Metres {
+        " m"
+    } else {
+        ""
+    };
+    let mut jump = None;
+    egui::ScrollArea::vertical()
+        .id_salt("neighbours")
+        .max_height(180.0)
+        .show(ui, |ui| {
+            for (other, pair, border) in &neighbours {
+                let active = doc.border_is_active(*pair, border);
+                let kind = match border.kind {
+                    BorderKind::Shared => format!("shared, {:.0}{units}", border.length),
+                    BorderKind::Corner => "corner".to_string(),
+                    BorderKind::Manual => "by hand".to_string(),
+                };
+                let state = if border.suppressed {
+                    ", removed"
+                } else if !active {
+                    ", ignored"
+                } else {
+                    ""
+                };
+                ui.horizontal(|ui| {
+                    if ui.link(name(doc, *other)).clicked() {
+                        jump = Some(*other);
+                    }
+                    ui.label(format!("({kind}{state})"));
+                });
+            }
+        });
+    if let Some(j) = jump {
+        app.view.selection = Some(j);
+    }
+    for e in edits {
+        app.edit(e);
+    }
+}
+
+/// The verdict panel: clashes, uncoloured land, contradictions.
+pub fn verdict_ui(app: &mut App, ui: &mut egui::Ui) {
+    ui.heading("Verdict");
+    let lines = verdict_lines(&app.session.doc, &app.checks);
+    let mut jump = None;
+    for line in lines {
+        match line {
+            VerdictLine::Good(text) => {
+                marked(ui, true, text);
+            }
+            VerdictLine::Note(text) => {
+                ui.label(text);
+            }
+            VerdictLine::Problem { text, regions } => {
+                marked(ui, false, text);
+                ui.horizontal_wrapped(|ui| {
+                    for id in regions {
+                        if ui
+                            .link(name(&app.session.doc, id))
+                            .on_hover_text("Select this region")
+                            .clicked()
+                        {
+                            jump = Some(id);
+                        }
+                    }
+                });
+            }
+        }
+    }
+    if let Some(id) = jump {
+        app.view.selection = Some(id);
+    }
+    ui.add_space(6.0);
+    planarity_ui(app, ui);
+}
+
+/// The planarity verdict, its certificate and the background job's progress.
+fn planarity_ui(app: &mut App, ui: &mut egui::Ui) {
+    ui.label(RichText::new("Can the borders be drawn flat?").strong());
+    if let Some((stage, fraction)) = app.analysis_progress() {
+        ui.horizontal(|ui| {
+            ui.spinner();
+            ui.label(format!("{stage}…"));
+            if ui
+                .button("Cancel")
+                .on_hover_text("Stop the background analysis")
+                .clicked()
+            {
+                app.cancel_analysis();
+            }
+        });
+        ui.add(egui::ProgressBar::new(fraction as f32).show_percentage());
+    }
+    let stale = app.analysis_is_stale();
+    let Some(analysis) = &app.analysis else {
+        ui.label("Not analysed yet.");
+        return;
+    };
+    if stale {
+        ui.label(RichText::new("(for an earlier version of the map; updating)").italics());
+    }
+    let mut toggle = false;
+    let mut jump = None;
+    match &analysis.planarity {
+        PlanarityVerdict::Planar => {
+            marked(ui, true, "Yes: the border graph is planar.".into());
+            ui.label("Four colours always suffice unless pinned colours say otherwise.");
+        }
+        PlanarityVerdict::NotPlanar(o) => {
+            marked(
+                ui,
+                false,
+                format!(
+                    "No: {} regions form a subdivided {} (Kuratowski), so four colours are not guaranteed.",
+                    o.regions.len(),
+                    o.kind
+                ),
+            );
+            ui.label("Its corner regions:");
+            ui.horizontal_wrapped(|ui| {
+                for id in &o.branch_regions {
+                    if ui.link(name(&app.session.doc, *id)).clicked() {
+                        jump = Some(*id);
+                    }
+                }
+            });
+            let showing = app.view.highlight == Some(Highlight::NotPlanar);
+            let label = if showing {
+                "Hide on map"
+            } else {
+                "Show on map"
+            };
+            if ui
+                .button(label)
+                .on_hover_text("Draw the crossing-forcing borders and their regions on the map")
+                .clicked()
+            {
+                toggle = true;
+            }
+        }
+        PlanarityVerdict::Unknown => {
+            ui.label("Not known: the analysis was stopped.");
+        }
+    }
+    if toggle {
+        app.view.highlight = if app.view.highlight == Some(Highlight::NotPlanar) {
+            None
+        } else {
+            Some(Highlight::NotPlanar)
+        };
+    }
+    if let Some(id) = jump {
+        app.view.selection = Some(id);
+    }
+}
+
+/// The palette: slot swatches and names.
+pub fn palette_ui(app: &mut App, ui: &mut egui::Ui) {
+    ui.heading("Palette");
+    let doc = &app.session.doc;
+    ui.label(&doc.palette.name);
+    let mut counts = vec![0usize; doc.palette.slots.len()];
+    for s in doc.colouring.values() {
+        if let Some(c) = counts.get_mut(*s as usize) {
+            *c += 1;
+        }
+    }
+    for (i, slot) in doc.palette.slots.iter().enumerate() {
+        let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
+        ui.horizontal(|ui| {
+            swatch(ui, c, 16.0);
+            ui.label(format!(
+                "{}. {} {} — {} regions",
+                i + 1,
+                slot.name,
+                slot.colour.to_hex(),
+                counts[i]
+            ));
+        });
+    }
+}
+
+/// The status line: file, tool hint, messages.
+pub fn status_ui(app: &mut App, ui: &mut egui::Ui) {
+    ui.horizontal(|ui| {
+        ui.label(app.view.tool.hint());
+        if let Some(first) = app.view.border_first {
+            ui.label(
+                RichText::new(format!(
+                    "— border from {}: click the second region",
+                    name(&app.session.doc, first)
+                ))
+                .strong(),
+            );
+        }
+    });
+    if let Some(m) = app.messages.last() {
+        let colour = match m.level {
+            Level::Info => ui.visuals().text_color(),
+            Level::Warning => Color32::from_rgb(0xa0, 0x60, 0x00),
+            Level::Error => style::CLASH,
+        };
+        ui.label(RichText::new(&m.text).color(colour));
+    }
+}
+
+/// Dialog windows: the path prompt, the unsaved-changes question and the command list.
+pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
+    if let Some(command) = app.confirm_discard {
+        let mut choice = None;
+        egui::Modal::new(egui::Id::unique("confirm-discard")).show(ctx, |ui| {
+            ui.heading("Unsaved changes");
+            ui.label("This project has changes that are not saved. What should happen to them?");
+            ui.horizontal(|ui| {
+                if ui.button("Save first").clicked() {
+                    choice = Some(0);
+                }
+                if ui.button("Discard them").clicked() {
+                    choice = Some(1);
+                }
+                if ui.button("Cancel").clicked() {
+                    choice = Some(2);
+                }
+            });
+        });
+        match choice {
+            Some(0) => {
+                app.confirm_discard = None;
+                app.emit(Command::Save);
+            }
+            Some(1) => {
+                // Mark as agreed and run it again.
+                app.session.saved_revision = app.session.doc.revision();
+                app.confirm_discard = None;
+                app.emit(command);
+            }
+            Some(2) => app.confirm_discard = None,
+            _ => {}
+        }
+    }
+    if let Some(prompt) = &mut app.path_prompt {
+        let title = match prompt.purpose {
+            PathPurpose::Open => "Open a file",
+            PathPurpose::SaveAs => "Save the project as",
+        };
+        let mut action: Option<u8> = None;
+        egui::Window::new(title)
+            .collapsible(false)
+            .resizable(false)
+            .show(ctx, |ui| {
+                ui.label("Type the file's path, or browse for it:");
+                let r = ui.add(egui::TextEdit::singleline(&mut prompt.text).desired_width(420.0));
+                r.widget_info(|| {
+                    egui::WidgetInfo::labeled(egui::Role::TextInput, true, "File path")
+                });
+                if r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter)) {
+                    action = Some(0);
+                }
+                ui.horizontal(|ui| {
+                    let go = if prompt.purpose == PathPurpose::Open {
+                        "Open"
+                    } else {
+                        "Save"
+                    };
+                    if ui.button(go).clicked() {
+                        action = Some(0);
+                    }
+                    if ui.button("Browse…").clicked() {
+                        action = Some(1);
+                    }
+                    if ui.button("Cancel").clicked() {
+                        action = Some(2);
+                    }
+                });
+            });
+        let purpose = prompt.purpose;
+        let text = prompt.text.trim().to_string();
+        match action {
+            Some(0) if !text.is_empty() => {
+                app.path_prompt = None;
+                let path = std::path::PathBuf::from(text);
+                match purpose {
+                    PathPurpose::Open => app.open_path(path),
+                    PathPurpose::SaveAs => app.save_to(&path),
+                }
+            }
+            Some(1) => app.browse(purpose),
+            Some(2) => app.path_prompt = None,
+            _ => {}
+        }
+    }
+    if let Some(query) = &mut app.command_search {
+        let mut chosen = None;
+        let mut open = true;
+        egui::Window::new("Find a command")
+            .open(&mut open)
+            .collapsible(false)
+            .show(ctx, |ui| {
+                let r = ui.add(
+                    egui::TextEdit::singleline(query).hint_text("Type part of a command's name"),
+                );
+                r.widget_info(|| {
+                    egui::WidgetInfo::labeled(egui::Role::TextInput, true, "Command search")
+                });
+                r.request_focus();
+                for command in search(query) {
+                    let key = command
+                        .shortcut()
+                        .map(|s| ui.ctx().format_shortcut(&s))
+                        .unwrap_or_default();
+                    if ui
+                        .button(format!("{}    {key}", command.label()))
+                        .on_hover_text(command.tooltip())
+                        .clicked()
+                    {
+                        chosen = Some(command);
+                    }
+                }
+            });
+        if let Some(c) = chosen {
+            app.command_search = None;
+            app.emit(c);
+        } else if !open {
+            app.command_search = None;
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::doc::{Border, Region, RegionPair};
+
+    #[test]
+    fn verdict_lists_clashes_with_their_regions_and_uncoloured_land() {
+        let mut doc = Document::new("t");
+        for n in ["Ash", "Birch", "Cedar"] {
+            let (_, e) = doc.add_region_edit(Region::new(n, [0.0, 0.0]));
+            doc.apply(e).unwrap();
+        }
+        let pair = RegionPair::new(RegionId(1), RegionId(2)).unwrap();
+        doc.apply(Edit::PutBorder {
+            pair,
+            border: Some(Border::shared(1.0)),
+        })
+        .unwrap();
+        doc.apply(Edit::PutColour {
+            id: RegionId(1),
+            slot: Some(0),
+        })
+        .unwrap();
+        doc.apply(Edit::PutColour {
+            id: RegionId(2),
+            slot: Some(0),
+        })
+        .unwrap();
+        let lines = verdict_lines(&doc, &Checks::of(&doc));
+        assert!(lines.contains(&VerdictLine::Problem {
+            text: "Ash and Birch both have colour 1".into(),
+            regions: vec![RegionId(1), RegionId(2)]
+        }));
+        assert!(lines.iter().any(|l| matches!(l, VerdictLine::Problem { text, regions } if text.contains("1 land region(s) have no colour") && regions == &vec![RegionId(3)])));
+        doc.apply(Edit::PutColour {
+            id: RegionId(2),
+            slot: Some(1),
+        })
+        .unwrap();
+        doc.apply(Edit::PutColour {
+            id: RegionId(3),
+            slot: Some(0),
+        })
+        .unwrap();
+        let lines = verdict_lines(&doc, &Checks::of(&doc));
+        assert!(lines.contains(&VerdictLine::Good(
+            "The colouring is complete and valid, with 2 colours".into()
+        )));
+    }
+}

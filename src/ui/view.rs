@@ -1,0 +1,190 @@
+//! The map view's geometry, free of any GUI type: the camera (world <-> screen), fitting, and
+//! hit-testing in world space. Pure functions, unit-tested without a window.
+
+use crate::doc::{Document, Geometry, Point, RegionId};
+
+/// Where the view looks: the world point at the centre of the canvas and the zoom.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Camera {
+    pub centre_world: Point,
+    /// Screen pixels per world unit.
+    pub pixels_per_unit: f64,
+}
+
+impl Default for Camera {
+    fn default() -> Camera {
+        Camera {
+            centre_world: [0.0, 0.0],
+            pixels_per_unit: 1.0,
+        }
+    }
+}
+
+impl Camera {
+    /// Screen position of a world point, for a canvas whose centre is at `canvas_centre` (pixels).
+    /// World y grows northwards; screen y grows downwards.
+    #[inline]
+    pub fn to_screen(&self, canvas_centre: [f32; 2], p: Point) -> [f32; 2] {
+        [
+            canvas_centre[0] + ((p[0] - self.centre_world[0]) * self.pixels_per_unit) as f32,
+            canvas_centre[1] - ((p[1] - self.centre_world[1]) * self.pixels_per_unit) as f32,
+        ]
+    }
+
+    /// World point under a screen position.
+    pub fn to_world(&self, canvas_centre: [f32; 2], s: [f32; 2]) -> Point {
+        [
+            self.centre_world[0] + (s[0] - canvas_centre[0]) as f64 / self.pixels_per_unit,
+            self.centre_world[1] - (s[1] - canvas_centre[1]) as f64 / self.pixels_per_unit,
+        ]
+    }
+
+    /// Zooms by `factor` keeping the world point under `screen` fixed.
+    pub fn zoom_at(&mut self, canvas_centre: [f32; 2], screen: [f32; 2], factor: f64) {
+        let before = self.to_world(canvas_centre, screen);
+        self.pixels_per_unit = (self.pixels_per_unit * factor).clamp(1e-9, 1e9);
+        let after = self.to_world(canvas_centre, screen);
+        self.centre_world[0] += before[0] - after[0];
+        self.centre_world[1] += before[1] - after[1];
+    }
+
+    /// Moves the view by a screen-space drag.
+    pub fn pan_by(&mut self, drag_pixels: [f32; 2]) {
+        self.centre_world[0] -= drag_pixels[0] as f64 / self.pixels_per_unit;
+        self.centre_world[1] += drag_pixels[1] as f64 / self.pixels_per_unit;
+    }
+
+    /// A camera that shows `bounds` inside a canvas of `size` pixels with a margin.
+    pub fn fit(bounds: [Point; 2], size: [f32; 2]) -> Camera {
+        let [lo, hi] = bounds;
+        let w = (hi[0] - lo[0]).max(1e-9);
+        let h = (hi[1] - lo[1]).max(1e-9);
+        let scale = ((size[0] as f64 / w).min(size[1] as f64 / h) * 0.9).clamp(1e-9, 1e9);
+        Camera {
+            centre_world: [(lo[0] + hi[0]) / 2.0, (lo[1] + hi[1]) / 2.0],
+            pixels_per_unit: scale,
+        }
+    }
+}
+
+/// True when `p` lies inside the geometry (even-odd rule over all rings, so holes are outside).
+pub fn contains(geometry: &Geometry, p: Point) -> bool {
+    let mut inside = false;
+    for polygon in &geometry.polygons {
+        for ring in std::iter::once(&polygon.exterior).chain(polygon.holes.iter()) {
+            let n = ring.len();
+            for i in 0..n {
+                let a = ring[i];
+                let b = ring[(i + 1) % n];
+                if (a[1] > p[1]) != (b[1] > p[1])
+                    && p[0] < a[0] + (p[1] - a[1]) / (b[1] - a[1]) * (b[0] - a[0])
+                {
+                    inside = !inside;
+                }
+            }
+        }
+    }
+    inside
+}
+
+/// The region under world point `p`: the smallest-area outline containing it, or failing that the
+/// nearest marker (anchor) within `marker_radius_world`.
+pub fn hit_test(
+    doc: &Document,
+    bounds: &[(RegionId, [Point; 2], f64)],
+    p: Point,
+    marker_radius_world: f64,
+) -> Option<RegionId> {
+    let mut best: Option<(f64, RegionId)> = None;
+    for &(id, [lo, hi], area) in bounds {
+        if p[0] < lo[0] || p[0] > hi[0] || p[1] < lo[1] || p[1] > hi[1] {
+            continue;
+        }
+        let Some(g) = doc.regions.get(&id).and_then(|r| r.geometry.as_ref()) else {
+            continue;
+        };
+        if contains(g, p) && best.is_none_or(|(a, _)| area < a) {
+            best = Some((area, id));
+        }
+    }
+    if let Some((_, id)) = best {
+        return Some(id);
+    }
+    let mut nearest: Option<(f64, RegionId)> = None;
+    for (id, r) in &doc.regions {
+        if r.geometry.is_some() {
+            continue;
+        }
+        let d = ((r.anchor[0] - p[0]).powi(2) + (r.anchor[1] - p[1]).powi(2)).sqrt();
+        if d <= marker_radius_world && nearest.is_none_or(|(best_d, _)| d < best_d) {
+            nearest = Some((d, *id));
+        }
+    }
+    nearest.map(|(_, id)| id)
+}
+
+/// Bounding boxes and areas of every outlined region, for [`hit_test`].
+pub fn outline_bounds(doc: &Document) -> Vec<(RegionId, [Point; 2], f64)> {
+    doc.regions
+        .iter()
+        .filter_map(|(id, r)| {
+            let g = r.geometry.as_ref()?;
+            Some((*id, g.bounds()?, g.area()))
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::doc::{Polygon, Region};
+    use std::sync::Arc;
+
+    fn square(x: f64, y: f64, s: f64) -> Geometry {
+        Geometry {
+            polygons: vec![Polygon {
+                exterior: vec![[x, y], [x + s, y], [x + s, y + s], [x, y + s]],
+                holes: vec![],
+            }],
+        }
+    }
+
+    #[test]
+    fn screen_and_world_are_inverse_and_zoom_keeps_the_point_under_the_cursor() {
+        let mut cam = Camera {
+            centre_world: [10.0, 20.0],
+            pixels_per_unit: 2.0,
+        };
+        let c = [400.0, 300.0];
+        let w = cam.to_world(c, [123.0, 45.0]);
+        let s = cam.to_screen(c, w);
+        assert!((s[0] - 123.0).abs() < 1e-3 && (s[1] - 45.0).abs() < 1e-3);
+        cam.zoom_at(c, [123.0, 45.0], 3.0);
+        let w2 = cam.to_world(c, [123.0, 45.0]);
+        assert!((w2[0] - w[0]).abs() < 1e-9 && (w2[1] - w[1]).abs() < 1e-9);
+    }
+
+    #[test]
+    fn hit_test_prefers_the_smaller_region_and_respects_holes() {
+        let mut doc = Document::new("t");
+        let mut big = Region::new("big", [5.0, 5.0]);
+        let mut g = square(0.0, 0.0, 10.0);
+        g.polygons[0]
+            .holes
+            .push(vec![[6.0, 6.0], [8.0, 6.0], [8.0, 8.0], [6.0, 8.0]]);
+        big.geometry = Some(Arc::new(g));
+        let mut small = Region::new("small", [2.0, 2.0]);
+        small.geometry = Some(Arc::new(square(1.0, 1.0, 2.0)));
+        let marker = Region::new("marker", [20.0, 20.0]);
+        for r in [big, small, marker] {
+            let (_, e) = doc.add_region_edit(r);
+            doc.apply(e).unwrap();
+        }
+        let b = outline_bounds(&doc);
+        assert_eq!(hit_test(&doc, &b, [2.0, 2.0], 0.5), Some(RegionId(2)));
+        assert_eq!(hit_test(&doc, &b, [5.0, 2.0], 0.5), Some(RegionId(1)));
+        assert_eq!(hit_test(&doc, &b, [7.0, 7.0], 0.5), None, "inside the hole");
+        assert_eq!(hit_test(&doc, &b, [20.3, 20.0], 0.5), Some(RegionId(3)));
+        assert_eq!(hit_test(&doc, &b, [30.0, 30.0], 0.5), None);
+    }
+}

@@ -1,0 +1,184 @@
+//! The command line as a user meets it: the documented JSON fields, exit codes, and clear errors on
+//! bad input (exit 2, message on standard error, no panic).
+
+use serde_json::Value;
+
+use super::support::{root, stderr, stdout, tinct, tinct_path};
+
+fn sample(name: &str) -> std::path::PathBuf {
+    root().join("sample-maps").join(format!("{name}.tinct"))
+}
+
+fn assert_bad_input(out: &std::process::Output, words: &str) {
+    assert_eq!(out.status.code(), Some(2), "stderr: {}", stderr(out));
+    let err = stderr(out);
+    assert!(err.contains(words), "expected {words:?} in: {err}");
+    assert!(!err.contains("panicked"), "{err}");
+    assert!(stdout(out).is_empty());
+}
+
+#[test]
+fn analyse_json_prints_the_documented_fields_for_every_sample() {
+    for name in super::sample_maps::SAMPLES {
+        let out = tinct_path(&["analyse"], &sample(name), &["--json"]);
+        assert_eq!(out.status.code(), Some(0), "{name}: {}", stderr(&out));
+        let json: Value = serde_json::from_str(&stdout(&out)).unwrap();
+        for field in [
+            "schema",
+            "file",
+            "title",
+            "summary",
+            "borders",
+            "groups",
+            "pins",
+            "clashes",
+            "uncoloured",
+            "pins_broken",
+            "groups_split",
+            "rule_conflicts",
+            "notices",
+            "ok",
+        ] {
+            assert!(json.get(field).is_some(), "{name}: missing {field}");
+        }
+        for field in [
+            "regions",
+            "land",
+            "water",
+            "groups",
+            "pins",
+            "coloured",
+            "colours_used",
+            "palette_slots",
+            "graph_vertices",
+            "graph_edges",
+        ] {
+            assert!(json["summary"][field].is_u64(), "{name}: summary.{field}");
+        }
+        assert!(json["summary"]["regions"].as_u64().unwrap() >= 20);
+    }
+}
+
+#[test]
+fn exclave_sample_reports_its_group() {
+    let out = tinct_path(&["analyse"], &sample("exclave-coast"), &["--json"]);
+    let json: Value = serde_json::from_str(&stdout(&out)).unwrap();
+    let groups = json["groups"].as_array().unwrap();
+    assert_eq!(groups.len(), 1);
+    assert_eq!(groups[0]["name"], "Aldwyn");
+    assert_eq!(groups[0]["members"].as_array().unwrap().len(), 2);
+}
+
+#[test]
+fn strict_exits_1_when_problems_are_found_and_0_otherwise() {
+    // The samples ship uncoloured, so --strict reports problems.
+    let out = tinct_path(&["analyse"], &sample("three-valleys"), &["--strict"]);
+    assert_eq!(out.status.code(), Some(1));
+    assert!(stdout(&out).contains("uncoloured"));
+    let out = tinct_path(&["analyse"], &sample("three-valleys"), &[]);
+    assert_eq!(out.status.code(), Some(0));
+}
+
+#[test]
+fn truncated_project_is_exit_2_naming_the_line() {
+    let dir = tempfile::tempdir().unwrap();
+    let text = std::fs::read_to_string(sample("vessland-province")).unwrap();
+    let path = dir.path().join("cut.tinct");
+    std::fs::write(&path, &text[..text.len() / 3]).unwrap();
+    let out = tinct_path(&["analyse"], &path, &["--json"]);
+    assert_bad_input(&out, "line ");
+    // The damaged file is left exactly as it was.
+    assert_eq!(
+        std::fs::read_to_string(&path).unwrap(),
+        &text[..text.len() / 3]
+    );
+}
+
+#[test]
+fn wrong_type_in_a_field_is_exit_2() {
+    let dir = tempfile::tempdir().unwrap();
+    let text = std::fs::read_to_string(sample("three-valleys"))
+        .unwrap()
+        .replacen("tolerance: 0.0", "tolerance: \"wide\"", 1);
+    let path = dir.path().join("typed.tinct");
+    std::fs::write(&path, text).unwrap();
+    assert_bad_input(&tinct_path(&["analyse"], &path, &[]), "line 7");
+}
+
+#[test]
+fn dimacs_with_a_bad_line_is_exit_2() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("bad.col");
+    std::fs::write(&path, "c bad\np edge 3 2\ne 1 2\ne 2 three\n").unwrap();
+    assert_bad_input(&tinct_path(&["analyse"], &path, &["--json"]), "line 4");
+}
+
+#[test]
+fn empty_files_are_exit_2() {
+    let dir = tempfile::tempdir().unwrap();
+    for name in ["empty.tinct", "empty.col", "empty.edges"] {
+        let path = dir.path().join(name);
+        std::fs::write(&path, "").unwrap();
+        let out = tinct_path(&["analyse"], &path, &[]);
+        assert_eq!(out.status.code(), Some(2), "{name}");
+        assert!(!stderr(&out).contains("panicked"));
+    }
+}
+
+#[test]
+fn missing_file_and_unknown_extension_are_exit_2() {
+    assert_bad_input(&tinct(&["analyse", "/no/such/file.tinct"]), "cannot read");
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("map.xyz");
+    std::fs::write(&path, "x").unwrap();
+    assert_bad_input(
+        &tinct_path(&["analyse"], &path, &[]),
+        "cannot tell what kind of file",
+    );
+}
+
+#[test]
+fn convert_between_formats_keeps_the_graph() {
+    let dir = tempfile::tempdir().unwrap();
+    let col = dir.path().join("map.col");
+    let out = tinct_path(
+        &["convert"],
+        &sample("three-valleys"),
+        &[col.to_str().unwrap()],
+    );
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    let project = dir.path().join("back.tinct");
+    assert_eq!(
+        tinct(&["convert", col.to_str().unwrap(), project.to_str().unwrap()])
+            .status
+            .code(),
+        Some(0)
+    );
+    let a: Value = serde_json::from_str(&stdout(&tinct_path(
+        &["analyse"],
+        &sample("three-valleys"),
+        &["--json"],
+    )))
+    .unwrap();
+    let b: Value =
+        serde_json::from_str(&stdout(&tinct_path(&["analyse"], &project, &["--json"]))).unwrap();
+    assert_eq!(
+        a["summary"]["graph_vertices"],
+        b["summary"]["graph_vertices"]
+    );
+    assert_eq!(a["summary"]["graph_edges"], b["summary"]["graph_edges"]);
+}
+
+#[test]
+fn every_command_has_help() {
+    for args in [
+        vec!["--help"],
+        vec!["analyse", "--help"],
+        vec!["convert", "--help"],
+        vec!["open", "--help"],
+    ] {
+        let out = tinct(&args);
+        assert_eq!(out.status.code(), Some(0), "{args:?}");
+        assert!(stdout(&out).contains("Usage"), "{args:?}");
+    }
+}

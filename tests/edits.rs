@@ -1,0 +1,58 @@
+//! Edits and undo: every edit kind is undone exactly by its inverse (property tests).
+
+use proptest::prelude::*;
+use tinct::doc::{Document, History};
+
+use super::support::arb;
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(400))]
+
+    #[test]
+    fn applying_the_inverse_restores_the_document_exactly(doc in arb::document(), op in arb::op()) {
+        let mut doc = doc;
+        let Some(edit) = arb::edit_for(&doc, &op) else { return Ok(()) };
+        let before = doc.clone();
+        let revision = doc.revision();
+        match doc.apply(edit.clone()) {
+            Ok(inverse) => {
+                prop_assert_eq!(doc.revision(), revision + 1);
+                let again = doc.apply(inverse).expect("an inverse always applies");
+                prop_assert_eq!(&doc, &before);
+                // The inverse of the inverse redoes the edit.
+                let mut redone = before.clone();
+                redone.apply(edit).expect("the edit applied once already");
+                doc.apply(again).expect("redo applies");
+                prop_assert_eq!(&doc, &redone);
+            }
+            Err(_) => {
+                prop_assert_eq!(&doc, &before);
+                prop_assert_eq!(doc.revision(), revision);
+            }
+        }
+    }
+
+    #[test]
+    fn undoing_everything_returns_to_the_start_and_redo_replays(ops in proptest::collection::vec(arb::op(), 0..40)) {
+        let mut doc = Document::new("start");
+        let start = doc.clone();
+        let mut history = History::default();
+        let mut snapshots = vec![doc.clone()];
+        for op in &ops {
+            if let Some(edit) = arb::edit_for(&doc, op)
+                && history.apply(&mut doc, edit).is_ok()
+            {
+                snapshots.push(doc.clone());
+            }
+        }
+        let end = doc.clone();
+        for expected in snapshots.iter().rev().skip(1) {
+            prop_assert!(history.undo(&mut doc).expect("undo applies").is_some());
+            prop_assert_eq!(&doc, expected);
+        }
+        prop_assert_eq!(history.undo(&mut doc).expect("nothing left"), None);
+        prop_assert_eq!(&doc, &start);
+        while history.redo(&mut doc).expect("redo applies").is_some() {}
+        prop_assert_eq!(&doc, &end);
+    }
+}

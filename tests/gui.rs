@@ -1,0 +1,180 @@
+//! The editor driven as a user would, headless, through accessible labels (egui_kittest): loading,
+//! drawing borders, undo and redo, saving and reopening, refusing a damaged file without losing work.
+
+use egui_kittest::Harness;
+use egui_kittest::kittest::Queryable;
+use tinct::doc::{self, RegionId, RegionPair};
+use tinct::ui::App;
+use tinct::ui::canvas::screen_of;
+
+use super::support::root;
+
+fn harness(app: App) -> Harness<'static, App> {
+    let mut h = Harness::builder()
+        .with_size(egui::vec2(1280.0, 800.0))
+        .build_ui_state(|ui, app: &mut App| app.ui(ui), app);
+    h.run_steps(3);
+    h
+}
+
+fn click_region(h: &mut Harness<'static, App>, id: RegionId) {
+    let anchor = h.state().session.doc.regions[&id].anchor;
+    let p = screen_of(h.state(), anchor).expect("the canvas has been drawn");
+    h.hover_at(p);
+    for pressed in [true, false] {
+        h.event(egui::Event::PointerButton {
+            pos: p,
+            button: egui::PointerButton::Primary,
+            pressed,
+            modifiers: egui::Modifiers::NONE,
+        });
+    }
+    h.run_steps(2);
+}
+
+/// Two land regions of the default map that do not border each other.
+fn non_neighbours(doc: &doc::Document) -> (RegionId, RegionId) {
+    let land: Vec<RegionId> = doc.land_regions().map(|(id, _)| id).collect();
+    for &a in &land {
+        for &b in &land {
+            if a < b && !doc.borders.contains_key(&RegionPair::new(a, b).unwrap()) {
+                return (a, b);
+            }
+        }
+    }
+    panic!("every pair borders");
+}
+
+#[test]
+fn the_editor_opens_on_the_invented_sample_map_and_shows_a_verdict() {
+    let h = harness(App::new(None, None));
+    assert_eq!(
+        h.state().session.doc.title,
+        "Vessland Province, Kingdom of Estmarrow"
+    );
+    h.get_by_label("Map canvas");
+    h.get_by_label("Verdict");
+    // The background analysis ran (synchronously here, as there is no worker thread).
+    assert!(
+        h.query_by_label_contains("the border graph is planar")
+            .is_some()
+    );
+}
+
+#[test]
+fn clicking_two_regions_with_the_border_tool_adds_a_border_and_undo_redo_work() {
+    let mut h = harness(App::new(None, None));
+    let (a, b) = non_neighbours(&h.state().session.doc);
+    let pair = RegionPair::new(a, b).unwrap();
+    let edges_before = h.state().checks.graph_edges;
+    h.get_by_label("Border").click();
+    h.run_steps(2);
+    click_region(&mut h, a);
+    click_region(&mut h, b);
+    assert_eq!(
+        h.state().session.doc.borders.get(&pair).map(|b| b.kind),
+        Some(doc::BorderKind::Manual)
+    );
+    assert_eq!(h.state().checks.graph_edges, edges_before + 1);
+    let text = format!(
+        "{} land regions as {} colouring units with {} borders",
+        31,
+        31,
+        edges_before + 1
+    );
+    assert!(
+        h.query_by_label(&text).is_some(),
+        "the verdict panel shows the new border count"
+    );
+
+    h.get_by_label("Edit").click();
+    h.run_steps(2);
+    h.get_by_label_contains("Undo").click();
+    h.run_steps(2);
+    assert!(!h.state().session.doc.borders.contains_key(&pair));
+    let ctx = h.ctx.clone();
+    h.state_mut().run(&ctx, tinct::ui::commands::Command::Redo);
+    h.run_steps(2);
+    assert!(h.state().session.doc.borders.contains_key(&pair));
+}
+
+#[test]
+fn save_then_reopen_gives_the_same_document() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("vessland.tinct");
+    let mut h = harness(App::new(None, None));
+    let (a, b) = non_neighbours(&h.state().session.doc);
+    h.get_by_label("Border").click();
+    h.run_steps(2);
+    click_region(&mut h, a);
+    click_region(&mut h, b);
+    assert!(h.state().session.is_dirty());
+    h.state_mut().save_to(&path);
+    h.run_steps(2);
+    assert!(!h.state().session.is_dirty());
+    let saved = h.state().session.doc.clone();
+    let mut again = harness(App::new(None, Some(path.clone())));
+    again.run_steps(2);
+    assert_eq!(again.state().session.doc, saved);
+    assert_eq!(again.state().session.path.as_deref(), Some(path.as_path()));
+}
+
+#[test]
+fn a_damaged_file_is_refused_with_a_message_and_nothing_is_lost() {
+    let dir = tempfile::tempdir().unwrap();
+    let damaged = dir.path().join("damaged.tinct");
+    let text = std::fs::read_to_string(root().join("sample-maps/three-valleys.tinct")).unwrap();
+    std::fs::write(&damaged, &text[..text.len() / 2]).unwrap();
+    let mut h = harness(App::new(None, None));
+    let before = h.state().session.doc.clone();
+    h.state_mut().open_path(damaged.clone());
+    h.run_steps(3);
+    assert_eq!(
+        h.state().session.doc,
+        before,
+        "the open document is untouched"
+    );
+    let message = h
+        .state()
+        .messages
+        .last()
+        .map(|m| m.text.clone())
+        .unwrap_or_default();
+    assert!(
+        message.starts_with("Could not open") && message.contains("line"),
+        "{message}"
+    );
+    assert!(
+        h.query_by_label(&message).is_some(),
+        "the message is on screen"
+    );
+    assert_eq!(
+        std::fs::read_to_string(&damaged).unwrap(),
+        &text[..text.len() / 2],
+        "the file is untouched"
+    );
+}
+
+#[test]
+fn every_sample_map_renders_and_the_exclave_map_shows_its_certificate() {
+    for name in super::sample_maps::SAMPLES {
+        let mut h = harness(App::new(
+            None,
+            Some(root().join("sample-maps").join(format!("{name}.tinct"))),
+        ));
+        h.run_steps(3);
+        assert!(!h.state().session.doc.regions.is_empty(), "{name}");
+        if name == "exclave-coast" {
+            assert!(
+                h.query_by_label_contains("form a subdivided K3,3")
+                    .is_some()
+            );
+            h.get_by_label("Show on map").click();
+            h.run_steps(2);
+            assert_eq!(
+                h.state().view.highlight,
+                Some(tinct::ui::app::Highlight::NotPlanar)
+            );
+        }
+    }
+}

@@ -1,0 +1,174 @@
+//! The house rules on dependency direction, checked by reading the source (see DEVELOPERS.md):
+//! the engine knows only graphs; the document knows no GUI; only the project-file module knows RON;
+//! only the user interface knows egui, eframe and rfd.
+
+use super::support::{root, rust_files};
+
+/// Lines of code with comments removed, so a sentence about a crate is not mistaken for its use.
+fn code_lines(text: &str) -> Vec<(usize, String)> {
+    text.lines()
+        .enumerate()
+        .map(|(i, l)| (i + 1, l.split("//").next().unwrap_or("").to_string()))
+        .filter(|(_, l)| !l.trim().is_empty())
+        .collect()
+}
+
+/// True when `word` occurs in `line` as a whole identifier.
+fn names(line: &str, word: &str) -> bool {
+    let bytes = line.as_bytes();
+    let ident = |b: u8| b.is_ascii_alphanumeric() || b == b'_';
+    let mut from = 0;
+    while let Some(pos) = line[from..].find(word) {
+        let start = from + pos;
+        let end = start + word.len();
+        let before_ok = start == 0 || !ident(bytes[start - 1]);
+        let after_ok = end >= bytes.len() || !ident(bytes[end]);
+        if before_ok && after_ok {
+            return true;
+        }
+        from = end;
+    }
+    false
+}
+
+/// Every (file, line, text) under `src/<folder>` that names one of `words`.
+fn offences(folder: &str, words: &[&str], except: &[&str]) -> Vec<String> {
+    let dir = root().join("src").join(folder);
+    let mut found = Vec::new();
+    for path in rust_files(&dir) {
+        let relative = path
+            .strip_prefix(root())
+            .unwrap_or(&path)
+            .to_string_lossy()
+            .replace('\\', "/");
+        if except.iter().any(|e| relative == *e) {
+            continue;
+        }
+        let text = std::fs::read_to_string(&path).unwrap_or_default();
+        for (n, line) in code_lines(&text) {
+            for w in words {
+                if names(&line, w) {
+                    found.push(format!("{relative}:{n}: names `{w}`: {}", line.trim()));
+                }
+            }
+        }
+    }
+    found
+}
+
+/// Every (file, line, text) under `src/<folder>` that contains one of `needles` as text.
+fn offences_text(folder: &str, needles: &[&str]) -> Vec<String> {
+    let mut found = Vec::new();
+    for path in rust_files(&root().join("src").join(folder)) {
+        let text = std::fs::read_to_string(&path).unwrap_or_default();
+        for (n, line) in code_lines(&text) {
+            for needle in needles {
+                if line.contains(needle) {
+                    found.push(format!(
+                        "{}:{n}: contains `{needle}`: {}",
+                        path.display(),
+                        line.trim()
+                    ));
+                }
+            }
+        }
+    }
+    found
+}
+
+#[test]
+fn engine_knows_only_graphs() {
+    // No GUI, no serialisation, no I/O, no threads, no logging (house style, "Engine").
+    let words = [
+        "egui",
+        "eframe",
+        "rfd",
+        "serde",
+        "serde_json",
+        "ron",
+        "println",
+        "eprintln",
+        "dbg",
+        "spawn",
+    ];
+    let mut found = offences("engine", &words, &[]);
+    found.extend(offences_text(
+        "engine",
+        &[
+            "std::fs",
+            "std::thread",
+            "std::net",
+            "std::process",
+            "std::io",
+            "crate::doc",
+            "crate::geo",
+            "crate::ui",
+            "crate::cli",
+            "crate::worker",
+            "crate::export",
+        ],
+    ));
+    assert!(
+        found.is_empty(),
+        "the engine must stay free of these:\n{}",
+        found.join("\n")
+    );
+}
+
+#[test]
+fn document_knows_no_gui() {
+    let mut found = offences("doc", &["egui", "eframe", "rfd"], &[]);
+    found.extend(offences_text(
+        "doc",
+        &[
+            "crate::ui",
+            "crate::worker",
+            "crate::cli",
+            "crate::geo",
+            "std::thread",
+        ],
+    ));
+    assert!(
+        found.is_empty(),
+        "the document must not know the GUI or the workers:\n{}",
+        found.join("\n")
+    );
+}
+
+#[test]
+fn only_the_project_file_module_knows_ron() {
+    let mut found = Vec::new();
+    for folder in ["engine", "doc", "geo", "export", "worker", "ui", "cli"] {
+        found.extend(offences(folder, &["ron"], &["src/doc/file.rs"]));
+    }
+    assert!(
+        found.is_empty(),
+        "only src/doc/file.rs may use RON:\n{}",
+        found.join("\n")
+    );
+}
+
+#[test]
+fn only_the_user_interface_knows_the_gui_crates() {
+    let mut found = Vec::new();
+    for folder in ["engine", "doc", "geo", "export", "worker", "cli"] {
+        found.extend(offences(folder, &["egui", "eframe", "rfd"], &[]));
+    }
+    assert!(
+        found.is_empty(),
+        "GUI crates belong in src/ui only:\n{}",
+        found.join("\n")
+    );
+}
+
+#[test]
+fn the_checker_catches_an_offence() {
+    // The scanner itself must work, or the tests above prove nothing.
+    assert!(names("use egui::Ui;", "egui"));
+    assert!(!names("use eguix::Ui;", "egui"));
+    assert!(
+        code_lines("let a = 1; // egui")
+            .iter()
+            .all(|(_, l)| !names(l, "egui"))
+    );
+}

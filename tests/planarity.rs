@@ -381,6 +381,33 @@ fn triangulations_with_one_edge_added_or_moved_agree_with_rustworkx() {
 }
 
 #[test]
+fn sparse_random_graphs_near_the_phase_transition_agree_with_rustworkx() {
+    // G(n, m) stops being planar around m = n / 2 (Luczak, Pittel and Wierman, "The structure of
+    // a random graph at the point of the phase transition", 1994): many components, long paths
+    // and sparse cores, unlike the dense cases above.
+    let mut rng = Rng::new(4242);
+    let (mut planar, mut non_planar) = (0, 0);
+    for round in 0..120 {
+        let n = 500 + 10 * round;
+        let m = n / 2 + rng.below(n as u64 / 2) as usize;
+        let edges: Vec<(u32, u32)> = (0..m)
+            .map(|_| (rng.below(n as u64) as u32, rng.below(n as u64) as u32))
+            .collect();
+        let ours = verdict(n, &edges).is_planar();
+        assert_eq!(ours, reference_is_planar(n, &edges), "round {round}");
+        if ours {
+            planar += 1;
+        } else {
+            non_planar += 1;
+        }
+    }
+    assert!(
+        planar > 10 && non_planar > 10,
+        "{planar} planar, {non_planar} not"
+    );
+}
+
+#[test]
 fn large_triangulation_and_moved_edge() {
     let n = 100_000;
     let mut rng = Rng::new(5);

@@ -448,3 +448,99 @@ impl Isolator<'_, '_> {
         }
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use std::sync::atomic::AtomicBool;
+
+    use super::*;
+    use crate::engine::certify::check_kuratowski;
+
+    /// Runs the test in certifying mode and isolates, optionally without any window, so that the
+    /// fallback over all back edges is exercised too.
+    fn isolate_with(n: usize, edges: &[(u32, u32)], use_windows: bool) -> Kuratowski {
+        let (g, _) = Graph::from_edges(n, edges).unwrap();
+        let never = AtomicBool::new(false);
+        let mut progress = |_| {};
+        let mut monitor = Monitor::new(&never, &mut progress);
+        let mut state = LrState::new(&g);
+        assert_eq!(
+            state.run(&mut monitor, Mode::Certify).unwrap(),
+            Outcome::NonPlanar
+        );
+        let mut clue = state.failure_clue();
+        drop(state);
+        if !use_windows {
+            clue.windows.clear();
+        }
+        let k = isolate(&g, clue, &mut monitor).unwrap();
+        check_kuratowski(&g, &k).unwrap();
+        k
+    }
+
+    #[test]
+    fn fallback_without_windows_still_finds_a_certificate() {
+        // K6 (not planar, Kuratowski 1930) and a wheel-like graph with a K3,3 inside.
+        let k6: Vec<(u32, u32)> = (0..6)
+            .flat_map(|a| (a + 1..6).map(move |b| (a, b)))
+            .collect();
+        for use_windows in [true, false] {
+            isolate_with(6, &k6, use_windows);
+        }
+        // The Petersen graph: its certificate must be K3,3 (it is cubic).
+        let petersen: Vec<(u32, u32)> = (0..5u32)
+            .flat_map(|i| [(i, (i + 1) % 5), (i, 5 + i), (5 + i, 5 + (i + 2) % 5)])
+            .collect();
+        for use_windows in [true, false] {
+            assert_eq!(
+                isolate_with(10, &petersen, use_windows).kind,
+                KuratowskiKind::K33
+            );
+        }
+    }
+
+    #[test]
+    fn suppression_keeps_paths_and_drops_trees() {
+        // A K4 with one edge subdivided twice and a pendant tree: compressing keeps the four
+        // degree-3 vertices and six pieces, and the subdivided piece expands back to its path.
+        let (g, _) = Graph::from_edges(
+            9,
+            &[
+                (0, 1),
+                (0, 2),
+                (0, 3),
+                (1, 2),
+                (1, 3),
+                (2, 4),
+                (4, 5),
+                (5, 3),
+                (3, 6),
+                (6, 7),
+                (6, 8),
+            ],
+        )
+        .unwrap();
+        let never = AtomicBool::new(false);
+        let mut progress = |_| {};
+        let mut monitor = Monitor::new(&never, &mut progress);
+        let mut iso = Isolator {
+            arena: Vec::new(),
+            local: vec![NONE; g.vertex_count()],
+            monitor: &mut monitor,
+            oracle_calls: 0,
+        };
+        let input: Vec<u32> = g.edges().map(|(a, b)| iso.leaf(a, b, false)).collect();
+        let pieces = iso.compress(&input);
+        assert_eq!(pieces.len(), 6);
+        let long = pieces
+            .iter()
+            .map(|&p| {
+                let node = iso.arena[p as usize];
+                iso.expand(p, node.a.min(node.b))
+            })
+            .find(|path| path.len() > 2)
+            .unwrap();
+        assert_eq!(long, vec![2, 4, 5, 3]);
+        assert!(iso.test_compressed(&pieces).unwrap());
+    }
+}

@@ -84,6 +84,9 @@ pub(super) struct LrState<'g> {
     /// Renumbering once makes subtrees contiguous, so the later phases mostly touch nearby memory
     /// even when the caller's labels are shuffled.
     orig: Vec<u32>,
+    /// The caller's labels of each edge's ends (Certify mode only), for the embedding output.
+    src_orig: Vec<u32>,
+    dst_orig: Vec<u32>,
     /// Edges are numbered by source vertex, then nesting order: the outgoing edges of `v` are
     /// exactly `out_offsets[v]..out_offsets[v + 1]`, already in the order the test visits them.
     out_offsets: Vec<u32>,
@@ -112,6 +115,8 @@ impl<'g> LrState<'g> {
             n: g.vertex_count(),
             m: g.edge_count(),
             orig: Vec::new(),
+            src_orig: Vec::new(),
+            dst_orig: Vec::new(),
             out_offsets: Vec::new(),
             dst: Vec::new(),
             height: Vec::new(),
@@ -136,7 +141,7 @@ impl<'g> LrState<'g> {
         monitor: &mut Monitor<'_>,
         mode: Mode,
     ) -> Result<Outcome, PlanarityError> {
-        self.orient(monitor)?;
+        self.orient(monitor, mode)?;
         self.lref = vec![NONE; self.m];
         self.side = vec![1; self.m];
         self.lowpt_edge = vec![NONE; self.m];
@@ -161,32 +166,45 @@ impl<'g> LrState<'g> {
     /// An undirected depth-first search only produces tree edges and edges between a vertex and
     /// an ancestor, so an edge to an already visited vertex is a new back edge exactly when that
     /// vertex is higher up and is not the parent; from the other side it was already oriented.
-    fn orient(&mut self, monitor: &mut Monitor<'_>) -> Result<(), PlanarityError> {
+    fn orient(&mut self, monitor: &mut Monitor<'_>, mode: Mode) -> Result<(), PlanarityError> {
         let (offsets, targets) = self.g.csr();
         let (n, m) = (self.n, self.m);
-        // Per edge, numbered in the order the search orients them; caller's vertex labels.
-        let mut src_o: Vec<u32> = Vec::with_capacity(m);
-        let mut dst_o: Vec<u32> = Vec::with_capacity(m);
+        // Per edge, numbered in the order the search orients them. Ends are kept both as
+        // preorder numbers (for the renumbering) and as the caller's labels (for the output).
+        let mut src_pre: Vec<u32> = Vec::with_capacity(m);
+        let mut dst_pre: Vec<u32> = Vec::with_capacity(m);
+        let keep_labels = mode == Mode::Certify;
+        let mut dst_o: Vec<u32> = Vec::with_capacity(if keep_labels { m } else { 0 });
         let mut lowpt_o: Vec<u32> = Vec::with_capacity(m);
         let mut lowpt2_o: Vec<u32> = Vec::with_capacity(m);
         let mut nesting_o: Vec<u32> = vec![0; m];
-        let mut height_o = vec![NONE; n];
-        let mut parent_edge_o = vec![NONE; n];
-        let mut pre = vec![NONE; n];
+        /// Everything the search keeps per vertex, side by side: one cache line per visit.
+        #[derive(Clone, Copy)]
+        struct VertexState {
+            height: u32,
+            parent_edge: u32,
+            pre: u32,
+            cursor: u32,
+        }
+        let mut vs: Vec<VertexState> = (0..n)
+            .map(|v| VertexState {
+                height: NONE,
+                parent_edge: NONE,
+                pre: NONE,
+                cursor: offsets[v],
+            })
+            .collect();
         let mut next_pre = 0u32;
-        let mut cursor: Vec<u32> = offsets[..n].to_vec();
         let mut dfs: Vec<u32> = Vec::new();
-        // Nesting depth of `e` (leaving `v`) and the lowpoint update of `v`'s parent edge.
-        let finish = |v: usize,
-                      e: usize,
-                      height_o: &[u32],
-                      parent_edge_o: &[u32],
+        // Nesting depth of `e` (leaving a vertex at height `hv` whose parent edge is `p`) and the
+        // lowpoint update of `p`.
+        let finish = |e: usize,
+                      hv: u32,
+                      p: u32,
                       lowpt_o: &mut [u32],
                       lowpt2_o: &mut [u32],
                       nesting_o: &mut [u32]| {
-            let hv = height_o[v];
             nesting_o[e] = 2 * lowpt_o[e] + u32::from(lowpt2_o[e] < hv);
-            let p = parent_edge_o[v];
             if p != NONE {
                 let p = p as usize;
                 let (le, l2e) = (lowpt_o[e], lowpt2_o[e]);
@@ -201,78 +219,96 @@ impl<'g> LrState<'g> {
             }
         };
         for s in 0..n {
-            if height_o[s] != NONE {
+            if vs[s].height != NONE {
                 continue;
             }
-            height_o[s] = 0;
-            pre[s] = next_pre;
+            vs[s].height = 0;
+            vs[s].pre = next_pre;
             self.roots.push(next_pre);
             next_pre += 1;
             dfs.push(s as u32);
             while let Some(&v) = dfs.last() {
                 let vi = v as usize;
-                if cursor[vi] < offsets[vi + 1] {
-                    let h = cursor[vi];
-                    cursor[vi] += 1;
-                    let w = targets[h as usize];
-                    let hw = height_o[w as usize];
-                    let hv = height_o[vi];
-                    if hw == NONE {
-                        let e = src_o.len() as u32;
-                        src_o.push(v);
-                        dst_o.push(w);
-                        lowpt_o.push(hv);
-                        lowpt2_o.push(hv);
-                        parent_edge_o[w as usize] = e;
-                        height_o[w as usize] = hv + 1;
-                        pre[w as usize] = next_pre;
-                        next_pre += 1;
-                        dfs.push(w);
-                        monitor.step(Phase::Orientation, u64::from(next_pre), n as u64)?;
-                    } else if hw < hv
-                        && (parent_edge_o[vi] == NONE || src_o[parent_edge_o[vi] as usize] != w)
-                    {
-                        let e = src_o.len();
-                        src_o.push(v);
-                        dst_o.push(w);
-                        lowpt_o.push(hw);
-                        lowpt2_o.push(hv);
-                        finish(
-                            vi,
-                            e,
-                            &height_o,
-                            &parent_edge_o,
-                            &mut lowpt_o,
-                            &mut lowpt2_o,
-                            &mut nesting_o,
-                        );
-                    }
+                let VertexState {
+                    height: hv,
+                    parent_edge: pe,
+                    pre: v_pre,
+                    cursor,
+                } = vs[vi];
+                let parent_pre = if pe == NONE {
+                    NONE
                 } else {
-                    dfs.pop();
-                    let e = parent_edge_o[vi];
-                    if e != NONE {
-                        let u = src_o[e as usize] as usize;
-                        finish(
-                            u,
-                            e as usize,
-                            &height_o,
-                            &parent_edge_o,
-                            &mut lowpt_o,
-                            &mut lowpt2_o,
-                            &mut nesting_o,
-                        );
+                    src_pre[pe as usize]
+                };
+                // Scan v's remaining neighbours until one leads down the tree.
+                let end = offsets[vi + 1];
+                let mut h = cursor;
+                let mut child = NONE;
+                while h < end {
+                    let w = targets[h as usize];
+                    h += 1;
+                    let state = vs[w as usize];
+                    if state.height == NONE {
+                        child = w;
+                        break;
                     }
+                    if state.height < hv && state.pre != parent_pre {
+                        let e = src_pre.len();
+                        src_pre.push(v_pre);
+                        dst_pre.push(state.pre);
+                        if keep_labels {
+                            dst_o.push(w);
+                        }
+                        lowpt_o.push(state.height);
+                        lowpt2_o.push(hv);
+                        finish(e, hv, pe, &mut lowpt_o, &mut lowpt2_o, &mut nesting_o);
+                    }
+                }
+                vs[vi].cursor = h;
+                if child != NONE {
+                    let w = child;
+                    let e = src_pre.len() as u32;
+                    src_pre.push(v_pre);
+                    dst_pre.push(next_pre);
+                    if keep_labels {
+                        dst_o.push(w);
+                    }
+                    lowpt_o.push(hv);
+                    lowpt2_o.push(hv);
+                    vs[w as usize] = VertexState {
+                        height: hv + 1,
+                        parent_edge: e,
+                        pre: next_pre,
+                        cursor: offsets[w as usize],
+                    };
+                    next_pre += 1;
+                    dfs.push(w);
+                    monitor.step(Phase::Orientation, u64::from(next_pre), n as u64)?;
+                    continue;
+                }
+                dfs.pop();
+                if pe != NONE {
+                    // The parent is the vertex below on the search stack.
+                    let parent = dfs.last().copied().unwrap_or(v) as usize;
+                    let (hp, pp) = (vs[parent].height, vs[parent].parent_edge);
+                    finish(
+                        pe as usize,
+                        hp,
+                        pp,
+                        &mut lowpt_o,
+                        &mut lowpt2_o,
+                        &mut nesting_o,
+                    );
                 }
             }
         }
-        debug_assert_eq!(src_o.len(), m);
-        drop(cursor);
+        debug_assert_eq!(src_pre.len(), m);
         drop(lowpt2_o);
         // Renumber: vertices by preorder, edges by (source, nesting depth) through one global
         // bucket sort on nesting depth followed by a stable distribution by source.
         let mut out_offsets = vec![0u32; n + 1];
-        for &s in &src_o {
-            out_offsets[pre[s as usize] as usize + 1] += 1;
+        for &s in &src_pre {
+            out_offsets[s as usize + 1] += 1;
         }
         for v in 0..n {
             out_offsets[v + 1] += out_offsets[v];
@@ -294,7 +330,7 @@ impl<'g> LrState<'g> {
         let mut fill = out_offsets.clone();
         let mut new_id = vec![0u32; m];
         for &e in &by_key {
-            let s = pre[src_o[e as usize] as usize] as usize;
+            let s = src_pre[e as usize] as usize;
             new_id[e as usize] = fill[s];
             fill[s] += 1;
         }
@@ -303,27 +339,42 @@ impl<'g> LrState<'g> {
         let mut dst = vec![0u32; m];
         let mut lowpt = vec![0u32; m];
         let mut nesting = vec![0u32; m];
+        let (mut src_orig, mut dst_orig) = if keep_labels {
+            (vec![0u32; m], vec![0u32; m])
+        } else {
+            (Vec::new(), Vec::new())
+        };
         for e in 0..m {
             let k = new_id[e] as usize;
-            dst[k] = pre[dst_o[e] as usize];
+            dst[k] = dst_pre[e];
             lowpt[k] = lowpt_o[e];
             nesting[k] = nesting_o[e];
+            if keep_labels {
+                dst_orig[k] = dst_o[e];
+            }
         }
-        drop((dst_o, lowpt_o, nesting_o));
+        drop((dst_pre, dst_o, lowpt_o, nesting_o));
         let mut orig = vec![0u32; n];
         let mut height = vec![0u32; n];
         let mut parent = vec![NONE; n];
         let mut parent_edge = vec![NONE; n];
-        for v in 0..n {
-            let p = pre[v] as usize;
+        for (v, state) in vs.iter().enumerate() {
+            let p = state.pre as usize;
             orig[p] = v as u32;
-            height[p] = height_o[v];
-            let e = parent_edge_o[v];
+            height[p] = state.height;
+            if keep_labels {
+                for k in out_offsets[p]..out_offsets[p + 1] {
+                    src_orig[k as usize] = v as u32;
+                }
+            }
+            let e = state.parent_edge;
             if e != NONE {
                 parent_edge[p] = new_id[e as usize];
-                parent[p] = pre[src_o[e as usize] as usize];
+                parent[p] = src_pre[e as usize];
             }
         }
+        self.src_orig = src_orig;
+        self.dst_orig = dst_orig;
         self.orig = orig;
         self.out_offsets = out_offsets;
         self.dst = dst;
@@ -607,47 +658,51 @@ impl<'g> LrState<'g> {
             }
             monitor.step(Phase::Embedding, u64::from(e), 2 * m as u64)?;
         }
-        // Re-sort every vertex's outgoing edges by signed nesting depth: a global bucket sort,
-        // then a stable distribution into each vertex's range.
-        let base = 2 * n + 1;
-        let mut src = vec![0u32; m];
+        // Re-sort every vertex's outgoing edges by signed nesting depth. They are already sorted
+        // by nesting depth, so the new order is the left edges from deepest to shallowest, then
+        // the right edges from shallowest to deepest: one local pass, no sort.
+        let mut order = vec![0u32; m];
         for v in 0..n {
-            for e in self.out_offsets[v]..self.out_offsets[v + 1] {
-                src[e as usize] = v as u32;
+            let (lo, hi) = (self.out_offsets[v], self.out_offsets[v + 1]);
+            let mut k = lo as usize;
+            for e in (lo..hi).rev() {
+                if self.side[e as usize] < 0 {
+                    order[k] = e;
+                    k += 1;
+                }
+            }
+            for e in lo..hi {
+                if self.side[e as usize] > 0 {
+                    order[k] = e;
+                    k += 1;
+                }
             }
         }
-        let key = |e: usize| -> usize {
-            let d = self.nesting[e] as usize;
-            if self.side[e] > 0 { base + d } else { base - d }
-        };
-        let mut bucket = vec![0u32; 2 * base + 2];
-        for e in 0..m {
-            bucket[key(e) + 1] += 1;
-        }
-        for k in 1..bucket.len() {
-            bucket[k] += bucket[k - 1];
-        }
-        let mut by_key = vec![0u32; m];
-        for e in 0..m {
-            let k = key(e);
-            by_key[bucket[k] as usize] = e as u32;
-            bucket[k] += 1;
-        }
-        drop(bucket);
-        let mut order = vec![0u32; m];
-        let mut fill: Vec<u32> = self.out_offsets[..n].to_vec();
-        for &e in &by_key {
-            let v = src[e as usize] as usize;
-            order[fill[v] as usize] = e;
-            fill[v] += 1;
-        }
-        drop(by_key);
-        drop(fill);
 
-        // Half-edges: 2e leaves the source of e, 2e + 1 leaves its target.
-        let halves = 2 * m;
-        let mut cw = vec![NONE; halves];
-        let mut ccw = vec![NONE; halves];
+        // Half-edges: 2e leaves the source of e, 2e + 1 leaves its target. Each keeps its
+        // clockwise and counter-clockwise neighbours in the rotation and the caller's label of
+        // the vertex it points to, side by side.
+        #[derive(Clone, Copy)]
+        struct Half {
+            cw: u32,
+            ccw: u32,
+            label: u32,
+        }
+        let mut half: Vec<Half> = Vec::with_capacity(2 * m);
+        for e in 0..m {
+            half.push(Half {
+                cw: NONE,
+                ccw: NONE,
+                label: self.dst_orig[e],
+            });
+            half.push(Half {
+                cw: NONE,
+                ccw: NONE,
+                label: self.src_orig[e],
+            });
+        }
+        self.src_orig = Vec::new();
+        self.dst_orig = Vec::new();
         let mut first = vec![NONE; n];
         for v in 0..n {
             let mut previous = NONE;
@@ -656,22 +711,22 @@ impl<'g> LrState<'g> {
                 if previous == NONE {
                     first[v] = h;
                 } else {
-                    cw[previous as usize] = h;
-                    ccw[h as usize] = previous;
+                    half[previous as usize].cw = h;
+                    half[h as usize].ccw = previous;
                 }
                 previous = h;
             }
             if previous != NONE {
-                cw[previous as usize] = first[v];
-                ccw[first[v] as usize] = previous;
+                half[previous as usize].cw = first[v];
+                half[first[v] as usize].ccw = previous;
             }
         }
-        let insert_after = |cw: &mut Vec<u32>, ccw: &mut Vec<u32>, reference: u32, h: u32| {
-            let next = cw[reference as usize];
-            cw[reference as usize] = h;
-            ccw[h as usize] = reference;
-            cw[h as usize] = next;
-            ccw[next as usize] = h;
+        let insert_after = |half: &mut Vec<Half>, reference: u32, h: u32| {
+            let next = half[reference as usize].cw;
+            half[reference as usize].cw = h;
+            half[h as usize].ccw = reference;
+            half[h as usize].cw = next;
+            half[next as usize].ccw = h;
         };
         let mut left_ref = vec![NONE; n];
         let mut right_ref = vec![NONE; n];
@@ -694,11 +749,11 @@ impl<'g> LrState<'g> {
                 if self.parent_edge[w] == ei as u32 {
                     // The parent becomes the first neighbour of w, just before its children.
                     if first[w] == NONE {
-                        cw[h_in as usize] = h_in;
-                        ccw[h_in as usize] = h_in;
+                        half[h_in as usize].cw = h_in;
+                        half[h_in as usize].ccw = h_in;
                     } else {
-                        let before = ccw[first[w] as usize];
-                        insert_after(&mut cw, &mut ccw, before, h_in);
+                        let before = half[first[w] as usize].ccw;
+                        insert_after(&mut half, before, h_in);
                     }
                     first[w] = h_in;
                     left_ref[vi] = h_out;
@@ -707,10 +762,10 @@ impl<'g> LrState<'g> {
                     visited += 1;
                     monitor.step(Phase::Embedding, m as u64 + visited, 2 * m as u64)?;
                 } else if self.side[ei] == 1 {
-                    insert_after(&mut cw, &mut ccw, right_ref[w], h_in);
+                    insert_after(&mut half, right_ref[w], h_in);
                 } else {
-                    let before = ccw[left_ref[w] as usize];
-                    insert_after(&mut cw, &mut ccw, before, h_in);
+                    let before = half[left_ref[w] as usize].ccw;
+                    insert_after(&mut half, before, h_in);
                     left_ref[w] = h_in;
                 }
             }
@@ -728,10 +783,9 @@ impl<'g> LrState<'g> {
             }
             let mut h = first[v];
             for slot in rotation[lo..hi].iter_mut() {
-                let e = (h / 2) as usize;
-                let other = if h % 2 == 0 { self.dst[e] } else { src[e] };
-                *slot = self.orig[other as usize];
-                h = cw[h as usize];
+                let x = half[h as usize];
+                *slot = x.label;
+                h = x.cw;
             }
             debug_assert_eq!(h, first[v]);
         }

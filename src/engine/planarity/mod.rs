@@ -135,7 +135,8 @@ impl Embedding {
     /// lie on no face walk. Faces come out in a fixed order (by their first directed edge).
     ///
     /// # Complexity
-    /// O(n + m) time and space (one binary search per directed edge to find its reverse).
+    /// O((n + m) log d) time for maximum degree d (a sort and a binary search per directed edge),
+    /// O(n + m) space.
     pub fn faces(&self) -> Vec<Vec<Vertex>> {
         let n = self.vertex_count();
         let darts = self.rotation.len();
@@ -242,9 +243,12 @@ impl Planarity {
 /// are suppressed.
 ///
 /// # Complexity
-/// Planar graphs: O(n + m) time and space. Non-planar graphs: O(n + m) for the test, then
-/// O((n + m) * k * log m) in the worst case for the isolation, where k is the number of back edges
-/// the subdivision needs (usually a handful); see the notes in `kuratowski.rs`.
+/// Planar graphs: O(n + m) time and space. Non-planar graphs: O(n + m) for the test, O(n + m) for
+/// each window of back edges tried around the failure (usually one, at most about log n), then
+/// O(w k log(w / k) + k^2) for the shrinking, where w is the window size and k the number of
+/// pieces the subdivision needs (a handful in practice). This is not linear in the worst case:
+/// a subdivision that needs Θ(n) back edges of the depth-first tree makes the shrinking
+/// quadratic. See `kuratowski.rs`.
 ///
 /// # Certificate
 /// [`Planarity::Planar`] carries an [`Embedding`] whose face walks satisfy Euler's formula;

@@ -418,6 +418,11 @@ impl App {
         self.seen_revision = u64::MAX;
     }
 
+    /// Shows `doc` as a new, unsaved document (used by benchmarks and tests that build maps in code).
+    pub fn show_document(&mut self, doc: Document) {
+        self.replace_session(Session::new(doc, None));
+    }
+
     /// True when the analysis on show was computed for an older revision of the document.
     pub fn analysis_is_stale(&self) -> bool {
         self.analysis

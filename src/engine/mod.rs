@@ -9,3 +9,4 @@ pub mod graph;
 
 pub use components::{Components, connected_components};
 pub use graph::{Cleanup, Graph, GraphError, Vertex};
+pub mod colouring;

@@ -1,9 +1,13 @@
 //! Exact graph colouring with proofs: bounds, heuristics, exact search, obstructions, checkers.
 
 pub mod check;
+pub mod drat_check;
 pub mod dsatur;
+pub mod encoding;
+pub mod exact;
 pub mod lower_bound;
 pub mod problem;
+pub mod sat;
 pub mod smallest_last;
 
 pub use check::{ColouringViolation, check_colouring};
@@ -11,3 +15,6 @@ pub use dsatur::dsatur;
 pub use lower_bound::{BoundEvidence, LowerBound, check_bound, find_clique, lower_bound};
 pub use problem::{Classes, ColouringError, ColouringProblem, colour_count};
 pub use smallest_last::{KempeOutcome, kempe_colouring, smallest_last_order};
+pub use drat_check::{DratError, DratSummary, check_drat, parse_dimacs};
+pub use encoding::{Cnf, Symmetry, colour_var, colouring_cnf};
+pub use exact::{Decision, Limits, k_colourable, repair};

@@ -1,12 +1,15 @@
 //! Exact graph colouring with proofs: bounds, heuristics, exact search, obstructions, checkers.
 
+pub mod argument;
 pub mod check;
 pub mod drat_check;
 pub mod dsatur;
 pub mod encoding;
 pub mod exact;
 pub mod lower_bound;
+pub mod obstruction;
 pub mod problem;
+pub mod refutation_check;
 pub mod sat;
 pub mod smallest_last;
 
@@ -18,3 +21,8 @@ pub use smallest_last::{KempeOutcome, kempe_colouring, smallest_last_order};
 pub use drat_check::{DratError, DratSummary, check_drat, parse_dimacs};
 pub use encoding::{Cnf, Symmetry, colour_var, colouring_cnf};
 pub use exact::{Decision, Limits, k_colourable, repair};
+pub use argument::{ArgumentStep, StepKind, case_analysis, replay_argument};
+pub use obstruction::{
+    Obstruction, ObstructionKind, ObstructionOptions, Refutation, find_obstruction,
+};
+pub use refutation_check::{RefutationError, check_refutation};

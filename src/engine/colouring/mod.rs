@@ -1,6 +1,7 @@
 //! Exact graph colouring with proofs: bounds, heuristics, exact search, obstructions, checkers.
 
 pub mod argument;
+pub mod balance;
 pub mod check;
 pub mod drat_check;
 pub mod dsatur;
@@ -9,9 +10,11 @@ pub mod exact;
 pub mod lower_bound;
 pub mod obstruction;
 pub mod problem;
+pub mod recolour;
 pub mod refutation_check;
 pub mod sat;
 pub mod smallest_last;
+pub mod solve;
 
 pub use check::{ColouringViolation, check_colouring};
 pub use dsatur::dsatur;
@@ -26,3 +29,6 @@ pub use obstruction::{
     Obstruction, ObstructionKind, ObstructionOptions, Refutation, find_obstruction,
 };
 pub use refutation_check::{RefutationError, check_refutation};
+pub use balance::balance_colouring;
+pub use recolour::{Recolouring, stable_recolour};
+pub use solve::{Balance, ColouringReport, Progress, SolveOptions, Stage, solve};

@@ -87,8 +87,12 @@ pub struct Progress {
 /// The answer of [`solve`].
 #[derive(Debug, Clone, PartialEq)]
 pub struct ColouringReport {
-    /// Colours used by the best colouring found (distinct palette slots).
+    /// The fewest colours found to suffice (proven optimal when `proven`); `None` only when
+    /// nothing was coloured.
     pub minimum: Option<u32>,
+    /// Distinct palette slots used by `colouring` (more than `minimum` when stable recolouring
+    /// keeps the previous palette).
+    pub colours_used: Option<u32>,
     /// True when `minimum` is proven optimal (it equals the lower bound).
     pub proven: bool,
     /// The proven lower bound and its evidence.
@@ -321,12 +325,13 @@ pub fn solve(
         }
         Some(slots)
     };
-    let minimum = colouring
+    let colours_used = colouring
         .as_ref()
-        .map(|c| crate::engine::colouring::problem::colour_count(c))
-        .or(Some(ub).filter(|_| n > 0 || ub == 0));
+        .map(|c| crate::engine::colouring::problem::colour_count(c));
+    let minimum = Some(ub);
     Ok(ColouringReport {
         minimum,
+        colours_used,
         proven,
         lower_bound: lb,
         colouring,

@@ -44,6 +44,18 @@ pub struct LowerBound {
 /// # Certificate
 /// The evidence; check it with [`check_bound`].
 pub fn lower_bound(g: &Graph, pinned_slots: &[u32], budget: u64) -> LowerBound {
+    let (order, degeneracy) = smallest_last_order(g);
+    lower_bound_in_order(g, pinned_slots, budget, &order, degeneracy)
+}
+
+/// [`lower_bound`] with a precomputed smallest-last order and degeneracy.
+pub fn lower_bound_in_order(
+    g: &Graph,
+    pinned_slots: &[u32],
+    budget: u64,
+    order: &[Vertex],
+    degeneracy: u32,
+) -> LowerBound {
     let n = g.vertex_count();
     let mut best = if n == 0 {
         LowerBound {
@@ -51,7 +63,7 @@ pub fn lower_bound(g: &Graph, pinned_slots: &[u32], budget: u64) -> LowerBound {
             evidence: BoundEvidence::Empty,
         }
     } else {
-        let clique = find_clique(g, budget);
+        let clique = find_clique_in_order(g, order, degeneracy, budget, usize::MAX);
         LowerBound {
             value: clique.len() as u32,
             evidence: BoundEvidence::Clique(clique),
@@ -132,28 +144,42 @@ pub fn check_bound(g: &Graph, bound: &LowerBound) -> bool {
 
 /// A large clique (maximum when the search finishes within `budget` nodes).
 pub fn find_clique(g: &Graph, budget: u64) -> Vec<Vertex> {
+    let (order, degeneracy) = smallest_last_order(g);
+    find_clique_in_order(g, &order, degeneracy, budget, usize::MAX)
+}
+
+/// [`find_clique`] with a precomputed smallest-last order; stops as soon as a clique of
+/// `enough` vertices is known.
+pub fn find_clique_in_order(
+    g: &Graph,
+    order: &[Vertex],
+    degeneracy: u32,
+    budget: u64,
+    enough: usize,
+) -> Vec<Vertex> {
     let n = g.vertex_count();
     if n == 0 {
         return Vec::new();
     }
-    let (order, degeneracy) = smallest_last_order(g);
     let mut position = vec![0u32; n];
     for (i, &v) in order.iter().enumerate() {
         position[v as usize] = i as u32;
     }
     let mut best: Vec<Vertex> = vec![order[n - 1]];
     let mut nodes = 0u64;
+    let mut later: Vec<Vertex> = Vec::new();
     // Dense vertices come last in smallest-last order: start there, big cliques show up early.
     for &v in order.iter().rev() {
-        if best.len() as u32 > degeneracy || nodes > budget {
+        if best.len() as u32 > degeneracy || nodes > budget || best.len() >= enough {
             break; // no clique can exceed degeneracy + 1
         }
-        let later: Vec<Vertex> = g
-            .neighbours(v)
-            .iter()
-            .copied()
-            .filter(|&w| position[w as usize] > position[v as usize])
-            .collect();
+        later.clear();
+        later.extend(
+            g.neighbours(v)
+                .iter()
+                .copied()
+                .filter(|&w| position[w as usize] > position[v as usize]),
+        );
         if later.len() < best.len() {
             continue;
         }

@@ -18,9 +18,14 @@ pub mod solve;
 
 pub use check::{ColouringViolation, check_colouring};
 pub use dsatur::dsatur;
-pub use lower_bound::{BoundEvidence, LowerBound, check_bound, find_clique, lower_bound};
+pub use lower_bound::{
+    BoundEvidence, LowerBound, check_bound, find_clique, find_clique_in_order, lower_bound,
+    lower_bound_in_order,
+};
 pub use problem::{Classes, ColouringError, ColouringProblem, colour_count};
-pub use smallest_last::{KempeOutcome, kempe_colouring, smallest_last_order};
+pub use smallest_last::{
+    KempeOutcome, kempe_colouring, kempe_colouring_in_order, smallest_last_order,
+};
 pub use drat_check::{DratError, DratSummary, check_drat, parse_dimacs};
 pub use encoding::{Cnf, Symmetry, colour_var, colouring_cnf};
 pub use exact::{Decision, Limits, k_colourable, repair};

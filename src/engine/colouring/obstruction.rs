@@ -4,7 +4,10 @@
 use crate::engine::colouring::argument::{ArgumentStep, case_analysis};
 use crate::engine::colouring::encoding::{Symmetry, colour_var, colouring_cnf};
 use crate::engine::colouring::exact::{Decision, Limits, k_colourable, symmetry_for};
-use crate::engine::colouring::lower_bound::{find_clique, odd_cycle, odd_wheel};
+use crate::engine::colouring::lower_bound::{
+    BoundEvidence, LowerBound, find_clique_in_order, odd_cycle, odd_wheel,
+};
+use crate::engine::colouring::smallest_last::smallest_last_order;
 use crate::engine::colouring::sat::{Sat, SatAnswer};
 use crate::engine::graph::{Graph, Vertex};
 
@@ -91,7 +94,8 @@ impl Default for ObstructionOptions {
 /// Finds an obstruction to k-colouring `g` with the given pins, or `None` if `g` is k-colourable
 /// (or the search was stopped).
 ///
-/// First by structure (a K_{k+1}; an odd cycle for k = 2; an odd wheel for k = 3), which are
+/// First from `known` bound evidence or by structure (a K_{k+1}; an odd cycle for k = 2; an odd
+/// wheel for k = 3), which are
 /// vertex-critical by themselves; otherwise by deletion (Chinneck and Dravnieks' deletion filter,
 /// 1991): take a part that cannot be coloured, shrink it with the solver's unsatisfiable cores,
 /// then try removing each vertex in turn and keep the removal whenever the rest is still not
@@ -109,10 +113,25 @@ pub fn find_obstruction(
     pinned_slots: &[u32],
     k: u32,
     start: Option<Vec<Vertex>>,
+    known: Option<&LowerBound>,
     limits: Limits,
     options: &ObstructionOptions,
 ) -> Option<Obstruction> {
-    let structural = structural_obstruction(g, k);
+    let from_bound = known.and_then(|b| match &b.evidence {
+        BoundEvidence::Clique(c) if c.len() > k as usize => Some(c[..=k as usize].to_vec()),
+        BoundEvidence::OddCycle(c) if k == 2 => Some(c.clone()),
+        BoundEvidence::OddWheel { hub, rim } if k == 3 => {
+            Some(rim.iter().copied().chain([*hub]).collect())
+        }
+        _ => None,
+    });
+    let structural = match from_bound {
+        Some(mut vs) => {
+            vs.sort_unstable();
+            Some(vs)
+        }
+        None => structural_obstruction(g, k),
+    };
     let (vertices, critical) = match structural {
         Some(vs) => (vs, true),
         None => {
@@ -133,7 +152,8 @@ pub fn find_obstruction(
 }
 
 fn structural_obstruction(g: &Graph, k: u32) -> Option<Vec<Vertex>> {
-    let clique = find_clique(g, 200_000);
+    let (order, degeneracy) = smallest_last_order(g);
+    let clique = find_clique_in_order(g, &order, degeneracy, 200_000, k as usize + 1);
     if clique.len() > k as usize {
         let mut c = clique[..=k as usize].to_vec();
         c.sort_unstable();

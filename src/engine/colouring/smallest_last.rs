@@ -85,6 +85,8 @@ pub struct KempeOutcome {
     pub uncoloured: Vec<Vertex>,
     /// How many Kempe-chain interchanges were made.
     pub interchanges: u64,
+    /// Vertices left stuck by the first (short-chain) pass and retried.
+    pub retried: usize,
 }
 
 /// Tries to colour `g` with classes `0..k` in reverse smallest-last order, using Kempe-chain
@@ -98,6 +100,17 @@ pub struct KempeOutcome {
 /// # Certificate
 /// The colouring (check with [`crate::engine::colouring::check_colouring`] once complete).
 pub fn kempe_colouring(g: &Graph, pin_class: &[Option<u32>], k: u32) -> KempeOutcome {
+    let (order, _) = smallest_last_order(g);
+    kempe_colouring_in_order(g, pin_class, k, &order)
+}
+
+/// [`kempe_colouring`] with a precomputed smallest-last `order` (as from [`smallest_last_order`]).
+pub fn kempe_colouring_in_order(
+    g: &Graph,
+    pin_class: &[Option<u32>],
+    k: u32,
+    order: &[Vertex],
+) -> KempeOutcome {
     let n = g.vertex_count();
     let mut state = KempeState {
         g,
@@ -116,17 +129,36 @@ pub fn kempe_colouring(g: &Graph, pin_class: &[Option<u32>], k: u32) -> KempeOut
             state.pinned[v] = true;
         }
     }
-    let (order, _) = smallest_last_order(g);
     let mut stuck = Vec::new();
     for &v in order.iter().rev() {
         if state.colour[v as usize] == NONE && !state.colour_one(v, 64) {
             stuck.push(v);
         }
     }
-    // Later colourings changed the neighbourhoods: try the stuck ones again with longer chains.
+    // Later colourings changed the neighbourhoods: try the stuck ones again with longer chains,
+    // shaking the neighbourhood with random interchanges between attempts (seeded, so the
+    // result is deterministic).
     let mut uncoloured = Vec::new();
+    let mut seed = 0x9E37_79B9_7F4A_7C15u64;
     for &v in &stuck {
-        if !state.colour_one(v, u32::MAX) {
+        // Growing chain limits: two-colour chains can span much of a large map.
+        let mut done = state.colour_one(v, 256) || state.colour_one(v, 4096);
+        let mut attempt = 0;
+        while !done && attempt < 400 && g.degree(v) > 0 {
+            seed ^= seed << 13;
+            seed ^= seed >> 7;
+            seed ^= seed << 17;
+            let nb = g.neighbours(v);
+            let u = nb[(seed % nb.len() as u64) as usize];
+            let b = ((seed >> 32) % k as u64) as u32;
+            state.shake(u, b, 4096);
+            done = state.colour_one(v, 256) || (attempt % 25 == 24 && state.colour_one(v, u32::MAX));
+            attempt += 1;
+        }
+        if !done {
+            done = state.colour_one(v, u32::MAX);
+        }
+        if !done {
             uncoloured.push(v);
         }
     }
@@ -135,6 +167,7 @@ pub fn kempe_colouring(g: &Graph, pin_class: &[Option<u32>], k: u32) -> KempeOut
         colour: state.colour,
         uncoloured,
         interchanges: state.interchanges,
+        retried: stuck.len(),
     }
 }
 
@@ -188,7 +221,132 @@ impl KempeState<'_> {
                 }
             }
         }
+        // Kempe's argument for degree five: free a colour by moving each of its neighbours along
+        // its own chain (a different partner colour per neighbour), one interchange at a time.
+        for &a in &freeable {
+            if self.free_one_by_one(v, a as u32, chain_limit) {
+                self.colour[v as usize] = a as u32;
+                return true;
+            }
+        }
         false
+    }
+
+    /// Moves every a-coloured neighbour of v off colour a, each by an interchange with some
+    /// partner colour whose chain avoids v's neighbours of that colour. The interchanges made are
+    /// valid even when the attempt fails, so nothing needs undoing.
+    fn free_one_by_one(&mut self, v: Vertex, a: u32, chain_limit: u32) -> bool {
+        let g = self.g;
+        loop {
+            let Some(u) = g
+                .neighbours(v)
+                .iter()
+                .copied()
+                .find(|&u| self.colour[u as usize] == a)
+            else {
+                return true;
+            };
+            let moved = (0..self.k)
+                .filter(|&b| b != a)
+                .any(|b| self.try_chain(v, u, a, b, chain_limit));
+            if !moved {
+                return false;
+            }
+        }
+    }
+
+    /// Swaps a and b on the (a, b)-chain through `start` unless it reaches a b-coloured
+    /// neighbour of v or a pinned vertex.
+    fn try_chain(&mut self, v: Vertex, start: Vertex, a: u32, b: u32, chain_limit: u32) -> bool {
+        let g = self.g;
+        if self.pinned[start as usize] {
+            return false;
+        }
+        let forbid = self.next_epoch();
+        for &w in g.neighbours(v) {
+            if self.colour[w as usize] == b {
+                self.stamp[w as usize] = forbid;
+            }
+        }
+        let visit = self.next_epoch();
+        self.chain.clear();
+        self.queue.clear();
+        self.queue.push(start);
+        self.stamp[start as usize] = visit;
+        let mut head = 0;
+        while head < self.queue.len() {
+            let x = self.queue[head];
+            head += 1;
+            self.chain.push(x);
+            if self.chain.len() as u32 > chain_limit {
+                return false;
+            }
+            for &y in g.neighbours(x) {
+                let cy = self.colour[y as usize];
+                if cy != a && cy != b {
+                    continue;
+                }
+                let s = self.stamp[y as usize];
+                if s == visit {
+                    continue;
+                }
+                if s == forbid || self.pinned[y as usize] || y == v {
+                    return false;
+                }
+                self.stamp[y as usize] = visit;
+                self.queue.push(y);
+            }
+        }
+        for &x in &self.chain {
+            let c = &mut self.colour[x as usize];
+            *c = if *c == a { b } else { a };
+        }
+        self.interchanges += 1;
+        true
+    }
+
+    /// An unconditional interchange on the chain through `start` (used to shake a stuck
+    /// neighbourhood); refused if the chain holds a pinned vertex or is too long.
+    fn shake(&mut self, start: Vertex, b: u32, chain_limit: u32) -> bool {
+        let a = self.colour[start as usize];
+        if a == NONE || a == b {
+            return false;
+        }
+        // No vertex is forbidden: pass a vertex that is not adjacent to anything coloured b.
+        let g = self.g;
+        if self.pinned[start as usize] {
+            return false;
+        }
+        let visit = self.next_epoch();
+        self.chain.clear();
+        self.queue.clear();
+        self.queue.push(start);
+        self.stamp[start as usize] = visit;
+        let mut head = 0;
+        while head < self.queue.len() {
+            let x = self.queue[head];
+            head += 1;
+            self.chain.push(x);
+            if self.chain.len() as u32 > chain_limit {
+                return false;
+            }
+            for &y in g.neighbours(x) {
+                let cy = self.colour[y as usize];
+                if (cy == a || cy == b) && self.stamp[y as usize] != visit {
+                    if self.pinned[y as usize] {
+                        return false;
+                    }
+                    self.stamp[y as usize] = visit;
+                    self.queue.push(y);
+                }
+            }
+        }
+        for &x in &self.chain {
+            let c = &mut self.colour[x as usize];
+            *c = if *c == a { b } else { a };
+        }
+        self.interchanges += 1;
+        true
     }
 
     fn colour_greedy(&mut self, v: Vertex) -> bool {

@@ -7,11 +7,11 @@ use std::time::{Duration, Instant};
 use crate::engine::colouring::balance::balance_colouring;
 use crate::engine::colouring::dsatur::dsatur;
 use crate::engine::colouring::exact::{Decision, Limits, k_colourable, repair};
-use crate::engine::colouring::lower_bound::{BoundEvidence, LowerBound, lower_bound};
+use crate::engine::colouring::lower_bound::{BoundEvidence, LowerBound, lower_bound_in_order};
 use crate::engine::colouring::obstruction::{Obstruction, ObstructionOptions, find_obstruction};
 use crate::engine::colouring::problem::{Classes, ColouringError, ColouringProblem};
 use crate::engine::colouring::recolour::stable_recolour;
-use crate::engine::colouring::smallest_last::kempe_colouring;
+use crate::engine::colouring::smallest_last::{kempe_colouring_in_order, smallest_last_order};
 use crate::engine::graph::Vertex;
 
 const NONE: u32 = u32::MAX;
@@ -157,14 +157,17 @@ pub fn solve(
     };
 
     report_progress(Stage::Bounds, 0, None);
-    let mut lb = lower_bound(g, &classes.pinned_slots, 200_000);
+    // One smallest-last order serves the clique search and the Kempe colouring.
+    let (order, degeneracy) = smallest_last_order(g);
+    let mut lb = lower_bound_in_order(g, &classes.pinned_slots, 200_000, &order, degeneracy);
+    let first_bound = lb.clone();
     report_progress(Stage::Heuristic, lb.value, None);
 
     // Upper bound: aim straight at the lower bound; fall back to DSATUR.
     let mut best: Option<Vec<u32>> = None;
     let target = lb.value.max(p).max(u32::from(n > 0));
     if n > 0 && target <= 64 {
-        let mut out = kempe_colouring(g, pin_class, target);
+        let mut out = kempe_colouring_in_order(g, pin_class, target, &order);
         let few = out.uncoloured.len() <= 64 + n / 100;
         if out.uncoloured.is_empty()
             || (few && repair(g, pin_class, target, &mut out.colour, 4000, limits))
@@ -230,6 +233,7 @@ pub fn solve(
             &classes.pinned_slots,
             3,
             part_for(3, &unsat_parts),
+            Some(&first_bound),
             limits,
             &options.obstruction,
         );
@@ -249,6 +253,7 @@ pub fn solve(
             &classes.pinned_slots,
             ub - 1,
             part_for(ub - 1, &unsat_parts),
+            Some(&first_bound),
             limits,
             &options.obstruction,
         );

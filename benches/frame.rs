@@ -14,12 +14,21 @@ use tinct::ui::App;
 fn map(cols: usize, rows: usize) -> Document {
     let regions = synthetic::jittered_grid(cols, rows, 6, 0.25, 7);
     let json = synthetic::to_geojson(&regions);
-    let options = ImportOptions { coordinates: tinct::geo::CoordinateMode::Planar, ..ImportOptions::default() };
+    let options = ImportOptions {
+        coordinates: tinct::geo::CoordinateMode::Planar,
+        ..ImportOptions::default()
+    };
     let imported = import_json(json.as_bytes(), &options).expect("synthetic map imports");
     let mut doc = imported.into_document(format!("Synthetic {cols} x {rows}"));
     // Colour it (any four-slot pattern will do: the drawing cost does not depend on validity).
-    let colouring = doc.regions.keys().enumerate().map(|(i, id)| (*id, (i % 4) as u32)).collect();
-    doc.apply(Edit::SetColouring(colouring)).expect("colouring applies");
+    let colouring = doc
+        .regions
+        .keys()
+        .enumerate()
+        .map(|(i, id)| (*id, (i % 4) as u32))
+        .collect();
+    doc.apply(Edit::SetColouring(colouring))
+        .expect("colouring applies");
     doc
 }
 
@@ -28,7 +37,10 @@ fn frame_times(doc: Document, frames: usize) -> (Duration, usize, usize) {
     let mut app = App::new_with(None, None, None);
     app.show_document(doc);
     let input = || egui::RawInput {
-        screen_rect: Some(egui::Rect::from_min_size(egui::Pos2::ZERO, egui::vec2(1280.0, 800.0))),
+        screen_rect: Some(egui::Rect::from_min_size(
+            egui::Pos2::ZERO,
+            egui::vec2(1280.0, 800.0),
+        )),
         ..Default::default()
     };
     let mut times = Vec::with_capacity(frames);
@@ -58,13 +70,30 @@ fn frame_times(doc: Document, frames: usize) -> (Duration, usize, usize) {
 fn main() {
     let frames = 40;
     let (empty, _, _) = frame_times(Document::new("Empty"), frames);
-    println!("editor frame time, median of {frames} frames, 1280 x 800 window (CPU work before rasterising)");
-    println!("{:>10} {:>10} {:>10} {:>12} {:>10} {:>8}", "regions", "vertices", "shapes", "triangles", "ms/frame", "ratio");
-    println!("{:>10} {:>10} {:>10} {:>12} {:>10.2} {:>8}", 0, 0, "-", "-", empty.as_secs_f64() * 1e3, "1.00");
+    println!(
+        "editor frame time, median of {frames} frames, 1280 x 800 window (CPU work before rasterising)"
+    );
+    println!(
+        "{:>10} {:>10} {:>10} {:>12} {:>10} {:>8}",
+        "regions", "vertices", "shapes", "triangles", "ms/frame", "ratio"
+    );
+    println!(
+        "{:>10} {:>10} {:>10} {:>12} {:>10.2} {:>8}",
+        0,
+        0,
+        "-",
+        "-",
+        empty.as_secs_f64() * 1e3,
+        "1.00"
+    );
     for (cols, rows) in [(20, 15), (60, 50), (100, 100)] {
         let doc = map(cols, rows);
-        let vertices: usize =
-            doc.regions.values().filter_map(|r| r.geometry.as_ref()).map(|g| g.vertex_count()).sum();
+        let vertices: usize = doc
+            .regions
+            .values()
+            .filter_map(|r| r.geometry.as_ref())
+            .map(|g| g.vertex_count())
+            .sum();
         let regions = doc.regions.len();
         let (t, shapes, triangles) = frame_times(doc, frames);
         println!(

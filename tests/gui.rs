@@ -200,13 +200,31 @@ fn unsaved_work_is_offered_back_after_a_crash_and_a_damaged_recovery_file_is_not
     h.get_by_label("Recover it").click();
     h.run_steps(3);
     assert_eq!(h.state().session.doc, unsaved);
-    assert!(h.state().session.is_dirty(), "recovered work is not saved anywhere yet");
+    assert!(
+        h.state().session.is_dirty(),
+        "recovered work is not saved anywhere yet"
+    );
     drop(h);
 
-    std::fs::write(dir.path().join("recovery.tinct"), "(format_version: 1, title: \"half").unwrap();
+    std::fs::write(
+        dir.path().join("recovery.tinct"),
+        "(format_version: 1, title: \"half",
+    )
+    .unwrap();
     let h = harness(App::new_with(None, None, Some(dir.path().to_path_buf())));
     assert!(h.state().recovery_offer.is_none());
-    let message = h.state().messages.last().map(|m| m.text.clone()).unwrap_or_default();
-    assert!(message.contains("could not be read and was not used"), "{message}");
-    assert_eq!(h.state().session.doc.title, "Vessland Province, Kingdom of Estmarrow");
+    let message = h
+        .state()
+        .messages
+        .last()
+        .map(|m| m.text.clone())
+        .unwrap_or_default();
+    assert!(
+        message.contains("could not be read and was not used"),
+        "{message}"
+    );
+    assert_eq!(
+        h.state().session.doc.title,
+        "Vessland Province, Kingdom of Estmarrow"
+    );
 }

@@ -2,6 +2,7 @@
 
 mod blocks;
 mod cli;
+mod colouring;
 mod edits;
 mod geo;
 mod graph_formats;

@@ -7,6 +7,7 @@
 pub mod biconnected;
 pub mod bipartite;
 pub mod certify;
+pub mod colouring;
 pub mod components;
 pub mod graph;
 pub mod planarity;

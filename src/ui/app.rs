@@ -86,6 +86,11 @@ pub enum JobResult {
         result: Result<Box<(Document, Vec<String>)>, String>,
     },
     Analysed(Box<Analysis>),
+    /// A balanced recolouring for a revision.
+    Balanced {
+        revision: u64,
+        verdict: Box<analysis::ColouringVerdict>,
+    },
 }
 
 /// Which certificate the map highlights.
@@ -93,6 +98,8 @@ pub enum JobResult {
 pub enum Highlight {
     /// The regions whose borders cannot be drawn flat (a Kuratowski subdivision).
     NotPlanar,
+    /// The regions that cannot take three colours.
+    NotThreeColourable,
 }
 
 /// How often unsaved work is written to the recovery file.
@@ -122,6 +129,8 @@ pub struct Message {
 pub enum PathPurpose {
     Open,
     SaveAs,
+    /// A folder for the CNF and DRAT proof files.
+    ExportProof,
 }
 
 /// The small window that asks for a file path (typed, or chosen with the system dialog).
@@ -189,6 +198,10 @@ pub struct App {
     /// A command waiting for the user to decide about unsaved changes.
     pub confirm_discard: Option<Command>,
     pub command_search: Option<String>,
+    /// The step of the argument on show, while walking through why three colours fail.
+    pub argument_step: Option<usize>,
+    /// Apply the fewest-colours colouring as soon as an analysis of the current revision arrives.
+    pub apply_when_ready: bool,
     /// The latest background analysis (possibly for an older revision: then it is shown as stale).
     pub analysis: Option<Analysis>,
     /// The revision the latest analysis job was started for.
@@ -244,6 +257,8 @@ impl App {
             path_prompt: None,
             confirm_discard: None,
             command_search: None,
+            argument_step: None,
+            apply_when_ready: false,
             analysis: None,
             analysis_requested: None,
             changed_at: Instant::now(),
@@ -400,7 +415,29 @@ impl App {
                     format!("Could not open {}: {e}", path.display()),
                 );
             }
-            JobResult::Analysed(a) => self.analysis = Some(*a),
+            JobResult::Analysed(a) => {
+                self.analysis = Some(*a);
+                if self.apply_when_ready && !self.analysis_is_stale() {
+                    self.apply_when_ready = false;
+                    self.apply_fewest();
+                }
+            }
+            JobResult::Balanced { revision, verdict } => {
+                if revision != self.session.doc.revision() {
+                    self.say(
+                        Level::Warning,
+                        "The map changed while colours were being evened out; try again",
+                    );
+                } else if let Some(colouring) = verdict.colouring {
+                    self.edit(Edit::Batch {
+                        label: "Even out colour use".into(),
+                        edits: vec![Edit::SetColouring(colouring)],
+                    });
+                    self.say(Level::Info, "Colours evened out");
+                } else {
+                    self.say(Level::Warning, "No balanced colouring was found");
+                }
+            }
         }
     }
 
@@ -421,6 +458,83 @@ impl App {
     /// Shows `doc` as a new, unsaved document (used by benchmarks and tests that build maps in code).
     pub fn show_document(&mut self, doc: Document) {
         self.replace_session(Session::new(doc, None));
+    }
+
+    /// Applies the analysis's fewest-colours colouring as one undoable edit.
+    pub fn apply_fewest(&mut self) {
+        let Some(verdict) = self.analysis.as_ref().and_then(|a| a.colouring.clone()) else {
+            self.say(Level::Warning, "No colouring is available yet");
+            return;
+        };
+        if let Some(why) = verdict.impossible {
+            self.say(
+                Level::Error,
+                format!("No colouring can satisfy this map: {why}"),
+            );
+            return;
+        }
+        match verdict.colouring {
+            Some(colouring) if colouring == self.session.doc.colouring => {
+                self.say(Level::Info, "The map already has this colouring");
+            }
+            Some(colouring) => {
+                self.edit(Edit::Batch {
+                    label: "Colour with the fewest colours".into(),
+                    edits: vec![Edit::SetColouring(colouring)],
+                });
+                let changed = verdict
+                    .changed
+                    .map(|c| format!(" ({c} regions changed colour)"))
+                    .unwrap_or_default();
+                self.say(
+                    Level::Info,
+                    format!(
+                        "Coloured with {} colours{changed}",
+                        verdict.minimum.map_or("?".into(), |m| m.to_string())
+                    ),
+                );
+            }
+            None => self.say(
+                Level::Warning,
+                "The palette has too few colours for this map",
+            ),
+        }
+    }
+
+    /// Writes the CNF and the DRAT proof that three colours fail into `folder`.
+    pub fn export_proof(&mut self, folder: &Path) {
+        let proof = self
+            .analysis
+            .as_ref()
+            .and_then(|a| a.colouring.as_ref())
+            .and_then(|c| c.three_impossible.as_ref())
+            .and_then(|i| i.cnf_and_proof.clone());
+        let Some((cnf, drat)) = proof else {
+            self.say(
+                Level::Warning,
+                "There is no proof to export: three colours are not known to fail on this map",
+            );
+            return;
+        };
+        let result = std::fs::create_dir_all(folder)
+            .map_err(|e| e.to_string())
+            .and_then(|_| {
+                for (name, text) in [("three-colours.cnf", &cnf), ("three-colours.drat", &drat)] {
+                    doc::file::write_atomically(&folder.join(name), text.as_bytes())
+                        .map_err(|e| e.to_string())?;
+                }
+                Ok(())
+            });
+        match result {
+            Ok(()) => self.say(
+                Level::Info,
+                format!(
+                    "Wrote three-colours.cnf and three-colours.drat to {}",
+                    folder.display()
+                ),
+            ),
+            Err(e) => self.say(Level::Error, format!("Proof not written: {e}")),
+        }
     }
 
     /// True when the analysis on show was computed for an older revision of the document.
@@ -520,6 +634,10 @@ impl App {
                         self.path_prompt = None;
                         self.save_to(&path);
                     }
+                    PathPurpose::ExportProof => {
+                        self.path_prompt = None;
+                        self.export_proof(&path);
+                    }
                 },
                 None => self.say(
                     Level::Info,
@@ -603,6 +721,7 @@ impl App {
                         &["geojson", "json", "topojson", "shp"],
                     );
                 let picked = match purpose {
+                    PathPurpose::ExportProof => rfd::FileDialog::new().pick_folder(),
                     PathPurpose::Open => dialog.pick_file(),
                     PathPurpose::SaveAs => dialog.set_file_name("map.tinct").save_file(),
                 };
@@ -682,6 +801,42 @@ impl App {
             Command::UseTool(tool) => {
                 self.view.tool = tool;
                 self.view.border_first = None;
+            }
+            Command::ColourFewest => {
+                if self.analysis_is_stale() {
+                    self.apply_when_ready = true;
+                    self.say(
+                        Level::Info,
+                        "Colouring: the colours are applied as soon as the analysis finishes",
+                    );
+                } else {
+                    self.apply_fewest();
+                }
+            }
+            Command::BalanceColours => {
+                let revision = self.session.doc.revision();
+                let snapshot = crate::worker::snapshot(&self.session.doc);
+                let job = move |ctx: &crate::worker::JobContext| JobResult::Balanced {
+                    revision,
+                    verdict: Box::new(analysis::colour(&snapshot, ctx, true)),
+                };
+                match &mut self.worker {
+                    Some(w) => w.submit(revision, JobKind::Other, Box::new(job)),
+                    None => {
+                        let ctx = crate::worker::JobContext {
+                            cancel: Default::default(),
+                            progress: Default::default(),
+                        };
+                        let result = job(&ctx);
+                        self.receive(result);
+                    }
+                }
+            }
+            Command::ExportProof => {
+                self.path_prompt = Some(PathPrompt {
+                    purpose: PathPurpose::ExportProof,
+                    text: String::new(),
+                })
             }
             Command::ClearColours => {
                 if !self.session.doc.colouring.is_empty() {

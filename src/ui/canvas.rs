@@ -28,6 +28,7 @@ pub mod style {
     pub const GROUP: Color32 = Color32::from_rgb(0x6b, 0x2f, 0x9e);
     pub const LABEL: Color32 = Color32::from_rgb(0x22, 0x22, 0x22);
     pub const CERTIFICATE: Color32 = Color32::from_rgb(0xa3, 0x1a, 0x8c);
+    pub const OBSTRUCTION: Color32 = Color32::from_rgb(0xb3, 0x4a, 0x00);
 }
 
 /// Screen radius of a marker, in points.
@@ -382,6 +383,34 @@ fn draw(app: &App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Rect) 
             if let Some(a) = anchor_of(*id) {
                 painter.circle_filled(to_screen(a), 6.0, style::CERTIFICATE);
             }
+        }
+    }
+
+    // The regions that cannot take three colours, when asked for.
+    if app.view.highlight == Some(Highlight::NotThreeColourable)
+        && let Some(why) = app
+            .analysis
+            .as_ref()
+            .and_then(|a| a.colouring.as_ref())
+            .and_then(|c| c.three_impossible.as_ref())
+    {
+        for id in &why.regions {
+            outline_region(
+                doc,
+                *id,
+                painter,
+                &to_screen,
+                Stroke::new(2.5, style::OBSTRUCTION),
+            );
+        }
+        for link in &why.links {
+            let (Some(a), Some(b)) = (anchor_of(link.a()), anchor_of(link.b())) else {
+                continue;
+            };
+            painter.line_segment(
+                [to_screen(a), to_screen(b)],
+                Stroke::new(2.5, style::OBSTRUCTION),
+            );
         }
     }
 

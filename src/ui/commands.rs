@@ -80,6 +80,9 @@ pub enum Command {
     ToggleBorders,
     ToggleLabels,
     UseTool(Tool),
+    ColourFewest,
+    BalanceColours,
+    ExportProof,
     ClearColours,
     CommandList,
 }
@@ -132,7 +135,12 @@ impl Command {
             Command::CommandList,
         ];
         out.extend(Tool::ALL.iter().map(|t| Command::UseTool(*t)));
-        out.push(Command::ClearColours);
+        out.extend([
+            Command::ColourFewest,
+            Command::BalanceColours,
+            Command::ExportProof,
+            Command::ClearColours,
+        ]);
         out
     }
 
@@ -149,7 +157,10 @@ impl Command {
             | Command::ToggleLabels
             | Command::CommandList => Menu::View,
             Command::UseTool(_) => Menu::Tools,
-            Command::ClearColours => Menu::Colour,
+            Command::ColourFewest
+            | Command::BalanceColours
+            | Command::ExportProof
+            | Command::ClearColours => Menu::Colour,
         }
     }
 
@@ -169,6 +180,9 @@ impl Command {
             Command::ToggleLabels => "Show region names".into(),
             Command::CommandList => "Find a command…".into(),
             Command::UseTool(t) => format!("{} tool", t.label()),
+            Command::ColourFewest => "Colour with the fewest colours".into(),
+            Command::BalanceColours => "Even out colour use".into(),
+            Command::ExportProof => "Export the proof that three colours fail…".into(),
             Command::ClearColours => "Remove all colours".into(),
         }
     }
@@ -191,6 +205,15 @@ impl Command {
             Command::ToggleLabels => "Write region names on the map",
             Command::CommandList => "Search every command by name",
             Command::UseTool(t) => t.hint(),
+            Command::ColourFewest => {
+                "Colour the map with the fewest colours that honour pins and groups, keeping current colours where possible (undoable)"
+            }
+            Command::BalanceColours => {
+                "Recolour with the same number of colours, each used about equally often (undoable)"
+            }
+            Command::ExportProof => {
+                "Write the obstruction's CNF and its DRAT proof, for checking with any DRAT checker"
+            }
             Command::ClearColours => "Remove the colour of every region (undoable)",
         }
     }
@@ -221,6 +244,9 @@ impl Command {
             Command::UseTool(Tool::Pin) => plain(Key::P),
             Command::UseTool(Tool::Group) => plain(Key::G),
             Command::UseTool(Tool::Water) => plain(Key::W),
+            Command::ColourFewest => ctrl(Key::Enter),
+            Command::BalanceColours => None,
+            Command::ExportProof => None,
             Command::ClearColours => None,
         }
     }

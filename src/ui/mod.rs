@@ -39,6 +39,7 @@ impl App {
             });
         egui::CentralPanel::default().show(ui, |ui| canvas::canvas_ui(self, ui));
         panels::dialogs_ui(self, &ctx);
+        panels::argument_ui(self, &ctx);
         self.run_pending(&ctx);
     }
 }

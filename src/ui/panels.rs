@@ -449,7 +449,169 @@ pub fn verdict_ui(app: &mut App, ui: &mut egui::Ui) {
         app.view.selection = Some(id);
     }
     ui.add_space(6.0);
+    colouring_ui(app, ui);
+    ui.add_space(6.0);
     planarity_ui(app, ui);
+}
+
+/// The fewest colours, whether three can do, and the proof when they cannot.
+fn colouring_ui(app: &mut App, ui: &mut egui::Ui) {
+    ui.label(RichText::new("Fewest colours").strong());
+    let running = app.analysis_progress().is_some();
+    let Some(verdict) = app.analysis.as_ref().and_then(|a| a.colouring.clone()) else {
+        ui.label(if running {
+            "Searching…"
+        } else {
+            "Not analysed yet."
+        });
+        return;
+    };
+    if let Some(why) = &verdict.impossible {
+        marked(ui, false, format!("No colouring is possible: {why}."));
+        return;
+    }
+    match verdict.minimum {
+        Some(m) if verdict.proven => marked(
+            ui,
+            true,
+            format!("{m}, proven: {} need {m}.", verdict.lower_bound_reason),
+        ),
+        Some(m) => {
+            let still = if running {
+                ", still searching"
+            } else if verdict.stopped {
+                "; the search stopped at its time limit"
+            } else {
+                ""
+            };
+            marked(
+                ui,
+                false,
+                format!("{m} found, at least {} proven{still}", verdict.lower_bound),
+            );
+        }
+        None => {
+            ui.label("No colouring found yet.");
+        }
+    }
+    if ui
+        .button("Colour the map with them")
+        .on_hover_text(Command::ColourFewest.tooltip())
+        .clicked()
+    {
+        app.emit(Command::ColourFewest);
+    }
+    ui.add_space(4.0);
+    ui.label(RichText::new("Can three colours do?").strong());
+    match (verdict.three_colourable, &verdict.three_impossible) {
+        (Some(true), _) => marked(ui, true, "Yes: three colours are enough.".into()),
+        (Some(false), Some(why)) => {
+            marked(
+                ui,
+                false,
+                format!(
+                    "No, and there is a proof: {} ({} regions) cannot take three colours.",
+                    why.kind,
+                    why.regions.len()
+                ),
+            );
+            ui.horizontal_wrapped(|ui| {
+                let showing = app.view.highlight == Some(Highlight::NotThreeColourable);
+                if ui
+                    .button(if showing {
+                        "Hide on map"
+                    } else {
+                        "Show them on map"
+                    })
+                    .clicked()
+                {
+                    app.view.highlight = if showing {
+                        None
+                    } else {
+                        Some(Highlight::NotThreeColourable)
+                    };
+                }
+                if why.steps.is_some() && ui.button("Walk through the argument").clicked() {
+                    app.argument_step = Some(0);
+                    app.view.highlight = Some(Highlight::NotThreeColourable);
+                }
+                if why.cnf_and_proof.is_some()
+                    && ui
+                        .button("Export the proof…")
+                        .on_hover_text(Command::ExportProof.tooltip())
+                        .clicked()
+                {
+                    app.emit(Command::ExportProof);
+                }
+            });
+        }
+        (Some(false), None) => marked(ui, false, "No.".into()),
+        (None, _) => {
+            ui.label(if running {
+                "Not decided yet."
+            } else {
+                "Not decided (the search stopped)."
+            });
+        }
+    }
+}
+
+/// The step-by-step argument that three colours fail, in a window of its own.
+pub fn argument_ui(app: &mut App, ctx: &egui::Context) {
+    let Some(index) = app.argument_step else {
+        return;
+    };
+    let steps = app
+        .analysis
+        .as_ref()
+        .and_then(|a| a.colouring.as_ref())
+        .and_then(|c| c.three_impossible.as_ref())
+        .and_then(|i| i.steps.clone());
+    let Some(steps) = steps.filter(|s| !s.is_empty()) else {
+        app.argument_step = None;
+        return;
+    };
+    let index = index.min(steps.len() - 1);
+    let mut open = true;
+    let mut next = index;
+    egui::Window::new("Why three colours are impossible")
+        .open(&mut open)
+        .default_width(460.0)
+        .show(ctx, |ui| {
+            ui.label(format!("Step {} of {}", index + 1, steps.len()));
+            egui::ScrollArea::vertical()
+                .max_height(320.0)
+                .show(ui, |ui| {
+                    for (i, step) in steps.iter().enumerate().take(index + 1) {
+                        let text = format!("{}{}", "    ".repeat(step.depth as usize), step.text);
+                        let text = if i == index {
+                            RichText::new(text).strong()
+                        } else {
+                            RichText::new(text)
+                        };
+                        ui.label(text);
+                    }
+                });
+            ui.horizontal(|ui| {
+                if ui
+                    .add_enabled(index > 0, egui::Button::new("Back"))
+                    .clicked()
+                {
+                    next = index - 1;
+                }
+                if ui
+                    .add_enabled(index + 1 < steps.len(), egui::Button::new("Next"))
+                    .clicked()
+                {
+                    next = index + 1;
+                }
+                if ui.button("Show all").clicked() {
+                    next = steps.len() - 1;
+                }
+            });
+        });
+    app.view.selection = Some(steps[next].region);
+    app.argument_step = if open { Some(next) } else { None };
 }
 
 /// The planarity verdict, its certificate and the background job's progress.
@@ -657,6 +819,7 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
         let title = match prompt.purpose {
             PathPurpose::Open => "Open a file",
             PathPurpose::SaveAs => "Save the project as",
+            PathPurpose::ExportProof => "Export the proof to a folder",
         };
         let mut action: Option<u8> = None;
         egui::Window::new(title)
@@ -672,10 +835,10 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
                     action = Some(0);
                 }
                 ui.horizontal(|ui| {
-                    let go = if prompt.purpose == PathPurpose::Open {
-                        "Open"
-                    } else {
-                        "Save"
+                    let go = match prompt.purpose {
+                        PathPurpose::Open => "Open",
+                        PathPurpose::SaveAs => "Save",
+                        PathPurpose::ExportProof => "Export",
                     };
                     if ui.button(go).clicked() {
                         action = Some(0);
@@ -697,6 +860,7 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
                 match purpose {
                     PathPurpose::Open => app.open_path(path),
                     PathPurpose::SaveAs => app.save_to(&path),
+                    PathPurpose::ExportProof => app.export_proof(&path),
                 }
             }
             Some(1) => app.browse(purpose),

@@ -1,10 +1,15 @@
 //! The analysis the editor runs in the background after every change: the constraint graph, the
 //! planarity verdict with its certificate, mapped back to regions so the map can highlight them.
 
-use std::collections::BTreeSet;
+use std::collections::{BTreeMap, BTreeSet};
 use std::sync::atomic::Ordering;
+use std::time::Duration;
 
 use crate::doc::{ConstraintGraph, Document, RegionId, RegionPair};
+use crate::engine::colouring::{
+    BoundEvidence, ColouringError, ColouringProblem, ObstructionKind, SolveOptions, Stage,
+    StepKind, solve,
+};
 use crate::engine::planarity::{Phase, Planarity, PlanarityError, planarity};
 
 use super::JobContext;
@@ -31,6 +36,55 @@ pub enum PlanarityVerdict {
     Unknown,
 }
 
+/// One step of the argument that fewer colours are impossible, in region terms.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Step {
+    /// Nesting depth of cases (0 = unconditional).
+    pub depth: u32,
+    pub text: String,
+    /// The region the step is about (a group's first member).
+    pub region: RegionId,
+}
+
+/// A small part of the map that cannot take `colours` colours, with its proofs.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Impossibility {
+    pub colours: u32,
+    /// Its name in words ("an odd wheel", ...).
+    pub kind: &'static str,
+    /// Its regions, groups expanded, ascending.
+    pub regions: Vec<RegionId>,
+    /// Its borders (pairs that really border each other).
+    pub links: Vec<RegionPair>,
+    /// The case analysis, for small obstructions.
+    pub steps: Option<Vec<Step>>,
+    /// The DIMACS CNF and the DRAT proof that refutes it (checkable by any DRAT checker).
+    pub cnf_and_proof: Option<(String, String)>,
+}
+
+/// The colouring part of an analysis.
+#[derive(Clone, Debug, PartialEq)]
+pub struct ColouringVerdict {
+    /// The fewest colours found; proven minimal when `proven`.
+    pub minimum: Option<u32>,
+    pub proven: bool,
+    /// The proven lower bound, and why, in words.
+    pub lower_bound: u32,
+    pub lower_bound_reason: String,
+    /// A colouring with that many colours (region -> slot), when one fits the palette.
+    pub colouring: Option<BTreeMap<RegionId, u32>>,
+    /// Whether three colours suffice; `None` when not decided.
+    pub three_colourable: Option<bool>,
+    /// Why three colours are impossible, when they are.
+    pub three_impossible: Option<Impossibility>,
+    /// With the current colouring kept where possible: how many regions change colour.
+    pub changed: Option<usize>,
+    /// The search stopped early (time limit or cancellation): the minimum may not be proven.
+    pub stopped: bool,
+    /// A reason no colouring can exist at all (contradictory rules, a palette too small).
+    pub impossible: Option<String>,
+}
+
 /// Everything the background analysis found for one revision.
 #[derive(Clone, Debug)]
 pub struct Analysis {
@@ -38,6 +92,201 @@ pub struct Analysis {
     pub vertices: usize,
     pub edges: usize,
     pub planarity: PlanarityVerdict,
+    pub colouring: Option<ColouringVerdict>,
+}
+
+/// How long the background search for the fewest colours may run before it reports what it has.
+pub const COLOURING_TIME_LIMIT: Duration = Duration::from_secs(20);
+
+/// Names an obstruction kind in words.
+fn kind_words(kind: ObstructionKind, colours: u32) -> &'static str {
+    match kind {
+        ObstructionKind::Complete if colours == 3 => "four regions that all border each other",
+        ObstructionKind::Complete => "regions that all border each other",
+        ObstructionKind::OddCycle => "an odd ring of regions",
+        ObstructionKind::OddWheel => "an odd wheel: a region ringed by an odd number of neighbours",
+        ObstructionKind::Grotzsch => "a Grötzsch configuration",
+        ObstructionKind::Pinned => "pinned colours that force a contradiction",
+        ObstructionKind::Critical => "a tightly knit cluster of regions",
+    }
+}
+
+/// Colours the document's constraint graph with the fewest colours, under its pins and groups.
+/// `balance` evens out how many regions each colour gets.
+pub fn colour(doc: &Document, ctx: &JobContext, balance: bool) -> ColouringVerdict {
+    let cg = ConstraintGraph::build(doc);
+    colour_graph(doc, &cg, ctx, balance)
+}
+
+fn colour_graph(
+    doc: &Document,
+    cg: &ConstraintGraph,
+    ctx: &JobContext,
+    balance: bool,
+) -> ColouringVerdict {
+    let mut verdict = ColouringVerdict {
+        minimum: None,
+        proven: false,
+        lower_bound: 0,
+        lower_bound_reason: String::new(),
+        colouring: None,
+        three_colourable: None,
+        three_impossible: None,
+        changed: None,
+        stopped: false,
+        impossible: None,
+    };
+    if let Some(conflict) = cg.conflicts.first() {
+        verdict.impossible = Some(format!(
+            "the rules contradict each other: {}",
+            conflict.describe(doc)
+        ));
+        return verdict;
+    }
+    let label = |v: u32| cg.vertex_label(doc, v);
+    let current = cg.vertex_colouring(doc);
+    let has_previous = current.iter().any(Option::is_some);
+    let problem = ColouringProblem {
+        graph: cg.graph.clone(),
+        pins: cg.pins.clone(),
+        previous: has_previous.then(|| current.clone()),
+        max_colours: doc.palette.slots.len() as u32,
+    };
+    let options = SolveOptions {
+        time_limit: Some(COLOURING_TIME_LIMIT),
+        keep_previous: has_previous && !balance,
+        balance: balance.then_some(crate::engine::colouring::Balance::Count),
+        ..SolveOptions::default()
+    };
+    let mut progress = |p: crate::engine::colouring::Progress| {
+        let stage = match p.stage {
+            Stage::Bounds => "Looking for regions that force many colours".to_string(),
+            Stage::Heuristic => "Colouring".to_string(),
+            Stage::Exact { colours } => format!("Checking whether {colours} colours can work"),
+            Stage::Obstruction => "Building the proof".to_string(),
+            Stage::Finishing => "Keeping colours stable".to_string(),
+        };
+        let fraction = match p.upper_bound {
+            Some(ub) if ub > 0 => p.lower_bound as f64 / ub as f64,
+            _ => 0.0,
+        };
+        ctx.progress.set(&stage, fraction);
+    };
+    let report = match solve(&problem, &options, &ctx.cancel, &mut progress) {
+        Ok(r) => r,
+        Err(ColouringError::PinnedNeighbours { u, v, slot }) => {
+            verdict.impossible = Some(format!(
+                "{} and {} border each other but are both pinned to colour {}",
+                label(u),
+                label(v),
+                slot + 1
+            ));
+            return verdict;
+        }
+        Err(ColouringError::PaletteTooSmall {
+            needed,
+            max_colours,
+        }) => {
+            verdict.impossible = Some(format!(
+                "the map needs at least {needed} colours but the palette has only {max_colours}"
+            ));
+            return verdict;
+        }
+        Err(e) => {
+            verdict.impossible = Some(e.to_string());
+            return verdict;
+        }
+    };
+    let names = |vs: &[u32]| vs.iter().map(|&v| label(v)).collect::<Vec<_>>().join(", ");
+    verdict.minimum = report.minimum;
+    verdict.proven = report.proven;
+    verdict.stopped = report.stopped;
+    verdict.lower_bound = report.lower_bound.value;
+    verdict.lower_bound_reason = match &report.lower_bound.evidence {
+        BoundEvidence::Empty => "there is no land to colour".into(),
+        BoundEvidence::Clique(c) if c.len() == 1 => "there is land to colour".into(),
+        BoundEvidence::Clique(c) => format!("{} all border each other", names(c)),
+        BoundEvidence::OddCycle(c) => format!("{} form an odd ring", names(c)),
+        BoundEvidence::OddWheel { hub, rim } => {
+            format!(
+                "{} is ringed by an odd number of neighbours ({})",
+                label(*hub),
+                names(rim)
+            )
+        }
+        BoundEvidence::PinnedSlots(s) => format!("pins name {} different colours", s.len()),
+        BoundEvidence::Refuted { colours } => {
+            format!("an exhaustive search ruled out {colours} colours")
+        }
+    };
+    verdict.colouring = report.colouring.as_ref().map(|c| {
+        let per_vertex: Vec<Option<u32>> = c.iter().map(|&s| Some(s)).collect();
+        cg.to_region_colouring(&per_vertex)
+    });
+    verdict.changed = report.changed;
+    verdict.three_colourable = report.three_colourable;
+    verdict.three_impossible = report.obstruction.as_ref().map(|o| {
+        let mut regions = BTreeSet::new();
+        for &v in &o.vertices {
+            regions.extend(cg.vertex_regions[v as usize].iter().copied());
+        }
+        let first = |v: u32| cg.vertex_regions[v as usize][0];
+        let steps = o.argument.as_ref().map(|steps| {
+            steps
+                .iter()
+                .map(|st| {
+                    let who = label(st.vertex);
+                    let colour = st.colour.wrapping_add(1);
+                    let text = match st.kind {
+                        StepKind::Fix => {
+                            format!("Fix {who} as colour {colour} (colours are interchangeable)")
+                        }
+                        StepKind::Suppose => format!("Suppose {who} is colour {colour}"),
+                        StepKind::Forced if st.because.is_empty() => {
+                            format!("Then {who} must be colour {colour}")
+                        }
+                        StepKind::Forced => {
+                            format!(
+                                "Then {who} must be colour {colour}: {} hold the other colours",
+                                names(&st.because)
+                            )
+                        }
+                        StepKind::Excluded => format!("So {who} cannot be colour {colour}"),
+                        StepKind::Contradiction if st.because.is_empty() => {
+                            format!("{who} has no colour left: contradiction")
+                        }
+                        StepKind::Contradiction => {
+                            format!(
+                                "{who} has no colour left ({} take them all): contradiction",
+                                names(&st.because)
+                            )
+                        }
+                    };
+                    Step {
+                        depth: st.depth,
+                        text,
+                        region: first(st.vertex),
+                    }
+                })
+                .collect()
+        });
+        Impossibility {
+            colours: o.colours,
+            kind: kind_words(o.kind, o.colours),
+            regions: regions.into_iter().collect(),
+            links: o
+                .edges
+                .iter()
+                .filter_map(|&(u, v)| bordering_pair(doc, cg, u, v))
+                .collect(),
+            steps,
+            cnf_and_proof: o
+                .refutation
+                .as_ref()
+                .map(|r| (r.cnf.clone(), r.drat.clone())),
+        }
+    });
+    verdict
 }
 
 /// The two regions behind a graph edge that actually border each other. For a same-colour group
@@ -101,12 +350,14 @@ pub fn analyse(doc: &Document, ctx: &JobContext) -> Analysis {
         Err(PlanarityError::Cancelled) | Err(PlanarityError::Graph(_)) => PlanarityVerdict::Unknown,
     };
     debug_assert!(planarity != PlanarityVerdict::Unknown || ctx.cancel.load(Ordering::Relaxed));
+    let colouring = (!ctx.cancelled()).then(|| colour_graph(doc, &cg, ctx, false));
     ctx.progress.set("Done", 1.0);
     Analysis {
         revision: doc.revision(),
         vertices: cg.graph.vertex_count(),
         edges: cg.graph.edge_count(),
         planarity,
+        colouring,
     }
 }
 
@@ -137,5 +388,43 @@ mod tests {
         let aldwyn = doc.region_by_name("Aldwyn").unwrap();
         let tessary = doc.region_by_name("Port Tessary (Aldwyn exclave)").unwrap();
         assert!(o.regions.contains(&aldwyn) && o.regions.contains(&tessary));
+    }
+    #[test]
+    fn the_province_needs_four_colours_with_a_proof_and_the_valleys_three() {
+        let ctx = JobContext {
+            cancel: Arc::new(AtomicBool::new(false)),
+            progress: Arc::new(Progress::default()),
+        };
+        let load = |name: &str| {
+            let path = format!("{}/sample-maps/{name}.tinct", env!("CARGO_MANIFEST_DIR"));
+            crate::doc::file::from_str(&std::fs::read_to_string(path).unwrap()).unwrap()
+        };
+        let province = load("vessland-province");
+        let c = analyse(&province, &ctx).colouring.unwrap();
+        assert_eq!(
+            (c.minimum, c.proven, c.three_colourable),
+            (Some(4), true, Some(false))
+        );
+        let why = c.three_impossible.unwrap();
+        assert!(
+            why.steps.as_ref().is_some_and(|s| !s.is_empty()),
+            "a readable argument"
+        );
+        assert!(why.cnf_and_proof.is_some(), "a checkable proof");
+        let colouring = c.colouring.unwrap();
+        let mut coloured = province.clone();
+        coloured
+            .apply(crate::doc::Edit::SetColouring(colouring))
+            .unwrap();
+        assert!(
+            crate::doc::check_colouring(&coloured).is_clean(),
+            "the colouring honours every rule"
+        );
+
+        let valleys = analyse(&load("three-valleys"), &ctx).colouring.unwrap();
+        assert_eq!(
+            (valleys.minimum, valleys.proven, valleys.three_colourable),
+            (Some(3), true, Some(true))
+        );
     }
 }

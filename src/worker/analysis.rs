@@ -106,7 +106,7 @@ fn kind_words(kind: ObstructionKind, colours: u32) -> &'static str {
         ObstructionKind::OddCycle => "an odd ring of regions",
         ObstructionKind::OddWheel => "an odd wheel: a region ringed by an odd number of neighbours",
         ObstructionKind::Grotzsch => "a Grötzsch configuration",
-        ObstructionKind::Pinned => "pinned colours that force a contradiction",
+        ObstructionKind::Pinned => "a cluster of regions whose pinned colours leave no way out",
         ObstructionKind::Critical => "a tightly knit cluster of regions",
     }
 }
@@ -238,6 +238,9 @@ fn colour_graph(
                     let who = label(st.vertex);
                     let colour = st.colour.wrapping_add(1);
                     let text = match st.kind {
+                        StepKind::Fix if cg.pins[st.vertex as usize].is_some() => {
+                            format!("{who} is pinned to colour {colour}")
+                        }
                         StepKind::Fix => {
                             format!("Fix {who} as colour {colour} (colours are interchangeable)")
                         }

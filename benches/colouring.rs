@@ -18,7 +18,9 @@ use tinct::engine::colouring::{
 use triangulation::{Rng, random_triangulation};
 
 fn graph(n: usize, edges: &[(u32, u32)]) -> Graph {
-    Graph::from_edges(n, edges).expect("generated edges are in range").0
+    Graph::from_edges(n, edges)
+        .expect("generated edges are in range")
+        .0
 }
 
 /// Plain encoding: the same k-colouring CNF with a greedy clique's colours fixed, solved directly.
@@ -51,20 +53,27 @@ fn triangulation_row(n: usize, seed: u64, cap: Duration) {
     let problem = ColouringProblem::new(g, 8);
     let cancel = AtomicBool::new(false);
     let start = Instant::now();
-    let report = solve(&problem, &SolveOptions::default(), &cancel, &mut |_| {})
-        .expect("valid problem");
+    let report =
+        solve(&problem, &SolveOptions::default(), &cancel, &mut |_| {}).expect("valid problem");
     let ours = start.elapsed();
     // Checks (not timed).
     let colouring = report.colouring.as_ref().expect("a colouring");
     check_colouring(&problem, colouring).expect("valid colouring");
     let o = report.obstruction.as_ref().expect("3 colours refuted");
-    check_refutation(&problem.graph, &problem.pins, o.refutation.as_ref().expect("proof"))
-        .expect("proof checks");
+    check_refutation(
+        &problem.graph,
+        &problem.pins,
+        o.refutation.as_ref().expect("proof"),
+    )
+    .expect("proof checks");
     assert!(report.proven && report.minimum == Some(4));
     let (plain, plain_time) = plain_sat(&problem.graph, 4, cap);
     let ratio = ms(plain_time) / ms(ours).max(1e-3);
     let (plain_text, ratio_text) = match plain {
-        Some(_) => (format!("{:>10.1}", ms(plain_time)), format!("{ratio:>8.1}x")),
+        Some(_) => (
+            format!("{:>10.1}", ms(plain_time)),
+            format!("{ratio:>8.1}x"),
+        ),
         None => (
             format!(">{:>9.0}", ms(plain_time)),
             format!(">{ratio:>7.1}x"),
@@ -117,7 +126,12 @@ fn map_row(seed: u64, cap: Duration) {
     }
     let merged_edges: Vec<(u32, u32)> = edges
         .iter()
-        .map(|&(a, b)| (index[rep[a as usize] as usize], index[rep[b as usize] as usize]))
+        .map(|&(a, b)| {
+            (
+                index[rep[a as usize] as usize],
+                index[rep[b as usize] as usize],
+            )
+        })
         .filter(|(a, b)| a != b)
         .collect();
     let g = graph(n as usize, &merged_edges);
@@ -126,7 +140,11 @@ fn map_row(seed: u64, cap: Duration) {
     while placed < 20 {
         let v = rng.below(n as usize);
         let slot = rng.below(6) as u32;
-        if pins[v].is_none() && g.neighbours(v as u32).iter().all(|&w| pins[w as usize] != Some(slot)) {
+        if pins[v].is_none()
+            && g.neighbours(v as u32)
+                .iter()
+                .all(|&w| pins[w as usize] != Some(slot))
+        {
             pins[v] = Some(slot);
             placed += 1;
         }
@@ -139,8 +157,8 @@ fn map_row(seed: u64, cap: Duration) {
     };
     let cancel = AtomicBool::new(false);
     let start = Instant::now();
-    let report = solve(&problem, &SolveOptions::default(), &cancel, &mut |_| {})
-        .expect("valid problem");
+    let report =
+        solve(&problem, &SolveOptions::default(), &cancel, &mut |_| {}).expect("valid problem");
     let ours = start.elapsed();
     check_colouring(&problem, report.colouring.as_ref().expect("colouring")).expect("valid");
     let (plain, plain_time) = plain_sat(&problem.graph, report.minimum.unwrap_or(0), cap);
@@ -174,7 +192,11 @@ fn named_row(name: &str, n: usize, edges: &[(u32, u32)], cap: Duration) {
         ms(t),
         report.proven,
         report.lower_bound.value,
-        if report.stopped { ", stopped at the time cap" } else { "" }
+        if report.stopped {
+            ", stopped at the time cap"
+        } else {
+            ""
+        }
     );
 }
 

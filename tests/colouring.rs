@@ -56,7 +56,10 @@ fn verify_obstruction(problem: &ColouringProblem, o: &Obstruction) {
         assert!(g.has_edge(u, v));
         assert!(o.vertices.contains(&u) && o.vertices.contains(&v));
     }
-    let r = o.refutation.as_ref().expect("every obstruction carries a refutation");
+    let r = o
+        .refutation
+        .as_ref()
+        .expect("every obstruction carries a refutation");
     assert_eq!(r.colours, o.colours);
     check_refutation(g, &problem.pins, r).unwrap();
     if let Some(steps) = &o.argument {
@@ -65,7 +68,9 @@ fn verify_obstruction(problem: &ColouringProblem, o: &Obstruction) {
 }
 
 fn complete(n: u32) -> Vec<(u32, u32)> {
-    (0..n).flat_map(|i| ((i + 1)..n).map(move |j| (i, j))).collect()
+    (0..n)
+        .flat_map(|i| ((i + 1)..n).map(move |j| (i, j)))
+        .collect()
 }
 
 fn wheel(rim: u32) -> Vec<(u32, u32)> {
@@ -162,7 +167,10 @@ fn grotzsch_graph_needs_four_with_a_checked_proof_and_argument() {
     assert_eq!(o.kind, ObstructionKind::Grotzsch);
     assert_eq!(o.vertices.len(), 11);
     assert!(o.vertex_critical);
-    let steps = o.argument.as_ref().expect("11 vertices: an argument is built");
+    let steps = o
+        .argument
+        .as_ref()
+        .expect("11 vertices: an argument is built");
     assert!(steps.iter().any(|s| s.kind == StepKind::Suppose));
     // No K4 here, so the proof has real lemmas (a K4 CNF falls to unit propagation).
     let summary = check_drat(
@@ -193,9 +201,30 @@ fn chvatal_graph_needs_four() {
     // Chvátal graph (Chvátal 1970): 12 vertices, 4-regular, triangle-free, chromatic number 4.
     // Edge list as in networkx 3.6 `chvatal_graph` (reference library; compared when written).
     let edges = [
-        (0, 1), (0, 4), (0, 6), (0, 9), (1, 2), (1, 5), (1, 7), (2, 3), (2, 6), (2, 8),
-        (3, 4), (3, 7), (3, 9), (4, 5), (4, 8), (5, 10), (5, 11), (6, 10), (6, 11), (7, 8),
-        (7, 11), (8, 10), (9, 10), (9, 11),
+        (0, 1),
+        (0, 4),
+        (0, 6),
+        (0, 9),
+        (1, 2),
+        (1, 5),
+        (1, 7),
+        (2, 3),
+        (2, 6),
+        (2, 8),
+        (3, 4),
+        (3, 7),
+        (3, 9),
+        (4, 5),
+        (4, 8),
+        (5, 10),
+        (5, 11),
+        (6, 10),
+        (6, 11),
+        (7, 8),
+        (7, 11),
+        (8, 10),
+        (9, 10),
+        (9, 11),
     ];
     let r = chromatic(12, &edges, &SolveOptions::default());
     assert_eq!(r.minimum, Some(4));
@@ -274,11 +303,20 @@ fn odd_wheel_proofs_check_and_corruptions_are_rejected() {
     let var = |i: u32, c: u32| (i * k + c + 1) as i32;
     let lines: Vec<&str> = extra.cnf.lines().collect();
     let header = lines.iter().position(|l| l.starts_with("p ")).unwrap();
-    let count: usize = lines[header].split_whitespace().nth(3).unwrap().parse().unwrap();
+    let count: usize = lines[header]
+        .split_whitespace()
+        .nth(3)
+        .unwrap()
+        .parse()
+        .unwrap();
     let mut text = String::new();
     for (i, l) in lines.iter().enumerate() {
         if i == header {
-            text.push_str(&format!("p cnf {} {}\n", refutation.vertices.len() as u32 * k, count + 1));
+            text.push_str(&format!(
+                "p cnf {} {}\n",
+                refutation.vertices.len() as u32 * k,
+                count + 1
+            ));
         } else {
             text.push_str(l);
             text.push('\n');
@@ -300,7 +338,10 @@ fn odd_wheel_proofs_check_and_corruptions_are_rejected() {
     // Dropping the at-least-one clause of the hub weakens the formula: the proof must fail.
     let mut weak = refutation.clone();
     let hub = pos(0);
-    let alo: String = (0..k).map(|c| format!("{} ", var(hub, c))).collect::<String>() + "0";
+    let alo: String = (0..k)
+        .map(|c| format!("{} ", var(hub, c)))
+        .collect::<String>()
+        + "0";
     let kept: Vec<&str> = weak.cnf.lines().filter(|l| l.trim() != alo).collect();
     let dropped = weak.cnf.lines().count() - kept.len();
     assert_eq!(dropped, 1);
@@ -308,7 +349,11 @@ fn odd_wheel_proofs_check_and_corruptions_are_rejected() {
         .iter()
         .map(|l| {
             if l.starts_with("p ") {
-                format!("p cnf {} {}\n", refutation.vertices.len() as u32 * k, count - 1)
+                format!(
+                    "p cnf {} {}\n",
+                    refutation.vertices.len() as u32 * k,
+                    count - 1
+                )
             } else {
                 format!("{l}\n")
             }
@@ -339,7 +384,10 @@ fn pins_change_the_answer_and_the_proof_names_them() {
     p.pins = vec![Some(0), Some(1), Some(2), Some(3)];
     let r = run(&p, &SolveOptions::default());
     assert_eq!(r.minimum, Some(4));
-    assert_eq!(r.lower_bound.evidence, BoundEvidence::PinnedSlots(vec![0, 1, 2, 3]));
+    assert_eq!(
+        r.lower_bound.evidence,
+        BoundEvidence::PinnedSlots(vec![0, 1, 2, 3])
+    );
 }
 
 #[test]
@@ -388,7 +436,11 @@ fn palette_and_pin_errors_carry_evidence() {
     p.pins = vec![Some(1), Some(1)];
     assert_eq!(
         solve(&p, &SolveOptions::default(), &cancel, &mut |_| {}),
-        Err(ColouringError::PinnedNeighbours { u: 0, v: 1, slot: 1 })
+        Err(ColouringError::PinnedNeighbours {
+            u: 0,
+            v: 1,
+            slot: 1
+        })
     );
     // K5 with a 4-slot palette: the report says so and gives no colouring.
     let p = ColouringProblem::new(graph(5, &complete(5)), 4);
@@ -417,7 +469,10 @@ fn progress_is_reported_and_output_is_deterministic() {
     let p = ColouringProblem::new(graph(n, &edges), 8);
     let cancel = AtomicBool::new(false);
     let mut stages = Vec::new();
-    let a = solve(&p, &SolveOptions::default(), &cancel, &mut |s| stages.push(s.stage)).unwrap();
+    let a = solve(&p, &SolveOptions::default(), &cancel, &mut |s| {
+        stages.push(s.stage)
+    })
+    .unwrap();
     let b = solve(&p, &SolveOptions::default(), &cancel, &mut |_| {}).unwrap();
     assert_eq!(a, b);
     assert!(stages.len() >= 3);
@@ -472,7 +527,9 @@ fn stable_recolouring_changes_few_and_matches_brute_force() {
         // Brute force over 3^n colourings.
         let mut best = usize::MAX;
         for code in 0..3usize.pow(n as u32) {
-            let c: Vec<u32> = (0..n).map(|i| ((code / 3usize.pow(i as u32)) % 3) as u32).collect();
+            let c: Vec<u32> = (0..n)
+                .map(|i| ((code / 3usize.pow(i as u32)) % 3) as u32)
+                .collect();
             if g.edges().all(|(a, b)| c[a as usize] != c[b as usize]) {
                 let changed = (0..n).filter(|&i| previous[i] != Some(c[i])).count();
                 best = best.min(changed);
@@ -537,10 +594,16 @@ fn brute_force(n: usize, edges: &[(u32, u32)], pins: &[Option<u32>], palette: u3
             }
             let mut fresh_tried = false;
             for col in 0..self.palette {
-                if self.pins.get(v).copied().flatten().is_some_and(|p| p != col) {
+                if self
+                    .pins
+                    .get(v)
+                    .copied()
+                    .flatten()
+                    .is_some_and(|p| p != col)
+                {
                     continue;
                 }
-                let pinned_slot = self.pins.iter().any(|p| *p == Some(col));
+                let pinned_slot = self.pins.contains(&Some(col));
                 if self.used[col as usize] == 0 && !pinned_slot {
                     if fresh_tried {
                         continue;
@@ -640,7 +703,7 @@ proptest! {
             (n, random_triangulation(n, 3 * n, seed))
         };
         let g = graph(n, &edges);
-        let all_even = (0..n as u32).all(|v| g.degree(v) % 2 == 0);
+        let all_even = (0..n as u32).all(|v| g.degree(v).is_multiple_of(2));
         let p = ColouringProblem::new(g, 8);
         let r = run(&p, &SolveOptions::default());
         prop_assert!(r.proven);
@@ -724,13 +787,35 @@ fn proof_files_for_outside_checkers() {
     // 23-vertex Mycielski graph (Mycielski 1955: it needs 5). Each is checked here; with
     // TINCT_PROOF_DIR set, the CNF and DRAT files are also written for tests/scripts/check_drat.py.
     let chvatal = [
-        (0, 1), (0, 4), (0, 6), (0, 9), (1, 2), (1, 5), (1, 7), (2, 3), (2, 6), (2, 8),
-        (3, 4), (3, 7), (3, 9), (4, 5), (4, 8), (5, 10), (5, 11), (6, 10), (6, 11), (7, 8),
-        (7, 11), (8, 10), (9, 10), (9, 11),
+        (0, 1),
+        (0, 4),
+        (0, 6),
+        (0, 9),
+        (1, 2),
+        (1, 5),
+        (1, 7),
+        (2, 3),
+        (2, 6),
+        (2, 8),
+        (3, 4),
+        (3, 7),
+        (3, 9),
+        (4, 5),
+        (4, 8),
+        (5, 10),
+        (5, 11),
+        (6, 10),
+        (6, 11),
+        (7, 8),
+        (7, 11),
+        (8, 10),
+        (9, 10),
+        (9, 11),
     ];
     let (m4n, m4) = mycielski(4);
     let (m5n, m5) = mycielski(5);
-    let cases: Vec<(&str, usize, Vec<(u32, u32)>, u32)> = vec![
+    type Case = (&'static str, usize, Vec<(u32, u32)>, u32);
+    let cases: Vec<Case> = vec![
         ("wheel5", 6, wheel(5), 3),
         ("wheel9", 10, wheel(9), 3),
         ("grotzsch", m4n, m4, 3),

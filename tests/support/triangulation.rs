@@ -59,15 +59,22 @@ pub fn random_triangulation(n: usize, flips: usize, seed: u64) -> Vec<(u32, u32)
             continue;
         };
         let gf = faces[g as usize];
-        let b = (0..3)
-            .map(|i| gf[i])
-            .find(|&w| w != u && w != v)
-            .unwrap();
-        if a == b || owner.contains_key(&key(a, b)) || degree[u as usize] <= 3 || degree[v as usize] <= 3
+        let b = (0..3).map(|i| gf[i]).find(|&w| w != u && w != v).unwrap();
+        if a == b
+            || owner.contains_key(&key(a, b))
+            || degree[u as usize] <= 3
+            || degree[v as usize] <= 3
         {
             continue;
         }
-        for e in [key(u, v), key(v, a), key(a, u), key(v, u), key(u, b), key(b, v)] {
+        for e in [
+            key(u, v),
+            key(v, a),
+            key(a, u),
+            key(v, u),
+            key(u, b),
+            key(b, v),
+        ] {
             owner.remove(&e);
         }
         faces[f] = [u, b, a];
@@ -103,8 +110,14 @@ pub fn random_triangulation(n: usize, flips: usize, seed: u64) -> Vec<(u32, u32)
 pub fn even_triangulation(rounds: u32, seed: u64) -> (usize, Vec<(u32, u32)>) {
     // Octahedron: poles 0 and 5, equator 1-2-3-4.
     let mut faces: Vec<[u32; 3]> = vec![
-        [0, 1, 2], [0, 2, 3], [0, 3, 4], [0, 4, 1],
-        [5, 2, 1], [5, 3, 2], [5, 4, 3], [5, 1, 4],
+        [0, 1, 2],
+        [0, 2, 3],
+        [0, 3, 4],
+        [0, 4, 1],
+        [5, 2, 1],
+        [5, 3, 2],
+        [5, 4, 3],
+        [5, 1, 4],
     ];
     let mut n = 6u32;
     for _ in 0..rounds {

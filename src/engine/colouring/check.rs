@@ -19,7 +19,11 @@ pub enum ColouringViolation {
     },
     /// A pinned vertex has another colour.
     #[error("vertex {vertex} is pinned to {pin} but has colour {colour}")]
-    PinIgnored { vertex: Vertex, pin: u32, colour: u32 },
+    PinIgnored {
+        vertex: Vertex,
+        pin: u32,
+        colour: u32,
+    },
     /// Two neighbours share a colour.
     #[error("neighbours {u} and {v} both have colour {colour}")]
     Clash { u: Vertex, v: Vertex, colour: u32 },

@@ -207,7 +207,11 @@ impl Checker {
     }
 
     fn grow(&mut self, lits: &[i32]) {
-        let top = lits.iter().map(|l| l.unsigned_abs() as usize).max().unwrap_or(0);
+        let top = lits
+            .iter()
+            .map(|l| l.unsigned_abs() as usize)
+            .max()
+            .unwrap_or(0);
         if top >= self.value.len() {
             self.value.resize(top + 1, 0);
             self.watches.resize((top + 1) * 2, Vec::new());
@@ -478,7 +482,10 @@ mod tests {
 
     #[test]
     fn rejects_malformed_text() {
-        assert!(matches!(parse_dimacs("1 2 0\n"), Err(DratError::Cnf { .. })));
+        assert!(matches!(
+            parse_dimacs("1 2 0\n"),
+            Err(DratError::Cnf { .. })
+        ));
         assert!(matches!(
             check_drat(FOUR, "1 x 0\n"),
             Err(DratError::Proof { .. })

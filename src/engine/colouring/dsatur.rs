@@ -28,11 +28,11 @@ pub fn dsatur(g: &Graph, pin_class: &[Option<u32>]) -> Vec<u32> {
     let mut heap = BinaryHeap::new();
 
     let paint = |v: Vertex,
-                     c: u32,
-                     colour: &mut Vec<u32>,
-                     seen: &mut Vec<Vec<u32>>,
-                     uncoloured_degree: &mut Vec<u32>,
-                     heap: &mut BinaryHeap<(u32, u32, Reverse<u32>)>| {
+                 c: u32,
+                 colour: &mut Vec<u32>,
+                 seen: &mut Vec<Vec<u32>>,
+                 uncoloured_degree: &mut Vec<u32>,
+                 heap: &mut BinaryHeap<(u32, u32, Reverse<u32>)>| {
         colour[v as usize] = c;
         for &w in g.neighbours(v) {
             let w = w as usize;
@@ -65,7 +65,11 @@ pub fn dsatur(g: &Graph, pin_class: &[Option<u32>]) -> Vec<u32> {
     }
     for v in 0..n {
         if colour[v] == NONE {
-            heap.push((seen[v].len() as u32, uncoloured_degree[v], Reverse(v as u32)));
+            heap.push((
+                seen[v].len() as u32,
+                uncoloured_degree[v],
+                Reverse(v as u32),
+            ));
         }
     }
     while let Some((sat, udeg, Reverse(v))) = heap.pop() {

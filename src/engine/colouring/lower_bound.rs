@@ -105,8 +105,7 @@ pub fn check_bound(g: &Graph, bound: &LowerBound) -> bool {
         s.windows(2).all(|w| w[0] != w[1])
     };
     let closed_cycle = |vs: &[Vertex]| {
-        vs.len() >= 3
-            && (0..vs.len()).all(|i| g.has_edge(vs[i], vs[(i + 1) % vs.len()]))
+        vs.len() >= 3 && (0..vs.len()).all(|i| g.has_edge(vs[i], vs[(i + 1) % vs.len()]))
     };
     match &bound.evidence {
         BoundEvidence::Empty => bound.value == 0,
@@ -385,8 +384,9 @@ mod tests {
 
     #[test]
     fn finds_k5_in_k5() {
-        let edges: Vec<(u32, u32)> =
-            (0..5).flat_map(|i| ((i + 1)..5).map(move |j| (i, j))).collect();
+        let edges: Vec<(u32, u32)> = (0..5)
+            .flat_map(|i| ((i + 1)..5).map(move |j| (i, j)))
+            .collect();
         let (g, _) = Graph::from_edges(5, &edges).unwrap();
         assert_eq!(find_clique(&g, 1000), vec![0, 1, 2, 3, 4]);
     }

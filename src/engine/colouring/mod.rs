@@ -16,24 +16,24 @@ pub mod sat;
 pub mod smallest_last;
 pub mod solve;
 
+pub use argument::{ArgumentStep, StepKind, case_analysis, replay_argument};
+pub use balance::balance_colouring;
 pub use check::{ColouringViolation, check_colouring};
+pub use drat_check::{DratError, DratSummary, check_drat, parse_dimacs};
 pub use dsatur::dsatur;
+pub use encoding::{Cnf, Symmetry, colour_var, colouring_cnf};
+pub use exact::{Decision, Limits, k_colourable, repair};
 pub use lower_bound::{
     BoundEvidence, LowerBound, check_bound, find_clique, find_clique_in_order, lower_bound,
     lower_bound_in_order,
 };
-pub use problem::{Classes, ColouringError, ColouringProblem, colour_count};
-pub use smallest_last::{
-    KempeOutcome, kempe_colouring, kempe_colouring_in_order, smallest_last_order,
-};
-pub use drat_check::{DratError, DratSummary, check_drat, parse_dimacs};
-pub use encoding::{Cnf, Symmetry, colour_var, colouring_cnf};
-pub use exact::{Decision, Limits, k_colourable, repair};
-pub use argument::{ArgumentStep, StepKind, case_analysis, replay_argument};
 pub use obstruction::{
     Obstruction, ObstructionKind, ObstructionOptions, Refutation, find_obstruction,
 };
-pub use refutation_check::{RefutationError, check_refutation};
-pub use balance::balance_colouring;
+pub use problem::{Classes, ColouringError, ColouringProblem, colour_count};
 pub use recolour::{Recolouring, stable_recolour};
+pub use refutation_check::{RefutationError, check_refutation};
+pub use smallest_last::{
+    KempeOutcome, kempe_colouring, kempe_colouring_in_order, smallest_last_order,
+};
 pub use solve::{Balance, ColouringReport, Progress, SolveOptions, Stage, solve};

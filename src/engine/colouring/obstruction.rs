@@ -7,8 +7,8 @@ use crate::engine::colouring::exact::{Decision, Limits, k_colourable, symmetry_f
 use crate::engine::colouring::lower_bound::{
     BoundEvidence, LowerBound, find_clique_in_order, odd_cycle, odd_wheel,
 };
-use crate::engine::colouring::smallest_last::smallest_last_order;
 use crate::engine::colouring::sat::{Sat, SatAnswer};
+use crate::engine::colouring::smallest_last::smallest_last_order;
 use crate::engine::graph::{Graph, Vertex};
 
 /// The name of an obstruction, where it has one.
@@ -107,6 +107,7 @@ impl Default for ObstructionOptions {
 ///
 /// # Certificate
 /// The returned [`Refutation`]; check it with [`crate::engine::colouring::check_refutation`].
+#[allow(clippy::too_many_arguments)]
 pub fn find_obstruction(
     g: &Graph,
     pin_class: &[Option<u32>],
@@ -148,7 +149,16 @@ pub fn find_obstruction(
             shrink(g, pin_class, k, &part, limits)?
         }
     };
-    Some(build(g, pin_class, pinned_slots, k, vertices, critical, limits, options))
+    Some(build(
+        g,
+        pin_class,
+        pinned_slots,
+        k,
+        vertices,
+        critical,
+        limits,
+        options,
+    ))
 }
 
 fn structural_obstruction(g: &Graph, k: u32) -> Option<Vec<Vertex>> {
@@ -389,7 +399,7 @@ fn classify(sub: &Graph, k: u32, pinned: bool) -> ObstructionKind {
     if k == 2 && n % 2 == 1 && m == n && degrees.iter().all(|&d| d == 2) {
         return ObstructionKind::OddCycle;
     }
-    if k == 3 && n >= 6 && n % 2 == 0 && m == 2 * (n - 1) {
+    if k == 3 && n >= 6 && n.is_multiple_of(2) && m == 2 * (n - 1) {
         let hubs = degrees.iter().filter(|&&d| d == n - 1).count();
         let rims = degrees.iter().filter(|&&d| d == 3).count();
         if hubs == 1 && rims == n - 1 {

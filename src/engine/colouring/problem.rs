@@ -46,7 +46,9 @@ pub enum ColouringError {
     #[error("previous colouring has {given} entries for a graph of {vertices} vertices")]
     PreviousCount { given: usize, vertices: usize },
     /// A pin names a slot outside the palette.
-    #[error("vertex {vertex} is pinned to slot {slot}, but the palette has only {max_colours} slots")]
+    #[error(
+        "vertex {vertex} is pinned to slot {slot}, but the palette has only {max_colours} slots"
+    )]
     PinOutsidePalette {
         vertex: Vertex,
         slot: u32,

@@ -151,8 +151,8 @@ fn greedy_repair(
 ) -> Option<Vec<u32>> {
     let n = g.vertex_count();
     let mut c = vec![NONE; n];
-    for v in 0..n {
-        c[v] = match pins.get(v).copied().flatten() {
+    for (v, cv) in c.iter_mut().enumerate() {
+        *cv = match pins.get(v).copied().flatten() {
             Some(p) => p,
             None => match previous.get(v).copied().flatten() {
                 Some(p) if allowed.binary_search(&p).is_ok() => p,
@@ -312,7 +312,15 @@ mod tests {
         // Path 0-1-2 coloured 0,1,0; the edit adds edge 0-2: one vertex must change.
         let (g, _) = Graph::from_edges(3, &[(0, 1), (1, 2), (0, 2)]).unwrap();
         let previous = vec![Some(0), Some(1), Some(0)];
-        let r = stable_recolour(&g, &[], &previous, &[0, 1, 2], &[2, 0, 1], 100, Limits::default());
+        let r = stable_recolour(
+            &g,
+            &[],
+            &previous,
+            &[0, 1, 2],
+            &[2, 0, 1],
+            100,
+            Limits::default(),
+        );
         assert_eq!(r.changed, 1);
         assert!(r.optimal);
         assert!(valid(&g, &[], &[0, 1, 2], &r.colouring));

@@ -107,6 +107,7 @@ impl Default for ObstructionOptions {
 ///
 /// # Certificate
 /// The returned [`Refutation`]; check it with [`crate::engine::colouring::check_refutation`].
+#[allow(clippy::too_many_arguments)]
 pub fn find_obstruction(
     g: &Graph,
     pin_class: &[Option<u32>],
@@ -398,7 +399,7 @@ fn classify(sub: &Graph, k: u32, pinned: bool) -> ObstructionKind {
     if k == 2 && n % 2 == 1 && m == n && degrees.iter().all(|&d| d == 2) {
         return ObstructionKind::OddCycle;
     }
-    if k == 3 && n >= 6 && n % 2 == 0 && m == 2 * (n - 1) {
+    if k == 3 && n >= 6 && n.is_multiple_of(2) && m == 2 * (n - 1) {
         let hubs = degrees.iter().filter(|&&d| d == n - 1).count();
         let rims = degrees.iter().filter(|&&d| d == 3).count();
         if hubs == 1 && rims == n - 1 {

@@ -151,8 +151,8 @@ fn greedy_repair(
 ) -> Option<Vec<u32>> {
     let n = g.vertex_count();
     let mut c = vec![NONE; n];
-    for v in 0..n {
-        c[v] = match pins.get(v).copied().flatten() {
+    for (v, cv) in c.iter_mut().enumerate() {
+        *cv = match pins.get(v).copied().flatten() {
             Some(p) => p,
             None => match previous.get(v).copied().flatten() {
                 Some(p) if allowed.binary_search(&p).is_ok() => p,

@@ -140,11 +140,13 @@ pub fn kempe_colouring_in_order(
     // result is deterministic).
     let mut uncoloured = Vec::new();
     let mut seed = 0x9E37_79B9_7F4A_7C15u64;
+    // Shaking pays off for a few isolated defects; many stuck vertices mean k is too few.
+    let shake_attempts = if stuck.len() <= 16 + n / 1000 { 400 } else { 0 };
     for &v in &stuck {
         // Growing chain limits: two-colour chains can span much of a large map.
         let mut done = state.colour_one(v, 256) || state.colour_one(v, 4096);
         let mut attempt = 0;
-        while !done && attempt < 400 && g.degree(v) > 0 {
+        while !done && attempt < shake_attempts && g.degree(v) > 0 {
             seed ^= seed << 13;
             seed ^= seed >> 7;
             seed ^= seed << 17;

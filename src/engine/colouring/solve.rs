@@ -168,7 +168,7 @@ pub fn solve(
     let target = lb.value.max(p).max(u32::from(n > 0));
     if n > 0 && target <= 64 {
         let mut out = kempe_colouring_in_order(g, pin_class, target, &order);
-        let few = out.uncoloured.len() <= 64 + n / 100;
+        let few = out.uncoloured.len() <= 8 + n / 1000;
         if out.uncoloured.is_empty()
             || (few && repair(g, pin_class, target, &mut out.colour, 4000, limits))
         {
@@ -264,7 +264,7 @@ pub fn solve(
     let mut changed = None;
     let mut changed_optimal = None;
     let mut totals = None;
-    let colouring = if palette_too_small || best.iter().any(|&c| c == NONE) {
+    let colouring = if palette_too_small || best.contains(&NONE) {
         None
     } else {
         report_progress(Stage::Finishing, lb.value, Some(ub));

@@ -230,7 +230,8 @@ fn unsaved_work_is_offered_back_after_a_crash_and_a_damaged_recovery_file_is_not
 }
 
 #[test]
-fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up_until_recoloured() {
+fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up_until_recoloured()
+{
     let mut h = harness(App::new(None, None));
     // The analysis (run in the frame here) proves four colours and offers them.
     assert!(h.query_by_label_contains("4, proven").is_some());
@@ -238,7 +239,16 @@ fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up
     h.run_steps(3);
     assert!(tinct::doc::check_colouring(&h.state().session.doc).is_clean());
     assert!(h.query_by_label("No neighbours share a colour").is_some());
-    assert_eq!(h.state().session.doc.colouring.values().collect::<std::collections::BTreeSet<_>>().len(), 4);
+    assert_eq!(
+        h.state()
+            .session
+            .doc
+            .colouring
+            .values()
+            .collect::<std::collections::BTreeSet<_>>()
+            .len(),
+        4
+    );
 
     // Pin a region to the colour of one of its neighbours: the verdict reports it at once.
     let doc = h.state().session.doc.clone();
@@ -248,9 +258,15 @@ fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up
     h.run_steps(2);
     h.state_mut().view.pin_slot = neighbour_colour;
     click_region(&mut h, pair.a());
-    assert_eq!(h.state().session.doc.regions[&pair.a()].pin, Some(neighbour_colour));
+    assert_eq!(
+        h.state().session.doc.regions[&pair.a()].pin,
+        Some(neighbour_colour)
+    );
     let name = doc.regions[&pair.a()].name.clone();
-    assert!(h.query_by_label_contains(&format!("{name} is pinned to colour")).is_some());
+    assert!(
+        h.query_by_label_contains(&format!("{name} is pinned to colour"))
+            .is_some()
+    );
 
     // Colouring again honours the pin, and the problems go away.
     h.get_by_label("Colour the map with them").click();
@@ -265,7 +281,10 @@ fn the_three_colour_argument_can_be_walked_step_by_step() {
     let mut h = harness(App::new(None, None));
     h.get_by_label("Walk through the argument").click();
     h.run_steps(2);
-    assert!(h.query_by_label("Why three colours are impossible").is_some());
+    assert!(
+        h.query_by_label("Why three colours are impossible")
+            .is_some()
+    );
     assert!(h.query_by_label_contains("Step 1 of").is_some());
     h.get_by_label("Next").click();
     h.run_steps(2);

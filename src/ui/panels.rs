@@ -577,6 +577,7 @@ pub fn argument_ui(app: &mut App, ctx: &egui::Context) {
     egui::Window::new("Why three colours are impossible")
         .open(&mut open)
         .default_width(460.0)
+        .default_pos([240.0, 70.0])
         .show(ctx, |ui| {
             ui.label(format!("Step {} of {}", index + 1, steps.len()));
             egui::ScrollArea::vertical()

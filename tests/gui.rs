@@ -294,3 +294,17 @@ fn the_three_colour_argument_can_be_walked_step_by_step() {
     // The argument ends in a contradiction (cases may end in their own ones before it).
     assert!(h.query_all_by_label_contains("contradiction").count() >= 1);
 }
+
+#[test]
+fn notes_from_reading_a_file_have_a_place_and_recent_files_are_remembered() {
+    let dir = tempfile::tempdir().unwrap();
+    let col = dir.path().join("ring.col");
+    std::fs::write(&col, "c a ring\np edge 5 9\ne 1 2\ne 2 3\ne 3 4\ne 4 5\ne 5 1\n").unwrap();
+    let mut h = harness(App::new_with(None, Some(col.clone()), Some(dir.path().join("state"))));
+    h.run_steps(3);
+    assert_eq!(h.state().session.doc.regions.len(), 5);
+    assert!(h.query_by_label_contains("Notes from reading the file (1)").is_some());
+    assert_eq!(h.state().recent.len(), 1);
+    let again = App::new_with(None, None, Some(dir.path().join("state")));
+    assert_eq!(again.recent, h.state().recent, "the list survives a restart");
+}

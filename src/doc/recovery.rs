@@ -79,6 +79,35 @@ pub fn file_in(dir: &Path) -> PathBuf {
     project_path(dir)
 }
 
+/// The files opened or saved most recently, newest first, as remembered in `dir`.
+pub fn recent_files(dir: &Path) -> Vec<PathBuf> {
+    std::fs::read_to_string(dir.join("recent.txt"))
+        .map(|text| {
+            text.lines()
+                .filter(|l| !l.trim().is_empty())
+                .map(PathBuf::from)
+                .collect()
+        })
+        .unwrap_or_default()
+}
+
+/// Puts `path` first in the list of recent files in `dir` (at most `RECENT_LIMIT`), and returns the list.
+pub fn remember_file(dir: &Path, path: &Path) -> Vec<PathBuf> {
+    let path = std::fs::canonicalize(path).unwrap_or_else(|_| path.to_path_buf());
+    let mut list = recent_files(dir);
+    list.retain(|p| p != &path);
+    list.insert(0, path);
+    list.truncate(RECENT_LIMIT);
+    let text: String = list.iter().map(|p| format!("{}\n", p.display())).collect();
+    // Forgetting the list is harmless; the user's work is never at stake here.
+    let _ = std::fs::create_dir_all(dir)
+        .map(|_| file::write_atomically(&dir.join("recent.txt"), text.as_bytes()));
+    list
+}
+
+/// How many recent files are remembered.
+pub const RECENT_LIMIT: usize = 8;
+
 /// Removes the recovery file (after a save, or when the user discards the work).
 pub fn clear(dir: &Path) {
     let _ = std::fs::remove_file(project_path(dir));
@@ -109,6 +138,13 @@ mod tests {
         assert!(matches!(read(&dir), Err(FileError::Syntax { .. })));
         clear(&dir);
         assert!(read(&dir).unwrap().is_none());
+        for i in 0..10 {
+            remember_file(&dir, Path::new(&format!("/maps/{i}.tinct")));
+        }
+        let recent = remember_file(&dir, Path::new("/maps/3.tinct"));
+        assert_eq!(recent.len(), RECENT_LIMIT);
+        assert_eq!(recent[0], Path::new("/maps/3.tinct"));
+        assert_eq!(recent_files(&dir), recent);
         let _ = std::fs::remove_dir_all(&dir);
     }
 }

@@ -217,6 +217,10 @@ pub struct App {
     pending: Vec<Command>,
     /// Set once the user has agreed to close.
     pub quit_confirmed: bool,
+    /// Files opened or saved recently, newest first.
+    pub recent: Vec<PathBuf>,
+    /// Notes from reading the current file (problems in the data that did not stop the load).
+    pub notices: Vec<String>,
     /// Where unsaved work is written aside (`None`: nowhere).
     pub recovery_dir: Option<PathBuf>,
     /// Unsaved work from an earlier session, offered back to the user.
@@ -269,6 +273,11 @@ impl App {
             pending: Vec::new(),
             quit_confirmed: false,
             last_title: String::new(),
+            recent: recovery
+                .as_deref()
+                .map(doc::recovery::recent_files)
+                .unwrap_or_default(),
+            notices: Vec::new(),
             recovery_dir: recovery,
             recovery_offer: None,
             autosave_every: AUTOSAVE_EVERY,
@@ -401,9 +410,17 @@ impl App {
                 let (doc, notices) = *loaded;
                 self.replace_session(Session::new(doc, Some(path.clone())));
                 self.say(Level::Info, format!("Opened {}", path.display()));
-                for n in notices {
-                    self.say(Level::Warning, n);
+                self.remember(&path);
+                if !notices.is_empty() {
+                    self.say(
+                        Level::Warning,
+                        format!(
+                            "{} notes about the file: see the verdict panel",
+                            notices.len()
+                        ),
+                    );
                 }
+                self.notices = notices;
             }
             JobResult::Loaded {
                 path,
@@ -448,6 +465,7 @@ impl App {
             w.cancel(JobKind::Analysis);
         }
         self.session = session;
+        self.notices.clear();
         self.view = ViewState::default();
         self.checks = Checks::of(&self.session.doc);
         self.analysis = None;
@@ -458,6 +476,18 @@ impl App {
     /// Shows `doc` as a new, unsaved document (used by benchmarks and tests that build maps in code).
     pub fn show_document(&mut self, doc: Document) {
         self.replace_session(Session::new(doc, None));
+    }
+
+    /// Adds a file to the recent list (kept in the state folder, when there is one).
+    fn remember(&mut self, path: &Path) {
+        if let Some(dir) = &self.recovery_dir {
+            self.recent = doc::recovery::remember_file(dir, path);
+        }
+    }
+
+    /// Opens a file from the recent list (asking first if there are unsaved changes).
+    pub fn open_recent(&mut self, path: PathBuf) {
+        self.confirm_or_run_open(path);
     }
 
     /// Applies the analysis's fewest-colours colouring as one undoable edit.
@@ -599,6 +629,7 @@ impl App {
                 if is_project {
                     self.session.path = Some(path.clone());
                     self.session.saved_revision = self.session.doc.revision();
+                    self.remember(&path);
                 }
                 self.say(Level::Info, format!("Saved {}", path.display()));
             }
@@ -653,7 +684,6 @@ impl App {
                 .collect()
         });
         if let Some(path) = dropped.into_iter().next() {
-            self.request(Command::Open);
             self.confirm_or_run_open(path);
         }
         if self.checks.revision != self.session.doc.revision() {
@@ -691,7 +721,6 @@ impl App {
     }
 
     fn confirm_or_run_open(&mut self, path: PathBuf) {
-        self.pending.retain(|c| *c != Command::Open);
         if self.session.is_dirty() {
             self.say(
                 Level::Warning,
@@ -702,10 +731,6 @@ impl App {
         }
     }
 
-    /// Asks for a command through the normal path (used by drag-and-drop).
-    fn request(&mut self, command: Command) {
-        self.pending.push(command);
-    }
 
     /// Starts the system file dialog on its own thread (it blocks while open).
     pub fn browse(&self, purpose: PathPurpose) {

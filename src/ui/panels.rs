@@ -162,6 +162,17 @@ pub fn menu_ui(app: &mut App, ui: &mut egui::Ui) {
                         ui.close();
                     }
                 }
+                if menu == Menu::File && !app.recent.is_empty() {
+                    ui.separator();
+                    ui.menu_button("Open recent", |ui| {
+                        for path in app.recent.clone() {
+                            if ui.button(path.display().to_string()).clicked() {
+                                app.open_recent(path);
+                                ui.close();
+                            }
+                        }
+                    });
+                }
             });
         }
     });
@@ -447,6 +458,17 @@ pub fn verdict_ui(app: &mut App, ui: &mut egui::Ui) {
     }
     if let Some(id) = jump {
         app.view.selection = Some(id);
+    }
+    if !app.notices.is_empty() {
+        egui::CollapsingHeader::new(format!(
+            "Notes from reading the file ({})",
+            app.notices.len()
+        ))
+        .show(ui, |ui| {
+            for n in &app.notices {
+                ui.label(n);
+            }
+        });
     }
     ui.add_space(6.0);
     colouring_ui(app, ui);

@@ -32,6 +32,14 @@ fn click_region(h: &mut Harness<'static, App>, id: RegionId) {
     h.run_steps(2);
 }
 
+/// Chooses the border tool and clicks two regions, as a user adds a border.
+fn add_border_by_clicking(h: &mut Harness<'static, App>, a: RegionId, b: RegionId) {
+    h.get_by_label("Border").click();
+    h.run_steps(2);
+    click_region(h, a);
+    click_region(h, b);
+}
+
 /// Two land regions of the default map that do not border each other.
 fn non_neighbours(doc: &doc::Document) -> (RegionId, RegionId) {
     let land: Vec<RegionId> = doc.land_regions().map(|(id, _)| id).collect();
@@ -67,10 +75,7 @@ fn clicking_two_regions_with_the_border_tool_adds_a_border_and_undo_redo_work() 
     let (a, b) = non_neighbours(&h.state().session.doc);
     let pair = RegionPair::new(a, b).unwrap();
     let edges_before = h.state().checks.graph_edges;
-    h.get_by_label("Border").click();
-    h.run_steps(2);
-    click_region(&mut h, a);
-    click_region(&mut h, b);
+    add_border_by_clicking(&mut h, a, b);
     assert_eq!(
         h.state().session.doc.borders.get(&pair).map(|b| b.kind),
         Some(doc::BorderKind::Manual)
@@ -104,10 +109,7 @@ fn save_then_reopen_gives_the_same_document() {
     let path = dir.path().join("vessland.tinct");
     let mut h = harness(App::new(None, None));
     let (a, b) = non_neighbours(&h.state().session.doc);
-    h.get_by_label("Border").click();
-    h.run_steps(2);
-    click_region(&mut h, a);
-    click_region(&mut h, b);
+    add_border_by_clicking(&mut h, a, b);
     assert!(h.state().session.is_dirty());
     h.state_mut().save_to(&path);
     h.run_steps(2);
@@ -186,10 +188,7 @@ fn unsaved_work_is_offered_back_after_a_crash_and_a_damaged_recovery_file_is_not
     app.autosave_every = std::time::Duration::ZERO;
     let mut h = harness(app);
     let (a, b) = non_neighbours(&h.state().session.doc);
-    h.get_by_label("Border").click();
-    h.run_steps(2);
-    click_region(&mut h, a);
-    click_region(&mut h, b);
+    add_border_by_clicking(&mut h, a, b);
     h.run_steps(2);
     let unsaved = h.state().session.doc.clone();
     // The window goes away without saving: a crash, as far as the document is concerned.
@@ -299,12 +298,27 @@ fn the_three_colour_argument_can_be_walked_step_by_step() {
 fn notes_from_reading_a_file_have_a_place_and_recent_files_are_remembered() {
     let dir = tempfile::tempdir().unwrap();
     let col = dir.path().join("ring.col");
-    std::fs::write(&col, "c a ring\np edge 5 9\ne 1 2\ne 2 3\ne 3 4\ne 4 5\ne 5 1\n").unwrap();
-    let mut h = harness(App::new_with(None, Some(col.clone()), Some(dir.path().join("state"))));
+    std::fs::write(
+        &col,
+        "c a ring\np edge 5 9\ne 1 2\ne 2 3\ne 3 4\ne 4 5\ne 5 1\n",
+    )
+    .unwrap();
+    let mut h = harness(App::new_with(
+        None,
+        Some(col.clone()),
+        Some(dir.path().join("state")),
+    ));
     h.run_steps(3);
     assert_eq!(h.state().session.doc.regions.len(), 5);
-    assert!(h.query_by_label_contains("Notes from reading the file (1)").is_some());
+    assert!(
+        h.query_by_label_contains("Notes from reading the file (1)")
+            .is_some()
+    );
     assert_eq!(h.state().recent.len(), 1);
     let again = App::new_with(None, None, Some(dir.path().join("state")));
-    assert_eq!(again.recent, h.state().recent, "the list survives a restart");
+    assert_eq!(
+        again.recent,
+        h.state().recent,
+        "the list survives a restart"
+    );
 }

@@ -731,7 +731,6 @@ impl App {
         }
     }
 
-
     /// Starts the system file dialog on its own thread (it blocks while open).
     pub fn browse(&self, purpose: PathPurpose) {
         let sender = self.dialog_sender.clone();

@@ -356,61 +356,37 @@ fn draw(app: &App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Rect) 
         }
     }
 
-    // The certificate that the borders cannot be drawn flat, when asked for.
-    if app.view.highlight == Some(Highlight::NotPlanar)
-        && let Some(a) = &app.analysis
-        && let PlanarityVerdict::NotPlanar(o) = &a.planarity
-    {
-        for id in &o.regions {
-            outline_region(
-                doc,
-                *id,
-                painter,
-                &to_screen,
-                Stroke::new(2.0, style::CERTIFICATE),
-            );
-        }
-        for link in &o.links {
-            let (Some(a), Some(b)) = (anchor_of(link.a()), anchor_of(link.b())) else {
-                continue;
-            };
-            painter.line_segment(
-                [to_screen(a), to_screen(b)],
-                Stroke::new(2.5, style::CERTIFICATE),
-            );
-        }
-        for id in &o.branch_regions {
-            if let Some(a) = anchor_of(*id) {
-                painter.circle_filled(to_screen(a), 6.0, style::CERTIFICATE);
-            }
-        }
-    }
-
-    // The regions that cannot take three colours, when asked for.
-    if app.view.highlight == Some(Highlight::NotThreeColourable)
-        && let Some(why) = app
-            .analysis
-            .as_ref()
-            .and_then(|a| a.colouring.as_ref())
+    // Evidence asked for: the regions that cannot be drawn flat, or that cannot take three colours.
+    let colouring = app.analysis.as_ref().and_then(|a| a.colouring.as_ref());
+    let evidence = match (
+        app.view.highlight,
+        app.analysis.as_ref().map(|a| &a.planarity),
+    ) {
+        (Some(Highlight::NotPlanar), Some(PlanarityVerdict::NotPlanar(o))) => Some((
+            &o.regions,
+            &o.links,
+            &o.branch_regions[..],
+            style::CERTIFICATE,
+        )),
+        (Some(Highlight::NotThreeColourable), _) => colouring
             .and_then(|c| c.three_impossible.as_ref())
-    {
-        for id in &why.regions {
-            outline_region(
-                doc,
-                *id,
-                painter,
-                &to_screen,
-                Stroke::new(2.5, style::OBSTRUCTION),
-            );
+            .map(|why| (&why.regions, &why.links, &[][..], style::OBSTRUCTION)),
+        _ => None,
+    };
+    if let Some((regions, links, corners, colour)) = evidence {
+        for id in regions {
+            outline_region(doc, *id, painter, &to_screen, Stroke::new(2.5, colour));
         }
-        for link in &why.links {
+        for link in links {
             let (Some(a), Some(b)) = (anchor_of(link.a()), anchor_of(link.b())) else {
                 continue;
             };
-            painter.line_segment(
-                [to_screen(a), to_screen(b)],
-                Stroke::new(2.5, style::OBSTRUCTION),
-            );
+            painter.line_segment([to_screen(a), to_screen(b)], Stroke::new(2.5, colour));
+        }
+        for id in corners {
+            if let Some(a) = anchor_of(*id) {
+                painter.circle_filled(to_screen(a), 6.0, colour);
+            }
         }
     }
 

@@ -2,6 +2,7 @@
 //! 0 success, 1 the analysis found problems (only with `--strict`), 2 bad input, 3 could not write output.
 
 pub mod analyse;
+pub mod colouring;
 pub mod import;
 pub mod planarity;
 
@@ -26,6 +27,17 @@ pub enum Section {
     Rules,
     /// Planarity of the constraint graph, with a Kuratowski subgraph or an embedding as proof.
     Planarity,
+    /// The fewest colours, whether three can do, and the proof when they cannot.
+    Colouring,
+}
+
+/// How `tinct colour` evens out colour use.
+#[derive(Copy, Clone, Debug, PartialEq, Eq, ValueEnum)]
+pub enum BalanceArg {
+    /// About as many regions per colour.
+    Count,
+    /// About as much area per colour.
+    Area,
 }
 
 #[derive(Subcommand, Debug)]
@@ -54,6 +66,29 @@ pub enum Command {
         /// Write the planarity certificate (Kuratowski subgraph or embedding) as JSON to FILE.
         #[arg(long, value_name = "FILE")]
         certificate_out: Option<PathBuf>,
+        /// Stop the search for the fewest colours after this many seconds and report what is proven.
+        #[arg(long, value_name = "SECS", default_value_t = 20.0)]
+        time_limit: f64,
+        /// When three colours are impossible, write the proof (three-colours.cnf, three-colours.drat) to DIR.
+        #[arg(long, value_name = "DIR")]
+        proof_out: Option<PathBuf>,
+    },
+    /// Colour a map with the fewest colours (honouring pins and groups) and write the coloured project.
+    Colour {
+        /// The file to colour (any file `analyse` reads).
+        file: PathBuf,
+        /// The project file to write (.tinct).
+        #[arg(long)]
+        out: PathBuf,
+        /// Keep the current colours where possible, so an edited map changes as little as possible.
+        #[arg(long)]
+        keep_colours: bool,
+        /// Even out colour use by region count or by area.
+        #[arg(long, value_enum)]
+        balance: Option<BalanceArg>,
+        /// Stop the search after this many seconds and use the best colouring found.
+        #[arg(long, value_name = "SECS", default_value_t = 20.0)]
+        time_limit: f64,
     },
     /// Import a boundary file (.geojson, .json, .topojson, .shp) into a project file.
     Import {
@@ -92,6 +127,11 @@ pub mod exit {
     pub const CANNOT_WRITE: u8 = 3;
 }
 
+/// A time limit in seconds, if it is a positive finite number.
+fn seconds(value: f64) -> Option<std::time::Duration> {
+    (value.is_finite() && value > 0.0).then(|| std::time::Duration::from_secs_f64(value.min(1e9)))
+}
+
 fn error(code: u8, e: &anyhow::Error) -> ExitCode {
     eprintln!("tinct: {e:#}");
     ExitCode::from(code)
@@ -112,21 +152,46 @@ pub fn run(command: Command) -> ExitCode {
             only,
             embedding,
             certificate_out,
+            time_limit,
+            proof_out,
         } => {
             let loaded = match crate::formats::load(&file) {
                 Ok(l) => l,
                 Err(e) => return error(exit::BAD_INPUT, &e),
             };
             let report = analyse::report(&file.display().to_string(), &loaded.doc, &loaded.notices);
-            // The planarity section lives in src/cli/planarity.rs.
-            let text = match planarity::attach(
-                &report,
-                &loaded.doc,
-                json,
-                only,
-                embedding,
-                certificate_out.as_deref(),
-            ) {
+            let Some(limit) = seconds(time_limit) else {
+                return error(
+                    exit::BAD_INPUT,
+                    &anyhow::anyhow!("--time-limit must be a positive number of seconds"),
+                );
+            };
+            // The planarity section lives in src/cli/planarity.rs, the colouring one in colouring.rs.
+            let text = if only == Some(Section::Colouring) {
+                let head = if json {
+                    serde_json::json!({ "schema": report.schema, "file": report.file }).to_string()
+                } else {
+                    format!("{} ({})\n", report.title, report.file)
+                };
+                Ok(head)
+            } else {
+                planarity::attach(
+                    &report,
+                    &loaded.doc,
+                    json,
+                    only,
+                    embedding,
+                    certificate_out.as_deref(),
+                )
+            };
+            let text = match text {
+                Ok(t) if matches!(only, None | Some(Section::Colouring)) => {
+                    colouring::section(&loaded.doc, limit, proof_out.as_deref())
+                        .and_then(|c| colouring::append(t, json, &c))
+                }
+                other => other,
+            };
+            let text = match text {
                 Ok(t) => t,
                 Err(e) => return error(exit::CANNOT_WRITE, &e),
             };
@@ -141,6 +206,31 @@ pub fn run(command: Command) -> ExitCode {
                 ExitCode::from(exit::PROBLEMS)
             } else {
                 ExitCode::from(exit::OK)
+            }
+        }
+        Command::Colour {
+            file,
+            out,
+            keep_colours,
+            balance,
+            time_limit,
+        } => {
+            let Some(limit) = seconds(time_limit) else {
+                return error(
+                    exit::BAD_INPUT,
+                    &anyhow::anyhow!("--time-limit must be a positive number of seconds"),
+                );
+            };
+            let balance = balance.map(|b| match b {
+                BalanceArg::Count => crate::worker::analysis::BalanceBy::Count,
+                BalanceArg::Area => crate::worker::analysis::BalanceBy::Area,
+            });
+            match colouring::run_colour(&file, &out, keep_colours, balance, limit) {
+                Ok(summary) => {
+                    eprintln!("tinct: {summary}");
+                    ExitCode::from(exit::OK)
+                }
+                Err(e) => error(exit::BAD_INPUT, &e),
             }
         }
         Command::Import { file, out, geo } => import::run_import(&file, &out, &geo),

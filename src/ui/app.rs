@@ -842,7 +842,14 @@ impl App {
                 let snapshot = crate::worker::snapshot(&self.session.doc);
                 let job = move |ctx: &crate::worker::JobContext| JobResult::Balanced {
                     revision,
-                    verdict: Box::new(analysis::colour(&snapshot, ctx, true)),
+                    verdict: Box::new(analysis::colour(
+                        &snapshot,
+                        ctx,
+                        analysis::ColourOptions {
+                            balance: Some(analysis::BalanceBy::Count),
+                            ..Default::default()
+                        },
+                    )),
                 };
                 match &mut self.worker {
                     Some(w) => w.submit(revision, JobKind::Other, Box::new(job)),

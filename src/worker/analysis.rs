@@ -52,6 +52,8 @@ pub struct Impossibility {
     pub colours: u32,
     /// Its name in words ("an odd wheel", ...).
     pub kind: &'static str,
+    /// Its name for machines: `K4` (or `K<n>`), `odd_cycle`, `odd_wheel`, `grotzsch`, `pinned`, `critical`.
+    pub code: String,
     /// Its regions, groups expanded, ascending.
     pub regions: Vec<RegionId>,
     /// Its borders (pairs that really border each other).
@@ -111,18 +113,45 @@ fn kind_words(kind: ObstructionKind, colours: u32) -> &'static str {
     }
 }
 
+/// How to even out colour use.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum BalanceBy {
+    /// About as many regions per colour.
+    Count,
+    /// About as much area per colour.
+    Area,
+}
+
+/// How to colour.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct ColourOptions {
+    /// Keep the document's current colours where possible (stable recolouring).
+    pub keep_current: bool,
+    pub balance: Option<BalanceBy>,
+    pub time_limit: Duration,
+}
+
+impl Default for ColourOptions {
+    fn default() -> ColourOptions {
+        ColourOptions {
+            keep_current: true,
+            balance: None,
+            time_limit: COLOURING_TIME_LIMIT,
+        }
+    }
+}
+
 /// Colours the document's constraint graph with the fewest colours, under its pins and groups.
-/// `balance` evens out how many regions each colour gets.
-pub fn colour(doc: &Document, ctx: &JobContext, balance: bool) -> ColouringVerdict {
+pub fn colour(doc: &Document, ctx: &JobContext, options: ColourOptions) -> ColouringVerdict {
     let cg = ConstraintGraph::build(doc);
-    colour_graph(doc, &cg, ctx, balance)
+    colour_graph(doc, &cg, ctx, options)
 }
 
 fn colour_graph(
     doc: &Document,
     cg: &ConstraintGraph,
     ctx: &JobContext,
-    balance: bool,
+    how: ColourOptions,
 ) -> ColouringVerdict {
     let mut verdict = ColouringVerdict {
         minimum: None,
@@ -145,7 +174,7 @@ fn colour_graph(
     }
     let label = |v: u32| cg.vertex_label(doc, v);
     let current = cg.vertex_colouring(doc);
-    let has_previous = current.iter().any(Option::is_some);
+    let has_previous = how.keep_current && current.iter().any(Option::is_some);
     let problem = ColouringProblem {
         graph: cg.graph.clone(),
         pins: cg.pins.clone(),
@@ -153,9 +182,24 @@ fn colour_graph(
         max_colours: doc.palette.slots.len() as u32,
     };
     let options = SolveOptions {
-        time_limit: Some(COLOURING_TIME_LIMIT),
-        keep_previous: has_previous && !balance,
-        balance: balance.then_some(crate::engine::colouring::Balance::Count),
+        time_limit: Some(how.time_limit),
+        keep_previous: has_previous && how.balance.is_none(),
+        balance: how.balance.map(|by| match by {
+            BalanceBy::Count => crate::engine::colouring::Balance::Count,
+            BalanceBy::Area => crate::engine::colouring::Balance::Weight(
+                cg.vertex_regions
+                    .iter()
+                    .map(|members| {
+                        members
+                            .iter()
+                            .filter_map(|id| {
+                                doc.regions.get(id)?.geometry.as_ref().map(|g| g.area())
+                            })
+                            .sum::<f64>()
+                    })
+                    .collect(),
+            ),
+        }),
         ..SolveOptions::default()
     };
     let mut progress = |p: crate::engine::colouring::Progress| {
@@ -276,6 +320,14 @@ fn colour_graph(
         Impossibility {
             colours: o.colours,
             kind: kind_words(o.kind, o.colours),
+            code: match o.kind {
+                ObstructionKind::Complete => format!("K{}", o.colours + 1),
+                ObstructionKind::OddCycle => "odd_cycle".into(),
+                ObstructionKind::OddWheel => "odd_wheel".into(),
+                ObstructionKind::Grotzsch => "grotzsch".into(),
+                ObstructionKind::Pinned => "pinned".into(),
+                ObstructionKind::Critical => "critical".into(),
+            },
             regions: regions.into_iter().collect(),
             links: o
                 .edges
@@ -353,7 +405,8 @@ pub fn analyse(doc: &Document, ctx: &JobContext) -> Analysis {
         Err(PlanarityError::Cancelled) | Err(PlanarityError::Graph(_)) => PlanarityVerdict::Unknown,
     };
     debug_assert!(planarity != PlanarityVerdict::Unknown || ctx.cancel.load(Ordering::Relaxed));
-    let colouring = (!ctx.cancelled()).then(|| colour_graph(doc, &cg, ctx, false));
+    let colouring =
+        (!ctx.cancelled()).then(|| colour_graph(doc, &cg, ctx, ColourOptions::default()));
     ctx.progress.set("Done", 1.0);
     Analysis {
         revision: doc.revision(),

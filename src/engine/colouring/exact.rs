@@ -188,6 +188,7 @@ pub fn repair(
             continue;
         }
         let mut radius = 2;
+        let mut previous_size = 0;
         loop {
             if limits.stopped() {
                 return false;
@@ -242,9 +243,11 @@ pub fn repair(
                 }
                 Decision::Unknown => return false,
                 Decision::NotColourable { .. } => {
-                    if ball.len() >= max_ball || ball.len() == n {
+                    // Stop when the ball covers its whole component (it stopped growing).
+                    if ball.len() >= max_ball || ball.len() == n || ball.len() == previous_size {
                         return false;
                     }
+                    previous_size = ball.len();
                     radius += 1;
                 }
             }
@@ -273,6 +276,17 @@ mod tests {
             }
             other => panic!("expected a colouring, got {other:?}"),
         }
+    }
+
+    #[test]
+    fn repair_gives_up_on_a_disconnected_graph_without_looping() {
+        // Regression: the ball stopped growing at its component and the radius grew forever.
+        // Two disjoint triangles, one vertex uncoloured, only 2 classes: no repair exists.
+        let (g, _) =
+            Graph::from_edges(6, &[(0, 1), (1, 2), (2, 0), (3, 4), (4, 5), (5, 3)]).unwrap();
+        let mut colour = vec![0, 1, NONE, 0, 1, 0];
+        colour[5] = 2;
+        assert!(!repair(&g, &[], 2, &mut colour, 100, Limits::default()));
     }
 
     #[test]

@@ -182,3 +182,86 @@ fn every_command_has_help() {
         assert!(stdout(&out).contains("Usage"), "{args:?}");
     }
 }
+
+#[test]
+fn analyse_reports_the_fewest_colours_and_the_three_colour_verdict_for_each_sample() {
+    // (map, fewest colours, three colourable): the first two are claims the sample generator proved by
+    // exhaustive search (sample-maps/tools/make_samples.py); the exclave map's 4 likewise.
+    for (name, minimum, three) in [
+        ("vessland-province", 4, false),
+        ("three-valleys", 3, true),
+        ("exclave-coast", 4, false),
+    ] {
+        let out = tinct_path(
+            &["analyse"],
+            &sample(name),
+            &["--json", "--only", "colouring"],
+        );
+        assert_eq!(out.status.code(), Some(0), "{name}: {}", stderr(&out));
+        let json: Value = serde_json::from_str(&stdout(&out)).unwrap();
+        let c = &json["colouring"];
+        assert_eq!(c["minimum"], minimum, "{name}");
+        assert_eq!(c["proven"], true, "{name}");
+        assert_eq!(c["three_colourable"], three, "{name}");
+        assert!(c["assignment"].as_object().is_some_and(|a| !a.is_empty()));
+        if !three {
+            assert_eq!(c["obstruction"]["proof_checked"], true, "{name}");
+            assert!(
+                c["obstruction"]["vertices"]
+                    .as_array()
+                    .is_some_and(|v| v.len() >= 4)
+            );
+        }
+    }
+}
+
+#[test]
+fn colour_writes_a_project_that_analyses_clean_and_proof_out_writes_checkable_files() {
+    let dir = tempfile::tempdir().unwrap();
+    let out_path = dir.path().join("coloured.tinct");
+    let out = tinct_path(
+        &["colour"],
+        &sample("vessland-province"),
+        &["--out", out_path.to_str().unwrap()],
+    );
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    let strict = tinct_path(&["analyse"], &out_path, &["--strict", "--only", "rules"]);
+    assert_eq!(
+        strict.status.code(),
+        Some(0),
+        "the coloured map has no problems: {}",
+        stdout(&strict)
+    );
+
+    let proof = dir.path().join("proof");
+    let out = tinct_path(
+        &["analyse"],
+        &sample("exclave-coast"),
+        &[
+            "--only",
+            "colouring",
+            "--proof-out",
+            proof.to_str().unwrap(),
+        ],
+    );
+    assert_eq!(out.status.code(), Some(0));
+    let cnf = std::fs::read_to_string(proof.join("three-colours.cnf")).unwrap();
+    let drat = std::fs::read_to_string(proof.join("three-colours.drat")).unwrap();
+    assert!(
+        cnf.starts_with("c") || cnf.starts_with("p cnf"),
+        "DIMACS CNF"
+    );
+    tinct::engine::colouring::check_drat(&cnf, &drat)
+        .expect("the written proof refutes the written CNF");
+}
+
+#[test]
+fn a_bad_time_limit_is_bad_input() {
+    let out = tinct_path(
+        &["analyse"],
+        &sample("three-valleys"),
+        &["--time-limit", "0"],
+    );
+    assert_eq!(out.status.code(), Some(2));
+    assert!(stderr(&out).contains("time-limit"));
+}

@@ -10,6 +10,8 @@ use std::time::{Duration, Instant};
 use tinct::doc::{Document, Edit};
 use tinct::geo::{ImportOptions, import_json, synthetic};
 use tinct::ui::App;
+use tinct::worker::JobContext;
+use tinct::worker::analysis;
 
 fn map(cols: usize, rows: usize) -> Document {
     let regions = synthetic::jittered_grid(cols, rows, 6, 0.25, 7);
@@ -20,13 +22,13 @@ fn map(cols: usize, rows: usize) -> Document {
     };
     let imported = import_json(json.as_bytes(), &options).expect("synthetic map imports");
     let mut doc = imported.into_document(format!("Synthetic {cols} x {rows}"));
-    // Colour it (any four-slot pattern will do: the drawing cost does not depend on validity).
-    let colouring = doc
-        .regions
-        .keys()
-        .enumerate()
-        .map(|(i, id)| (*id, (i % 4) as u32))
-        .collect();
+    // Colour it properly, as a finished map would be (a clash-free map is the common case).
+    let ctx = JobContext {
+        cancel: Default::default(),
+        progress: Default::default(),
+    };
+    let verdict = analysis::colour(&doc, &ctx, analysis::ColourOptions::default());
+    let colouring = verdict.colouring.expect("the synthetic map colours");
     doc.apply(Edit::SetColouring(colouring))
         .expect("colouring applies");
     doc

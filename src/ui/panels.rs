@@ -55,6 +55,9 @@ fn name(doc: &Document, id: RegionId) -> String {
         .map_or_else(|| format!("#{id}"), |r| r.name.clone())
 }
 
+/// How many clashes or broken pins the verdict panel lists one by one.
+const MAX_LISTED: usize = 25;
+
 /// What the verdict panel says about the current colouring and rules. Pure, so it is unit-tested.
 pub fn verdict_lines(doc: &Document, checks: &Checks) -> Vec<VerdictLine> {
     let mut out = Vec::new();
@@ -80,7 +83,8 @@ pub fn verdict_lines(doc: &Document, checks: &Checks) -> Vec<VerdictLine> {
             "{} clash(es): neighbours with the same colour",
             c.clashes.len()
         )));
-        for clash in &c.clashes {
+        // A long list helps nobody and costs frame time: show the first ones and count the rest.
+        for clash in c.clashes.iter().take(MAX_LISTED) {
             out.push(VerdictLine::Problem {
                 text: format!(
                     "{} and {} both have colour {}",
@@ -91,6 +95,12 @@ pub fn verdict_lines(doc: &Document, checks: &Checks) -> Vec<VerdictLine> {
                 regions: vec![clash.pair.a(), clash.pair.b()],
             });
         }
+        if c.clashes.len() > MAX_LISTED {
+            out.push(VerdictLine::Note(format!(
+                "… and {} more clashes",
+                c.clashes.len() - MAX_LISTED
+            )));
+        }
     }
     if !c.uncoloured.is_empty() {
         out.push(VerdictLine::Problem {
@@ -98,7 +108,7 @@ pub fn verdict_lines(doc: &Document, checks: &Checks) -> Vec<VerdictLine> {
             regions: c.uncoloured.iter().take(12).copied().collect(),
         });
     }
-    for p in &c.pins_broken {
+    for p in c.pins_broken.iter().take(MAX_LISTED) {
         out.push(VerdictLine::Problem {
             text: format!(
                 "{} is pinned to colour {} but {}",

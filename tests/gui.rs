@@ -32,6 +32,15 @@ fn click_region(h: &mut Harness<'static, App>, id: RegionId) {
     h.run_steps(2);
 }
 
+/// The newest message the editor showed, or an empty string.
+fn last_message(h: &Harness<'static, App>) -> String {
+    h.state()
+        .messages
+        .last()
+        .map(|m| m.text.clone())
+        .unwrap_or_default()
+}
+
 /// Chooses the border tool and clicks two regions, as a user adds a border.
 fn add_border_by_clicking(h: &mut Harness<'static, App>, a: RegionId, b: RegionId) {
     h.get_by_label("Border").click();
@@ -136,12 +145,7 @@ fn a_damaged_file_is_refused_with_a_message_and_nothing_is_lost() {
         before,
         "the open document is untouched"
     );
-    let message = h
-        .state()
-        .messages
-        .last()
-        .map(|m| m.text.clone())
-        .unwrap_or_default();
+    let message = last_message(&h);
     assert!(
         message.starts_with("Could not open") && message.contains("line"),
         "{message}"
@@ -212,12 +216,7 @@ fn unsaved_work_is_offered_back_after_a_crash_and_a_damaged_recovery_file_is_not
     .unwrap();
     let h = harness(App::new_with(None, None, Some(dir.path().to_path_buf())));
     assert!(h.state().recovery_offer.is_none());
-    let message = h
-        .state()
-        .messages
-        .last()
-        .map(|m| m.text.clone())
-        .unwrap_or_default();
+    let message = last_message(&h);
     assert!(
         message.contains("could not be read and was not used"),
         "{message}"

@@ -34,7 +34,16 @@ fn map(cols: usize, rows: usize) -> Document {
     doc
 }
 
-fn frame_times(doc: Document, frames: usize) -> (Duration, usize, usize) {
+/// Median frame time over `frames` frames; `zoom` magnifies the fitted view; with `step`, the
+/// view zooms in and out by that factor every frame. A small step is a zoom gesture (the last
+/// drawing of the map is moved); a step of 1.5 forces every frame to draw the map afresh, the
+/// worst case.
+fn frame_times(
+    doc: Document,
+    frames: usize,
+    step: Option<f64>,
+    zoom: f64,
+) -> (Duration, usize, usize) {
     let ctx = egui::Context::default();
     let mut app = App::new_with(None, None, None);
     app.show_document(doc);
@@ -49,9 +58,24 @@ fn frame_times(doc: Document, frames: usize) -> (Duration, usize, usize) {
     let mut shapes = 0;
     let mut triangles = 0;
     for i in 0..frames + 5 {
+        if i == 2 {
+            // The first frames fit the map to the window; then zoom in around its centre.
+            app.view.camera.pixels_per_unit *= zoom;
+        }
+        if let Some(step) = step
+            && i >= 5
+        {
+            let factor = if i % 2 == 0 { step } else { 1.0 / step };
+            app.view.camera.pixels_per_unit *= factor;
+        }
         let start = Instant::now();
-        let output = ctx.run_ui(input(), |ui| app.ui(ui));
+        let mut output = ctx.run_ui(input(), |ui| app.ui(ui));
+        // Nothing uploads textures here; say so, as a renderer would have applied them.
+        output.textures_delta.clear();
         shapes = output.shapes.len();
+        if std::env::var_os("TINCT_BENCH_SPLIT").is_some() && i == frames {
+            eprintln!("  layout {:.2} ms", start.elapsed().as_secs_f64() * 1e3);
+        }
         let primitives = ctx.tessellate(output.shapes, output.pixels_per_point);
         let elapsed = start.elapsed();
         triangles = primitives
@@ -71,24 +95,21 @@ fn frame_times(doc: Document, frames: usize) -> (Duration, usize, usize) {
 
 fn main() {
     let frames = 40;
-    let (empty, _, _) = frame_times(Document::new("Empty"), frames);
+    let (empty, _, _) = frame_times(Document::new("Empty"), frames, None, 1.0);
     println!(
         "editor frame time, median of {frames} frames, 1280 x 800 window (CPU work before rasterising)"
     );
+    println!("baseline: an empty project, {:.2} ms/frame", ms(empty));
     println!(
-        "{:>10} {:>10} {:>10} {:>12} {:>10} {:>8}",
-        "regions", "vertices", "shapes", "triangles", "ms/frame", "ratio"
+        "{:>10} {:>10} {:>16} {:>8} {:>10} {:>10} {:>8}",
+        "regions", "vertices", "view", "shapes", "triangles", "ms/frame", "ratio"
     );
-    println!(
-        "{:>10} {:>10} {:>10} {:>12} {:>10.2} {:>8}",
-        0,
-        0,
-        "-",
-        "-",
-        empty.as_secs_f64() * 1e3,
-        "1.00"
-    );
-    for (cols, rows) in [(20, 15), (60, 50), (100, 100)] {
+    let sizes: &[(usize, usize)] = if std::env::var_os("TINCT_BENCH_QUICK").is_some() {
+        &[(20, 15), (60, 50)]
+    } else {
+        &[(20, 15), (60, 50), (100, 100), (320, 320)]
+    };
+    for &(cols, rows) in sizes {
         let doc = map(cols, rows);
         let vertices: usize = doc
             .regions
@@ -97,15 +118,27 @@ fn main() {
             .map(|g| g.vertex_count())
             .sum();
         let regions = doc.regions.len();
-        let (t, shapes, triangles) = frame_times(doc, frames);
-        println!(
-            "{:>10} {:>10} {:>10} {:>12} {:>10.2} {:>8.2}",
-            regions,
-            vertices,
-            shapes,
-            triangles,
-            t.as_secs_f64() * 1e3,
-            t.as_secs_f64() / empty.as_secs_f64()
-        );
+        for (view, step, zoom) in [
+            ("whole, at rest", None, 1.0),
+            ("whole, zooming", Some(1.01), 1.0),
+            ("whole, redrawn", Some(1.5), 1.0),
+            ("8x in, redrawn", Some(1.5), 8.0),
+        ] {
+            let (t, shapes, triangles) = frame_times(doc.clone(), frames, step, zoom);
+            println!(
+                "{:>10} {:>10} {:>16} {:>8} {:>10} {:>10.2} {:>8.2}",
+                regions,
+                vertices,
+                view,
+                shapes,
+                triangles,
+                ms(t),
+                t.as_secs_f64() / empty.as_secs_f64()
+            );
+        }
     }
+}
+
+fn ms(d: Duration) -> f64 {
+    d.as_secs_f64() * 1e3
 }

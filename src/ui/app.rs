@@ -11,7 +11,7 @@ use crate::worker::analysis::{self, Analysis};
 use crate::worker::{Event, JobKind, Worker};
 
 use super::commands::{Command, Tool};
-use super::mesh::MeshCache;
+use super::mesh::Scene;
 use super::view::Camera;
 
 /// The invented map the editor opens with.
@@ -163,6 +163,8 @@ pub struct ViewState {
     pub highlight: Option<Highlight>,
     /// Where the canvas was drawn last frame (screen points), so tests and tools can aim at regions.
     pub canvas_rect: Option<egui::Rect>,
+    /// The fills and outlines drawn last, reused while only the view moves.
+    pub base_layer: Option<super::canvas::BaseLayer>,
 }
 
 impl Default for ViewState {
@@ -183,6 +185,7 @@ impl Default for ViewState {
             dragging: None,
             highlight: None,
             canvas_rect: None,
+            base_layer: None,
         }
     }
 }
@@ -191,7 +194,7 @@ impl Default for ViewState {
 pub struct App {
     pub session: Session,
     pub view: ViewState,
-    pub meshes: MeshCache,
+    pub scene: Scene,
     pub checks: Checks,
     pub messages: Vec<Message>,
     pub path_prompt: Option<PathPrompt>,
@@ -255,7 +258,7 @@ impl App {
         let mut app = App {
             session: Session::new(doc, None),
             view: ViewState::default(),
-            meshes: MeshCache::default(),
+            scene: Scene::default(),
             checks,
             messages: Vec::new(),
             path_prompt: None,
@@ -693,6 +696,7 @@ impl App {
         if revision != self.seen_revision {
             self.seen_revision = revision;
             self.changed_at = Instant::now();
+            self.scene.sync(&self.session.doc);
         }
         if self.analysis_requested != Some(revision) {
             let rest = self.changed_at.elapsed();
@@ -702,7 +706,6 @@ impl App {
                 ctx.request_repaint_after(ANALYSIS_DEBOUNCE - rest);
             }
         }
-        self.meshes.sync(&self.session.doc);
         self.autosave();
         let title = self.session.title();
         if title != self.last_title {

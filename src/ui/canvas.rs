@@ -9,7 +9,7 @@ use crate::doc::{BorderKind, Document, Edit, Region, RegionChange, RegionId, Reg
 
 use super::app::{App, Highlight};
 use super::commands::Tool;
-use super::view::{Camera, hit_test, outline_bounds};
+use super::view::{Camera, hit_test};
 use crate::worker::analysis::PlanarityVerdict;
 
 /// Colours of the canvas (our own choices: quiet neutrals, with strong colours kept for warnings).
@@ -30,6 +30,16 @@ pub mod style {
     pub const CERTIFICATE: Color32 = Color32::from_rgb(0xa3, 0x1a, 0x8c);
     pub const OBSTRUCTION: Color32 = Color32::from_rgb(0xb3, 0x4a, 0x00);
 }
+
+/// Below this size on screen (in points) a region is drawn as a box and without an outline.
+const LOD_PIXELS: f64 = 3.0;
+
+/// Outline points closer than this to the previous drawn point (in points) are skipped.
+const DECIMATE_PX: f32 = 1.5;
+
+/// Border links are drawn once a typical region is this wide on screen (in points); below it
+/// thousands of short links only hide the map, and the canvas says to zoom in instead.
+const LINK_MIN_PIXELS: f64 = 16.0;
 
 /// Screen radius of a marker, in points.
 const MARKER_RADIUS: f32 = 7.0;
@@ -88,13 +98,18 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
     }
 
     let camera = app.view.camera;
-    let bounds = outline_bounds(&app.session.doc);
     let marker_radius_world = MARKER_RADIUS as f64 / camera.pixels_per_unit;
     let pointer_world = response
         .hover_pos()
         .map(|p| camera.to_world(centre, [p.x, p.y]));
-    app.view.hover =
-        pointer_world.and_then(|w| hit_test(&app.session.doc, &bounds, w, marker_radius_world));
+    app.view.hover = pointer_world.and_then(|w| {
+        hit_test(
+            &app.session.doc,
+            app.scene.hit_boxes(),
+            w,
+            marker_radius_world,
+        )
+    });
 
     // Dragging: moves a marker in the select tool, otherwise pans. A move is one edit, on release.
     if response.drag_started()
@@ -255,7 +270,9 @@ fn click(app: &mut App, hit: Option<RegionId>, world: [f64; 2]) {
     }
 }
 
-fn draw(app: &App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Rect) {
+fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Rect) {
+    let base = base_layer(app, painter.ctx(), app.view.camera, centre, rect);
+    let app = &*app;
     let doc = &app.session.doc;
     let camera = app.view.camera;
     let to_screen = |p: [f64; 2]| pos(camera.to_screen(centre, p));
@@ -267,44 +284,22 @@ fn draw(app: &App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Rect) 
         })
     };
 
-    // Fills: one mesh for all outlined regions.
-    let mut mesh = Mesh::default();
-    for (id, region) in &doc.regions {
-        let Some(tris) = app.meshes.get(*id) else {
-            continue;
-        };
-        let colour = fill_of(doc, *id, region);
-        let base = mesh.vertices.len() as u32;
-        for v in &tris.vertices {
-            mesh.colored_vertex(to_screen(*v), colour);
-        }
-        for t in tris.indices.chunks_exact(3) {
-            mesh.add_triangle(base + t[0], base + t[1], base + t[2]);
-        }
-    }
-    painter.add(Shape::mesh(mesh));
+    let ppu = camera.pixels_per_unit;
+    let typical_px = app.scene.typical_size * ppu;
+    painter.add(Shape::Mesh(base));
 
-    // Outlines, thinner when zoomed far out.
-    let outline = Stroke::new(
-        if camera.pixels_per_unit * 1000.0 < 0.02 {
-            0.5
-        } else {
-            1.0
-        },
-        style::OUTLINE,
-    );
-    for region in doc.regions.values() {
-        let Some(g) = &region.geometry else { continue };
-        for poly in &g.polygons {
-            for ring in std::iter::once(&poly.exterior).chain(poly.holes.iter()) {
-                let points: Vec<Pos2> = ring.iter().map(|p| to_screen(*p)).collect();
-                painter.add(Shape::closed_line(points, outline));
-            }
-        }
+    // Border links between anchors, styled by kind (once they are long enough to tell apart).
+    let links_readable = app.scene.outlined.is_empty() || typical_px >= LINK_MIN_PIXELS;
+    if app.view.show_borders && !links_readable {
+        painter.text(
+            rect.left_bottom() + egui::vec2(8.0, -8.0),
+            Align2::LEFT_BOTTOM,
+            "Zoom in to see the border links",
+            FontId::proportional(12.0),
+            style::LABEL,
+        );
     }
-
-    // Border links between anchors, styled by kind.
-    if app.view.show_borders {
+    if app.view.show_borders && links_readable {
         for (pair, border) in &doc.borders {
             let (Some(a), Some(b)) = (anchor_of(pair.a()), anchor_of(pair.b())) else {
                 continue;
@@ -391,10 +386,10 @@ fn draw(app: &App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Rect) 
     }
 
     // Markers for regions without an outline.
-    for (id, region) in &doc.regions {
-        if region.geometry.is_some() {
+    for id in &app.scene.markers {
+        let Some(region) = doc.regions.get(id) else {
             continue;
-        }
+        };
         let Some(a) = anchor_of(*id) else { continue };
         let p = to_screen(a);
         if !rect.expand(MARKER_RADIUS).contains(p) {
@@ -409,7 +404,7 @@ fn draw(app: &App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Rect) 
     }
 
     // Pins: a small dark square at the label point.
-    for region in doc.regions.values() {
+    for region in app.scene.pinned.iter().filter_map(|id| doc.regions.get(id)) {
         if region.pin.is_some() {
             let p = to_screen(region.anchor) + egui::vec2(0.0, -13.0);
             painter.rect_filled(
@@ -433,32 +428,209 @@ fn draw(app: &App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Rect) 
     // Names, where the region is big enough on screen to hold them.
     if app.view.show_labels {
         let font = FontId::proportional(12.0);
-        for region in doc.regions.values() {
-            let width_px = match region.geometry.as_ref().and_then(|g| g.bounds()) {
-                Some([lo, hi]) => ((hi[0] - lo[0]) * camera.pixels_per_unit) as f32,
-                None => 80.0,
-            };
+        let label = |region: &Region, width_px: f32, offset: egui::Vec2| {
             if width_px < 6.0 * region.name.chars().count() as f32 {
-                continue;
+                return;
             }
             let p = to_screen(region.anchor);
-            if !rect.contains(p) {
-                continue;
+            if rect.contains(p) {
+                painter.text(
+                    p + offset,
+                    Align2::CENTER_CENTER,
+                    &region.name,
+                    font.clone(),
+                    style::LABEL,
+                );
             }
-            let offset = if region.geometry.is_none() {
-                egui::vec2(0.0, MARKER_RADIUS + 8.0)
-            } else {
-                egui::vec2(0.0, 0.0)
-            };
-            painter.text(
-                p + offset,
-                Align2::CENTER_CENTER,
-                &region.name,
-                font.clone(),
-                style::LABEL,
-            );
+        };
+        // Outlined regions: skipped as a whole when a typical one is too small for a short name.
+        if typical_px >= 24.0 {
+            for o in &app.scene.outlined {
+                if let Some(region) = doc.regions.get(&o.id) {
+                    let width_px = ((o.bounds[1][0] - o.bounds[0][0]) * ppu) as f32;
+                    label(region, width_px, egui::vec2(0.0, 0.0));
+                }
+            }
+        }
+        for region in app
+            .scene
+            .markers
+            .iter()
+            .filter_map(|id| doc.regions.get(id))
+        {
+            label(region, 80.0, egui::vec2(0.0, MARKER_RADIUS + 8.0));
         }
     }
+}
+
+/// The fills and outlines of the map, tessellated for one view. Drawing them is most of a
+/// frame's work on a large map, so a frame reuses them when nothing has changed, and while the
+/// view moves (pan, zoom) it moves the last drawing instead, redrawing once the view rests or
+/// has moved too far for the old drawing to stand in.
+pub struct BaseLayer {
+    mesh: std::sync::Arc<Mesh>,
+    generation: u64,
+    camera: Camera,
+    rect: egui::Rect,
+    /// The world rectangle the drawing covers (the view at the time, with a margin).
+    covers: [[f64; 2]; 2],
+    /// The view of the previous frame, to tell a moving view from one at rest.
+    last_camera: Camera,
+}
+
+/// How far beyond the view the base layer is drawn, as a fraction of the view's size, so that a
+/// pan can reuse it for a while.
+const BASE_MARGIN: f64 = 0.5;
+
+fn base_layer(
+    app: &mut App,
+    ctx: &egui::Context,
+    camera: Camera,
+    centre: [f32; 2],
+    rect: egui::Rect,
+) -> std::sync::Arc<Mesh> {
+    let generation = app.scene.generation;
+    let view = [
+        camera.to_world(centre, [rect.left(), rect.bottom()]),
+        camera.to_world(centre, [rect.right(), rect.top()]),
+    ];
+    if let Some(old) = &mut app.view.base_layer
+        && old.generation == generation
+        && old.rect == rect
+    {
+        let moving = old.last_camera != camera;
+        old.last_camera = camera;
+        if old.camera == camera {
+            return old.mesh.clone();
+        }
+        let scale = camera.pixels_per_unit / old.camera.pixels_per_unit;
+        let inside = view[0][0] >= old.covers[0][0]
+            && view[0][1] >= old.covers[0][1]
+            && view[1][0] <= old.covers[1][0]
+            && view[1][1] <= old.covers[1][1];
+        if moving && inside && (0.8..=1.25).contains(&scale) {
+            // Screen positions under the old view map affinely to the new one.
+            let k = scale as f32;
+            let o = camera.to_screen(centre, old.camera.to_world(centre, [0.0, 0.0]));
+            let mut mesh = (*old.mesh).clone();
+            for v in &mut mesh.vertices {
+                v.pos = Pos2::new(v.pos.x * k + o[0], v.pos.y * k + o[1]);
+            }
+            return std::sync::Arc::new(mesh);
+        }
+    }
+    let (w, h) = (view[1][0] - view[0][0], view[1][1] - view[0][1]);
+    let covers = [
+        [view[0][0] - w * BASE_MARGIN, view[0][1] - h * BASE_MARGIN],
+        [view[1][0] + w * BASE_MARGIN, view[1][1] + h * BASE_MARGIN],
+    ];
+    let mesh = std::sync::Arc::new(draw_base(app, ctx, camera, centre, covers));
+    app.view.base_layer = Some(BaseLayer {
+        mesh: mesh.clone(),
+        generation,
+        camera,
+        rect,
+        covers,
+        last_camera: camera,
+    });
+    mesh
+}
+
+/// Tessellates fills and outlines of everything within `covers` (world units).
+fn draw_base(
+    app: &App,
+    ctx: &egui::Context,
+    camera: Camera,
+    centre: [f32; 2],
+    covers: [[f64; 2]; 2],
+) -> Mesh {
+    let doc = &app.session.doc;
+    let to_screen = |p: [f64; 2]| pos(camera.to_screen(centre, p));
+    let visible = |b: &[[f64; 2]; 2]| {
+        b[1][0] >= covers[0][0]
+            && b[0][0] <= covers[1][0]
+            && b[1][1] >= covers[0][1]
+            && b[0][1] <= covers[1][1]
+    };
+    let ppu = camera.pixels_per_unit;
+    let typical_px = app.scene.typical_size * ppu;
+
+    // Fills. A region smaller than a few pixels on screen is drawn as its bounding box (level of
+    // detail: its triangles would cover the same pixels).
+    let mut mesh = Mesh::default();
+    for o in &app.scene.outlined {
+        if !visible(&o.bounds) {
+            continue;
+        }
+        let Some(region) = doc.regions.get(&o.id) else {
+            continue;
+        };
+        let colour = fill_of(doc, o.id, region);
+        let [lo, hi] = o.bounds;
+        let size_px = ((hi[0] - lo[0]).max(hi[1] - lo[1])) * ppu;
+        let base = mesh.vertices.len() as u32;
+        if size_px < LOD_PIXELS {
+            let r = egui::Rect::from_two_pos(to_screen(lo), to_screen(hi)).expand(0.5);
+            for p in [
+                r.left_top(),
+                r.right_top(),
+                r.right_bottom(),
+                r.left_bottom(),
+            ] {
+                mesh.colored_vertex(p, colour);
+            }
+            mesh.add_triangle(base, base + 1, base + 2);
+            mesh.add_triangle(base, base + 2, base + 3);
+            continue;
+        }
+        let tris = &o.triangles;
+        mesh.vertices.reserve(tris.vertices.len());
+        for v in &tris.vertices {
+            mesh.colored_vertex(to_screen(*v), colour);
+        }
+        mesh.indices.extend(tris.indices.iter().map(|i| base + i));
+    }
+
+    // Outlines: each boundary once, with points closer than `DECIMATE_PX` merged; none for
+    // regions too small to show one.
+    if typical_px >= LOD_PIXELS {
+        let options = ctx.tessellation_options(|o| *o);
+        let mut tessellator =
+            egui::epaint::Tessellator::new(ctx.pixels_per_point(), options, [1, 1], Vec::new());
+        let outline = Stroke::new(if typical_px < 12.0 { 0.5 } else { 1.0 }, style::OUTLINE);
+        let mut points: Vec<Pos2> = Vec::new();
+        for chain in &app.scene.chains {
+            if !visible(&chain.bounds) {
+                continue;
+            }
+            let [lo, hi] = chain.bounds;
+            if ((hi[0] - lo[0]).max(hi[1] - lo[1])) * ppu < 1.0 {
+                continue;
+            }
+            let ring = &app.scene.chain_points[chain.points.clone()];
+            points.clear();
+            for (k, p) in ring.iter().enumerate() {
+                let s = to_screen(*p);
+                let last = k + 1 == ring.len();
+                match points.last() {
+                    Some(q) if !last && (s - *q).length_sq() < DECIMATE_PX * DECIMATE_PX => {}
+                    _ => points.push(s),
+                }
+            }
+            let path = match (chain.closed, points.len()) {
+                (true, n) if n >= 3 => {
+                    egui::epaint::PathShape::closed_line(std::mem::take(&mut points), outline)
+                }
+                (false, n) if n >= 2 => {
+                    egui::epaint::PathShape::line(std::mem::take(&mut points), outline)
+                }
+                _ => continue,
+            };
+            tessellator.tessellate_path(&path, &mut mesh);
+            points = path.points;
+        }
+    }
+    mesh
 }
 
 fn outline_region(

@@ -1,7 +1,10 @@
-//! Filled outlines. egui fills only convex paths, so each region's polygons (with their holes) are
-//! triangulated once, in world units, with earcut, and cached until the outline changes.
+//! What the canvas draws, prepared once per document revision so that a frame only transforms and
+//! culls: each region's triangles (egui fills only convex paths, so outlines are triangulated with
+//! earcut, in world units, and cached until the outline changes), its bounding box, area and fill,
+//! and the outlines as chains in which a boundary shared by two regions appears once.
 
-use std::collections::HashMap;
+use std::collections::{HashMap, HashSet};
+use std::ops::Range;
 use std::sync::Arc;
 
 use crate::doc::{Document, Geometry, Point, RegionId};
@@ -37,41 +40,208 @@ pub fn triangulate(geometry: &Geometry) -> Triangles {
     Triangles { vertices, indices }
 }
 
-/// Triangles per region, rebuilt only for regions whose outline changed (compared by pointer:
-/// outlines are shared `Arc`s, and an edit that changes one replaces the `Arc`).
-#[derive(Default)]
-pub struct MeshCache {
-    entries: HashMap<RegionId, (Arc<Geometry>, Arc<Triangles>)>,
+/// An outlined region as the canvas needs it.
+pub struct Outlined {
+    pub id: RegionId,
+    pub bounds: [Point; 2],
+    pub area: f64,
+    pub triangles: Arc<Triangles>,
 }
 
-impl MeshCache {
-    /// Brings the cache up to date with `doc` and returns the triangles of one region.
+/// A run of outline points drawn as one line; `closed` when it is a whole ring.
+pub struct Chain {
+    pub points: Range<usize>,
+    pub closed: bool,
+    pub bounds: [Point; 2],
+}
+
+/// Above this many outline vertices, shared boundaries are not merged (the hash set would cost
+/// more memory than drawing them twice costs time; such maps are mostly drawn at coarse detail).
+const MERGE_LIMIT: usize = 2_000_000;
+
+/// The prepared drawing of a document.
+#[derive(Default)]
+pub struct Scene {
+    /// Triangulations by region, kept while the region's outline (an `Arc`) is unchanged.
+    cache: HashMap<RegionId, (Arc<Geometry>, Arc<Triangles>)>,
+    /// Outlined regions in id order.
+    pub outlined: Vec<Outlined>,
+    /// Outline chains and their points.
+    pub chains: Vec<Chain>,
+    pub chain_points: Vec<Point>,
+    /// The median size (larger side of the bounding box) of an outlined region, in world units:
+    /// decides at which zoom names and border links are worth drawing.
+    pub typical_size: f64,
+    /// Regions drawn as markers (no outline), and regions with a pinned colour.
+    pub markers: Vec<RegionId>,
+    pub pinned: Vec<RegionId>,
+    /// Counts the syncs, so that drawings made from an older state can tell they are stale.
+    pub generation: u64,
+}
+
+impl Scene {
+    /// Brings the scene up to date with `doc`. Call when the document or its revision changes;
+    /// triangulations of unchanged outlines are reused.
     pub fn sync(&mut self, doc: &Document) {
-        self.entries.retain(|id, (g, _)| {
+        self.generation += 1;
+        let before = self.cache.len();
+        self.cache.retain(|id, (g, _)| {
             doc.regions
                 .get(id)
                 .and_then(|r| r.geometry.as_ref())
                 .is_some_and(|now| Arc::ptr_eq(now, g))
         });
+        let mut outlines_changed = self.cache.len() != before;
+        let mut outlined = Vec::with_capacity(self.outlined.len());
+        self.markers.clear();
+        self.pinned.clear();
         for (id, region) in &doc.regions {
-            if let Some(g) = &region.geometry
-                && !self.entries.contains_key(id)
-            {
-                self.entries
-                    .insert(*id, (g.clone(), Arc::new(triangulate(g))));
+            if region.pin.is_some() {
+                self.pinned.push(*id);
             }
+            let Some(g) = &region.geometry else {
+                self.markers.push(*id);
+                continue;
+            };
+            let Some(bounds) = g.bounds() else { continue };
+            let triangles = match self.cache.get(id) {
+                Some((_, t)) => t.clone(),
+                None => {
+                    outlines_changed = true;
+                    let t = Arc::new(triangulate(g));
+                    self.cache.insert(*id, (g.clone(), t.clone()));
+                    t
+                }
+            };
+            outlined.push(Outlined {
+                id: *id,
+                bounds,
+                area: g.area(),
+                triangles,
+            });
+        }
+        self.outlined = outlined;
+        if outlines_changed || (self.chains.is_empty() && !self.outlined.is_empty()) {
+            self.build_chains(doc);
+            let mut sizes: Vec<f64> = self
+                .outlined
+                .iter()
+                .map(|o| (o.bounds[1][0] - o.bounds[0][0]).max(o.bounds[1][1] - o.bounds[0][1]))
+                .collect();
+            sizes.sort_by(f64::total_cmp);
+            self.typical_size = sizes.get(sizes.len() / 2).copied().unwrap_or(0.0);
         }
     }
 
-    pub fn get(&self, id: RegionId) -> Option<&Arc<Triangles>> {
-        self.entries.get(&id).map(|(_, t)| t)
+    /// Bounding boxes and areas of every outlined region, for `view::hit_test`.
+    pub fn hit_boxes(&self) -> impl Iterator<Item = (RegionId, [Point; 2], f64)> + '_ {
+        self.outlined.iter().map(|o| (o.id, o.bounds, o.area))
+    }
+
+    fn build_chains(&mut self, doc: &Document) {
+        self.chains.clear();
+        self.chain_points.clear();
+        let total: usize = self
+            .outlined
+            .iter()
+            .filter_map(|o| doc.regions.get(&o.id)?.geometry.as_ref())
+            .map(|g| g.vertex_count())
+            .sum();
+        let mut seen: Option<HashSet<[u64; 4]>> =
+            (total <= MERGE_LIMIT).then(|| HashSet::with_capacity(total));
+        let outlined = std::mem::take(&mut self.outlined);
+        for o in &outlined {
+            let Some(g) = doc.regions.get(&o.id).and_then(|r| r.geometry.as_ref()) else {
+                continue;
+            };
+            for poly in &g.polygons {
+                for ring in std::iter::once(&poly.exterior).chain(poly.holes.iter()) {
+                    self.add_ring(ring, seen.as_mut());
+                }
+            }
+        }
+        self.outlined = outlined;
+    }
+
+    /// Adds the segments of `ring` not drawn yet (by an earlier ring sharing them) as chains.
+    fn add_ring(&mut self, ring: &[Point], seen: Option<&mut HashSet<[u64; 4]>>) {
+        let n = ring.len();
+        if n < 2 {
+            return;
+        }
+        let new: Vec<bool> = match seen {
+            Some(seen) => (0..n)
+                .map(|i| {
+                    let (p, q) = (ring[i], ring[(i + 1) % n]);
+                    let (a, b) = if (p[0], p[1]) <= (q[0], q[1]) {
+                        (p, q)
+                    } else {
+                        (q, p)
+                    };
+                    seen.insert([
+                        a[0].to_bits(),
+                        a[1].to_bits(),
+                        b[0].to_bits(),
+                        b[1].to_bits(),
+                    ])
+                })
+                .collect(),
+            None => vec![true; n],
+        };
+        if new.iter().all(|&x| x) {
+            self.push_chain(ring.iter().copied(), true);
+            return;
+        }
+        // Runs of new segments, starting after an old one so that a run never wraps unseen.
+        let Some(start) = new.iter().position(|&x| !x) else {
+            return;
+        };
+        let mut i = 0;
+        while i < n {
+            let s = (start + 1 + i) % n;
+            if !new[s] {
+                i += 1;
+                continue;
+            }
+            let mut len = 0;
+            while i + len < n && new[(start + 1 + i + len) % n] {
+                len += 1;
+            }
+            self.push_chain((0..=len).map(|k| ring[(s + k) % n]), false);
+            i += len;
+        }
+    }
+
+    fn push_chain(&mut self, points: impl Iterator<Item = Point>, closed: bool) {
+        let from = self.chain_points.len();
+        let mut lo = [f64::INFINITY; 2];
+        let mut hi = [f64::NEG_INFINITY; 2];
+        for p in points {
+            lo = [lo[0].min(p[0]), lo[1].min(p[1])];
+            hi = [hi[0].max(p[0]), hi[1].max(p[1])];
+            self.chain_points.push(p);
+        }
+        self.chains.push(Chain {
+            points: from..self.chain_points.len(),
+            closed,
+            bounds: [lo, hi],
+        });
     }
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::doc::Polygon;
+    use crate::doc::{Edit, Polygon, Region};
+
+    fn square(x: f64, y: f64, s: f64) -> Geometry {
+        Geometry {
+            polygons: vec![Polygon {
+                exterior: vec![[x, y], [x + s, y], [x + s, y + s], [x, y + s]],
+                holes: vec![],
+            }],
+        }
+    }
 
     #[test]
     fn square_with_hole_has_eight_triangles_and_the_right_area() {
@@ -96,5 +266,43 @@ mod tests {
             })
             .sum();
         assert!((area - 12.0).abs() < 1e-9, "{area}");
+    }
+
+    fn segments(scene: &Scene) -> usize {
+        scene
+            .chains
+            .iter()
+            .map(|c| c.points.len() - usize::from(!c.closed))
+            .sum()
+    }
+
+    #[test]
+    fn a_shared_side_is_drawn_once_and_edits_are_followed() {
+        let mut doc = Document::new("Two squares");
+        let mut add = |doc: &mut Document, x: f64| {
+            let mut r = Region::new(format!("Square at {x}"), [x + 0.5, 0.5]);
+            r.geometry = Some(Arc::new(square(x, 0.0, 1.0)));
+            let (id, edit) = doc.add_region_edit(r);
+            doc.apply(edit).unwrap();
+            id
+        };
+        let a = add(&mut doc, 0.0);
+        add(&mut doc, 1.0);
+        let mut scene = Scene::default();
+        scene.sync(&doc);
+        // Two unit squares side by side: 8 sides, one of them shared (common practice: a shared
+        // boundary is drawn once so it is not twice as dark).
+        assert_eq!(segments(&scene), 7);
+        assert_eq!(scene.outlined.len(), 2);
+        assert!((scene.typical_size - 1.0).abs() < 1e-12);
+        // Moving one square apart: the outline changes, so both squares are whole again.
+        doc.apply(Edit::UpdateRegion {
+            id: a,
+            change: crate::doc::RegionChange::Geometry(Some(Arc::new(square(-5.0, 0.0, 1.0)))),
+        })
+        .unwrap();
+        scene.sync(&doc);
+        assert_eq!(segments(&scene), 8);
+        assert_eq!(scene.chains.iter().filter(|c| c.closed).count(), 2);
     }
 }

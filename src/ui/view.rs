@@ -91,12 +91,12 @@ pub fn contains(geometry: &Geometry, p: Point) -> bool {
 /// nearest marker (anchor) within `marker_radius_world`.
 pub fn hit_test(
     doc: &Document,
-    bounds: &[(RegionId, [Point; 2], f64)],
+    bounds: impl IntoIterator<Item = (RegionId, [Point; 2], f64)>,
     p: Point,
     marker_radius_world: f64,
 ) -> Option<RegionId> {
     let mut best: Option<(f64, RegionId)> = None;
-    for &(id, [lo, hi], area) in bounds {
+    for (id, [lo, hi], area) in bounds {
         if p[0] < lo[0] || p[0] > hi[0] || p[1] < lo[1] || p[1] > hi[1] {
             continue;
         }
@@ -123,22 +123,22 @@ pub fn hit_test(
     nearest.map(|(_, id)| id)
 }
 
-/// Bounding boxes and areas of every outlined region, for [`hit_test`].
-pub fn outline_bounds(doc: &Document) -> Vec<(RegionId, [Point; 2], f64)> {
-    doc.regions
-        .iter()
-        .filter_map(|(id, r)| {
-            let g = r.geometry.as_ref()?;
-            Some((*id, g.bounds()?, g.area()))
-        })
-        .collect()
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
     use crate::doc::{Polygon, Region};
     use std::sync::Arc;
+
+    /// Bounding boxes and areas of every outlined region, for [`hit_test`].
+    fn outline_bounds(doc: &Document) -> Vec<(RegionId, [Point; 2], f64)> {
+        doc.regions
+            .iter()
+            .filter_map(|(id, r)| {
+                let g = r.geometry.as_ref()?;
+                Some((*id, g.bounds()?, g.area()))
+            })
+            .collect()
+    }
 
     fn square(x: f64, y: f64, s: f64) -> Geometry {
         Geometry {
@@ -181,10 +181,23 @@ mod tests {
             doc.apply(e).unwrap();
         }
         let b = outline_bounds(&doc);
-        assert_eq!(hit_test(&doc, &b, [2.0, 2.0], 0.5), Some(RegionId(2)));
-        assert_eq!(hit_test(&doc, &b, [5.0, 2.0], 0.5), Some(RegionId(1)));
-        assert_eq!(hit_test(&doc, &b, [7.0, 7.0], 0.5), None, "inside the hole");
-        assert_eq!(hit_test(&doc, &b, [20.3, 20.0], 0.5), Some(RegionId(3)));
-        assert_eq!(hit_test(&doc, &b, [30.0, 30.0], 0.5), None);
+        assert_eq!(
+            hit_test(&doc, b.iter().copied(), [2.0, 2.0], 0.5),
+            Some(RegionId(2))
+        );
+        assert_eq!(
+            hit_test(&doc, b.iter().copied(), [5.0, 2.0], 0.5),
+            Some(RegionId(1))
+        );
+        assert_eq!(
+            hit_test(&doc, b.iter().copied(), [7.0, 7.0], 0.5),
+            None,
+            "inside the hole"
+        );
+        assert_eq!(
+            hit_test(&doc, b.iter().copied(), [20.3, 20.0], 0.5),
+            Some(RegionId(3))
+        );
+        assert_eq!(hit_test(&doc, b.iter().copied(), [30.0, 30.0], 0.5), None);
     }
 }

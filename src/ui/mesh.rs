@@ -279,7 +279,7 @@ mod tests {
     #[test]
     fn a_shared_side_is_drawn_once_and_edits_are_followed() {
         let mut doc = Document::new("Two squares");
-        let mut add = |doc: &mut Document, x: f64| {
+        let add = |doc: &mut Document, x: f64| {
             let mut r = Region::new(format!("Square at {x}"), [x + 0.5, 0.5]);
             r.geometry = Some(Arc::new(square(x, 0.0, 1.0)));
             let (id, edit) = doc.add_region_edit(r);

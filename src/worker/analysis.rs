@@ -299,6 +299,9 @@ fn colour_graph(
                             )
                         }
                         StepKind::Excluded => format!("So {who} cannot be colour {colour}"),
+                        StepKind::Renamed => format!(
+                            "{who} need not be colour {colour}: no pin names it, so colours can be renamed"
+                        ),
                         StepKind::Contradiction if st.because.is_empty() => {
                             format!("{who} has no colour left: contradiction")
                         }

@@ -16,6 +16,9 @@ pub enum StepKind {
     Forced,
     /// A case has been refuted, so the vertex does not have this colour.
     Excluded,
+    /// At the start, before any case: the vertex need not take this colour, because colours that
+    /// no pin names can be renamed (symmetry breaking on a clique).
+    Renamed,
     /// A vertex has no colour left: this case (or the whole argument, at depth 0) is impossible.
     Contradiction,
 }
@@ -140,7 +143,7 @@ pub fn case_analysis(
                         names(v),
                         c + 1
                     );
-                    search.push(0, StepKind::Excluded, v, c, Vec::new(), text);
+                    search.push(0, StepKind::Renamed, v, c, Vec::new(), text);
                     if search.exclude(v, c, Reason::Case, 0) {
                         return Some(search.steps);
                     }
@@ -386,14 +389,20 @@ pub fn replay_argument(g: &Graph, k: u32, steps: &[ArgumentStep]) -> bool {
                 }
                 colour[d][v] = step.colour;
             }
+            StepKind::Renamed => {
+                // A symmetry exclusion, only at depth 0 before any case (its soundness is the
+                // certificate's symmetry rule, checked there, not here).
+                if d != 0 || any_case || colour.len() != 1 || step.colour >= k {
+                    return false;
+                }
+                banned[0][v] |= 1 << step.colour;
+            }
             StepKind::Excluded => {
-                // Either the case at depth d+1 just closed with a contradiction, or a symmetry
-                // exclusion at depth 0 (checked by the certificate's symmetry rule, not here).
+                // The case at depth d+1 just closed with a contradiction.
                 if d + 1 != colour.len() || step.colour >= k {
                     return false;
                 }
-                let symmetry_exclusion = d == 0 && !any_case;
-                if !symmetry_exclusion && last_closed != Some((v, step.colour)) {
+                if last_closed != Some((v, step.colour)) {
                     return false;
                 }
                 last_closed = None;
@@ -458,5 +467,30 @@ mod tests {
             .collect();
         let (g6, _) = Graph::from_edges(7, &edges).unwrap();
         assert!(case_analysis(&g6, &[], 3, &sym, &names, 1000).is_none());
+    }
+
+    #[test]
+    fn a_renaming_step_is_only_accepted_before_any_case() {
+        // K4 with one vertex pinned to colour 1 and no 3-colouring (common practice: K4 needs 4).
+        // The unpinned clique vertices may be renamed, which shows as `Renamed` steps up front.
+        let edges = [(0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3)];
+        let (g, _) = Graph::from_edges(4, &edges).unwrap();
+        let sym = Symmetry {
+            clique: vec![1, 2],
+            first_free_class: 1,
+        };
+        let names = |v: Vertex| format!("v{v}");
+        let steps = case_analysis(&g, &[Some(0), None, None, None], 3, &sym, &names, 1000).unwrap();
+        assert!(replay_argument(&g, 3, &steps));
+        let renamed = steps.iter().filter(|s| s.kind == StepKind::Renamed).count();
+        assert!(renamed > 0, "{steps:#?}");
+        // The same exclusion inside a case is not a valid step.
+        let mut bad = steps.clone();
+        let first = bad
+            .iter()
+            .position(|s| s.kind == StepKind::Renamed)
+            .unwrap();
+        bad[first].depth = 1;
+        assert!(!replay_argument(&g, 3, &bad));
     }
 }

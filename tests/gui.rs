@@ -321,3 +321,41 @@ fn notes_from_reading_a_file_have_a_place_and_recent_files_are_remembered() {
         "the list survives a restart"
     );
 }
+
+#[test]
+fn a_large_map_seen_whole_is_drawn_coarsely_and_in_full_once_zoomed_in() {
+    // 40,000 synthetic regions: seen whole from a little further out, each is under two pixels
+    // wide, so they are painted as an image; zoomed in 40 times, the few on screen are drawn
+    // with their outlines.
+    let regions = tinct::geo::synthetic::jittered_grid(200, 200, 3, 0.2, 11);
+    let json = tinct::geo::synthetic::to_geojson(&regions);
+    let options = tinct::geo::ImportOptions {
+        coordinates: tinct::geo::CoordinateMode::Planar,
+        ..tinct::geo::ImportOptions::default()
+    };
+    let doc = tinct::geo::import_json(json.as_bytes(), &options)
+        .unwrap()
+        .into_document("Synthetic".to_string());
+    let mut app = App::new_with(None, None, None);
+    app.show_document(doc);
+    let mut h = harness(app);
+    h.state_mut().view.camera.pixels_per_unit /= 2.0;
+    h.run_steps(2);
+    let whole = h
+        .state()
+        .view
+        .base_layer
+        .as_ref()
+        .expect("the map was drawn");
+    assert!(whole.uses_raster());
+    let coarse = whole.triangle_count();
+    h.state_mut().view.camera.pixels_per_unit *= 40.0;
+    h.run_steps(2);
+    let near = h.state().view.base_layer.as_ref().unwrap();
+    assert!(!near.uses_raster());
+    assert!(near.triangle_count() > 1000, "{}", near.triangle_count());
+    assert!(
+        coarse < 100,
+        "whole map: {coarse} triangles besides the image"
+    );
+}

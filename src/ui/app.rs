@@ -165,6 +165,8 @@ pub struct ViewState {
     pub canvas_rect: Option<egui::Rect>,
     /// The fills and outlines drawn last, reused while only the view moves.
     pub base_layer: Option<super::canvas::BaseLayer>,
+    /// The region list's rows for a document state and search text.
+    pub region_rows: Option<((u64, String), Vec<RegionId>)>,
 }
 
 impl Default for ViewState {
@@ -186,6 +188,7 @@ impl Default for ViewState {
             highlight: None,
             canvas_rect: None,
             base_layer: None,
+            region_rows: None,
         }
     }
 }

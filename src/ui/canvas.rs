@@ -273,6 +273,10 @@ fn click(app: &mut App, hit: Option<RegionId>, world: [f64; 2]) {
 fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Rect) {
     let base = base_layer(app, painter.ctx(), app.view.camera, centre, rect);
     let app = &*app;
+    if let Some((texture, at)) = base.raster {
+        let uv = egui::Rect::from_min_max(Pos2::ZERO, Pos2::new(1.0, 1.0));
+        painter.image(texture, at, uv, Color32::WHITE);
+    }
     let doc = &app.session.doc;
     let camera = app.view.camera;
     let to_screen = |p: [f64; 2]| pos(camera.to_screen(centre, p));
@@ -286,7 +290,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
 
     let ppu = camera.pixels_per_unit;
     let typical_px = app.scene.typical_size * ppu;
-    painter.add(Shape::Mesh(base));
+    painter.add(Shape::Mesh(base.mesh));
 
     // Border links between anchors, styled by kind (once they are long enough to tell apart).
     let links_readable = app.scene.outlined.is_empty() || typical_px >= LINK_MIN_PIXELS;
@@ -476,7 +480,34 @@ pub struct BaseLayer {
     covers: [[f64; 2]; 2],
     /// The view of the previous frame, to tell a moving view from one at rest.
     last_camera: Camera,
+    /// Regions too small to draw one by one, as an image, and where it goes on screen.
+    raster: Option<(egui::TextureHandle, egui::Rect)>,
 }
+
+impl BaseLayer {
+    /// Whether small regions were painted as an image (the coarsest level of detail).
+    pub fn uses_raster(&self) -> bool {
+        self.raster.is_some()
+    }
+
+    /// Triangles in the tessellated part (fills and outlines).
+    pub fn triangle_count(&self) -> usize {
+        self.mesh.indices.len() / 3
+    }
+}
+
+/// What a frame draws of the base layer.
+struct BaseDrawing {
+    mesh: std::sync::Arc<Mesh>,
+    raster: Option<(egui::TextureId, egui::Rect)>,
+}
+
+/// With more than this many regions smaller than `LOD_PIXELS` in view, they are painted into an
+/// image (a pixel or a few each) instead of a box of two triangles each.
+const RASTER_MIN: usize = 20_000;
+
+/// The largest side of that image, in pixels.
+const RASTER_MAX_SIDE: usize = 4096;
 
 /// How far beyond the view the base layer is drawn, as a fraction of the view's size, so that a
 /// pan can reuse it for a while.
@@ -488,7 +519,7 @@ fn base_layer(
     camera: Camera,
     centre: [f32; 2],
     rect: egui::Rect,
-) -> std::sync::Arc<Mesh> {
+) -> BaseDrawing {
     let generation = app.scene.generation;
     let view = [
         camera.to_world(centre, [rect.left(), rect.bottom()]),
@@ -501,7 +532,10 @@ fn base_layer(
         let moving = old.last_camera != camera;
         old.last_camera = camera;
         if old.camera == camera {
-            return old.mesh.clone();
+            return BaseDrawing {
+                mesh: old.mesh.clone(),
+                raster: old.raster.as_ref().map(|(t, r)| (t.id(), *r)),
+            };
         }
         let scale = camera.pixels_per_unit / old.camera.pixels_per_unit;
         let inside = view[0][0] >= old.covers[0][0]
@@ -512,11 +546,18 @@ fn base_layer(
             // Screen positions under the old view map affinely to the new one.
             let k = scale as f32;
             let o = camera.to_screen(centre, old.camera.to_world(centre, [0.0, 0.0]));
+            let moved = |p: Pos2| Pos2::new(p.x * k + o[0], p.y * k + o[1]);
             let mut mesh = (*old.mesh).clone();
             for v in &mut mesh.vertices {
-                v.pos = Pos2::new(v.pos.x * k + o[0], v.pos.y * k + o[1]);
+                v.pos = moved(v.pos);
             }
-            return std::sync::Arc::new(mesh);
+            return BaseDrawing {
+                mesh: std::sync::Arc::new(mesh),
+                raster: old
+                    .raster
+                    .as_ref()
+                    .map(|(t, r)| (t.id(), egui::Rect::from_min_max(moved(r.min), moved(r.max)))),
+            };
         }
     }
     let (w, h) = (view[1][0] - view[0][0], view[1][1] - view[0][1]);
@@ -524,16 +565,40 @@ fn base_layer(
         [view[0][0] - w * BASE_MARGIN, view[0][1] - h * BASE_MARGIN],
         [view[1][0] + w * BASE_MARGIN, view[1][1] + h * BASE_MARGIN],
     ];
-    let mesh = std::sync::Arc::new(draw_base(app, ctx, camera, centre, covers));
-    app.view.base_layer = Some(BaseLayer {
+    let (mesh, image) = draw_base(app, ctx, camera, centre, covers);
+    let mesh = std::sync::Arc::new(mesh);
+    // Reuse the texture of the previous drawing when there is one (egui frees it when dropped).
+    let old_texture = app
+        .view
+        .base_layer
+        .take()
+        .and_then(|b| b.raster)
+        .map(|(t, _)| t);
+    let raster = image.map(|(image, at)| {
+        let options = egui::TextureOptions::NEAREST;
+        let texture = match old_texture {
+            Some(mut t) => {
+                t.set(image, options);
+                t
+            }
+            None => ctx.load_texture("tinct-small-regions", image, options),
+        };
+        (texture, at)
+    });
+    let drawing = BaseDrawing {
         mesh: mesh.clone(),
+        raster: raster.as_ref().map(|(t, r)| (t.id(), *r)),
+    };
+    app.view.base_layer = Some(BaseLayer {
+        mesh,
         generation,
         camera,
         rect,
         covers,
         last_camera: camera,
+        raster,
     });
-    mesh
+    drawing
 }
 
 /// Tessellates fills and outlines of everything within `covers` (world units).
@@ -543,7 +608,7 @@ fn draw_base(
     camera: Camera,
     centre: [f32; 2],
     covers: [[f64; 2]; 2],
-) -> Mesh {
+) -> (Mesh, Option<(egui::ColorImage, egui::Rect)>) {
     let doc = &app.session.doc;
     let to_screen = |p: [f64; 2]| pos(camera.to_screen(centre, p));
     let visible = |b: &[[f64; 2]; 2]| {
@@ -558,6 +623,7 @@ fn draw_base(
     // Fills. A region smaller than a few pixels on screen is drawn as its bounding box (level of
     // detail: its triangles would cover the same pixels).
     let mut mesh = Mesh::default();
+    let mut tiny: Vec<(egui::Rect, Color32)> = Vec::new();
     for o in &app.scene.outlined {
         if !visible(&o.bounds) {
             continue;
@@ -568,21 +634,14 @@ fn draw_base(
         let colour = fill_of(doc, o.id, region);
         let [lo, hi] = o.bounds;
         let size_px = ((hi[0] - lo[0]).max(hi[1] - lo[1])) * ppu;
-        let base = mesh.vertices.len() as u32;
         if size_px < LOD_PIXELS {
-            let r = egui::Rect::from_two_pos(to_screen(lo), to_screen(hi)).expand(0.5);
-            for p in [
-                r.left_top(),
-                r.right_top(),
-                r.right_bottom(),
-                r.left_bottom(),
-            ] {
-                mesh.colored_vertex(p, colour);
-            }
-            mesh.add_triangle(base, base + 1, base + 2);
-            mesh.add_triangle(base, base + 2, base + 3);
+            tiny.push((
+                egui::Rect::from_two_pos(to_screen(lo), to_screen(hi)),
+                colour,
+            ));
             continue;
         }
+        let base = mesh.vertices.len() as u32;
         let tris = &o.triangles;
         mesh.vertices.reserve(tris.vertices.len());
         for v in &tris.vertices {
@@ -630,7 +689,49 @@ fn draw_base(
             points = path.points;
         }
     }
-    mesh
+    if tiny.len() <= RASTER_MIN {
+        for (r, colour) in tiny {
+            let r = r.expand(0.5);
+            let base = mesh.vertices.len() as u32;
+            for p in [
+                r.left_top(),
+                r.right_top(),
+                r.right_bottom(),
+                r.left_bottom(),
+            ] {
+                mesh.colored_vertex(p, colour);
+            }
+            mesh.add_triangle(base, base + 1, base + 2);
+            mesh.add_triangle(base, base + 2, base + 3);
+        }
+        return (mesh, None);
+    }
+    let at = egui::Rect::from_two_pos(to_screen(covers[0]), to_screen(covers[1]));
+    let image = paint_small_regions(&tiny, at);
+    (mesh, Some((image, at)))
+}
+
+/// Paints regions (screen rectangles and fills) into an image covering `at`, each at least one
+/// pixel, so that a map of a million regions seen whole is one texture rather than millions of
+/// triangles.
+fn paint_small_regions(tiny: &[(egui::Rect, Color32)], at: egui::Rect) -> egui::ColorImage {
+    let w = (at.width().ceil() as usize).clamp(1, RASTER_MAX_SIDE);
+    let h = (at.height().ceil() as usize).clamp(1, RASTER_MAX_SIDE);
+    let (sx, sy) = (
+        w as f32 / at.width().max(1.0),
+        h as f32 / at.height().max(1.0),
+    );
+    let mut pixels = vec![Color32::TRANSPARENT; w * h];
+    for (r, colour) in tiny {
+        let x0 = ((r.min.x - at.min.x) * sx).floor().max(0.0) as usize;
+        let y0 = ((r.min.y - at.min.y) * sy).floor().max(0.0) as usize;
+        let x1 = (((r.max.x - at.min.x) * sx).ceil() as usize).clamp(x0 + 1, w);
+        let y1 = (((r.max.y - at.min.y) * sy).ceil() as usize).clamp(y0 + 1, h);
+        for y in y0.min(h)..y1 {
+            pixels[y * w + x0.min(w)..y * w + x1].fill(*colour);
+        }
+    }
+    egui::ColorImage::new([w, h], pixels)
 }
 
 fn outline_region(
@@ -653,5 +754,49 @@ fn outline_region(
         None => {
             painter.circle_stroke(to_screen(region.anchor), MARKER_RADIUS + 3.0, stroke);
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn small_regions_paint_at_least_one_pixel_each_in_their_colour() {
+        let at = egui::Rect::from_min_max(Pos2::new(100.0, 50.0), Pos2::new(110.0, 60.0));
+        let red = Color32::from_rgb(200, 0, 0);
+        let blue = Color32::from_rgb(0, 0, 200);
+        let tiny = [
+            // Smaller than a pixel: still one pixel, at (2, 3).
+            (
+                egui::Rect::from_min_max(Pos2::new(102.2, 53.1), Pos2::new(102.4, 53.3)),
+                red,
+            ),
+            // Two by two pixels at (6..8, 6..8).
+            (
+                egui::Rect::from_min_max(Pos2::new(106.0, 56.0), Pos2::new(108.0, 58.0)),
+                blue,
+            ),
+            // Partly outside the image: clipped, not a panic.
+            (
+                egui::Rect::from_min_max(Pos2::new(108.5, 58.5), Pos2::new(130.0, 90.0)),
+                blue,
+            ),
+        ];
+        let image = paint_small_regions(&tiny, at);
+        assert_eq!(image.size, [10, 10]);
+        let px = |x: usize, y: usize| image.pixels[y * 10 + x];
+        assert_eq!(px(2, 3), red);
+        assert_eq!(px(3, 3), Color32::TRANSPARENT);
+        for (x, y) in [(6, 6), (7, 6), (6, 7), (7, 7), (9, 9)] {
+            assert_eq!(px(x, y), blue, "({x}, {y})");
+        }
+        assert_eq!(px(5, 5), Color32::TRANSPARENT);
+        let painted = image
+            .pixels
+            .iter()
+            .filter(|c| **c != Color32::TRANSPARENT)
+            .count();
+        assert_eq!(painted, 1 + 4 + 4);
     }
 }

@@ -259,34 +259,47 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
     ui.heading("Regions");
     ui.add(egui::TextEdit::singleline(&mut app.view.region_filter).hint_text("Search by name"))
         .widget_info(|| egui::WidgetInfo::labeled(egui::Role::TextInput, true, "Search regions"));
-    let filter = app.view.region_filter.to_lowercase();
+    // The matching ids are kept until the document or the search changes: on a large map,
+    // filtering every name every frame would cost more than the rest of the frame.
+    let key = (app.scene.generation, app.view.region_filter.clone());
+    if app.view.region_rows.as_ref().is_none_or(|(k, _)| *k != key) {
+        let filter = app.view.region_filter.to_lowercase();
+        let ids: Vec<RegionId> = app
+            .session
+            .doc
+            .regions
+            .iter()
+            .filter(|(_, r)| filter.is_empty() || r.name.to_lowercase().contains(&filter))
+            .map(|(id, _)| *id)
+            .collect();
+        app.view.region_rows = Some((key, ids));
+    }
+    let rows = match app.view.region_rows.take() {
+        Some((_, ids)) => ids,
+        None => Vec::new(),
+    };
     let doc = &app.session.doc;
-    let rows: Vec<(RegionId, String, Option<Color32>)> = doc
-        .regions
-        .iter()
-        .filter(|(_, r)| filter.is_empty() || r.name.to_lowercase().contains(&filter))
-        .map(|(id, r)| {
-            let colour = match r.role {
-                Role::Water => Some(style::WATER),
-                Role::Land => doc
-                    .colouring
-                    .get(id)
-                    .and_then(|s| doc.palette.slots.get(*s as usize))
-                    .map(|s| Color32::from_rgb(s.colour.0[0], s.colour.0[1], s.colour.0[2])),
-            };
-            (*id, r.name.clone(), colour)
-        })
-        .collect();
     ui.label(format!("{} shown of {}", rows.len(), doc.regions.len()));
     let row_height = ui.text_style_height(&egui::TextStyle::Body) + 4.0;
     egui::ScrollArea::vertical()
         .auto_shrink([false, false])
         .show_rows(ui, row_height, rows.len(), |ui, range| {
-            for (id, name, colour) in &rows[range] {
+            for id in &rows[range] {
+                let Some(r) = doc.regions.get(id) else {
+                    continue;
+                };
+                let colour = match r.role {
+                    Role::Water => Some(style::WATER),
+                    Role::Land => doc
+                        .colouring
+                        .get(id)
+                        .and_then(|s| doc.palette.slots.get(*s as usize))
+                        .map(|s| Color32::from_rgb(s.colour.0[0], s.colour.0[1], s.colour.0[2])),
+                };
                 ui.horizontal(|ui| {
                     swatch(ui, colour.unwrap_or(style::UNCOLOURED), 12.0);
                     if ui
-                        .selectable_label(app.view.selection == Some(*id), name)
+                        .selectable_label(app.view.selection == Some(*id), &r.name)
                         .clicked()
                     {
                         app.view.selection = Some(*id);
@@ -294,6 +307,7 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
                 });
             }
         });
+    app.view.region_rows = Some(((app.scene.generation, app.view.region_filter.clone()), rows));
 }
 
 /// The selected region's details, editable.

@@ -124,6 +124,19 @@ fn main() {
             ("whole, redrawn", Some(1.5), 1.0),
             ("8x in, redrawn", Some(1.5), 8.0),
         ] {
+            // TINCT_BENCH_ONLY="3000 redrawn" runs only the rows whose text contains both words
+            // (for profiling one case).
+            if let Ok(only) = std::env::var("TINCT_BENCH_ONLY") {
+                let row = format!("{regions} {view}");
+                if !only.split_whitespace().all(|w| row.contains(w)) {
+                    continue;
+                }
+            }
+            let frames = if std::env::var_os("TINCT_BENCH_ONLY").is_some() {
+                frames * 10
+            } else {
+                frames
+            };
             let (t, shapes, triangles) = frame_times(doc.clone(), frames, step, zoom);
             println!(
                 "{:>10} {:>10} {:>16} {:>8} {:>10} {:>10.2} {:>8.2}",

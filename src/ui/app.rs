@@ -64,6 +64,9 @@ pub struct Checks {
     pub conflicts: Vec<RuleConflict>,
     pub graph_vertices: usize,
     pub graph_edges: usize,
+    pub land_regions: usize,
+    /// How many regions use each palette slot.
+    pub slot_use: Vec<usize>,
 }
 
 impl Checks {
@@ -75,6 +78,16 @@ impl Checks {
             conflicts: cg.conflicts,
             graph_vertices: cg.graph.vertex_count(),
             graph_edges: cg.graph.edge_count(),
+            land_regions: doc.land_regions().count(),
+            slot_use: {
+                let mut counts = vec![0usize; doc.palette.slots.len()];
+                for s in doc.colouring.values() {
+                    if let Some(c) = counts.get_mut(*s as usize) {
+                        *c += 1;
+                    }
+                }
+                counts
+            },
         }
     }
 }

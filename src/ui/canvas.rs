@@ -511,7 +511,7 @@ const RASTER_MAX_SIDE: usize = 4096;
 
 /// How far beyond the view the base layer is drawn, as a fraction of the view's size, so that a
 /// pan can reuse it for a while.
-const BASE_MARGIN: f64 = 0.5;
+const BASE_MARGIN: f64 = 0.25;
 
 fn base_layer(
     app: &mut App,
@@ -565,7 +565,12 @@ fn base_layer(
         [view[0][0] - w * BASE_MARGIN, view[0][1] - h * BASE_MARGIN],
         [view[1][0] + w * BASE_MARGIN, view[1][1] + h * BASE_MARGIN],
     ];
-    let (mesh, image) = draw_base(app, ctx, camera, centre, covers);
+    let hint = app
+        .view
+        .base_layer
+        .as_ref()
+        .map_or((0, 0), |b| (b.mesh.vertices.len(), b.mesh.indices.len()));
+    let (mesh, image) = draw_base(app, ctx, camera, centre, covers, hint);
     let mesh = std::sync::Arc::new(mesh);
     // Reuse the texture of the previous drawing when there is one (egui frees it when dropped).
     let old_texture = app
@@ -608,6 +613,7 @@ fn draw_base(
     camera: Camera,
     centre: [f32; 2],
     covers: [[f64; 2]; 2],
+    capacity: (usize, usize),
 ) -> (Mesh, Option<(egui::ColorImage, egui::Rect)>) {
     let doc = &app.session.doc;
     let to_screen = |p: [f64; 2]| pos(camera.to_screen(centre, p));
@@ -622,7 +628,12 @@ fn draw_base(
 
     // Fills. A region smaller than a few pixels on screen is drawn as its bounding box (level of
     // detail: its triangles would cover the same pixels).
-    let mut mesh = Mesh::default();
+    // Sized like the last drawing: growing a mesh of a million vertices by doubling copies it.
+    let mut mesh = Mesh {
+        vertices: Vec::with_capacity(capacity.0),
+        indices: Vec::with_capacity(capacity.1),
+        ..Mesh::default()
+    };
     let mut tiny: Vec<(egui::Rect, Color32)> = Vec::new();
     for o in &app.scene.outlined {
         if !visible(&o.bounds) {

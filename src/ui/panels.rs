@@ -64,9 +64,7 @@ pub fn verdict_lines(doc: &Document, checks: &Checks) -> Vec<VerdictLine> {
     let c = &checks.colouring;
     out.push(VerdictLine::Note(format!(
         "{} land regions as {} colouring units with {} borders",
-        doc.land_regions().count(),
-        checks.graph_vertices,
-        checks.graph_edges
+        checks.land_regions, checks.graph_vertices, checks.graph_edges
     )));
     for conflict in &checks.conflicts {
         out.push(VerdictLine::Problem {
@@ -746,12 +744,7 @@ pub fn palette_ui(app: &mut App, ui: &mut egui::Ui) {
     ui.heading("Palette");
     let doc = &app.session.doc;
     ui.label(&doc.palette.name);
-    let mut counts = vec![0usize; doc.palette.slots.len()];
-    for s in doc.colouring.values() {
-        if let Some(c) = counts.get_mut(*s as usize) {
-            *c += 1;
-        }
-    }
+    let counts = &app.checks.slot_use;
     for (i, slot) in doc.palette.slots.iter().enumerate() {
         let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
         ui.horizontal(|ui| {
@@ -761,7 +754,7 @@ pub fn palette_ui(app: &mut App, ui: &mut egui::Ui) {
                 i + 1,
                 slot.name,
                 slot.colour.to_hex(),
-                counts[i]
+                counts.get(i).copied().unwrap_or(0)
             ));
         });
     }

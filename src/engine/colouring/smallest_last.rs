@@ -273,38 +273,18 @@ impl KempeState<'_> {
         }
         let visit = self.next_epoch();
         self.chain.clear();
-        self.queue.clear();
-        self.queue.push(start);
-        self.stamp[start as usize] = visit;
-        let mut head = 0;
-        while head < self.queue.len() {
-            let x = self.queue[head];
-            head += 1;
-            self.chain.push(x);
-            if self.chain.len() as u32 > chain_limit {
-                return false;
-            }
-            for &y in g.neighbours(x) {
-                let cy = self.colour[y as usize];
-                if cy != a && cy != b {
-                    continue;
-                }
-                let s = self.stamp[y as usize];
-                if s == visit {
-                    continue;
-                }
-                if s == forbid || self.pinned[y as usize] || y == v {
-                    return false;
-                }
-                self.stamp[y as usize] = visit;
-                self.queue.push(y);
-            }
+        let walk = ChainWalk {
+            a,
+            b,
+            visit,
+            forbid,
+            avoid: v,
+            limit: chain_limit,
+        };
+        if !self.grow_chain(start, walk) {
+            return false;
         }
-        for &x in &self.chain {
-            let c = &mut self.colour[x as usize];
-            *c = if *c == a { b } else { a };
-        }
-        self.interchanges += 1;
+        self.swap_chain(a, b);
         true
     }
 
@@ -396,41 +376,77 @@ impl KempeState<'_> {
             if self.pinned[start as usize] {
                 return false;
             }
-            self.stamp[start as usize] = visit;
-            self.queue.clear();
-            self.queue.push(start);
-            let mut head = 0;
-            while head < self.queue.len() {
-                let x = self.queue[head];
-                head += 1;
-                self.chain.push(x);
-                if self.chain.len() as u32 > chain_limit {
-                    return false;
-                }
-                for &y in g.neighbours(x) {
-                    let cy = self.colour[y as usize];
-                    if cy != a && cy != b {
-                        continue;
-                    }
-                    let s = self.stamp[y as usize];
-                    if s == visit {
-                        continue;
-                    }
-                    if s == forbid || self.pinned[y as usize] {
-                        return false;
-                    }
-                    self.stamp[y as usize] = visit;
-                    self.queue.push(y);
-                }
+            let walk = ChainWalk {
+                a,
+                b,
+                visit,
+                forbid,
+                avoid: NONE,
+                limit: chain_limit,
+            };
+            if !self.grow_chain(start, walk) {
+                return false;
             }
         }
+        self.swap_chain(a, b);
+        true
+    }
+
+    /// Adds the (a, b)-chain through `start` to `self.chain` by breadth-first search, stamping
+    /// what it visits. False if the chain reaches a vertex stamped `forbid`, a pinned vertex or
+    /// `avoid`, or grows beyond `limit`; `self.chain` is then partial and must not be swapped.
+    fn grow_chain(&mut self, start: Vertex, walk: ChainWalk) -> bool {
+        let g = self.g;
+        self.stamp[start as usize] = walk.visit;
+        self.queue.clear();
+        self.queue.push(start);
+        let mut head = 0;
+        while head < self.queue.len() {
+            let x = self.queue[head];
+            head += 1;
+            self.chain.push(x);
+            if self.chain.len() as u32 > walk.limit {
+                return false;
+            }
+            for &y in g.neighbours(x) {
+                let cy = self.colour[y as usize];
+                if cy != walk.a && cy != walk.b {
+                    continue;
+                }
+                let s = self.stamp[y as usize];
+                if s == walk.visit {
+                    continue;
+                }
+                if s == walk.forbid || self.pinned[y as usize] || y == walk.avoid {
+                    return false;
+                }
+                self.stamp[y as usize] = walk.visit;
+                self.queue.push(y);
+            }
+        }
+        true
+    }
+
+    /// Exchanges colours a and b on every vertex of `self.chain` (a Kempe interchange).
+    fn swap_chain(&mut self, a: u32, b: u32) {
         for &x in &self.chain {
             let c = &mut self.colour[x as usize];
             *c = if *c == a { b } else { a };
         }
         self.interchanges += 1;
-        true
     }
+}
+
+/// The parameters of one chain search in [`KempeState::grow_chain`].
+#[derive(Clone, Copy)]
+struct ChainWalk {
+    a: u32,
+    b: u32,
+    visit: u32,
+    forbid: u32,
+    /// A vertex the chain must not reach (`NONE`: none).
+    avoid: Vertex,
+    limit: u32,
 }
 
 #[cfg(test)]

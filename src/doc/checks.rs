@@ -95,31 +95,11 @@ pub fn check_colouring(doc: &Document) -> ColouringCheck {
 mod tests {
     use super::*;
     use crate::doc::edit::{Edit, RegionChange};
-    use crate::doc::model::{Border, Region};
 
     #[test]
     fn finds_clash_uncoloured_and_broken_pin() {
-        let mut doc = Document::new("t");
-        for name in ["A", "B", "C"] {
-            let (_, e) = doc.add_region_edit(Region::new(name, [0.0, 0.0]));
-            doc.apply(e).unwrap();
-        }
-        let pair = RegionPair::new(RegionId(1), RegionId(2)).unwrap();
-        doc.apply(Edit::PutBorder {
-            pair,
-            border: Some(Border::shared(2.0)),
-        })
-        .unwrap();
-        doc.apply(Edit::PutColour {
-            id: RegionId(1),
-            slot: Some(0),
-        })
-        .unwrap();
-        doc.apply(Edit::PutColour {
-            id: RegionId(2),
-            slot: Some(0),
-        })
-        .unwrap();
+        let (mut doc, pair) =
+            crate::doc::fixtures::clashing_pair_and_one_uncoloured(["A", "B", "C"]);
         doc.apply(Edit::UpdateRegion {
             id: RegionId(2),
             change: RegionChange::Pin(Some(1)),

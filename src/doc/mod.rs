@@ -7,6 +7,8 @@ pub mod checks;
 pub mod constraint;
 pub mod edit;
 pub mod file;
+#[cfg(test)]
+pub(crate) mod fixtures;
 pub mod graph_formats;
 pub mod history;
 pub mod model;

@@ -948,31 +948,11 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::doc::{Border, Region, RegionPair};
 
     #[test]
     fn verdict_lists_clashes_with_their_regions_and_uncoloured_land() {
-        let mut doc = Document::new("t");
-        for n in ["Ash", "Birch", "Cedar"] {
-            let (_, e) = doc.add_region_edit(Region::new(n, [0.0, 0.0]));
-            doc.apply(e).unwrap();
-        }
-        let pair = RegionPair::new(RegionId(1), RegionId(2)).unwrap();
-        doc.apply(Edit::PutBorder {
-            pair,
-            border: Some(Border::shared(1.0)),
-        })
-        .unwrap();
-        doc.apply(Edit::PutColour {
-            id: RegionId(1),
-            slot: Some(0),
-        })
-        .unwrap();
-        doc.apply(Edit::PutColour {
-            id: RegionId(2),
-            slot: Some(0),
-        })
-        .unwrap();
+        let (mut doc, _) =
+            crate::doc::fixtures::clashing_pair_and_one_uncoloured(["Ash", "Birch", "Cedar"]);
         let lines = verdict_lines(&doc, &Checks::of(&doc));
         assert!(lines.contains(&VerdictLine::Problem {
             text: "Ash and Birch both have colour 1".into(),

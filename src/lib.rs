@@ -5,8 +5,10 @@
 //! jobs) and [`formats`] (every file kind by extension) <- the editor (`ui`) and [`cli`].
 
 pub mod cli;
+pub mod colour;
 pub mod doc;
 pub mod engine;
+pub mod export;
 pub mod formats;
 pub mod geo;
 #[cfg(feature = "gui")]

@@ -2,6 +2,7 @@
 
 mod blocks;
 mod cli;
+mod colour;
 mod colouring;
 mod edits;
 mod geo;

@@ -5,6 +5,7 @@ mod cli;
 mod colour;
 mod colouring;
 mod edits;
+mod export;
 mod geo;
 mod graph_formats;
 #[cfg(feature = "gui")]

@@ -13,15 +13,16 @@
 //! latitude, as the import read WGS 84 latitude onto the sphere, so coordinates come back as they were
 //! read, to rounding (7 decimals, about 1 cm).
 //!
-//! Maps without a position on the globe (sketches, planar data, projects saved before Tinct
-//! recorded the projection) are refused with an explanation: RFC 7946 allows only longitude and
+//! Maps without a position on the globe (sketches, planar data such as the invented sample maps,
+//! projects saved before Tinct recorded the projection) are refused with an explanation: RFC 7946 allows only longitude and
 //! latitude, and a GIS given free units as degrees would place the map at the wrong spot on Earth.
-//! Rings follow the RFC's right-hand rule (exteriors counter-clockwise) and are closed.
+//! Rings follow the RFC's right-hand rule (exteriors counter-clockwise) and are closed; a polygon
+//! that crosses the 180-degree meridian is cut in two there (RFC 7946, section 3.1.9).
 
 use serde_json::{Map, Value, json};
 
 use crate::doc::model::ring_area;
-use crate::doc::{AttrValue, Document, Point, Role, Units};
+use crate::doc::{AttrValue, Document, Point, Polygon, Role, Units};
 use crate::geo::LambertAzimuthalEqualArea;
 
 use super::ExportError;
@@ -35,22 +36,113 @@ fn position(projection: &LambertAzimuthalEqualArea, p: Point) -> Value {
     json!([round7(lon), round7(lat)])
 }
 
-fn ring(projection: &LambertAzimuthalEqualArea, points: &[Point], counter_clockwise: bool) -> Value {
-    let lon_lat: Vec<Point> = points.iter().map(|p| projection.unproject(*p)).collect();
-    let mut order: Vec<usize> = (0..points.len()).collect();
-    // Orientation in projected metres equals orientation in degrees for the small areas regions
-    // cover (the projection is conformal at no point but keeps orientation everywhere).
-    if (ring_area(points) > 0.0) != counter_clockwise {
-        order.reverse();
+/// A ring in longitude/latitude, oriented as RFC 7946 asks (exterior counter-clockwise when
+/// `counter_clockwise`), not yet closed.
+fn oriented(mut points: Vec<Point>, counter_clockwise: bool) -> Vec<Point> {
+    if (ring_area(&points) > 0.0) != counter_clockwise {
+        points.reverse();
     }
-    let mut out: Vec<Value> = order
+    points
+}
+
+/// Unwraps longitudes so that consecutive points never jump by more than 180 degrees, starting
+/// from `reference` (the first point's longitude when `None`).
+fn unwrap(points: &mut [Point], reference: Option<f64>) {
+    let mut previous = reference.or(points.first().map(|p| p[0]));
+    for p in points.iter_mut() {
+        if let Some(prev) = previous {
+            while p[0] - prev > 180.0 {
+                p[0] -= 360.0;
+            }
+            while p[0] - prev < -180.0 {
+                p[0] += 360.0;
+            }
+        }
+        previous = Some(p[0]);
+    }
+}
+
+/// Sutherland-Hodgman clipping of a ring to one side of the meridian `lon = 180`.
+fn clip_at_180(ring: &[Point], west: bool) -> Vec<Point> {
+    let inside = |p: &Point| if west { p[0] <= 180.0 } else { p[0] >= 180.0 };
+    let mut out = Vec::with_capacity(ring.len() + 2);
+    for i in 0..ring.len() {
+        let (a, b) = (ring[i], ring[(i + 1) % ring.len()]);
+        let (ia, ib) = (inside(&a), inside(&b));
+        if ia {
+            out.push(a);
+        }
+        if ia != ib {
+            let t = (180.0 - a[0]) / (b[0] - a[0]);
+            out.push([180.0, a[1] + t * (b[1] - a[1])]);
+        }
+    }
+    out.dedup();
+    out
+}
+
+/// One polygon in longitude/latitude, as one or two GeoJSON polygons: a polygon that crosses the
+/// 180-degree meridian is cut there, as RFC 7946 section 3.1.9 asks.
+fn polygons_lon_lat(projection: &LambertAzimuthalEqualArea, polygon: &Polygon) -> Vec<Value> {
+    let mut exterior: Vec<Point> = polygon.exterior.iter().map(|p| projection.unproject(*p)).collect();
+    unwrap(&mut exterior, None);
+    let reference = exterior.first().map(|p| p[0]);
+    let mut holes: Vec<Vec<Point>> = polygon
+        .holes
         .iter()
-        .map(|&i| json!([round7(lon_lat[i][0]), round7(lon_lat[i][1])]))
+        .map(|h| {
+            let mut h: Vec<Point> = h.iter().map(|p| projection.unproject(*p)).collect();
+            unwrap(&mut h, reference);
+            h
+        })
         .collect();
-    if let Some(first) = out.first().cloned() {
-        out.push(first);
+    let (lo, hi) = exterior
+        .iter()
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p[0]), hi.max(p[0])));
+    // Bring the polygon into -180..180 where it fits whole.
+    let shift = if lo < -180.0 {
+        360.0
+    } else if lo >= 180.0 {
+        -360.0
+    } else {
+        0.0
+    };
+    for p in exterior.iter_mut().chain(holes.iter_mut().flatten()) {
+        p[0] += shift;
     }
-    Value::Array(out)
+    let pieces: Vec<(Vec<Point>, Vec<Vec<Point>>, f64)> = if hi + shift > 180.0 {
+        [(true, 0.0), (false, -360.0)]
+            .iter()
+            .map(|&(west, offset)| {
+                let holes = holes.iter().map(|h| clip_at_180(h, west)).collect();
+                (clip_at_180(&exterior, west), holes, offset)
+            })
+            .collect()
+    } else {
+        vec![(exterior, holes, 0.0)]
+    };
+    let close = |ring: Vec<Point>, offset: f64| -> Value {
+        let mut out: Vec<Value> =
+            ring.iter().map(|p| json!([round7(p[0] + offset), round7(p[1])])).collect();
+        if let Some(first) = out.first().cloned() {
+            out.push(first);
+        }
+        Value::Array(out)
+    };
+    pieces
+        .into_iter()
+        .filter(|(ext, _, _)| ext.len() >= 3 && ring_area(ext).abs() > 0.0)
+        .map(|(ext, holes, offset)| {
+            let mut rings = vec![close(oriented(ext, true), offset)];
+            rings.extend(
+                holes
+                    .into_iter()
+                    .filter(|h| h.len() >= 3 && ring_area(h).abs() > 0.0)
+                    .map(|h| close(oriented(h, false), offset)),
+            );
+            Value::Array(rings)
+        })
+        .collect()
 }
 
 fn attr(value: &AttrValue) -> Value {
@@ -68,8 +160,10 @@ pub fn to_geojson(doc: &Document) -> Result<String, ExportError> {
         (Units::Metres, Some(origin)) => origin,
         (Units::Metres, None) => {
             return Err(ExportError::NotGeographic(
-                "this project does not record where its map lies on the globe (it was saved by an \
-                 older Tinct); import the boundary file again, then export GeoJSON"
+                "this map is in metres on a plane with no recorded position on the globe (planar \
+                 data, an invented map, or a project saved before Tinct recorded its projection); \
+                 GeoJSON (RFC 7946) must be longitude/latitude. If the map came from \
+                 longitude/latitude data, import that file again and export from the new project"
                     .into(),
             ));
         }
@@ -112,11 +206,7 @@ pub fn to_geojson(doc: &Document) -> Result<String, ExportError> {
                 let polygons: Vec<Value> = g
                     .polygons
                     .iter()
-                    .map(|p| {
-                        let mut rings = vec![ring(&projection, &p.exterior, true)];
-                        rings.extend(p.holes.iter().map(|h| ring(&projection, h, false)));
-                        Value::Array(rings)
-                    })
+                    .flat_map(|p| polygons_lon_lat(&projection, p))
                     .collect();
                 if polygons.len() == 1 {
                     json!({ "type": "Polygon", "coordinates": polygons[0] })

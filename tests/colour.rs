@@ -147,10 +147,10 @@ fn slot_assignment_keeps_fixed_classes_and_prefers_the_worst_pair_first() {
 #[test]
 fn default_palettes_pass_the_checks_they_were_designed_for() {
     // Thresholds as documented in src/colour/distinct.rs (ΔE00 10, greyscale ΔL* 15).
-    // Three colours clear every view. Four clear every colour view (normal and the three
-    // simulations); in greyscale the lightness range we allow (L* 48 to 92) holds at most three
-    // steps of 14.67, so 15 is out of reach and we ask for 14. From five colours on not every pair
-    // can clear every view; the report and the slot assignment deal with that on the map.
+    // Three and four colours clear every view (the lightness range we allow, L* 46 to 93, holds
+    // three steps of 15.67). From five colours on, greyscale cannot separate every pair (four
+    // steps of 15 need 60 L*), so not every pair clears every view; the report and the slot
+    // assignment deal with that on the map.
     let t = Thresholds::default();
     for palette in colour::DEFAULT_PALETTES {
         let n = palette.slots.len();
@@ -160,21 +160,13 @@ fn default_palettes_pass_the_checks_they_were_designed_for() {
         for i in 0..n {
             for j in i + 1..n {
                 let d = colour::pair_difference(palette.slots[i].1, palette.slots[j].1);
-                match n {
-                    3 => assert!(d.worst_ratio(&t) >= 1.0, "{} {i} {j}: {d:?}", palette.name),
-                    4 => {
-                        assert!(
-                            d.delta_e00.iter().all(|&e| e >= t.delta_e00) && d.delta_l >= 14.0,
-                            "{} {i} {j}: {d:?}",
-                            palette.name
-                        );
-                    }
-                    _ => {}
+                if n <= 4 {
+                    assert!(d.worst_ratio(&t) >= 1.0, "{} {i} {j}: {d:?}", palette.name);
                 }
             }
             // Light enough for black labels, and listed from light to dark (our own rules).
             let l = colour::lightness(palette.slots[i].1);
-            assert!((47.9..=92.1).contains(&l), "{} {i}: L* {l}", palette.name);
+            assert!((45.9..=93.1).contains(&l), "{} {i}: L* {l}", palette.name);
             if i > 0 {
                 assert!(l < colour::lightness(palette.slots[i - 1].1));
             }

@@ -1,5 +1,5 @@
-//! `tinct export` (SVG, PNG, GeoJSON, CSV) and `tinct palette` (the distinctness report, and
-//! the slot assignment written to a project).
+//! `tinct export` (SVG, PNG, GeoJSON, CSV) and `tinct palette` (the distinctness report; a
+//! default palette and the slot assignment, written to a project).
 //!
 //! `tinct palette --json` prints an object that only ever grows:
 //! - `palette`: name; `slots`: `[{slot, name, fill, lightness, simulated: {protanopia,
@@ -22,7 +22,7 @@ use serde_json::json;
 use super::{error, exit};
 use crate::colour::{self, Thresholds, Vision};
 use crate::doc::palette_check::{PairsChecked, palette_report, simulated_palettes, slot_assignment_edit};
-use crate::doc::Document;
+use crate::doc::{Document, palette_edit};
 use crate::export::{self, PngSize, SvgOptions};
 
 /// What `tinct export` writes; at least one output is required.
@@ -123,10 +123,16 @@ pub struct PaletteArgs {
     /// Print machine-readable JSON (shape in src/cli/export.rs and the README).
     #[arg(long)]
     pub json: bool,
+    /// Switch to Tinct's default palette for this many colours (3 to 8) before checking.
+    #[arg(long = "default-palette", value_name = "COLOURS")]
+    pub default_palette: Option<usize>,
     /// Give the colour classes that share the most borders the most distinct slots (pinned
-    /// colours keep theirs) and write the result to this project file.
-    #[arg(long = "assign-out", value_name = "OUT")]
-    pub assign_out: Option<PathBuf>,
+    /// colours keep theirs) before checking.
+    #[arg(long)]
+    pub assign: bool,
+    /// Write the project with these changes (needed with --default-palette or --assign).
+    #[arg(long, value_name = "OUT")]
+    pub out: Option<PathBuf>,
 }
 
 /// The report as JSON (see the module documentation).
@@ -266,7 +272,32 @@ pub fn run_palette(file: &Path, args: &PaletteArgs) -> ExitCode {
     };
     let mut doc = loaded.doc;
     let thresholds = Thresholds::default();
-    if let Some(out) = &args.assign_out {
+    let changes = args.default_palette.is_some() || args.assign;
+    if changes != args.out.is_some() {
+        return error(
+            exit::BAD_INPUT,
+            &anyhow!("--default-palette and --assign change the project: name the result with --out"),
+        );
+    }
+    if let Some(colours) = args.default_palette {
+        let Some(index) = colour::DEFAULT_PALETTES
+            .iter()
+            .position(|p| p.slots.len() == colours)
+        else {
+            return error(
+                exit::BAD_INPUT,
+                &anyhow!("there are default palettes for 3 to 8 colours, not {colours}"),
+            );
+        };
+        let edit = match palette_edit::use_default_palette(&doc, index) {
+            Ok(e) => e,
+            Err(e) => return error(exit::BAD_INPUT, &e.into()),
+        };
+        if let Err(e) = doc.apply(edit) {
+            return error(exit::BAD_INPUT, &e.into());
+        }
+    }
+    if args.assign {
         match slot_assignment_edit(&doc, &thresholds) {
             Ok(Some(edit)) => {
                 if let Err(e) = doc.apply(edit) {
@@ -277,9 +308,11 @@ pub fn run_palette(file: &Path, args: &PaletteArgs) -> ExitCode {
             Ok(None) => eprintln!("tinct: the colours already sit on the best slots"),
             Err(e) => return error(exit::BAD_INPUT, &anyhow!("{}: {e}", file.display())),
         }
-        if let Err(e) = crate::formats::save(&doc, out) {
-            return error(exit::CANNOT_WRITE, &e);
-        }
+    }
+    if let Some(out) = &args.out
+        && let Err(e) = crate::formats::save(&doc, out)
+    {
+        return error(exit::CANNOT_WRITE, &e);
     }
     let text = if args.json {
         let mut t = report_json(&doc, &thresholds).to_string();

@@ -3,8 +3,8 @@
 //! Kept in the code so the palettes can be checked and re-derived: a unit test runs the search
 //! for every size and compares its result with the committed values. The method is a plain
 //! maximin design: candidates are sRGB colours on a grid of 16 levels per channel, kept when they
-//! print well (L\* 48 to 92, so black labels stay legible on the darkest fill; chroma C\*ab 12 to 50,
-//! moderate, so large areas are not loud, and at most 50 - 0.6 (L\* - 48) so pale fills stay
+//! print well (L\* 46 to 93, so black labels stay legible on the darkest fill; chroma C\*ab 12 to 50,
+//! moderate, so large areas are not loud, and at most 50 - 0.6 (L\* - 46) so pale fills stay
 //! pastel); a greedy start adds the candidate farthest from those
 //! chosen, and a local search then replaces one colour at a time while that improves, in order:
 //! 1. the smallest worst-case ratio over all pairs ([`super::PairDifference::worst_ratio`]: ΔE00
@@ -21,7 +21,7 @@ use super::distinct::Thresholds;
 use super::space::{Lab, Srgb8, linear_to_lab, srgb8_to_linear};
 
 /// Lightness and chroma limits of the candidates.
-const L_RANGE: (f64, f64) = (48.0, 92.0);
+const L_RANGE: (f64, f64) = (46.0, 93.0);
 const C_RANGE: (f64, f64) = (12.0, 50.0);
 
 struct Candidate {

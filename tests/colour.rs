@@ -37,14 +37,36 @@ fn ciede2000_matches_all_34_pairs_of_sharma_wu_dalal_2005() {
         let [l1, a1, b1] = triple(&p["lab1"]);
         let [l2, a2, b2] = triple(&p["lab2"]);
         let expected = p["delta_e00"].as_f64().expect("number");
-        let ours = ciede2000(Lab { l: l1, a: a1, b: b1 }, Lab { l: l2, a: a2, b: b2 });
+        let ours = ciede2000(
+            Lab {
+                l: l1,
+                a: a1,
+                b: b1,
+            },
+            Lab {
+                l: l2,
+                a: a2,
+                b: b2,
+            },
+        );
         assert!(
             (ours - expected).abs() < 5e-5,
             "pair {}: ours {ours:.5}, published {expected:.4}",
             p["pair"]
         );
         // The formula is symmetric (Sharma et al. 2005, section 3): pairs 7 and 8 are swapped copies.
-        let back = ciede2000(Lab { l: l2, a: a2, b: b2 }, Lab { l: l1, a: a1, b: b1 });
+        let back = ciede2000(
+            Lab {
+                l: l2,
+                a: a2,
+                b: b2,
+            },
+            Lab {
+                l: l1,
+                a: a1,
+                b: b1,
+            },
+        );
         assert!((back - ours).abs() < 1e-9);
     }
 }
@@ -60,8 +82,15 @@ fn srgb_to_cielab_matches_colour_science_and_colorspacious() {
         let ours = srgb8_to_lab(rgb);
         for key in ["lab_colour_science", "lab_colorspacious"] {
             let [l, a, b] = triple(&c[key]);
-            let err = (ours.l - l).abs().max((ours.a - a).abs()).max((ours.b - b).abs());
-            assert!(err < 0.02, "{} ({key}): ours {ours:?}, reference {l} {a} {b}", c["hex"]);
+            let err = (ours.l - l)
+                .abs()
+                .max((ours.a - a).abs())
+                .max((ours.b - b).abs());
+            assert!(
+                err < 0.02,
+                "{} ({key}): ours {ours:?}, reference {l} {a} {b}",
+                c["hex"]
+            );
         }
         // Greyscale lightness is the L* of the same conversion.
         assert!((colour::lightness(rgb) - ours.l).abs() < 1e-9);
@@ -112,7 +141,14 @@ fn slot_assignment_gives_the_most_bordering_classes_the_most_distinct_slots() {
     assert_eq!(map, vec![0, 2, 1]);
     // Brute force over all six maps confirms no map scores higher.
     let best = assignment_score(&borders, &d, &map);
-    for p in [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]] {
+    for p in [
+        [0, 1, 2],
+        [0, 2, 1],
+        [1, 0, 2],
+        [1, 2, 0],
+        [2, 0, 1],
+        [2, 1, 0],
+    ] {
         assert!(assignment_score(&borders, &d, &p) <= best, "{p:?}");
     }
 }

@@ -9,7 +9,7 @@ use std::collections::BTreeMap;
 use serde_json::Value;
 use tinct::colour::Thresholds;
 use tinct::doc::palette_check::{palette_report, slot_assignment_edit, slot_border_counts};
-use tinct::doc::{Document, Edit, Region, RegionChange, RegionId, RegionPair, Border, Rgb};
+use tinct::doc::{Border, Document, Edit, Region, RegionChange, RegionId, RegionPair, Rgb};
 use tinct::export::{self, ExportError, MapFrame, PngSize, SvgOptions};
 use tinct::geo::{self, ImportOptions};
 
@@ -29,7 +29,8 @@ fn greedy_colour(doc: &mut Document) {
         let slot = (0..).find(|s| !taken.contains(s)).unwrap_or(0);
         colouring.insert(id, slot);
     }
-    doc.apply(Edit::SetColouring(colouring)).expect("colouring applies");
+    doc.apply(Edit::SetColouring(colouring))
+        .expect("colouring applies");
 }
 
 fn sample(name: &str) -> Document {
@@ -63,7 +64,11 @@ fn svg_is_well_formed_xml_with_every_region_and_escaped_names() {
         .descendants()
         .filter(|n| n.has_tag_name("path"))
         .collect();
-    let with_geometry = doc.regions.values().filter(|r| r.geometry.is_some()).count();
+    let with_geometry = doc
+        .regions
+        .values()
+        .filter(|r| r.geometry.is_some())
+        .count();
     assert_eq!(paths.len(), with_geometry);
     for p in &paths {
         assert_eq!(p.attribute("fill-rule"), Some("evenodd"));
@@ -99,14 +104,14 @@ fn png_shows_each_region_in_its_fill_at_its_label_point() {
     let frame = MapFrame::new(&doc, &options).unwrap();
     let px_per_mm = f64::from(width_px) / options.width_mm;
     let mut checked = 0;
-    for (id, region) in &doc.regions {
+    for (id, region) in doc.land_regions() {
         let Some(point) = region.geometry.as_ref().and_then(|g| g.label_point()) else {
             continue;
         };
         let [x_mm, y_mm] = frame.to_page_mm(point);
         let (x, y) = ((x_mm * px_per_mm) as u32, (y_mm * px_per_mm) as u32);
         let pixel = pixmap.pixel(x, y).expect("inside the picture");
-        let want = Rgb::from_hex(&export::svg::fill_of(&doc, *id)).unwrap().0;
+        let want = Rgb::from_hex(&export::svg::fill_of(&doc, id)).unwrap().0;
         let got = [pixel.red(), pixel.green(), pixel.blue()];
         for c in 0..3 {
             assert!(
@@ -117,10 +122,13 @@ fn png_shows_each_region_in_its_fill_at_its_label_point() {
         }
         checked += 1;
     }
-    assert_eq!(checked, doc.regions.len());
+    assert_eq!(checked, doc.land_regions().count());
     // By DPI: 180 mm at 254 dpi is 1800 pixels (25.4 mm to the inch).
     let png = export::to_png(&doc, &options, PngSize::Dpi(254.0)).unwrap();
-    assert_eq!(resvg::tiny_skia::Pixmap::decode_png(&png).unwrap().width(), 1800);
+    assert_eq!(
+        resvg::tiny_skia::Pixmap::decode_png(&png).unwrap().width(),
+        1800
+    );
 }
 
 #[test]
@@ -141,7 +149,10 @@ fn sketch_markers_are_circles_and_empty_maps_are_refused() {
     greedy_colour(&mut doc);
     let svg = export::to_svg(&doc, &SvgOptions::default()).unwrap();
     let tree = roxmltree::Document::parse(&svg).unwrap();
-    let circles: Vec<_> = tree.descendants().filter(|n| n.has_tag_name("circle")).collect();
+    let circles: Vec<_> = tree
+        .descendants()
+        .filter(|n| n.has_tag_name("circle"))
+        .collect();
     assert_eq!(circles.len(), 2);
     // North (y = 10) is drawn above South: the y axis is flipped for SVG.
     let cy = |i: usize| circles[i].attribute("cy").unwrap().parse::<f64>().unwrap();
@@ -151,7 +162,10 @@ fn sketch_markers_are_circles_and_empty_maps_are_refused() {
         Err(ExportError::EmptyMap)
     );
     // A sketch has no place on the globe: GeoJSON says so rather than writing wrong degrees.
-    assert!(matches!(export::to_geojson(&doc), Err(ExportError::NotGeographic(_))));
+    assert!(matches!(
+        export::to_geojson(&doc),
+        Err(ExportError::NotGeographic(_))
+    ));
 }
 
 fn features(text: &str) -> Vec<Value> {
@@ -182,7 +196,10 @@ fn geojson_reimports_with_the_same_regions_colours_borders_and_coordinates() {
     let source_text = std::fs::read_to_string(&source_path).unwrap();
     let imported = geo::import_json(source_text.as_bytes(), &ImportOptions::default()).unwrap();
     let mut doc = imported.into_document("States");
-    assert!(doc.settings.projection_origin.is_some(), "import records the projection centre");
+    assert!(
+        doc.settings.projection_origin.is_some(),
+        "import records the projection centre"
+    );
     greedy_colour(&mut doc);
 
     let text = export::to_geojson(&doc).expect("geographic map exports");
@@ -216,17 +233,29 @@ fn geojson_reimports_with_the_same_regions_colours_borders_and_coordinates() {
         let theirs = positions(&original["geometry"]);
         for [lon, lat] in positions(&f["geometry"]) {
             let near = theirs.iter().any(|[x, y]| {
-                let dx = (lon - x).abs().min((lon - x).abs() - 360.0).abs().min((lon - x).abs());
+                let dx = (lon - x)
+                    .abs()
+                    .min((lon - x).abs() - 360.0)
+                    .abs()
+                    .min((lon - x).abs());
                 dx < 1e-6 && (lat - y).abs() < 1e-6
             });
-            assert!(near || (lon.abs() - 180.0).abs() < 1e-9, "{name}: ({lon}, {lat})");
+            assert!(
+                near || (lon.abs() - 180.0).abs() < 1e-9,
+                "{name}: ({lon}, {lat})"
+            );
         }
     }
 
     // Re-import: the same regions in the same order, the same borders, the colours as properties.
     let again = geo::import_json(text.as_bytes(), &ImportOptions::default()).unwrap();
     let doc2 = again.into_document("States again");
-    let names = |d: &Document| d.regions.values().map(|r| r.name.clone()).collect::<Vec<_>>();
+    let names = |d: &Document| {
+        d.regions
+            .values()
+            .map(|r| r.name.clone())
+            .collect::<Vec<_>>()
+    };
     assert_eq!(names(&doc2), names(&doc));
     let pairs = |d: &Document| d.borders.keys().copied().collect::<Vec<_>>();
     assert_eq!(pairs(&doc2), pairs(&doc));
@@ -274,7 +303,10 @@ fn parse_csv(text: &str) -> Vec<Vec<String>> {
             }
         }
     }
-    assert!(field.is_empty() && row.is_empty(), "every record ends with CRLF");
+    assert!(
+        field.is_empty() && row.is_empty(),
+        "every record ends with CRLF"
+    );
     rows
 }
 
@@ -290,7 +322,10 @@ fn csv_round_trips_under_rfc_4180() {
     })
     .unwrap();
     let rows = parse_csv(&export::to_csv(&doc));
-    assert_eq!(rows[0], ["id", "name", "colour", "fill", "group", "pinned", "role"]);
+    assert_eq!(
+        rows[0],
+        ["id", "name", "colour", "fill", "group", "pinned", "role"]
+    );
     assert_eq!(rows.len(), doc.regions.len() + 1);
     for (row, (id, region)) in rows[1..].iter().zip(&doc.regions) {
         assert_eq!(row[0], id.to_string());
@@ -341,8 +376,10 @@ fn palette_report_and_slot_assignment_on_a_document() {
     let t = Thresholds::default();
     let report = palette_report(&doc, &t);
     assert!(
-        report.warnings.iter().any(|w| w.slots == (0, 1)
-            && w.message.contains("readers with normal colour vision")),
+        report
+            .warnings
+            .iter()
+            .any(|w| w.slots == (0, 1) && w.message.contains("readers with normal colour vision")),
         "{:?}",
         report.warnings
     );
@@ -350,14 +387,25 @@ fn palette_report_and_slot_assignment_on_a_document() {
     // distinct pair of slots. Slot 2 (very light) is farther from the darker slot 0 than from slot
     // 1 (a larger lightness step), so that pair is {0, 2}; of the two ways to use it, keeping class
     // 0 where it is (the third criterion) wins, so B's class moves to slot 2.
-    let edit = slot_assignment_edit(&doc, &t).unwrap().expect("a better assignment");
+    let edit = slot_assignment_edit(&doc, &t)
+        .unwrap()
+        .expect("a better assignment");
     let before = doc.clone();
     let undo = doc.apply(edit).unwrap();
     assert_eq!(doc.colouring[&RegionId(1)], 0);
     assert_eq!(doc.colouring[&RegionId(2)], 2);
     assert_eq!(doc.colouring[&RegionId(3)], 0);
-    assert!(palette_report(&doc, &t).warnings.iter().all(|w| w.slots != (0, 1)));
-    assert_eq!(slot_assignment_edit(&doc, &t).unwrap(), None, "already the best");
+    assert!(
+        palette_report(&doc, &t)
+            .warnings
+            .iter()
+            .all(|w| w.slots != (0, 1))
+    );
+    assert_eq!(
+        slot_assignment_edit(&doc, &t).unwrap(),
+        None,
+        "already the best"
+    );
     doc.apply(undo).unwrap();
     assert_eq!(doc, before);
     // Pinned: with B pinned to slot 1, its class stays; class 0 (A, C) moves to slot 2 instead.
@@ -366,7 +414,8 @@ fn palette_report_and_slot_assignment_on_a_document() {
         change: RegionChange::Pin(Some(1)),
     })
     .unwrap();
-    doc.apply(slot_assignment_edit(&doc, &t).unwrap().unwrap()).unwrap();
+    doc.apply(slot_assignment_edit(&doc, &t).unwrap().unwrap())
+        .unwrap();
     assert_eq!(doc.colouring[&RegionId(2)], 1);
     assert_eq!(doc.colouring[&RegionId(1)], 2);
     assert_eq!(doc.colouring[&RegionId(3)], 2);
@@ -381,13 +430,26 @@ fn cli_exports_and_reports_with_the_usual_exit_codes() {
     let o = tinct_path(
         &["export"],
         &project,
-        &["--svg", svg.to_str().unwrap(), "--csv", csv.to_str().unwrap(), "--labels"],
+        &[
+            "--svg",
+            svg.to_str().unwrap(),
+            "--csv",
+            csv.to_str().unwrap(),
+            "--labels",
+        ],
     );
     assert!(o.status.success(), "{}", stderr(&o));
     assert!(roxmltree::Document::parse(&std::fs::read_to_string(&svg).unwrap()).is_ok());
-    assert!(std::fs::read_to_string(&csv).unwrap().starts_with("id,name,"));
+    assert!(
+        std::fs::read_to_string(&csv)
+            .unwrap()
+            .starts_with("id,name,")
+    );
     // No output named: bad input (2).
-    assert_eq!(tinct_path(&["export"], &project, &[]).status.code(), Some(2));
+    assert_eq!(
+        tinct_path(&["export"], &project, &[]).status.code(),
+        Some(2)
+    );
     // A planar sample map cannot become GeoJSON: bad input (2), with the reason.
     let o = tinct_path(
         &["export"],
@@ -400,7 +462,10 @@ fn cli_exports_and_reports_with_the_usual_exit_codes() {
     let o = tinct_path(
         &["export"],
         &project,
-        &["--csv", dir.path().join("no/such/dir/m.csv").to_str().unwrap()],
+        &[
+            "--csv",
+            dir.path().join("no/such/dir/m.csv").to_str().unwrap(),
+        ],
     );
     assert_eq!(o.status.code(), Some(3));
     // The palette report as JSON.

@@ -142,7 +142,16 @@ fn document_knows_no_gui() {
 fn colour_is_a_leaf() {
     // Like the engine: colour science only, no I/O, no GUI, nothing else from the crate.
     let words = [
-        "egui", "eframe", "rfd", "serde", "serde_json", "ron", "println", "eprintln", "dbg", "spawn",
+        "egui",
+        "eframe",
+        "rfd",
+        "serde",
+        "serde_json",
+        "ron",
+        "println",
+        "eprintln",
+        "dbg",
+        "spawn",
     ];
     let mut found = offences("colour", &words, &[]);
     found.extend(offences_text(
@@ -167,10 +176,21 @@ fn colour_is_a_leaf() {
 fn export_looks_only_down() {
     // Export sits beside `formats`: it uses doc, colour and geo, never the GUI, workers or CLI,
     // and writes no files itself (callers do).
-    let mut found = offences("export", &["egui", "eframe", "rfd", "println", "eprintln"], &[]);
+    let mut found = offences(
+        "export",
+        &["egui", "eframe", "rfd", "println", "eprintln"],
+        &[],
+    );
     found.extend(offences_text(
         "export",
-        &["crate::ui", "crate::cli", "crate::worker", "crate::formats", "std::fs", "std::thread"],
+        &[
+            "crate::ui",
+            "crate::cli",
+            "crate::worker",
+            "crate::formats",
+            "std::fs",
+            "std::thread",
+        ],
     ));
     assert!(
         found.is_empty(),
@@ -182,7 +202,9 @@ fn export_looks_only_down() {
 #[test]
 fn only_the_project_file_module_knows_ron() {
     let mut found = Vec::new();
-    for folder in ["engine", "colour", "doc", "geo", "export", "worker", "ui", "cli"] {
+    for folder in [
+        "engine", "colour", "doc", "geo", "export", "worker", "ui", "cli",
+    ] {
         found.extend(offences(folder, &["ron"], &["src/doc/file.rs"]));
     }
     assert!(

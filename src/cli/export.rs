@@ -21,7 +21,9 @@ use serde_json::json;
 
 use super::{error, exit};
 use crate::colour::{self, Thresholds, Vision};
-use crate::doc::palette_check::{PairsChecked, palette_report, simulated_palettes, slot_assignment_edit};
+use crate::doc::palette_check::{
+    PairsChecked, palette_report, simulated_palettes, slot_assignment_edit,
+};
 use crate::doc::{Document, palette_edit};
 use crate::export::{self, PngSize, SvgOptions};
 
@@ -170,7 +172,12 @@ pub fn report_json(doc: &Document, thresholds: &Thresholds) -> serde_json::Value
             );
             let by_vision: BTreeMap<&str, f64> = Vision::ALL
                 .iter()
-                .map(|v| (v.as_str(), (d.delta_e00[*v as usize] * 100.0).round() / 100.0))
+                .map(|v| {
+                    (
+                        v.as_str(),
+                        (d.delta_e00[*v as usize] * 100.0).round() / 100.0,
+                    )
+                })
                 .collect();
             json!({
                 "slots": [p.slots.0, p.slots.1],
@@ -276,7 +283,9 @@ pub fn run_palette(file: &Path, args: &PaletteArgs) -> ExitCode {
     if changes != args.out.is_some() {
         return error(
             exit::BAD_INPUT,
-            &anyhow!("--default-palette and --assign change the project: name the result with --out"),
+            &anyhow!(
+                "--default-palette and --assign change the project: name the result with --out"
+            ),
         );
     }
     if let Some(colours) = args.default_palette {
@@ -323,7 +332,10 @@ pub fn run_palette(file: &Path, args: &PaletteArgs) -> ExitCode {
     };
     use std::io::Write as _;
     let mut stdout = std::io::stdout().lock();
-    if let Err(e) = stdout.write_all(text.as_bytes()).and_then(|_| stdout.flush()) {
+    if let Err(e) = stdout
+        .write_all(text.as_bytes())
+        .and_then(|_| stdout.flush())
+    {
         return error(exit::CANNOT_WRITE, &e.into());
     }
     ExitCode::from(exit::OK)

@@ -180,12 +180,27 @@ mod tests {
     #[test]
     fn refuses_bad_shapes() {
         assert_eq!(
-            assign_slots(&[vec![0; 3], vec![0; 3], vec![0; 3]], &[vec![1.0; 2], vec![1.0; 2]], &[None; 3]),
-            Err(AssignError::TooFewSlots { classes: 3, slots: 2 })
+            assign_slots(
+                &[vec![0; 3], vec![0; 3], vec![0; 3]],
+                &[vec![1.0; 2], vec![1.0; 2]],
+                &[None; 3]
+            ),
+            Err(AssignError::TooFewSlots {
+                classes: 3,
+                slots: 2
+            })
         );
         assert_eq!(
-            assign_slots(&[vec![0; 2], vec![0; 2]], &[vec![1.0; 2], vec![1.0; 2]], &[Some(1), Some(1)]),
-            Err(AssignError::FixedTwice { first: 0, second: 1, slot: 1 })
+            assign_slots(
+                &[vec![0; 2], vec![0; 2]],
+                &[vec![1.0; 2], vec![1.0; 2]],
+                &[Some(1), Some(1)]
+            ),
+            Err(AssignError::FixedTwice {
+                first: 0,
+                second: 1,
+                slot: 1
+            })
         );
     }
 }

@@ -73,7 +73,9 @@ pub fn ciede2000(first: Lab, second: Lab) -> f64 {
     let s_h = 1.0 + 0.015 * cp_mean * t;
     let r_t = -(2.0 * d_theta).to_radians().sin() * r_c;
     let (tl, tc, th) = (dlp / s_l, dcp / s_c, d_hp / s_h);
-    (tl * tl + tc * tc + th * th + r_t * tc * th).max(0.0).sqrt()
+    (tl * tl + tc * tc + th * th + r_t * tc * th)
+        .max(0.0)
+        .sqrt()
 }
 
 #[cfg(test)]
@@ -82,8 +84,16 @@ mod tests {
 
     #[test]
     fn is_zero_for_equal_colours_and_symmetric() {
-        let a = Lab { l: 61.0, a: -5.0, b: 29.0 };
-        let b = Lab { l: 50.0, a: 2.5, b: 0.0 };
+        let a = Lab {
+            l: 61.0,
+            a: -5.0,
+            b: 29.0,
+        };
+        let b = Lab {
+            l: 50.0,
+            a: 2.5,
+            b: 0.0,
+        };
         assert_eq!(ciede2000(a, a), 0.0);
         assert!((ciede2000(a, b) - ciede2000(b, a)).abs() < 1e-12);
     }

@@ -142,7 +142,10 @@ pub fn design_palette(n: usize, thresholds: &Thresholds) -> Vec<Srgb8> {
             None => break,
         }
     }
-    let mut out: Vec<(f64, Srgb8)> = chosen.iter().map(|&c| (all[c].labs[0].l, all[c].rgb)).collect();
+    let mut out: Vec<(f64, Srgb8)> = chosen
+        .iter()
+        .map(|&c| (all[c].labs[0].l, all[c].rgb))
+        .collect();
     out.sort_by(|a, b| b.0.total_cmp(&a.0));
     out.into_iter().map(|(_, rgb)| rgb).collect()
 }

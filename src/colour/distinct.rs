@@ -222,14 +222,26 @@ mod tests {
     #[test]
     fn red_and_green_of_equal_lightness_look_alike_to_dichromats_only() {
         // A textbook red-green confusion pair (common practice): similar lightness, opposite a*.
-        let palette = [named("Rust", [0xb0, 0x6a, 0x50]), named("Olive", [0x6f, 0x86, 0x4f])];
+        let palette = [
+            named("Rust", [0xb0, 0x6a, 0x50]),
+            named("Olive", [0x6f, 0x86, 0x4f]),
+        ];
         let warnings = distinctness_warnings(&palette, &[(0, 1)], &Thresholds::default());
         let views: Vec<View> = warnings.iter().map(|w| w.view).collect();
-        assert!(!views.contains(&View::Colour(Vision::Normal)), "{warnings:?}");
-        assert!(views.contains(&View::Colour(Vision::Deuteranopia)), "{warnings:?}");
+        assert!(
+            !views.contains(&View::Colour(Vision::Normal)),
+            "{warnings:?}"
+        );
+        assert!(
+            views.contains(&View::Colour(Vision::Deuteranopia)),
+            "{warnings:?}"
+        );
         assert!(views.contains(&View::Greyscale), "{warnings:?}");
         let grey = warnings.iter().find(|w| w.view == View::Greyscale).unwrap();
-        assert!(grey.message.starts_with("Slots 1 'Rust' and 2 'Olive' look alike in a greyscale"));
+        assert!(
+            grey.message
+                .starts_with("Slots 1 'Rust' and 2 'Olive' look alike in a greyscale")
+        );
     }
 
     #[test]

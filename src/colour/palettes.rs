@@ -104,7 +104,11 @@ mod tests {
                     .iter()
                     .map(|c| format!("[0x{:02x}, 0x{:02x}, 0x{:02x}]", c[0], c[1], c[2]))
                     .collect();
-                drift.push(format!("{}: the search gives {}", palette.name, hex.join(", ")));
+                drift.push(format!(
+                    "{}: the search gives {}",
+                    palette.name,
+                    hex.join(", ")
+                ));
             }
         }
         assert!(drift.is_empty(), "{}", drift.join("\n"));

@@ -188,7 +188,13 @@ mod tests {
 
     #[test]
     fn round_trips_through_lab() {
-        for rgb in [[0, 0, 0], [12, 200, 99], [255, 0, 128], [17, 17, 17], [250, 251, 2]] {
+        for rgb in [
+            [0, 0, 0],
+            [12, 200, 99],
+            [255, 0, 128],
+            [17, 17, 17],
+            [250, 251, 2],
+        ] {
             let (back, inside) = lab_to_srgb8(srgb8_to_lab(rgb));
             assert_eq!(back, rgb);
             assert!(inside);

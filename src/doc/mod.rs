@@ -18,9 +18,9 @@ pub use checks::{ColouringCheck, check_colouring};
 pub use constraint::{ConstraintGraph, RuleConflict};
 pub use edit::{Edit, EditError, RegionChange};
 pub use history::History;
-pub use palette_check::{PaletteReport, palette_report, simulated_palettes, slot_assignment_edit};
-pub use palette_edit::PaletteEditError;
 pub use model::{
     AttrValue, Border, BorderKind, Document, Geometry, Group, GroupId, Palette, Point, Polygon,
     Region, RegionId, RegionPair, Rgb, Role, Settings, Slot, Units,
 };
+pub use palette_check::{PaletteReport, palette_report, simulated_palettes, slot_assignment_edit};
+pub use palette_edit::PaletteEditError;

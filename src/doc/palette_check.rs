@@ -88,7 +88,12 @@ pub fn palette_report(doc: &Document, thresholds: &Thresholds) -> PaletteReport 
     let missing_slots = used.iter().copied().filter(|&s| s as usize >= n).collect();
     let (pairs_checked, pairs) = if used.is_empty() {
         let all: Vec<SlotPairUse> = (0..n)
-            .flat_map(|i| (i + 1..n).map(move |j| SlotPairUse { slots: (i, j), borders: 0 }))
+            .flat_map(|i| {
+                (i + 1..n).map(move |j| SlotPairUse {
+                    slots: (i, j),
+                    borders: 0,
+                })
+            })
             .collect();
         (PairsChecked::AllSlots, all)
     } else {
@@ -102,7 +107,8 @@ pub fn palette_report(doc: &Document, thresholds: &Thresholds) -> PaletteReport 
         (PairsChecked::Colouring, used_pairs)
     };
     let pair_list: Vec<(usize, usize)> = pairs.iter().map(|p: &SlotPairUse| p.slots).collect();
-    let warnings = colour::distinctness_warnings(&named_colours(&doc.palette), &pair_list, thresholds);
+    let warnings =
+        colour::distinctness_warnings(&named_colours(&doc.palette), &pair_list, thresholds);
     PaletteReport {
         thresholds: *thresholds,
         pairs_checked,
@@ -118,11 +124,18 @@ pub fn simulated_palettes(palette: &Palette) -> Vec<(String, Vec<Rgb>)> {
     let mut out: Vec<(String, Vec<Rgb>)> = Vision::ALL
         .iter()
         .map(|v| {
-            let row = palette.slots.iter().map(|s| Rgb(v.simulate(s.colour.0))).collect();
+            let row = palette
+                .slots
+                .iter()
+                .map(|s| Rgb(v.simulate(s.colour.0)))
+                .collect();
             (v.as_str().to_string(), row)
         })
         .collect();
-    out.push(("greyscale".to_string(), palette.slots.iter().map(|s| grey_of(s.colour)).collect()));
+    out.push((
+        "greyscale".to_string(),
+        palette.slots.iter().map(|s| grey_of(s.colour)).collect(),
+    ));
     out
 }
 

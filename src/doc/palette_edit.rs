@@ -50,7 +50,11 @@ fn check_slot(doc: &Document, slot: usize) -> Result<(), PaletteEditError> {
 }
 
 /// Sets slot `slot`'s colour from `#rrggbb` (or `rrggbb`, either case).
-pub fn set_slot_colour_hex(doc: &Document, slot: usize, hex: &str) -> Result<Edit, PaletteEditError> {
+pub fn set_slot_colour_hex(
+    doc: &Document,
+    slot: usize,
+    hex: &str,
+) -> Result<Edit, PaletteEditError> {
     check_slot(doc, slot)?;
     let colour = parse_hex(hex)?;
     let mut palette = doc.palette.clone();
@@ -173,7 +177,12 @@ mod tests {
     fn bad_hex_is_refused_in_plain_words() {
         let doc = doc_with_regions();
         let err = set_slot_colour_hex(&doc, 0, "#12345g").unwrap_err();
-        assert_eq!(err, PaletteEditError::BadHex { text: "#12345g".into() });
+        assert_eq!(
+            err,
+            PaletteEditError::BadHex {
+                text: "#12345g".into()
+            }
+        );
         assert!(err.to_string().contains("six hexadecimal digits"));
         assert!(matches!(
             set_slot_colour_hex(&doc, 99, "#123456"),
@@ -188,13 +197,29 @@ mod tests {
     #[test]
     fn removing_a_slot_renumbers_later_slots_and_undoes_whole() {
         let mut doc = doc_with_regions();
-        doc.apply(Edit::PutColour { id: RegionId(1), slot: Some(3) }).unwrap();
-        doc.apply(Edit::UpdateRegion { id: RegionId(2), change: RegionChange::Pin(Some(4)) })
-            .unwrap();
-        doc.apply(Edit::PutColour { id: RegionId(3), slot: Some(1) }).unwrap();
+        doc.apply(Edit::PutColour {
+            id: RegionId(1),
+            slot: Some(3),
+        })
+        .unwrap();
+        doc.apply(Edit::UpdateRegion {
+            id: RegionId(2),
+            change: RegionChange::Pin(Some(4)),
+        })
+        .unwrap();
+        doc.apply(Edit::PutColour {
+            id: RegionId(3),
+            slot: Some(1),
+        })
+        .unwrap();
         assert!(matches!(
             remove_slot(&doc, 1),
-            Err(PaletteEditError::SlotInUse { slot: 1, coloured: 1, pinned: 0, .. })
+            Err(PaletteEditError::SlotInUse {
+                slot: 1,
+                coloured: 1,
+                pinned: 0,
+                ..
+            })
         ));
         let before = doc.clone();
         let name_of_3 = doc.palette.slots[3].name.clone();

@@ -84,7 +84,11 @@ fn clip_at_180(ring: &[Point], west: bool) -> Vec<Point> {
 /// One polygon in longitude/latitude, as one or two GeoJSON polygons: a polygon that crosses the
 /// 180-degree meridian is cut there, as RFC 7946 section 3.1.9 asks.
 fn polygons_lon_lat(projection: &LambertAzimuthalEqualArea, polygon: &Polygon) -> Vec<Value> {
-    let mut exterior: Vec<Point> = polygon.exterior.iter().map(|p| projection.unproject(*p)).collect();
+    let mut exterior: Vec<Point> = polygon
+        .exterior
+        .iter()
+        .map(|p| projection.unproject(*p))
+        .collect();
     unwrap(&mut exterior, None);
     let reference = exterior.first().map(|p| p[0]);
     let mut holes: Vec<Vec<Point>> = polygon
@@ -98,7 +102,9 @@ fn polygons_lon_lat(projection: &LambertAzimuthalEqualArea, polygon: &Polygon) -
         .collect();
     let (lo, hi) = exterior
         .iter()
-        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p[0]), hi.max(p[0])));
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| {
+            (lo.min(p[0]), hi.max(p[0]))
+        });
     // Bring the polygon into -180..180 where it fits whole.
     let shift = if lo < -180.0 {
         360.0
@@ -122,8 +128,10 @@ fn polygons_lon_lat(projection: &LambertAzimuthalEqualArea, polygon: &Polygon) -
         vec![(exterior, holes, 0.0)]
     };
     let close = |ring: Vec<Point>, offset: f64| -> Value {
-        let mut out: Vec<Value> =
-            ring.iter().map(|p| json!([round7(p[0] + offset), round7(p[1])])).collect();
+        let mut out: Vec<Value> = ring
+            .iter()
+            .map(|p| json!([round7(p[0] + offset), round7(p[1])]))
+            .collect();
         if let Some(first) = out.first().cloned() {
             out.push(first);
         }
@@ -198,7 +206,12 @@ pub fn to_geojson(doc: &Document) -> Result<String, ExportError> {
         properties.insert("tinct_fill".into(), json!(fill));
         properties.insert(
             "tinct_group".into(),
-            json!(region.group.and_then(|g| doc.groups.get(&g)).map(|g| g.name.clone())),
+            json!(
+                region
+                    .group
+                    .and_then(|g| doc.groups.get(&g))
+                    .map(|g| g.name.clone())
+            ),
         );
         properties.insert("tinct_pinned".into(), json!(region.pin.is_some()));
         let geometry = match &region.geometry {
@@ -224,8 +237,8 @@ pub fn to_geojson(doc: &Document) -> Result<String, ExportError> {
         }));
     }
     let collection = json!({ "type": "FeatureCollection", "features": features });
-    let mut text = serde_json::to_string(&collection)
-        .map_err(|e| ExportError::Render(e.to_string()))?;
+    let mut text =
+        serde_json::to_string(&collection).map_err(|e| ExportError::Render(e.to_string()))?;
     text.push('\n');
     Ok(text)
 }

@@ -40,12 +40,17 @@ fn font_database() -> usvg::fontdb::Database {
 }
 
 /// Renders the SVG text to an RGBA pixmap `width_px` wide.
-pub fn render_svg(svg: &str, size: PngSize, width_mm: f64) -> Result<tiny_skia::Pixmap, ExportError> {
+pub fn render_svg(
+    svg: &str,
+    size: PngSize,
+    width_mm: f64,
+) -> Result<tiny_skia::Pixmap, ExportError> {
     let options = usvg::Options {
         fontdb: Arc::new(font_database()),
         ..Default::default()
     };
-    let tree = usvg::Tree::from_str(svg, &options).map_err(|e| ExportError::Render(e.to_string()))?;
+    let tree =
+        usvg::Tree::from_str(svg, &options).map_err(|e| ExportError::Render(e.to_string()))?;
     let natural = tree.size();
     let width_px = match size {
         PngSize::WidthPx(w) => f64::from(w),
@@ -60,16 +65,21 @@ pub fn render_svg(svg: &str, size: PngSize, width_mm: f64) -> Result<tiny_skia::
     };
     let scale = width_px / f64::from(natural.width());
     let height_px = (f64::from(natural.height()) * scale).round();
-    if width_px < 1.0 || height_px < 1.0 || width_px > MAX_SIDE_PX as f64 || height_px > MAX_SIDE_PX as f64 {
+    if width_px < 1.0
+        || height_px < 1.0
+        || width_px > MAX_SIDE_PX as f64
+        || height_px > MAX_SIDE_PX as f64
+    {
         return Err(ExportError::TooLarge {
             width: width_px as u64,
             height: height_px as u64,
             limit: MAX_SIDE_PX,
         });
     }
-    let mut pixmap = tiny_skia::Pixmap::new(width_px as u32, height_px as u32).ok_or_else(|| {
-        ExportError::Render(format!("cannot allocate {width_px} x {height_px} pixels"))
-    })?;
+    let mut pixmap =
+        tiny_skia::Pixmap::new(width_px as u32, height_px as u32).ok_or_else(|| {
+            ExportError::Render(format!("cannot allocate {width_px} x {height_px} pixels"))
+        })?;
     pixmap.fill(tiny_skia::Color::WHITE);
     resvg::render(
         &tree,
@@ -83,5 +93,7 @@ pub fn render_svg(svg: &str, size: PngSize, width_mm: f64) -> Result<tiny_skia::
 pub fn to_png(doc: &Document, options: &SvgOptions, size: PngSize) -> Result<Vec<u8>, ExportError> {
     let svg = to_svg(doc, options)?;
     let pixmap = render_svg(&svg, size, options.width_mm)?;
-    pixmap.encode_png().map_err(|e| ExportError::Render(e.to_string()))
+    pixmap
+        .encode_png()
+        .map_err(|e| ExportError::Render(e.to_string()))
 }

@@ -13,9 +13,13 @@ use crate::doc::{Document, Point, RegionId, Role};
 
 use super::ExportError;
 
-/// Fill of land regions without a colour (or with a slot the palette lacks), and of water.
+/// Fill of land regions without a colour (or with a slot the palette lacks).
 pub const UNCOLOURED_FILL: &str = "#f4f4f2";
-pub const WATER_FILL: &str = "#d9e6ee";
+/// Water is drawn as fine horizontal lines on a pale ground (the `water` pattern), so it never
+/// looks like a palette colour, whatever the palette; this is the ground colour.
+pub const WATER_GROUND: &str = "#f3f7fa";
+const WATER_LINE: &str = "#8fb3cc";
+const WATER_FILL: &str = "url(#water)";
 const OUTLINE: &str = "#3a3a3a";
 const LABEL_INK: &str = "#1b1b1b";
 
@@ -172,7 +176,7 @@ impl Num {
     }
 }
 
-/// The fill of one region.
+/// The fill of one region: `#rrggbb`, or `url(#water)` for water.
 pub fn fill_of(doc: &Document, id: RegionId) -> String {
     let Some(region) = doc.regions.get(&id) else {
         return UNCOLOURED_FILL.to_string();
@@ -188,8 +192,7 @@ pub fn fill_of(doc: &Document, id: RegionId) -> String {
 
 /// The map as an SVG document.
 pub fn to_svg(doc: &Document, options: &SvgOptions) -> Result<String, ExportError> {
-    if !(options.width_mm.is_finite() && options.width_mm >= 20.0 && options.width_mm <= 10_000.0)
-    {
+    if !(options.width_mm.is_finite() && options.width_mm >= 20.0 && options.width_mm <= 10_000.0) {
         return Err(ExportError::BadOption(format!(
             "the page width must be between 20 and 10000 mm, not {}",
             options.width_mm
@@ -217,6 +220,14 @@ pub fn to_svg(doc: &Document, options: &SvgOptions) -> Result<String, ExportErro
         num.f(pw),
         num.f(ph)
     );
+    // The water pattern: a 1.2 mm tile with one 0.25 mm line.
+    let tile = num.f(frame.units(1.2));
+    let _ = writeln!(
+        out,
+        r#"<defs><pattern id="water" patternUnits="userSpaceOnUse" width="{tile}" height="{tile}"><rect width="{tile}" height="{tile}" fill="{WATER_GROUND}"/><rect y="{}" width="{tile}" height="{}" fill="{WATER_LINE}"/></pattern></defs>"#,
+        num.f(frame.units(0.475)),
+        num.f(frame.units(0.25))
+    );
 
     // Regions with outlines.
     let stroke = num.f(frame.units(options.outline_mm));
@@ -233,7 +244,13 @@ pub fn to_svg(doc: &Document, options: &SvgOptions) -> Result<String, ExportErro
             for ring in std::iter::once(&polygon.exterior).chain(polygon.holes.iter()) {
                 for (i, p) in ring.iter().enumerate() {
                     let [x, y] = frame.to_svg(*p);
-                    let _ = write!(d, "{}{} {} ", if i == 0 { "M" } else { "L" }, num.f(x), num.f(y));
+                    let _ = write!(
+                        d,
+                        "{}{} {} ",
+                        if i == 0 { "M" } else { "L" },
+                        num.f(x),
+                        num.f(y)
+                    );
                 }
                 if !ring.is_empty() {
                     d.push_str("Z ");
@@ -263,7 +280,8 @@ pub fn to_svg(doc: &Document, options: &SvgOptions) -> Result<String, ExportErro
             r#"<g id="links" stroke="{OUTLINE}" stroke-width="{stroke}" fill="none">"#
         );
         for (pair, _) in doc.active_borders() {
-            let (Some(a), Some(b)) = (doc.regions.get(&pair.a()), doc.regions.get(&pair.b())) else {
+            let (Some(a), Some(b)) = (doc.regions.get(&pair.a()), doc.regions.get(&pair.b()))
+            else {
                 continue;
             };
             if a.geometry.is_some() && b.geometry.is_some() {
@@ -343,7 +361,10 @@ pub fn to_svg(doc: &Document, options: &SvgOptions) -> Result<String, ExportErro
                 let y = frame.legend_top + frame.units(row as f64 * LEGEND_ROW_MM);
                 let (name, fill) = match doc.palette.slots.get(*slot as usize) {
                     Some(s) => (s.name.clone(), s.colour.to_hex()),
-                    None => (format!("Slot {} (not in palette)", slot + 1), UNCOLOURED_FILL.into()),
+                    None => (
+                        format!("Slot {} (not in palette)", slot + 1),
+                        UNCOLOURED_FILL.into(),
+                    ),
                 };
                 let noun = if *count == 1 { "region" } else { "regions" };
                 let _ = writeln!(
@@ -375,7 +396,10 @@ mod tests {
     #[test]
     fn escapes_markup_and_drops_forbidden_characters() {
         // XML 1.0 section 2.2 (allowed characters) and 2.4 (markup characters).
-        assert_eq!(escape("A & B <C> \"d\" 'e'\u{1}"), "A &amp; B &lt;C&gt; &quot;d&quot; &apos;e&apos;");
+        assert_eq!(
+            escape("A & B <C> \"d\" 'e'\u{1}"),
+            "A &amp; B &lt;C&gt; &quot;d&quot; &apos;e&apos;"
+        );
     }
 
     #[test]

@@ -1,12 +1,15 @@
 //! Tinct: a map-colouring and region-adjacency editor.
 //!
-//! Layers, each using only those before it: [`engine`] (graph algorithms and certificates) <-
-//! [`doc`] (the project document, edits, files) <- [`geo`] (importers), [`worker`] (background
-//! jobs) and [`formats`] (every file kind by extension) <- the editor (`ui`) and [`cli`].
+//! Layers, each using only those before it: [`engine`] (graph algorithms and certificates) and
+//! [`colour`] (colour science for palettes) <- [`doc`] (the project document, edits, files) <-
+//! [`geo`] (importers), [`worker`] (background jobs), [`formats`] (every file kind by extension)
+//! and [`export`] (SVG, PNG, GeoJSON, CSV) <- the editor (`ui`) and [`cli`].
 
 pub mod cli;
+pub mod colour;
 pub mod doc;
 pub mod engine;
+pub mod export;
 pub mod formats;
 pub mod geo;
 #[cfg(feature = "gui")]

@@ -1,5 +1,6 @@
 //! The house rules on dependency direction, checked by reading the source (see DEVELOPERS.md):
-//! the engine knows only graphs; the document knows no GUI; only the project-file module knows RON;
+//! the engine and the colour science know nothing else; the document knows no GUI; export looks
+//! only down; only the project-file module knows RON;
 //! only the user interface knows egui, eframe and rfd.
 
 use super::support::{root, rust_files};
@@ -106,6 +107,7 @@ fn engine_knows_only_graphs() {
             "crate::cli",
             "crate::worker",
             "crate::export",
+            "crate::colour",
         ],
     ));
     assert!(
@@ -125,6 +127,7 @@ fn document_knows_no_gui() {
             "crate::worker",
             "crate::cli",
             "crate::geo",
+            "crate::export",
             "std::thread",
         ],
     ));
@@ -136,9 +139,72 @@ fn document_knows_no_gui() {
 }
 
 #[test]
+fn colour_is_a_leaf() {
+    // Like the engine: colour science only, no I/O, no GUI, nothing else from the crate.
+    let words = [
+        "egui",
+        "eframe",
+        "rfd",
+        "serde",
+        "serde_json",
+        "ron",
+        "println",
+        "eprintln",
+        "dbg",
+        "spawn",
+    ];
+    let mut found = offences("colour", &words, &[]);
+    found.extend(offences_text(
+        "colour",
+        &[
+            "std::fs",
+            "std::thread",
+            "std::net",
+            "std::process",
+            "std::io",
+            "crate::",
+        ],
+    ));
+    assert!(
+        found.is_empty(),
+        "src/colour must stay a leaf:\n{}",
+        found.join("\n")
+    );
+}
+
+#[test]
+fn export_looks_only_down() {
+    // Export sits beside `formats`: it uses doc, colour and geo, never the GUI, workers or CLI,
+    // and writes no files itself (callers do).
+    let mut found = offences(
+        "export",
+        &["egui", "eframe", "rfd", "println", "eprintln"],
+        &[],
+    );
+    found.extend(offences_text(
+        "export",
+        &[
+            "crate::ui",
+            "crate::cli",
+            "crate::worker",
+            "crate::formats",
+            "std::fs",
+            "std::thread",
+        ],
+    ));
+    assert!(
+        found.is_empty(),
+        "src/export must only use the layers below it:\n{}",
+        found.join("\n")
+    );
+}
+
+#[test]
 fn only_the_project_file_module_knows_ron() {
     let mut found = Vec::new();
-    for folder in ["engine", "doc", "geo", "export", "worker", "ui", "cli"] {
+    for folder in [
+        "engine", "colour", "doc", "geo", "export", "worker", "ui", "cli",
+    ] {
         found.extend(offences(folder, &["ron"], &["src/doc/file.rs"]));
     }
     assert!(
@@ -151,7 +217,7 @@ fn only_the_project_file_module_knows_ron() {
 #[test]
 fn only_the_user_interface_knows_the_gui_crates() {
     let mut found = Vec::new();
-    for folder in ["engine", "doc", "geo", "export", "worker", "cli"] {
+    for folder in ["engine", "colour", "doc", "geo", "export", "worker", "cli"] {
         found.extend(offences(folder, &["egui", "eframe", "rfd"], &[]));
     }
     assert!(

@@ -309,6 +309,8 @@ pub mod arb {
                 } else {
                     Units::Unitless
                 },
+                // Geographic maps record their projection centre (an optional field of format 1).
+                projection_origin: metres.then_some([12.5, -47.25]),
             }),
             Op::Palette(slots) => Edit::SetPalette(Palette {
                 name: "random".into(),

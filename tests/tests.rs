@@ -2,8 +2,10 @@
 
 mod blocks;
 mod cli;
+mod colour;
 mod colouring;
 mod edits;
+mod export;
 mod geo;
 mod graph_formats;
 #[cfg(feature = "gui")]

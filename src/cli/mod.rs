@@ -3,6 +3,7 @@
 
 pub mod analyse;
 pub mod colouring;
+pub mod export;
 pub mod import;
 pub mod planarity;
 
@@ -109,6 +110,21 @@ pub enum Command {
         json: bool,
         #[command(flatten)]
         geo: import::GeoArgs,
+    },
+    /// Export a map as SVG or PNG (for print), GeoJSON (for GIS) or CSV (for spreadsheets).
+    Export {
+        /// The file to export (any file `analyse` reads; usually a coloured .tinct project).
+        file: PathBuf,
+        #[command(flatten)]
+        args: export::ExportArgs,
+    },
+    /// Check that the palette's colours can be told apart where neighbours meet (normal vision,
+    /// simulated colour-vision deficiencies, greyscale), and optionally reassign slots.
+    Palette {
+        /// The project to check.
+        file: PathBuf,
+        #[command(flatten)]
+        args: export::PaletteArgs,
     },
     /// Convert between project and graph formats, chosen by the files' extensions.
     Convert {
@@ -235,6 +251,8 @@ pub fn run(command: Command) -> ExitCode {
         }
         Command::Import { file, out, geo } => import::run_import(&file, &out, &geo),
         Command::Adjacency { file, json, geo } => import::run_adjacency(&file, json, &geo),
+        Command::Export { file, args } => export::run_export(&file, &args),
+        Command::Palette { file, args } => export::run_palette(&file, &args),
         Command::Convert {
             input: from,
             output,

@@ -83,6 +83,9 @@ struct SettingsV1 {
     min_border_length: f64,
     tolerance: f64,
     units: UnitsV1,
+    /// Added within version 1 (optional): the projection centre `(longitude, latitude)`.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    projection_origin: Option<(f64, f64)>,
 }
 
 #[derive(Serialize, Deserialize)]
@@ -185,6 +188,7 @@ fn to_records(doc: &Document) -> ProjectV1 {
                 Units::Metres => UnitsV1::Metres,
                 Units::Unitless => UnitsV1::Unitless,
             },
+            projection_origin: doc.settings.projection_origin.map(|[x, y]| (x, y)),
         },
         palette_name: doc.palette.name.clone(),
         palette: doc
@@ -391,6 +395,13 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
             "settings: min_border_length and tolerance must be finite and not negative".into(),
         );
     }
+    if let Some((lon, lat)) = r.settings.projection_origin
+        && !(lon.is_finite() && lat.is_finite() && (-90.0..=90.0).contains(&lat))
+    {
+        return invalid(format!(
+            "settings: projection_origin ({lon}, {lat}) is not a longitude and latitude"
+        ));
+    }
     doc.settings = Settings {
         corners_count: r.settings.corners_count,
         min_border_length: r.settings.min_border_length,
@@ -399,6 +410,7 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
             UnitsV1::Metres => Units::Metres,
             UnitsV1::Unitless => Units::Unitless,
         },
+        projection_origin: r.settings.projection_origin.map(|(x, y)| [x, y]),
     };
     let mut slots = Vec::with_capacity(r.palette.len());
     for (i, s) in r.palette.into_iter().enumerate() {

@@ -12,6 +12,8 @@ pub(crate) mod fixtures;
 pub mod graph_formats;
 pub mod history;
 pub mod model;
+pub mod palette_check;
+pub mod palette_edit;
 pub mod recovery;
 
 pub use checks::{ColouringCheck, check_colouring};
@@ -22,3 +24,5 @@ pub use model::{
     AttrValue, Border, BorderKind, Document, Geometry, Group, GroupId, Palette, Point, Polygon,
     Region, RegionId, RegionPair, Rgb, Role, Settings, Slot, Units,
 };
+pub use palette_check::{PaletteReport, palette_report, simulated_palettes, slot_assignment_edit};
+pub use palette_edit::PaletteEditError;

@@ -407,6 +407,11 @@ pub struct Settings {
     /// Boundaries closer than this (in world units) are treated as touching when deriving borders.
     pub tolerance: f64,
     pub units: Units,
+    /// For maps imported from longitude/latitude: the centre `[longitude, latitude]` in degrees of
+    /// the Lambert azimuthal equal-area projection (on the GRS 80 authalic sphere) that turned them
+    /// into metres, so exports can give longitude/latitude back. `None` for sketches, planar data,
+    /// and projects saved before Tinct recorded it.
+    pub projection_origin: Option<[f64; 2]>,
 }
 
 impl Default for Settings {
@@ -416,6 +421,7 @@ impl Default for Settings {
             min_border_length: 0.0,
             tolerance: 0.0,
             units: Units::Unitless,
+            projection_origin: None,
         }
     }
 }

@@ -31,6 +31,7 @@ impl ImportedMap {
                 Units::Metres => doc::Units::Metres,
                 Units::MapUnits => doc::Units::Unitless,
             },
+            projection_origin: self.projection.map(|p| [p.lon0_deg, p.lat0_deg]),
         };
 
         // Same-colour groups: named in the properties, or the parts of one split feature.

@@ -1,0 +1,342 @@
+//! `tinct export` (SVG, PNG, GeoJSON, CSV) and `tinct palette` (the distinctness report; a
+//! default palette and the slot assignment, written to a project).
+//!
+//! `tinct palette --json` prints an object that only ever grows:
+//! - `palette`: name; `slots`: `[{slot, name, fill, lightness, simulated: {protanopia,
+//!   deuteranopia, tritanopia, greyscale}}]` (slots 0-based, colours `#rrggbb`);
+//! - `thresholds`: `{delta_e00, grey_delta_l}`; `pairs_checked`: `colouring` (the slot pairs that
+//!   adjacent regions use) or `all_slots` (nothing coloured yet);
+//! - `pairs`: `[{slots: [a, b], borders, delta_e00: {normal, protanopia, deuteranopia,
+//!   tritanopia}, delta_l}]`;
+//! - `warnings`: `[{slots: [a, b], view, value, threshold, message}]`; `missing_slots`: slots the
+//!   colouring uses that the palette lacks.
+
+use std::collections::BTreeMap;
+use std::path::{Path, PathBuf};
+use std::process::ExitCode;
+
+use anyhow::anyhow;
+use clap::Args;
+use serde_json::json;
+
+use super::{error, exit};
+use crate::colour::{self, Thresholds, Vision};
+use crate::doc::palette_check::{
+    PairsChecked, palette_report, simulated_palettes, slot_assignment_edit,
+};
+use crate::doc::{Document, palette_edit};
+use crate::export::{self, PngSize, SvgOptions};
+
+/// What `tinct export` writes; at least one output is required.
+#[derive(Args, Debug, Clone)]
+#[group(id = "outputs", required = true, multiple = true)]
+pub struct Outputs {
+    /// Write an SVG picture (sizes in millimetres for print).
+    #[arg(long, value_name = "OUT")]
+    pub svg: Option<PathBuf>,
+    /// Write a PNG picture (see --dpi and --width).
+    #[arg(long, value_name = "OUT")]
+    pub png: Option<PathBuf>,
+    /// Write GeoJSON (RFC 7946, longitude/latitude) with the colours as properties.
+    #[arg(long, value_name = "OUT")]
+    pub geojson: Option<PathBuf>,
+    /// Write a CSV table: id, name, colour, fill, group, pinned, role.
+    #[arg(long, value_name = "OUT")]
+    pub csv: Option<PathBuf>,
+}
+
+/// Options of `tinct export`.
+#[derive(Args, Debug, Clone)]
+pub struct ExportArgs {
+    #[command(flatten)]
+    pub outputs: Outputs,
+    /// PNG resolution in dots per inch at the print width (default 150).
+    #[arg(long, value_name = "N", conflicts_with = "width")]
+    pub dpi: Option<f64>,
+    /// PNG width in pixels (instead of --dpi).
+    #[arg(long, value_name = "PX")]
+    pub width: Option<u32>,
+    /// Print width of the SVG (and of the PNG at --dpi), in millimetres.
+    #[arg(long = "width-mm", value_name = "MM", default_value_t = 180.0)]
+    pub width_mm: f64,
+    /// Write region names on the map.
+    #[arg(long)]
+    pub labels: bool,
+    /// Leave out the legend.
+    #[arg(long = "no-legend")]
+    pub no_legend: bool,
+}
+
+fn write(path: &Path, bytes: &[u8]) -> anyhow::Result<()> {
+    std::fs::write(path, bytes).map_err(|e| anyhow!("cannot write {}: {e}", path.display()))
+}
+
+/// Runs `tinct export`.
+pub fn run_export(file: &Path, args: &ExportArgs) -> ExitCode {
+    let loaded = match crate::formats::load(file) {
+        Ok(l) => l,
+        Err(e) => return error(exit::BAD_INPUT, &e),
+    };
+    let doc = &loaded.doc;
+    let options = SvgOptions {
+        width_mm: args.width_mm,
+        labels: args.labels,
+        legend: !args.no_legend,
+        ..SvgOptions::default()
+    };
+    let size = match (args.width, args.dpi) {
+        (Some(px), _) => PngSize::WidthPx(px),
+        (None, Some(dpi)) => PngSize::Dpi(dpi),
+        (None, None) => PngSize::Dpi(150.0),
+    };
+    // Make every requested output first, so bad input writes nothing.
+    let mut files: Vec<(&PathBuf, Vec<u8>)> = Vec::new();
+    let o = &args.outputs;
+    let made: Result<(), export::ExportError> = (|| {
+        if let Some(path) = &o.svg {
+            files.push((path, export::to_svg(doc, &options)?.into_bytes()));
+        }
+        if let Some(path) = &o.png {
+            files.push((path, export::to_png(doc, &options, size)?));
+        }
+        if let Some(path) = &o.geojson {
+            files.push((path, export::to_geojson(doc)?.into_bytes()));
+        }
+        if let Some(path) = &o.csv {
+            files.push((path, export::to_csv(doc).into_bytes()));
+        }
+        Ok(())
+    })();
+    if let Err(e) = made {
+        return error(exit::BAD_INPUT, &anyhow!("{}: {e}", file.display()));
+    }
+    for (path, bytes) in files {
+        if let Err(e) = write(path, &bytes) {
+            return error(exit::CANNOT_WRITE, &e);
+        }
+        eprintln!("tinct: wrote {}", path.display());
+    }
+    ExitCode::from(exit::OK)
+}
+
+/// Options of `tinct palette`.
+#[derive(Args, Debug, Clone)]
+pub struct PaletteArgs {
+    /// Print machine-readable JSON (shape in src/cli/export.rs and the README).
+    #[arg(long)]
+    pub json: bool,
+    /// Switch to Tinct's default palette for this many colours (3 to 8) before checking.
+    #[arg(long = "default-palette", value_name = "COLOURS")]
+    pub default_palette: Option<usize>,
+    /// Give the colour classes that share the most borders the most distinct slots (pinned
+    /// colours keep theirs) before checking.
+    #[arg(long)]
+    pub assign: bool,
+    /// Write the project with these changes (needed with --default-palette or --assign).
+    #[arg(long, value_name = "OUT")]
+    pub out: Option<PathBuf>,
+}
+
+/// The report as JSON (see the module documentation).
+pub fn report_json(doc: &Document, thresholds: &Thresholds) -> serde_json::Value {
+    let report = palette_report(doc, thresholds);
+    let rows = simulated_palettes(&doc.palette);
+    let slots: Vec<_> = doc
+        .palette
+        .slots
+        .iter()
+        .enumerate()
+        .map(|(i, s)| {
+            let simulated: BTreeMap<String, String> = rows
+                .iter()
+                .filter(|(name, _)| name != "normal")
+                .map(|(name, row)| (name.clone(), row[i].to_hex()))
+                .collect();
+            json!({
+                "slot": i,
+                "name": s.name,
+                "fill": s.colour.to_hex(),
+                "lightness": (colour::lightness(s.colour.0) * 10.0).round() / 10.0,
+                "simulated": simulated,
+            })
+        })
+        .collect();
+    let pairs: Vec<_> = report
+        .pairs
+        .iter()
+        .filter(|p| p.slots.1 < doc.palette.slots.len())
+        .map(|p| {
+            let d = colour::pair_difference(
+                doc.palette.slots[p.slots.0].colour.0,
+                doc.palette.slots[p.slots.1].colour.0,
+            );
+            let by_vision: BTreeMap<&str, f64> = Vision::ALL
+                .iter()
+                .map(|v| {
+                    (
+                        v.as_str(),
+                        (d.delta_e00[*v as usize] * 100.0).round() / 100.0,
+                    )
+                })
+                .collect();
+            json!({
+                "slots": [p.slots.0, p.slots.1],
+                "borders": p.borders,
+                "delta_e00": by_vision,
+                "delta_l": (d.delta_l * 100.0).round() / 100.0,
+            })
+        })
+        .collect();
+    let warnings: Vec<_> = report
+        .warnings
+        .iter()
+        .map(|w| {
+            json!({
+                "slots": [w.slots.0, w.slots.1],
+                "view": w.view.as_str(),
+                "value": (w.value * 100.0).round() / 100.0,
+                "threshold": w.threshold,
+                "message": w.message,
+            })
+        })
+        .collect();
+    json!({
+        "palette": doc.palette.name,
+        "slots": slots,
+        "thresholds": { "delta_e00": thresholds.delta_e00, "grey_delta_l": thresholds.grey_delta_l },
+        "pairs_checked": match report.pairs_checked {
+            PairsChecked::Colouring => "colouring",
+            PairsChecked::AllSlots => "all_slots",
+        },
+        "pairs": pairs,
+        "warnings": warnings,
+        "missing_slots": report.missing_slots,
+    })
+}
+
+/// The report in words.
+pub fn report_text(doc: &Document, thresholds: &Thresholds) -> String {
+    let report = palette_report(doc, thresholds);
+    let mut out = format!(
+        "Palette \"{}\", {} slots\n",
+        doc.palette.name,
+        doc.palette.slots.len()
+    );
+    let rows = simulated_palettes(&doc.palette);
+    out.push_str("  slot  name              fill     L*    protan.  deutan.  tritan.  grey\n");
+    for (i, s) in doc.palette.slots.iter().enumerate() {
+        let sim = |k: usize| rows[k].1[i].to_hex();
+        out.push_str(&format!(
+            "  {:>4}  {:<16}  {}  {:>4.1}  {}  {}  {}  {}\n",
+            i + 1,
+            s.name,
+            s.colour.to_hex(),
+            colour::lightness(s.colour.0),
+            sim(1),
+            sim(2),
+            sim(3),
+            sim(4)
+        ));
+    }
+    out.push_str(&match report.pairs_checked {
+        PairsChecked::Colouring => format!(
+            "Checked the {} slot pairs that neighbouring regions use in the current colouring.\n",
+            report.pairs.len()
+        ),
+        PairsChecked::AllSlots => {
+            "Nothing is coloured yet, so every pair of slots was checked.\n".to_string()
+        }
+    });
+    out.push_str(&format!(
+        "Thresholds: ΔE00 {} under normal vision and simulated protanopia, deuteranopia and \
+         tritanopia (Machado et al. 2009); {} L* in greyscale.\n",
+        thresholds.delta_e00, thresholds.grey_delta_l
+    ));
+    for s in &report.missing_slots {
+        out.push_str(&format!(
+            "Problem: the colouring uses slot {}, which the palette does not have.\n",
+            s + 1
+        ));
+    }
+    if report.warnings.is_empty() {
+        out.push_str("Every checked pair is clearly distinct in every view.\n");
+    } else {
+        for w in &report.warnings {
+            out.push_str(&format!("Warning: {}.\n", w.message));
+        }
+    }
+    out.push_str(
+        "Simulations approximate typical readers; check a printed proof by eye before publishing.\n",
+    );
+    out
+}
+
+/// Runs `tinct palette`.
+pub fn run_palette(file: &Path, args: &PaletteArgs) -> ExitCode {
+    let loaded = match crate::formats::load(file) {
+        Ok(l) => l,
+        Err(e) => return error(exit::BAD_INPUT, &e),
+    };
+    let mut doc = loaded.doc;
+    let thresholds = Thresholds::default();
+    let changes = args.default_palette.is_some() || args.assign;
+    if changes != args.out.is_some() {
+        return error(
+            exit::BAD_INPUT,
+            &anyhow!(
+                "--default-palette and --assign change the project: name the result with --out"
+            ),
+        );
+    }
+    if let Some(colours) = args.default_palette {
+        let Some(index) = colour::DEFAULT_PALETTES
+            .iter()
+            .position(|p| p.slots.len() == colours)
+        else {
+            return error(
+                exit::BAD_INPUT,
+                &anyhow!("there are default palettes for 3 to 8 colours, not {colours}"),
+            );
+        };
+        let edit = match palette_edit::use_default_palette(&doc, index) {
+            Ok(e) => e,
+            Err(e) => return error(exit::BAD_INPUT, &e.into()),
+        };
+        if let Err(e) = doc.apply(edit) {
+            return error(exit::BAD_INPUT, &e.into());
+        }
+    }
+    if args.assign {
+        match slot_assignment_edit(&doc, &thresholds) {
+            Ok(Some(edit)) => {
+                if let Err(e) = doc.apply(edit) {
+                    return error(exit::BAD_INPUT, &e.into());
+                }
+                eprintln!("tinct: moved colours to the slots that suit their borders best");
+            }
+            Ok(None) => eprintln!("tinct: the colours already sit on the best slots"),
+            Err(e) => return error(exit::BAD_INPUT, &anyhow!("{}: {e}", file.display())),
+        }
+    }
+    if let Some(out) = &args.out
+        && let Err(e) = crate::formats::save(&doc, out)
+    {
+        return error(exit::CANNOT_WRITE, &e);
+    }
+    let text = if args.json {
+        let mut t = report_json(&doc, &thresholds).to_string();
+        t.push('\n');
+        t
+    } else {
+        report_text(&doc, &thresholds)
+    };
+    use std::io::Write as _;
+    let mut stdout = std::io::stdout().lock();
+    if let Err(e) = stdout
+        .write_all(text.as_bytes())
+        .and_then(|_| stdout.flush())
+    {
+        return error(exit::CANNOT_WRITE, &e.into());
+    }
+    ExitCode::from(exit::OK)
+}

@@ -1,0 +1,209 @@
+//! The palette seen from the map: which slot pairs adjacent regions use, the distinctness report
+//! for those pairs, the palette as simulated readers see it, and the slot assignment as an edit.
+//!
+//! The colour science lives in [`crate::colour`]; this file only builds its inputs from the
+//! document (land regions, active borders, the current colouring) and turns results into edits.
+
+use std::collections::{BTreeMap, BTreeSet};
+
+use crate::colour::{self, NamedColour, Thresholds, Vision, Warning};
+
+use super::edit::Edit;
+use super::model::{Document, Palette, RegionId, Rgb};
+
+/// How many active borders join regions of each pair of slots `(smaller, larger)` in the current
+/// colouring. Borders between two regions of one slot (clashes) are not counted here.
+pub fn slot_border_counts(doc: &Document) -> BTreeMap<(u32, u32), u64> {
+    let mut out = BTreeMap::new();
+    for (pair, _) in doc.active_borders() {
+        let (Some(&x), Some(&y)) = (doc.colouring.get(&pair.a()), doc.colouring.get(&pair.b()))
+        else {
+            continue;
+        };
+        if x != y {
+            *out.entry((x.min(y), x.max(y))).or_insert(0) += 1;
+        }
+    }
+    out
+}
+
+/// Which slot pairs the report looked at.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum PairsChecked {
+    /// The pairs that adjacent regions use in the current colouring.
+    Colouring,
+    /// Every pair of palette slots: nothing is coloured yet, so any two slots may meet.
+    AllSlots,
+}
+
+/// One pair of slots that adjacent regions use, and how often.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct SlotPairUse {
+    pub slots: (usize, usize),
+    pub borders: u64,
+}
+
+/// The palette distinctness report for a document.
+#[derive(Clone, Debug, PartialEq)]
+pub struct PaletteReport {
+    pub thresholds: Thresholds,
+    pub pairs_checked: PairsChecked,
+    /// The pairs looked at, with their border counts (0 when checking all slots).
+    pub pairs: Vec<SlotPairUse>,
+    /// Every pair below a threshold, in slot order then view order.
+    pub warnings: Vec<Warning>,
+    /// Slots the colouring uses that the palette does not have (their regions cannot be drawn).
+    pub missing_slots: Vec<u32>,
+}
+
+impl PaletteReport {
+    /// True when no pair falls short and every used slot exists.
+    pub fn is_clear(&self) -> bool {
+        self.warnings.is_empty() && self.missing_slots.is_empty()
+    }
+}
+
+/// The palette's colours with their names, as the colour module takes them.
+pub fn named_colours(palette: &Palette) -> Vec<NamedColour> {
+    palette
+        .slots
+        .iter()
+        .map(|s| NamedColour {
+            name: s.name.clone(),
+            rgb: s.colour.0,
+        })
+        .collect()
+}
+
+/// Checks the slot pairs that adjacent regions use (or every pair, before anything is coloured)
+/// under normal vision, the three simulations and greyscale (see [`crate::colour::distinct`] for the
+/// thresholds and why).
+pub fn palette_report(doc: &Document, thresholds: &Thresholds) -> PaletteReport {
+    let counts = slot_border_counts(doc);
+    let n = doc.palette.slots.len();
+    let used: BTreeSet<u32> = doc
+        .land_regions()
+        .filter_map(|(id, _)| doc.colouring.get(&id).copied())
+        .collect();
+    let missing_slots = used.iter().copied().filter(|&s| s as usize >= n).collect();
+    let (pairs_checked, pairs) = if used.is_empty() {
+        let all: Vec<SlotPairUse> = (0..n)
+            .flat_map(|i| {
+                (i + 1..n).map(move |j| SlotPairUse {
+                    slots: (i, j),
+                    borders: 0,
+                })
+            })
+            .collect();
+        (PairsChecked::AllSlots, all)
+    } else {
+        let used_pairs: Vec<SlotPairUse> = counts
+            .iter()
+            .map(|(&(a, b), &borders)| SlotPairUse {
+                slots: (a as usize, b as usize),
+                borders,
+            })
+            .collect();
+        (PairsChecked::Colouring, used_pairs)
+    };
+    let pair_list: Vec<(usize, usize)> = pairs.iter().map(|p: &SlotPairUse| p.slots).collect();
+    let warnings =
+        colour::distinctness_warnings(&named_colours(&doc.palette), &pair_list, thresholds);
+    PaletteReport {
+        thresholds: *thresholds,
+        pairs_checked,
+        pairs,
+        warnings,
+        missing_slots,
+    }
+}
+
+/// The palette as each reader sees it, for showing side by side: one row per vision in
+/// [`Vision::ALL`] order (normal first), then the greyscale row (a grey of the same L\*).
+pub fn simulated_palettes(palette: &Palette) -> Vec<(String, Vec<Rgb>)> {
+    let mut out: Vec<(String, Vec<Rgb>)> = Vision::ALL
+        .iter()
+        .map(|v| {
+            let row = palette
+                .slots
+                .iter()
+                .map(|s| Rgb(v.simulate(s.colour.0)))
+                .collect();
+            (v.as_str().to_string(), row)
+        })
+        .collect();
+    out.push((
+        "greyscale".to_string(),
+        palette.slots.iter().map(|s| grey_of(s.colour)).collect(),
+    ));
+    out
+}
+
+/// The neutral grey with the same CIE lightness as `rgb`.
+pub fn grey_of(rgb: Rgb) -> Rgb {
+    let l = colour::lightness(rgb.0);
+    let (grey, _) = colour::lab_to_srgb8(colour::Lab { l, a: 0.0, b: 0.0 });
+    Rgb(grey)
+}
+
+/// Why slots could not be reassigned.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum SlotAssignError {
+    #[error("the colouring uses slot {slot}, but the palette has only {palette_len} slots")]
+    MissingSlot { slot: u32, palette_len: usize },
+    #[error("{0}")]
+    Assign(#[from] colour::AssignError),
+}
+
+/// The colouring with its classes moved to the palette slots that suit them best (see
+/// [`crate::colour::assign`]): classes that share many borders get the most distinct slots.
+/// A class with a pinned region keeps its slot. `Ok(None)` when the current slots are already
+/// the best choice; otherwise one undoable edit, labelled "Assign palette slots".
+pub fn slot_assignment_edit(
+    doc: &Document,
+    thresholds: &Thresholds,
+) -> Result<Option<Edit>, SlotAssignError> {
+    let n = doc.palette.slots.len();
+    // Classes are the slots in use, in slot order.
+    let classes: Vec<u32> = doc
+        .colouring
+        .values()
+        .copied()
+        .collect::<BTreeSet<u32>>()
+        .into_iter()
+        .collect();
+    if let Some(&slot) = classes.iter().find(|&&s| s as usize >= n) {
+        return Err(SlotAssignError::MissingSlot {
+            slot,
+            palette_len: n,
+        });
+    }
+    // Work over every palette slot as a class (unused slots have no borders), so that "keep
+    // the current slot" means keeping the identity.
+    let mut borders = vec![vec![0u64; n]; n];
+    for ((a, b), count) in slot_border_counts(doc) {
+        borders[a as usize][b as usize] += count;
+        borders[b as usize][a as usize] += count;
+    }
+    let mut fixed: Vec<Option<usize>> = vec![None; n];
+    for (id, region) in &doc.regions {
+        if let (Some(_), Some(&slot)) = (region.pin, doc.colouring.get(id)) {
+            fixed[slot as usize] = Some(slot as usize);
+        }
+    }
+    let colours: Vec<colour::Srgb8> = doc.palette.slots.iter().map(|s| s.colour.0).collect();
+    let distinctness = colour::distinctness_matrix(&colours, thresholds);
+    let map = colour::assign_slots(&borders, &distinctness, &fixed)?;
+    if map.iter().enumerate().all(|(c, s)| c == *s) {
+        return Ok(None);
+    }
+    let colouring: BTreeMap<RegionId, u32> = doc
+        .colouring
+        .iter()
+        .map(|(id, &slot)| (*id, map[slot as usize] as u32))
+        .collect();
+    Ok(Some(Edit::Batch {
+        label: "Assign palette slots".to_string(),
+        edits: vec![Edit::SetColouring(colouring)],
+    }))
+}

@@ -199,6 +199,16 @@ fn default_palettes_pass_the_checks_they_were_designed_for() {
                 if n <= 4 {
                     assert!(d.worst_ratio(&t) >= 1.0, "{} {i} {j}: {d:?}", palette.name);
                 }
+                // Five colours still clear every colour view (normal and the simulations), and
+                // every palette keeps its colours well apart for normal vision (ΔE00 15).
+                if n <= 5 {
+                    assert!(
+                        d.delta_e00.iter().all(|&e| e >= t.delta_e00),
+                        "{} {i} {j}",
+                        palette.name
+                    );
+                }
+                assert!(d.delta_e00[0] >= 15.0, "{} {i} {j}: {d:?}", palette.name);
             }
             // Light enough for black labels, and listed from light to dark (our own rules).
             let l = colour::lightness(palette.slots[i].1);

@@ -199,6 +199,16 @@ fn default_palettes_pass_the_checks_they_were_designed_for() {
                 if n <= 4 {
                     assert!(d.worst_ratio(&t) >= 1.0, "{} {i} {j}: {d:?}", palette.name);
                 }
+                // Five colours still clear every colour view (normal and the simulations), and
+                // every palette keeps its colours well apart for normal vision (ΔE00 15).
+                if n <= 5 {
+                    assert!(
+                        d.delta_e00.iter().all(|&e| e >= t.delta_e00),
+                        "{} {i} {j}",
+                        palette.name
+                    );
+                }
+                assert!(d.delta_e00[0] >= 15.0, "{} {i} {j}: {d:?}", palette.name);
             }
             // Light enough for black labels, and listed from light to dark (our own rules).
             let l = colour::lightness(palette.slots[i].1);
@@ -206,6 +216,95 @@ fn default_palettes_pass_the_checks_they_were_designed_for() {
             if i > 0 {
                 assert!(l < colour::lightness(palette.slots[i - 1].1));
             }
+        }
+    }
+}
+
+/// The assignment objective, written again here from its documentation (not from the library):
+/// the least distinctness over class pairs that border, then the border-weighted sum, then the
+/// number of classes that keep their slot.
+fn objective(borders: &[Vec<u64>], d: &[Vec<f64>], map: &[usize]) -> (f64, f64, usize) {
+    let mut worst = f64::INFINITY;
+    let mut sum = 0.0;
+    for i in 0..map.len() {
+        for j in i + 1..map.len() {
+            let w = borders[i][j] + borders[j][i];
+            if w > 0 {
+                worst = worst.min(d[map[i]][map[j]]);
+                sum += w as f64 * d[map[i]][map[j]];
+            }
+        }
+    }
+    let kept = (0..map.len()).filter(|&c| map[c] == c).count();
+    (worst, sum, kept)
+}
+
+fn all_maps(k: usize, n: usize, fixed: &[Option<usize>]) -> Vec<Vec<usize>> {
+    let mut out = Vec::new();
+    let mut stack = vec![Vec::new()];
+    while let Some(partial) = stack.pop() {
+        if partial.len() == k {
+            out.push(partial);
+            continue;
+        }
+        for s in 0..n {
+            let allowed = match fixed[partial.len()] {
+                Some(f) => f == s,
+                None => !fixed.contains(&Some(s)),
+            };
+            if allowed && !partial.contains(&s) {
+                let mut next = partial.clone();
+                next.push(s);
+                stack.push(next);
+            }
+        }
+    }
+    out
+}
+
+proptest::proptest! {
+    #![proptest_config(proptest::prelude::ProptestConfig::with_cases(64))]
+    #[test]
+    fn slot_assignment_is_optimal_by_brute_force(
+        k in 1usize..=4,
+        extra in 0usize..=2,
+        weights in proptest::collection::vec(0u64..4, 36),
+        scores in proptest::collection::vec(1u32..20, 36),
+        pin in proptest::option::of((0usize..4, 0usize..6)),
+    ) {
+        let n = k + extra;
+        let mut borders = vec![vec![0u64; k]; k];
+        let mut d = vec![vec![f64::INFINITY; n]; n];
+        for i in 0..k {
+            for j in i + 1..k {
+                borders[i][j] = weights[i * 6 + j];
+                borders[j][i] = borders[i][j];
+            }
+        }
+        for i in 0..n {
+            for j in i + 1..n {
+                d[i][j] = f64::from(scores[i * 6 + j]) / 4.0;
+                d[j][i] = d[i][j];
+            }
+        }
+        let mut fixed = vec![None; k];
+        if let Some((c, s)) = pin.filter(|&(c, s)| c < k && s < n) {
+            fixed[c] = Some(s);
+        }
+        let map = assign_slots(&borders, &d, &fixed).expect("an assignment");
+        proptest::prop_assert_eq!(map.len(), k);
+        for (c, f) in fixed.iter().enumerate() {
+            if let Some(s) = f {
+                proptest::prop_assert_eq!(map[c], *s);
+            }
+        }
+        let ours = objective(&borders, &d, &map);
+        for other in all_maps(k, n, &fixed) {
+            let theirs = objective(&borders, &d, &other);
+            proptest::prop_assert!(
+                theirs.partial_cmp(&ours) != Some(std::cmp::Ordering::Greater),
+                "{:?} scores {:?}, better than ours {:?} with {:?}", other, theirs, map, ours
+            );
         }
     }
 }

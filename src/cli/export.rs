@@ -25,7 +25,7 @@ use crate::doc::palette_check::{
     PairsChecked, palette_report, simulated_palettes, slot_assignment_edit,
 };
 use crate::doc::{Document, palette_edit};
-use crate::export::{self, PngSize, SvgOptions};
+use crate::export::{self, ExportFormat, PngSize, SvgOptions};
 
 /// What `tinct export` writes; at least one output is required.
 #[derive(Args, Debug, Clone)]
@@ -93,17 +93,16 @@ pub fn run_export(file: &Path, args: &ExportArgs) -> ExitCode {
     let mut files: Vec<(&PathBuf, Vec<u8>)> = Vec::new();
     let o = &args.outputs;
     let made: Result<(), export::ExportError> = (|| {
-        if let Some(path) = &o.svg {
-            files.push((path, export::to_svg(doc, &options)?.into_bytes()));
-        }
-        if let Some(path) = &o.png {
-            files.push((path, export::to_png(doc, &options, size)?));
-        }
-        if let Some(path) = &o.geojson {
-            files.push((path, export::to_geojson(doc)?.into_bytes()));
-        }
-        if let Some(path) = &o.csv {
-            files.push((path, export::to_csv(doc).into_bytes()));
+        let wanted = [
+            (&o.svg, ExportFormat::Svg),
+            (&o.png, ExportFormat::Png(size)),
+            (&o.geojson, ExportFormat::GeoJson),
+            (&o.csv, ExportFormat::Csv),
+        ];
+        for (path, format) in wanted {
+            if let Some(path) = path {
+                files.push((path, export::export_bytes(doc, format, &options)?));
+            }
         }
         Ok(())
     })();

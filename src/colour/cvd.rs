@@ -8,7 +8,9 @@
 //! libraries in `tests/colour.rs`. We chose Machado over Brettel, Viénot and Mollon (1997)
 //! because it covers all three deficiencies with one linear map each (no half-plane projection
 //! to choose per colour), which is cheap enough to run on every palette edit and easy to check.
-//! Simulations approximate the average dichromat; real readers vary.
+//! Simulations approximate the average dichromat; real readers vary. The tritan matrices are the
+//! weakest part of the model: the paper derives them by shifting the short-wavelength cone, an
+//! approximation its authors (and colour-science's documentation) point out.
 
 use super::space::{Srgb8, linear_to_srgb8, mul3, srgb8_to_linear};
 

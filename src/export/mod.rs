@@ -28,3 +28,48 @@ pub enum ExportError {
     #[error("could not render the picture: {0}")]
     Render(String),
 }
+
+/// One export kind, for callers that offer a choice (the editor's Export menu).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum ExportFormat {
+    Svg,
+    Png(PngSize),
+    GeoJson,
+    Csv,
+}
+
+impl ExportFormat {
+    /// The usual file name extension, without the dot.
+    pub fn extension(self) -> &'static str {
+        match self {
+            ExportFormat::Svg => "svg",
+            ExportFormat::Png(_) => "png",
+            ExportFormat::GeoJson => "geojson",
+            ExportFormat::Csv => "csv",
+        }
+    }
+
+    /// A short name for menus and messages.
+    pub fn label(self) -> &'static str {
+        match self {
+            ExportFormat::Svg => "SVG picture",
+            ExportFormat::Png(_) => "PNG picture",
+            ExportFormat::GeoJson => "GeoJSON for GIS",
+            ExportFormat::Csv => "CSV table",
+        }
+    }
+}
+
+/// The bytes of one export; `options` matter only to SVG and PNG.
+pub fn export_bytes(
+    doc: &crate::doc::Document,
+    format: ExportFormat,
+    options: &SvgOptions,
+) -> Result<Vec<u8>, ExportError> {
+    Ok(match format {
+        ExportFormat::Svg => to_svg(doc, options)?.into_bytes(),
+        ExportFormat::Png(size) => to_png(doc, options, size)?,
+        ExportFormat::GeoJson => to_geojson(doc)?.into_bytes(),
+        ExportFormat::Csv => to_csv(doc).into_bytes(),
+    })
+}

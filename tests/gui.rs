@@ -41,6 +41,25 @@ fn last_message(h: &Harness<'static, App>) -> String {
         .unwrap_or_default()
 }
 
+/// The text field showing `value`.
+fn text_input_with_value<'h>(
+    h: &'h Harness<'static, App>,
+    value: &'h str,
+) -> egui_kittest::Node<'h> {
+    h.get_all_by_value(value)
+        .find(|n| format!("{n:?}").contains("role: TextInput"))
+        .expect("a text field with that value")
+}
+
+/// Replaces the text of the field labelled `label`, as a user selects all and types.
+fn replace_text(h: &mut Harness<'static, App>, label: &str, text: &str) {
+    h.get_by_label(label).click();
+    h.run_steps(1);
+    h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::A);
+    h.get_by_label(label).type_text(text);
+    h.run_steps(2);
+}
+
 /// Chooses the border tool and clicks two regions, as a user adds a border.
 fn add_border_by_clicking(h: &mut Harness<'static, App>, a: RegionId, b: RegionId) {
     h.get_by_label("Border").click();
@@ -357,5 +376,110 @@ fn a_large_map_seen_whole_is_drawn_coarsely_and_in_full_once_zoomed_in() {
     assert!(
         coarse < 100,
         "whole map: {coarse} triangles besides the image"
+    );
+}
+
+#[test]
+fn the_palette_window_edits_a_colour_warns_about_a_look_alike_and_undo_restores_it() {
+    let mut h = harness(App::new(None, None));
+    // Colour the map first, so that the check is about the slot pairs neighbours really use.
+    h.state_mut()
+        .emit(tinct::ui::commands::Command::ColourFewest);
+    h.run_steps(4);
+    let before = h.state().session.doc.palette.clone();
+    // The palette section sits at the foot of the inspector: scroll to it first, as a user would.
+    h.get_by_label("Edit and check…").scroll_to_me();
+    h.run_steps(10);
+    h.get_by_label("Edit and check…").click();
+    h.run_steps(3);
+    assert!(h.query_by_label_contains("All clear").is_some());
+    // Make slot 2 the same colour as slot 1: two neighbouring colours now look alike.
+    let first = before.slots[0].colour.to_hex();
+    let second = before.slots[1].colour.to_hex();
+    // The hex field of slot 2 (the colour button beside it shows the same value).
+    text_input_with_value(&h, &second).click();
+    h.run_steps(1);
+    h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::A);
+    text_input_with_value(&h, &second).type_text(&first);
+    h.run_steps(2);
+    // Identical colours look alike in every view: normal vision, three simulations, greyscale.
+    assert_eq!(h.query_all_by_label_contains("look alike").count(), 5);
+    h.get_by_label("Apply to the project").click();
+    h.run_steps(2);
+    let after = &h.state().session.doc.palette;
+    assert_eq!(after.slots[1].colour, before.slots[0].colour);
+    assert!(!h.state().checks.palette_warnings.is_empty());
+    h.state_mut().emit(tinct::ui::commands::Command::Undo);
+    h.run_steps(2);
+    assert_eq!(h.state().session.doc.palette, before);
+}
+
+/// Exports through the Export menu and the path window, as a user does; returns the message.
+fn export_from_menu(h: &mut Harness<'static, App>, item: &str, path: &std::path::Path) -> String {
+    h.get_by_label("Export").click();
+    h.run_steps(2);
+    // A menu entry's accessible label also carries its shortcut, if any.
+    h.get_by_label_contains(item).click();
+    // The command runs at the end of the frame; a new window is measured on its first frame.
+    h.run_steps(3);
+    replace_text(h, "File path", &path.display().to_string());
+    // The menu is also called Export: the window's button comes last.
+    h.get_all_by_label("Export").last().unwrap().click();
+    h.run_steps(3);
+    last_message(h)
+}
+
+#[test]
+fn every_export_is_reachable_from_the_export_menu_and_written_where_asked() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(App::new(None, None));
+    h.state_mut()
+        .emit(tinct::ui::commands::Command::ColourFewest);
+    h.run_steps(4);
+    for (item, file) in [
+        ("Picture for print (SVG)…", "map.svg"),
+        ("Picture (PNG)…", "map.png"),
+        ("Table of regions (CSV)…", "regions.csv"),
+    ] {
+        let path = dir.path().join(file);
+        let message = export_from_menu(&mut h, item, &path);
+        assert!(message.starts_with("Wrote the"), "{item}: {message}");
+        assert!(!std::fs::read(&path).unwrap().is_empty());
+    }
+    // Each file is what it says it is (the formats are checked in depth in tests/export.rs).
+    let svg = std::fs::read_to_string(dir.path().join("map.svg")).unwrap();
+    assert!(svg.contains("<svg"));
+    let png = std::fs::read(dir.path().join("map.png")).unwrap();
+    assert_eq!(&png[..8], b"\x89PNG\r\n\x1a\n", "PNG signature (RFC 2083)");
+    let csv = std::fs::read_to_string(dir.path().join("regions.csv")).unwrap();
+    assert_eq!(
+        csv.lines().count(),
+        h.state().session.doc.regions.len() + 1,
+        "a header and one row per region"
+    );
+    // The invented sample map lies on a plane, not on the globe: GeoJSON is refused, saying why.
+    let refused = dir.path().join("planar.geojson");
+    let message = export_from_menu(&mut h, "Regions for GIS (GeoJSON)…", &refused);
+    assert!(message.contains("longitude/latitude"), "{message}");
+    assert!(!refused.exists());
+    // Real longitude/latitude data (14 US states from npm us-atlas 3.0.1, see
+    // tests/data/geo/PROVENANCE.md) exports, with a colour for every state.
+    let states = root().join("tests/data/geo/us_states_subset.geojson");
+    let mut h = harness(App::new(None, Some(states)));
+    h.run_steps(3);
+    h.state_mut()
+        .emit(tinct::ui::commands::Command::ColourFewest);
+    h.run_steps(4);
+    let out = dir.path().join("states.geojson");
+    let message = export_from_menu(&mut h, "Regions for GIS (GeoJSON)…", &out);
+    assert!(message.starts_with("Wrote the GeoJSON"), "{message}");
+    let json: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&out).unwrap()).unwrap();
+    let features = json["features"].as_array().unwrap();
+    assert_eq!(features.len(), h.state().session.doc.regions.len());
+    assert!(
+        features
+            .iter()
+            .all(|f| f["properties"]["tinct_colour"].is_u64())
     );
 }

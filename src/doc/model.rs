@@ -353,19 +353,21 @@ pub struct Palette {
 }
 
 impl Default for Palette {
-    /// Tinct's own default: six muted fills that print well, listed in the order the colouring
-    /// uses them, so a four-colour map takes the first four.
+    /// Tinct's own default, listed in the order the colouring uses them: the four colours of the
+    /// "Tinct 4" palette (every pair passes the distinctness checks of `crate::colour`, in normal
+    /// vision, the three simulated dichromacies and greyscale), then two reserves for maps that
+    /// need more than four (less distinct; the palette check says when they are used).
     fn default() -> Palette {
         let slots = [
-            ("Meadow", [0x9c, 0xc9, 0x8a]),
-            ("Sandstone", [0xe8, 0xc6, 0x8e]),
-            ("Heather", [0xb5, 0xa1, 0xcf]),
-            ("Shallows", [0x86, 0xc0, 0xc9]),
-            ("Clay", [0xd9, 0x94, 0x80]),
-            ("Slate", [0xa7, 0xad, 0xb5]),
+            ("Frost", [0xcc, 0xee, 0xff]),
+            ("Rosehip", [0xee, 0xaa, 0xcc]),
+            ("Heather", [0xaa, 0x88, 0xbb]),
+            ("Brick", [0xaa, 0x55, 0x33]),
+            ("Lagoon", [0x22, 0x99, 0x99]),
+            ("Reed", [0xbb, 0xbb, 0x88]),
         ];
         Palette {
-            name: "Tinct fields".to_string(),
+            name: "Tinct 4 with two reserves".to_string(),
             slots: slots
                 .iter()
                 .map(|(n, c)| Slot {
@@ -586,5 +588,26 @@ impl Document {
             .iter()
             .find(|(_, r)| r.name == name)
             .map(|(id, _)| *id)
+    }
+}
+
+#[cfg(test)]
+mod default_palette_tests {
+    use super::*;
+
+    #[test]
+    fn the_first_four_default_colours_pass_every_distinctness_check() {
+        // Four colours suffice for any planar map without pins (the four colour theorem), so
+        // these four must be told apart in every view the palette check knows.
+        let named = crate::doc::palette_check::named_colours(&Palette::default());
+        let pairs: Vec<(usize, usize)> = (0..4)
+            .flat_map(|i| (i + 1..4).map(move |j| (i, j)))
+            .collect();
+        let warnings = crate::colour::distinctness_warnings(
+            &named,
+            &pairs,
+            &crate::colour::Thresholds::default(),
+        );
+        assert!(warnings.is_empty(), "{warnings:#?}");
     }
 }

@@ -79,36 +79,8 @@ pub fn named_colours(palette: &Palette) -> Vec<NamedColour> {
 /// under normal vision, the three simulations and greyscale (see [`crate::colour::distinct`] for the
 /// thresholds and why).
 pub fn palette_report(doc: &Document, thresholds: &Thresholds) -> PaletteReport {
-    let counts = slot_border_counts(doc);
-    let n = doc.palette.slots.len();
-    let used: BTreeSet<u32> = doc
-        .land_regions()
-        .filter_map(|(id, _)| doc.colouring.get(&id).copied())
-        .collect();
-    let missing_slots = used.iter().copied().filter(|&s| s as usize >= n).collect();
-    let (pairs_checked, pairs) = if used.is_empty() {
-        let all: Vec<SlotPairUse> = (0..n)
-            .flat_map(|i| {
-                (i + 1..n).map(move |j| SlotPairUse {
-                    slots: (i, j),
-                    borders: 0,
-                })
-            })
-            .collect();
-        (PairsChecked::AllSlots, all)
-    } else {
-        let used_pairs: Vec<SlotPairUse> = counts
-            .iter()
-            .map(|(&(a, b), &borders)| SlotPairUse {
-                slots: (a as usize, b as usize),
-                borders,
-            })
-            .collect();
-        (PairsChecked::Colouring, used_pairs)
-    };
-    let pair_list: Vec<(usize, usize)> = pairs.iter().map(|p: &SlotPairUse| p.slots).collect();
-    let warnings =
-        colour::distinctness_warnings(&named_colours(&doc.palette), &pair_list, thresholds);
+    let (pairs_checked, pairs, missing_slots) = checked_pairs(doc, doc.palette.slots.len());
+    let warnings = pair_warnings(&doc.palette, &pairs, thresholds);
     PaletteReport {
         thresholds: *thresholds,
         pairs_checked,
@@ -116,6 +88,51 @@ pub fn palette_report(doc: &Document, thresholds: &Thresholds) -> PaletteReport 
         warnings,
         missing_slots,
     }
+}
+
+/// The slot pairs a palette of `slots` colours must keep apart on this map: the pairs that
+/// adjacent regions use in the current colouring or, before anything is coloured, every pair.
+/// Also the slots the colouring uses that such a palette lacks.
+pub fn checked_pairs(doc: &Document, slots: usize) -> (PairsChecked, Vec<SlotPairUse>, Vec<u32>) {
+    let used: BTreeSet<u32> = doc
+        .land_regions()
+        .filter_map(|(id, _)| doc.colouring.get(&id).copied())
+        .collect();
+    let missing_slots = used
+        .iter()
+        .copied()
+        .filter(|&s| s as usize >= slots)
+        .collect();
+    if used.is_empty() {
+        let all: Vec<SlotPairUse> = (0..slots)
+            .flat_map(|i| {
+                (i + 1..slots).map(move |j| SlotPairUse {
+                    slots: (i, j),
+                    borders: 0,
+                })
+            })
+            .collect();
+        return (PairsChecked::AllSlots, all, missing_slots);
+    }
+    let used_pairs: Vec<SlotPairUse> = slot_border_counts(doc)
+        .iter()
+        .map(|(&(a, b), &borders)| SlotPairUse {
+            slots: (a as usize, b as usize),
+            borders,
+        })
+        .collect();
+    (PairsChecked::Colouring, used_pairs, missing_slots)
+}
+
+/// The warnings for `pairs` of `palette` (which need not be the document's: the editor checks a
+/// palette while it is being edited).
+pub fn pair_warnings(
+    palette: &Palette,
+    pairs: &[SlotPairUse],
+    thresholds: &Thresholds,
+) -> Vec<Warning> {
+    let pair_list: Vec<(usize, usize)> = pairs.iter().map(|p| p.slots).collect();
+    colour::distinctness_warnings(&named_colours(palette), &pair_list, thresholds)
 }
 
 /// The palette as each reader sees it, for showing side by side: one row per vision in

@@ -10,7 +10,7 @@ use crate::doc::{
 use crate::worker::analysis::{self, Analysis};
 use crate::worker::{Event, JobKind, Worker};
 
-use super::commands::{Command, Tool};
+use super::commands::{Command, ExportFormat, Tool};
 use super::mesh::Scene;
 use super::view::Camera;
 
@@ -67,6 +67,8 @@ pub struct Checks {
     pub land_regions: usize,
     /// How many regions use each palette slot.
     pub slot_use: Vec<usize>,
+    /// The palette's distinctness warnings for the slot pairs neighbours use.
+    pub palette_warnings: Vec<String>,
 }
 
 impl Checks {
@@ -88,6 +90,14 @@ impl Checks {
                 }
                 counts
             },
+            palette_warnings: doc::palette_check::palette_report(
+                doc,
+                &crate::colour::Thresholds::default(),
+            )
+            .warnings
+            .into_iter()
+            .map(|w| w.message)
+            .collect(),
         }
     }
 }
@@ -104,6 +114,68 @@ pub enum JobResult {
         revision: u64,
         verdict: Box<analysis::ColouringVerdict>,
     },
+    /// An export written (its size in bytes) or the reason it was not.
+    Exported {
+        format: ExportFormat,
+        path: PathBuf,
+        result: Result<usize, String>,
+    },
+}
+
+/// A byte count in words a user reads at a glance.
+fn human_size(bytes: usize) -> String {
+    match bytes {
+        b if b < 1024 => format!("{b} bytes"),
+        b if b < 1024 * 1024 => format!("{:.0} KB", b as f64 / 1024.0),
+        b => format!("{:.1} MB", b as f64 / (1024.0 * 1024.0)),
+    }
+}
+
+/// How pictures are exported (kept for the session, not in the project).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct ExportOptions {
+    /// Region names on the picture.
+    pub labels: bool,
+    /// A legend of the colours in use.
+    pub legend: bool,
+    /// Page width in millimetres (SVG and PNG).
+    pub width_mm: f64,
+    /// Resolution of a PNG, in dots per inch at that page width.
+    pub dpi: u32,
+}
+
+impl Default for ExportOptions {
+    fn default() -> ExportOptions {
+        ExportOptions {
+            labels: true,
+            legend: true,
+            width_mm: 180.0,
+            dpi: 300,
+        }
+    }
+}
+
+/// Makes the bytes of an export (run on the worker: a PNG of a large map takes a while).
+pub fn export_bytes(
+    doc: &Document,
+    format: ExportFormat,
+    options: ExportOptions,
+) -> Result<Vec<u8>, crate::export::ExportError> {
+    let svg = crate::export::SvgOptions {
+        width_mm: options.width_mm,
+        labels: options.labels,
+        legend: options.legend,
+        ..Default::default()
+    };
+    let format = match format {
+        ExportFormat::Svg => crate::export::ExportFormat::Svg,
+        ExportFormat::Png => {
+            crate::export::ExportFormat::Png(crate::export::PngSize::Dpi(options.dpi as f64))
+        }
+        ExportFormat::GeoJson => crate::export::ExportFormat::GeoJson,
+        ExportFormat::Csv => crate::export::ExportFormat::Csv,
+    };
+    crate::export::export_bytes(doc, format, &svg)
 }
 
 /// Which certificate the map highlights.
@@ -144,6 +216,8 @@ pub enum PathPurpose {
     SaveAs,
     /// A folder for the CNF and DRAT proof files.
     ExportProof,
+    /// Where an export goes.
+    Export(ExportFormat),
 }
 
 /// The small window that asks for a file path (typed, or chosen with the system dialog).
@@ -250,6 +324,10 @@ pub struct App {
     /// The revision last written aside, if any.
     autosaved_revision: Option<u64>,
     last_title: String,
+    /// How pictures are exported.
+    pub export_options: ExportOptions,
+    /// The palette window, while open.
+    pub palette_editor: Option<super::palette::PaletteEditor>,
 }
 
 impl App {
@@ -292,6 +370,8 @@ impl App {
             pending: Vec::new(),
             quit_confirmed: false,
             last_title: String::new(),
+            export_options: ExportOptions::default(),
+            palette_editor: None,
             recent: recovery
                 .as_deref()
                 .map(doc::recovery::recent_files)
@@ -422,6 +502,27 @@ impl App {
 
     fn receive(&mut self, result: JobResult) {
         match result {
+            JobResult::Exported {
+                format,
+                path,
+                result: Ok(bytes),
+            } => self.say(
+                Level::Info,
+                format!(
+                    "Wrote the {} to {} ({})",
+                    format.name(),
+                    path.display(),
+                    human_size(bytes)
+                ),
+            ),
+            JobResult::Exported {
+                format,
+                result: Err(e),
+                ..
+            } => self.say(
+                Level::Error,
+                format!("The {} was not written: {e}", format.name()),
+            ),
             JobResult::Loaded {
                 path,
                 result: Ok(loaded),
@@ -551,6 +652,42 @@ impl App {
     }
 
     /// Writes the CNF and the DRAT proof that three colours fail into `folder`.
+    /// Writes an export on the worker (a picture of a large map takes a while); the result
+    /// arrives as a message.
+    pub fn export_to(&mut self, format: ExportFormat, path: PathBuf) {
+        let snapshot = crate::worker::snapshot(&self.session.doc);
+        let options = self.export_options;
+        let revision = self.session.doc.revision();
+        let job = move |_: &crate::worker::JobContext| {
+            let result = export_bytes(&snapshot, format, options)
+                .map_err(|e| e.to_string())
+                .and_then(|bytes| {
+                    doc::file::write_atomically(&path, &bytes)
+                        .map(|()| bytes.len())
+                        .map_err(|e| format!("cannot write {}: {e}", path.display()))
+                });
+            JobResult::Exported {
+                format,
+                path,
+                result,
+            }
+        };
+        match &mut self.worker {
+            Some(w) => {
+                w.submit(revision, JobKind::Export, Box::new(job));
+                self.say(Level::Info, format!("Writing the {}…", format.name()));
+            }
+            None => {
+                let ctx = crate::worker::JobContext {
+                    cancel: Default::default(),
+                    progress: Default::default(),
+                };
+                let result = job(&ctx);
+                self.receive(result);
+            }
+        }
+    }
+
     pub fn export_proof(&mut self, folder: &Path) {
         let proof = self
             .analysis
@@ -688,6 +825,10 @@ impl App {
                         self.path_prompt = None;
                         self.export_proof(&path);
                     }
+                    PathPurpose::Export(format) => {
+                        self.path_prompt = None;
+                        self.export_to(format, path);
+                    }
                 },
                 None => self.say(
                     Level::Info,
@@ -767,6 +908,9 @@ impl App {
                     PathPurpose::ExportProof => rfd::FileDialog::new().pick_folder(),
                     PathPurpose::Open => dialog.pick_file(),
                     PathPurpose::SaveAs => dialog.set_file_name("map.tinct").save_file(),
+                    PathPurpose::Export(format) => rfd::FileDialog::new()
+                        .set_file_name(format.default_file_name())
+                        .save_file(),
                 };
                 let _ = sender.send((purpose, picked));
             });
@@ -892,6 +1036,43 @@ impl App {
                 if !self.session.doc.colouring.is_empty() {
                     self.edit(Edit::SetColouring(Default::default()));
                 }
+            }
+            Command::PaletteWindow => {
+                if self.palette_editor.is_none() {
+                    self.palette_editor = Some(super::palette::PaletteEditor::new(
+                        &self.session.doc.palette,
+                    ));
+                }
+            }
+            Command::AssignSlots => {
+                let thresholds = crate::colour::Thresholds::default();
+                match doc::palette_check::slot_assignment_edit(&self.session.doc, &thresholds) {
+                    Ok(Some(edit)) => {
+                        self.edit(edit);
+                        self.say(
+                            Level::Info,
+                            "Colours moved between slots: those that meet most often now differ most",
+                        );
+                    }
+                    Ok(None) => self.say(
+                        Level::Info,
+                        "The colours already sit in the slots that suit them best",
+                    ),
+                    Err(e) => self.say(Level::Error, format!("Slots not reassigned: {e}")),
+                }
+            }
+            Command::Export(format) => {
+                let text = self
+                    .session
+                    .path
+                    .as_ref()
+                    .and_then(|p| p.parent())
+                    .map(|dir| dir.join(format.default_file_name()).display().to_string())
+                    .unwrap_or_else(|| format.default_file_name().to_string());
+                self.path_prompt = Some(PathPrompt {
+                    purpose: PathPurpose::Export(format),
+                    text,
+                });
             }
         }
     }

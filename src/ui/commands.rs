@@ -64,6 +64,48 @@ impl Tool {
     }
 }
 
+/// What an export writes.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum ExportFormat {
+    /// A picture for print layouts, in millimetres.
+    Svg,
+    /// A raster picture at a chosen resolution.
+    Png,
+    /// The regions with their colours, for a GIS.
+    GeoJson,
+    /// A table of regions and colours.
+    Csv,
+}
+
+impl ExportFormat {
+    pub const ALL: [ExportFormat; 4] = [
+        ExportFormat::Svg,
+        ExportFormat::Png,
+        ExportFormat::GeoJson,
+        ExportFormat::Csv,
+    ];
+
+    /// The file name offered by default.
+    pub fn default_file_name(self) -> &'static str {
+        match self {
+            ExportFormat::Svg => "map.svg",
+            ExportFormat::Png => "map.png",
+            ExportFormat::GeoJson => "map.geojson",
+            ExportFormat::Csv => "regions.csv",
+        }
+    }
+
+    /// The short name used in messages.
+    pub fn name(self) -> &'static str {
+        match self {
+            ExportFormat::Svg => "SVG picture",
+            ExportFormat::Png => "PNG picture",
+            ExportFormat::GeoJson => "GeoJSON",
+            ExportFormat::Csv => "CSV table",
+        }
+    }
+}
+
 /// A command. Each knows its label, its tooltip and its keyboard shortcut.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Command {
@@ -85,6 +127,11 @@ pub enum Command {
     ExportProof,
     ClearColours,
     CommandList,
+    /// Opens the palette window (edit slots, check distinctness, see simulated readers).
+    PaletteWindow,
+    /// Moves colour classes to the palette slots that suit them best.
+    AssignSlots,
+    Export(ExportFormat),
 }
 
 /// Which menu a command appears in.
@@ -95,15 +142,17 @@ pub enum Menu {
     View,
     Tools,
     Colour,
+    Export,
 }
 
 impl Menu {
-    pub const ALL: [Menu; 5] = [
+    pub const ALL: [Menu; 6] = [
         Menu::File,
         Menu::Edit,
         Menu::View,
         Menu::Tools,
         Menu::Colour,
+        Menu::Export,
     ];
     pub fn label(self) -> &'static str {
         match self {
@@ -112,6 +161,7 @@ impl Menu {
             Menu::View => "View",
             Menu::Tools => "Tools",
             Menu::Colour => "Colour",
+            Menu::Export => "Export",
         }
     }
 }
@@ -138,9 +188,12 @@ impl Command {
         out.extend([
             Command::ColourFewest,
             Command::BalanceColours,
+            Command::PaletteWindow,
+            Command::AssignSlots,
             Command::ExportProof,
             Command::ClearColours,
         ]);
+        out.extend(ExportFormat::ALL.iter().map(|f| Command::Export(*f)));
         out
     }
 
@@ -160,7 +213,10 @@ impl Command {
             Command::ColourFewest
             | Command::BalanceColours
             | Command::ExportProof
-            | Command::ClearColours => Menu::Colour,
+            | Command::ClearColours
+            | Command::PaletteWindow
+            | Command::AssignSlots => Menu::Colour,
+            Command::Export(_) => Menu::Export,
         }
     }
 
@@ -184,6 +240,12 @@ impl Command {
             Command::BalanceColours => "Even out colour use".into(),
             Command::ExportProof => "Export the proof that three colours fail…".into(),
             Command::ClearColours => "Remove all colours".into(),
+            Command::PaletteWindow => "Palette and print check…".into(),
+            Command::AssignSlots => "Most distinct colours for most borders".into(),
+            Command::Export(ExportFormat::Svg) => "Picture for print (SVG)…".into(),
+            Command::Export(ExportFormat::Png) => "Picture (PNG)…".into(),
+            Command::Export(ExportFormat::GeoJson) => "Regions for GIS (GeoJSON)…".into(),
+            Command::Export(ExportFormat::Csv) => "Table of regions (CSV)…".into(),
         }
     }
 
@@ -215,6 +277,24 @@ impl Command {
                 "Write the obstruction's CNF and its DRAT proof, for checking with any DRAT checker"
             }
             Command::ClearColours => "Remove the colour of every region (undoable)",
+            Command::PaletteWindow => {
+                "Edit the palette's colours and names, and check that neighbouring colours stay distinct in greyscale and for colour-blind readers"
+            }
+            Command::AssignSlots => {
+                "Swap whole colours between palette slots so that the colours that meet most often get the most distinct slots; pinned colours stay (undoable)"
+            }
+            Command::Export(ExportFormat::Svg) => {
+                "Write the coloured map with a legend as SVG, sized in millimetres for a print layout"
+            }
+            Command::Export(ExportFormat::Png) => {
+                "Write the coloured map with a legend as a PNG image at the chosen resolution"
+            }
+            Command::Export(ExportFormat::GeoJson) => {
+                "Write the regions with their colour number and fill as GeoJSON (longitude and latitude) for a GIS"
+            }
+            Command::Export(ExportFormat::Csv) => {
+                "Write one row per region: id, name, colour number, fill, group and pin"
+            }
         }
     }
 
@@ -248,6 +328,13 @@ impl Command {
             Command::BalanceColours => None,
             Command::ExportProof => None,
             Command::ClearColours => None,
+            Command::PaletteWindow => None,
+            Command::AssignSlots => None,
+            Command::Export(ExportFormat::Svg) => Some(KeyboardShortcut::new(
+                Modifiers::COMMAND | Modifiers::SHIFT,
+                Key::E,
+            )),
+            Command::Export(_) => None,
         }
     }
 

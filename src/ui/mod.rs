@@ -7,6 +7,7 @@ pub mod app;
 pub mod canvas;
 pub mod commands;
 pub mod mesh;
+pub mod palette;
 pub mod panels;
 pub mod view;
 
@@ -40,6 +41,7 @@ impl App {
         egui::CentralPanel::default().show(ui, |ui| canvas::canvas_ui(self, ui));
         panels::dialogs_ui(self, &ctx);
         panels::argument_ui(self, &ctx);
+        palette::palette_window_ui(self, &ctx);
         self.run_pending(&ctx);
     }
 }

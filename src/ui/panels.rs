@@ -6,9 +6,9 @@ use egui::{Color32, RichText};
 
 use crate::doc::{BorderKind, Document, Edit, GroupId, RegionChange, RegionId, Role};
 
-use super::app::{App, Checks, Highlight, Level, PathPurpose};
+use super::app::{App, Checks, ExportOptions, Highlight, Level, PathPurpose};
 use super::canvas::style;
-use super::commands::{Command, Menu, Tool, search};
+use super::commands::{Command, ExportFormat, Menu, Tool, search};
 use crate::worker::analysis::PlanarityVerdict;
 
 /// One line of the verdict panel.
@@ -26,7 +26,7 @@ pub enum VerdictLine {
 }
 
 /// A filled square of colour, drawn rather than typed so it needs no glyph from any font.
-fn swatch(ui: &mut egui::Ui, colour: Color32, size: f32) {
+pub(super) fn swatch(ui: &mut egui::Ui, colour: Color32, size: f32) {
     let (rect, _) = ui.allocate_exact_size(egui::vec2(size, size), egui::Sense::hover());
     ui.painter().rect_filled(rect, 2.0, colour);
     ui.painter().rect_stroke(
@@ -745,6 +745,7 @@ pub fn palette_ui(app: &mut App, ui: &mut egui::Ui) {
     let doc = &app.session.doc;
     ui.label(&doc.palette.name);
     let counts = &app.checks.slot_use;
+    let warnings = &app.checks.palette_warnings;
     for (i, slot) in doc.palette.slots.iter().enumerate() {
         let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
         ui.horizontal(|ui| {
@@ -758,6 +759,40 @@ pub fn palette_ui(app: &mut App, ui: &mut egui::Ui) {
             ));
         });
     }
+    match warnings.len() {
+        0 => marked(
+            ui,
+            true,
+            "Neighbouring colours stay distinct, also in greyscale and for colour-blind readers"
+                .into(),
+        ),
+        n => {
+            marked(
+                ui,
+                false,
+                format!("{n} warning(s): some neighbouring colours are hard to tell apart"),
+            );
+            for w in warnings.iter().take(3) {
+                ui.label(RichText::new(w).small());
+            }
+        }
+    }
+    ui.horizontal(|ui| {
+        if ui
+            .button("Edit and check…")
+            .on_hover_text(Command::PaletteWindow.tooltip())
+            .clicked()
+        {
+            app.emit(Command::PaletteWindow);
+        }
+        if ui
+            .button("Best slots")
+            .on_hover_text(Command::AssignSlots.tooltip())
+            .clicked()
+        {
+            app.emit(Command::AssignSlots);
+        }
+    });
 }
 
 /// The status line: file, tool hint, messages.
@@ -782,6 +817,37 @@ pub fn status_ui(app: &mut App, ui: &mut egui::Ui) {
         };
         ui.label(RichText::new(&m.text).color(colour));
     }
+}
+
+/// The choices that shape an exported picture (pictures only; data exports have none).
+fn export_options_ui(ui: &mut egui::Ui, format: ExportFormat, options: &mut ExportOptions) {
+    if !matches!(format, ExportFormat::Svg | ExportFormat::Png) {
+        return;
+    }
+    ui.horizontal(|ui| {
+        ui.checkbox(&mut options.labels, "Region names");
+        ui.checkbox(&mut options.legend, "Legend");
+    });
+    ui.horizontal(|ui| {
+        ui.label("Page width");
+        ui.add(
+            egui::DragValue::new(&mut options.width_mm)
+                .range(20.0..=2000.0)
+                .suffix(" mm"),
+        );
+        if format == ExportFormat::Png {
+            ui.label("at");
+            egui::ComboBox::from_id_salt("export-dpi")
+                .selected_text(format!("{} dpi", options.dpi))
+                .show_ui(ui, |ui| {
+                    for dpi in [96, 150, 300, 600] {
+                        ui.selectable_value(&mut options.dpi, dpi, format!("{dpi} dpi"));
+                    }
+                });
+            let px = options.width_mm / 25.4 * options.dpi as f64;
+            ui.label(format!("({px:.0} pixels wide)"));
+        }
+    });
 }
 
 /// Dialog windows: the path prompt, the unsaved-changes question and the command list.
@@ -857,28 +923,36 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
     }
     if let Some(prompt) = &mut app.path_prompt {
         let title = match prompt.purpose {
-            PathPurpose::Open => "Open a file",
-            PathPurpose::SaveAs => "Save the project as",
-            PathPurpose::ExportProof => "Export the proof to a folder",
+            PathPurpose::Open => "Open a file".to_string(),
+            PathPurpose::SaveAs => "Save the project as".to_string(),
+            PathPurpose::ExportProof => "Export the proof to a folder".to_string(),
+            PathPurpose::Export(format) => format!("Export a {}", format.name()),
         };
+        let export_options = &mut app.export_options;
         let mut action: Option<u8> = None;
         egui::Window::new(title)
             .collapsible(false)
             .resizable(false)
             .show(ctx, |ui| {
-                ui.label("Type the file's path, or browse for it:");
-                let r = ui.add(egui::TextEdit::singleline(&mut prompt.text).desired_width(420.0));
-                r.widget_info(|| {
-                    egui::WidgetInfo::labeled(egui::Role::TextInput, true, "File path")
-                });
+                ui.label("Type the file's path, or browse for it.");
+                let r = ui
+                    .horizontal(|ui| {
+                        let label = ui.label("File path");
+                        ui.add(egui::TextEdit::singleline(&mut prompt.text).desired_width(360.0))
+                            .labelled_by(label.id)
+                    })
+                    .inner;
                 if r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter)) {
                     action = Some(0);
+                }
+                if let PathPurpose::Export(format) = prompt.purpose {
+                    export_options_ui(ui, format, export_options);
                 }
                 ui.horizontal(|ui| {
                     let go = match prompt.purpose {
                         PathPurpose::Open => "Open",
                         PathPurpose::SaveAs => "Save",
-                        PathPurpose::ExportProof => "Export",
+                        PathPurpose::ExportProof | PathPurpose::Export(_) => "Export",
                     };
                     if ui.button(go).clicked() {
                         action = Some(0);
@@ -901,6 +975,7 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
                     PathPurpose::Open => app.open_path(path),
                     PathPurpose::SaveAs => app.save_to(&path),
                     PathPurpose::ExportProof => app.export_proof(&path),
+                    PathPurpose::Export(format) => app.export_to(format, path),
                 }
             }
             Some(1) => app.browse(purpose),

@@ -78,6 +78,8 @@ pub enum JobKind {
     Analysis,
     Load,
     Other,
+    /// Writing a file the user asked for: never cancelled by a newer job (each is wanted).
+    Export,
 }
 
 /// What the worker reports back.
@@ -166,7 +168,9 @@ impl<T: Send + 'static> Worker<T> {
 
     /// Queues a job for `revision`, cancelling any earlier job of the same kind.
     pub fn submit(&mut self, revision: u64, kind: JobKind, job: JobFn<T>) {
-        self.cancel(kind);
+        if kind != JobKind::Export {
+            self.cancel(kind);
+        }
         let cancel = Arc::new(AtomicBool::new(false));
         let progress = Arc::new(Progress::default());
         self.running

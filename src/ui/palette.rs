@@ -1,0 +1,294 @@
+//! The palette window: edit slot colours and names on a working copy, see the palette as readers
+//! with a colour-vision deficiency and a greyscale copy show it, read the warnings for the slot
+//! pairs that neighbouring regions use, and apply the copy to the project as one undoable edit.
+
+use egui::{Color32, RichText};
+
+use crate::colour::{DEFAULT_PALETTES, Thresholds, Warning};
+use crate::doc::palette_check::{self, PairsChecked, SlotPairUse};
+use crate::doc::{Edit, Palette, Rgb, Slot};
+
+use super::app::{App, Level};
+use super::panels::swatch;
+
+/// The working copy of the palette while the window is open.
+pub struct PaletteEditor {
+    pub draft: Palette,
+    /// The hex text of each slot as typed (applied to the draft when it parses).
+    pub hex: Vec<String>,
+    /// For a document state (`Scene::generation`) and a number of slots: the slot pairs to
+    /// check, and which slots regions use or are pinned to.
+    pairs: Option<CheckedPairs>,
+}
+
+/// The slot pairs to check for one document state and slot count, and the slots in use.
+type CheckedPairs = ((u64, usize), PairsChecked, Vec<SlotPairUse>, Vec<bool>);
+
+impl PaletteEditor {
+    pub fn new(palette: &Palette) -> PaletteEditor {
+        PaletteEditor {
+            draft: palette.clone(),
+            hex: palette.slots.iter().map(|s| s.colour.to_hex()).collect(),
+            pairs: None,
+        }
+    }
+
+    fn reset(&mut self, palette: &Palette) {
+        let pairs = self.pairs.take();
+        *self = PaletteEditor::new(palette);
+        self.pairs = pairs;
+    }
+}
+
+fn colour32(rgb: Rgb) -> Color32 {
+    Color32::from_rgb(rgb.0[0], rgb.0[1], rgb.0[2])
+}
+
+/// What the window says about a draft: one line per warning, or why all is well. Pure, so it is
+/// unit-tested.
+pub fn distinctness_lines(
+    checked: PairsChecked,
+    pairs: &[SlotPairUse],
+    warnings: &[Warning],
+) -> Vec<String> {
+    if !warnings.is_empty() {
+        return warnings.iter().map(|w| w.message.clone()).collect();
+    }
+    let scope = match checked {
+        PairsChecked::Colouring => format!(
+            "the {} slot pair(s) that neighbouring regions use",
+            pairs.len()
+        ),
+        PairsChecked::AllSlots => "every pair of slots (nothing is coloured yet)".to_string(),
+    };
+    vec![format!(
+        "All clear: {scope} stay distinct in normal vision, for the three colour-vision deficiencies and in greyscale."
+    )]
+}
+
+/// Draws the palette window while it is open.
+pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
+    let Some(editor) = &mut app.palette_editor else {
+        return;
+    };
+    let key = (app.scene.generation, editor.draft.slots.len());
+    let doc = &app.session.doc;
+    if editor.pairs.as_ref().is_none_or(|(k, ..)| *k != key) {
+        let (checked, pairs, _) = palette_check::checked_pairs(doc, key.1);
+        let mut in_use: Vec<bool> = (0..key.1)
+            .map(|i| app.checks.slot_use.get(i).copied().unwrap_or(0) > 0)
+            .collect();
+        for pin in doc.regions.values().filter_map(|r| r.pin) {
+            if let Some(u) = in_use.get_mut(pin as usize) {
+                *u = true;
+            }
+        }
+        editor.pairs = Some((key, checked, pairs, in_use));
+    }
+    let thresholds = Thresholds::default();
+    let in_use = editor
+        .pairs
+        .as_ref()
+        .map(|p| p.3.clone())
+        .unwrap_or_default();
+    let mut open = true;
+    let mut apply = false;
+    let mut reset = false;
+    let mut remove: Option<usize> = None;
+    egui::Window::new("Palette and print check")
+        .open(&mut open)
+        .default_width(520.0)
+        .show(ctx, |ui| {
+            ui.horizontal(|ui| {
+                ui.label("Palette name");
+                ui.text_edit_singleline(&mut editor.draft.name);
+            });
+            ui.horizontal(|ui| {
+                ui.label("Start from one of ours:");
+                egui::ComboBox::from_id_salt("default-palettes")
+                    .selected_text("choose…")
+                    .show_ui(ui, |ui| {
+                        for p in &DEFAULT_PALETTES {
+                            let label = format!("{} ({} colours)", p.name, p.slots.len());
+                            if ui.selectable_label(false, label).clicked() {
+                                editor.draft = Palette {
+                                    name: p.name.to_string(),
+                                    slots: p
+                                        .slots
+                                        .iter()
+                                        .map(|(name, rgb)| Slot {
+                                            name: name.to_string(),
+                                            colour: Rgb(*rgb),
+                                        })
+                                        .collect(),
+                                };
+                                editor.hex =
+                                    editor.draft.slots.iter().map(|s| s.colour.to_hex()).collect();
+                            }
+                        }
+                    });
+            });
+            ui.separator();
+            egui::Grid::new("palette-slots")
+                .num_columns(5)
+                .spacing([8.0, 4.0])
+                .show(ui, |ui| {
+                    for i in 0..editor.draft.slots.len() {
+                        ui.label(format!("{}.", i + 1));
+                        let slot = &mut editor.draft.slots[i];
+                        let mut rgb = slot.colour.0;
+                        if ui
+                            .color_edit_button_srgb(&mut rgb)
+                            .on_hover_text("Pick a colour")
+                            .changed()
+                        {
+                            slot.colour = Rgb(rgb);
+                            editor.hex[i] = slot.colour.to_hex();
+                        }
+                        ui.add(egui::TextEdit::singleline(&mut slot.name).desired_width(120.0))
+                            .widget_info(|| {
+                                egui::WidgetInfo::labeled(
+                                    egui::Role::TextInput,
+                                    true,
+                                    format!("Name of slot {}", i + 1),
+                                )
+                            });
+                        let hex = ui
+                            .add(egui::TextEdit::singleline(&mut editor.hex[i]).desired_width(72.0));
+                        hex.widget_info(|| {
+                            egui::WidgetInfo::labeled(
+                                egui::Role::TextInput,
+                                true,
+                                format!("Hex colour of slot {}", i + 1),
+                            )
+                        });
+                        if hex.changed()
+                            && let Some(parsed) = Rgb::from_hex(editor.hex[i].trim())
+                        {
+                            slot.colour = parsed;
+                        }
+                        let used = in_use.get(i).copied().unwrap_or(false);
+                        if ui
+                            .add_enabled(!used && editor.draft.slots.len() > 1, egui::Button::new("Remove"))
+                            .on_disabled_hover_text(
+                                "Regions use or are pinned to this colour: recolour or unpin them first",
+                            )
+                            .clicked()
+                        {
+                            remove = Some(i);
+                        }
+                        ui.end_row();
+                    }
+                });
+            if ui.button("Add a colour").clicked() {
+                let colour = Rgb([0xbb, 0xbb, 0xbb]);
+                editor.draft.slots.push(Slot {
+                    name: format!("Colour {}", editor.draft.slots.len() + 1),
+                    colour,
+                });
+                editor.hex.push(colour.to_hex());
+            }
+            ui.separator();
+            ui.label(RichText::new("As readers see it").strong());
+            egui::Grid::new("palette-simulated")
+                .num_columns(2)
+                .show(ui, |ui| {
+                    for (vision, row) in palette_check::simulated_palettes(&editor.draft) {
+                        ui.label(vision);
+                        ui.horizontal(|ui| {
+                            for rgb in row {
+                                swatch(ui, colour32(rgb), 20.0);
+                            }
+                        });
+                        ui.end_row();
+                    }
+                });
+            ui.separator();
+            ui.label(RichText::new("Neighbouring colours").strong());
+            if let Some((_, checked, pairs, _)) = &editor.pairs {
+                let warnings = palette_check::pair_warnings(&editor.draft, pairs, &thresholds);
+                let good = warnings.is_empty();
+                for line in distinctness_lines(*checked, pairs, &warnings) {
+                    let colour = if good {
+                        Color32::from_rgb(0x2e, 0x7d, 0x32)
+                    } else {
+                        Color32::from_rgb(0xa0, 0x60, 0x00)
+                    };
+                    ui.label(RichText::new(line).color(colour));
+                }
+                ui.label(
+                    RichText::new(format!(
+                        "Thresholds: colour difference ΔE00 of at least {:.0}, lightness difference of at least {:.0} L* in greyscale. Simulations approximate; check a printed proof by eye.",
+                        thresholds.delta_e00, thresholds.grey_delta_l
+                    ))
+                    .small(),
+                );
+            }
+            ui.separator();
+            ui.horizontal(|ui| {
+                let changed = editor.draft != doc.palette;
+                if ui
+                    .add_enabled(changed, egui::Button::new("Apply to the project"))
+                    .clicked()
+                {
+                    apply = true;
+                }
+                if ui
+                    .add_enabled(changed, egui::Button::new("Discard these changes"))
+                    .clicked()
+                {
+                    reset = true;
+                }
+            });
+        });
+    if let Some(i) = remove {
+        editor.draft.slots.remove(i);
+        editor.hex.remove(i);
+    }
+    if reset {
+        editor.reset(&doc.palette);
+    }
+    if apply {
+        let draft = editor.draft.clone();
+        if let Some(bad) = draft.slots.iter().position(|s| s.name.trim().is_empty()) {
+            app.say(Level::Error, format!("Slot {} needs a name", bad + 1));
+        } else {
+            app.edit(Edit::SetPalette(draft));
+            app.say(Level::Info, "Palette applied (undo puts the old one back)");
+        }
+    }
+    if !open {
+        app.palette_editor = None;
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::colour::View;
+    use crate::colour::Vision;
+
+    #[test]
+    fn the_window_lists_warnings_or_says_what_was_checked() {
+        let pairs = vec![SlotPairUse {
+            slots: (0, 1),
+            borders: 3,
+        }];
+        let clear = distinctness_lines(PairsChecked::Colouring, &pairs, &[]);
+        assert_eq!(clear.len(), 1);
+        assert!(clear[0].contains("the 1 slot pair(s) that neighbouring regions use"));
+        let none_coloured = distinctness_lines(PairsChecked::AllSlots, &[], &[]);
+        assert!(none_coloured[0].contains("nothing is coloured yet"));
+        let warning = Warning {
+            slots: (0, 1),
+            view: View::Colour(Vision::Deuteranopia),
+            value: 4.0,
+            threshold: 10.0,
+            message: "Slots 1 'A' and 2 'B' look alike".into(),
+        };
+        assert_eq!(
+            distinctness_lines(PairsChecked::Colouring, &pairs, &[warning]),
+            vec!["Slots 1 'A' and 2 'B' look alike".to_string()]
+        );
+    }
+}

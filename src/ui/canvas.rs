@@ -17,7 +17,8 @@ pub mod style {
     use egui::Color32;
     pub const BACKGROUND: Color32 = Color32::from_rgb(0xf4, 0xf2, 0xec);
     pub const UNCOLOURED: Color32 = Color32::from_rgb(0xe4, 0xe1, 0xd8);
-    pub const WATER: Color32 = Color32::from_rgb(0xcf, 0xe0, 0xea);
+    pub const WATER: Color32 = Color32::from_rgb(0xe3, 0xec, 0xf1);
+    pub const WATER_HATCH: Color32 = Color32::from_rgb(0x6d, 0x9c, 0xc0);
     pub const OUTLINE: Color32 = Color32::from_rgb(0x55, 0x55, 0x55);
     pub const SELECTION: Color32 = Color32::from_rgb(0x17, 0x45, 0x8f);
     pub const CLASH: Color32 = Color32::from_rgb(0xc4, 0x1e, 0x3a);
@@ -659,6 +660,20 @@ fn draw_base(
             mesh.colored_vertex(to_screen(*v), colour);
         }
         mesh.indices.extend(tris.indices.iter().map(|i| base + i));
+        if region.role == Role::Water
+            && let Some(g) = &region.geometry
+        {
+            // Water is hatched, so it never reads as a pale palette colour.
+            let rings: Vec<Vec<Pos2>> = g
+                .polygons
+                .iter()
+                .flat_map(|p| std::iter::once(&p.exterior).chain(p.holes.iter()))
+                .map(|ring| ring.iter().map(|p| to_screen(*p)).collect())
+                .collect();
+            for [a, b] in hatch_segments(&rings, WATER_HATCH_PX) {
+                add_segment(&mut mesh, a, b, 1.0, style::WATER_HATCH);
+            }
+        }
     }
 
     // Outlines: each boundary once, with points closer than `DECIMATE_PX` merged; none for
@@ -722,6 +737,60 @@ fn draw_base(
     (mesh, Some((image, at)))
 }
 
+/// Spacing of the hatching of water, in points.
+const WATER_HATCH_PX: f32 = 5.0;
+
+/// Horizontal segments inside the polygon made of `rings` (even-odd rule), one row every
+/// `spacing` points: a scanline fill, clipped exactly to the outline and its holes.
+fn hatch_segments(rings: &[Vec<Pos2>], spacing: f32) -> Vec<[Pos2; 2]> {
+    let (mut top, mut bottom) = (f32::INFINITY, f32::NEG_INFINITY);
+    for p in rings.iter().flatten() {
+        top = top.min(p.y);
+        bottom = bottom.max(p.y);
+    }
+    let mut out = Vec::new();
+    if !(top.is_finite() && bottom.is_finite()) {
+        return out;
+    }
+    let mut xs: Vec<f32> = Vec::new();
+    let mut y = (top / spacing).floor() * spacing + spacing / 2.0;
+    while y < bottom {
+        xs.clear();
+        for ring in rings {
+            for (i, a) in ring.iter().enumerate() {
+                let b = ring[(i + 1) % ring.len()];
+                // Half-open in y, so a vertex on the row is counted once.
+                if (a.y <= y) != (b.y <= y) {
+                    xs.push(a.x + (y - a.y) / (b.y - a.y) * (b.x - a.x));
+                }
+            }
+        }
+        xs.sort_by(f32::total_cmp);
+        for pair in xs.chunks_exact(2) {
+            out.push([Pos2::new(pair[0], y), Pos2::new(pair[1], y)]);
+        }
+        y += spacing;
+    }
+    out
+}
+
+/// A plain line segment of `width` points as two triangles (no feathering: hatching is a
+/// texture, not an outline).
+fn add_segment(mesh: &mut Mesh, a: Pos2, b: Pos2, width: f32, colour: Color32) {
+    let d = b - a;
+    let len = d.length();
+    if len < 1e-3 {
+        return;
+    }
+    let n = egui::vec2(-d.y, d.x) / len * (width / 2.0);
+    let base = mesh.vertices.len() as u32;
+    for p in [a - n, a + n, b + n, b - n] {
+        mesh.colored_vertex(p, colour);
+    }
+    mesh.add_triangle(base, base + 1, base + 2);
+    mesh.add_triangle(base, base + 2, base + 3);
+}
+
 /// Paints regions (screen rectangles and fills) into an image covering `at`, each at least one
 /// pixel, so that a map of a million regions seen whole is one texture rather than millions of
 /// triangles.
@@ -771,6 +840,29 @@ fn outline_region(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn hatching_stays_inside_the_outline_and_out_of_holes() {
+        // A 20 x 20 square with a 10 x 10 hole in the middle (screen points).
+        let ring = |x0: f32, y0: f32, s: f32| {
+            vec![
+                Pos2::new(x0, y0),
+                Pos2::new(x0 + s, y0),
+                Pos2::new(x0 + s, y0 + s),
+                Pos2::new(x0, y0 + s),
+            ]
+        };
+        let segments = hatch_segments(&[ring(0.0, 0.0, 20.0), ring(5.0, 5.0, 10.0)], 5.0);
+        // Rows at y = 2.5, 7.5, 12.5, 17.5; the middle two are cut in two by the hole.
+        assert_eq!(segments.len(), 6);
+        for [a, b] in &segments {
+            assert!(a.x >= 0.0 && b.x <= 20.0 && a.x < b.x);
+            let in_hole_row = (5.0..15.0).contains(&a.y);
+            if in_hole_row {
+                assert!(b.x <= 5.0 || a.x >= 15.0, "{a:?} {b:?} crosses the hole");
+            }
+        }
+    }
 
     #[test]
     fn small_regions_paint_at_least_one_pixel_each_in_their_colour() {

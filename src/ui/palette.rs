@@ -145,7 +145,7 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
                             slot.colour = Rgb(rgb);
                             editor.hex[i] = slot.colour.to_hex();
                         }
-                        ui.add(egui::TextEdit::singleline(&mut slot.name).desired_width(120.0))
+                        ui.add_sized([130.0, 20.0], egui::TextEdit::singleline(&mut slot.name))
                             .widget_info(|| {
                                 egui::WidgetInfo::labeled(
                                     egui::Role::TextInput,
@@ -153,8 +153,10 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
                                     format!("Name of slot {}", i + 1),
                                 )
                             });
-                        let hex = ui
-                            .add(egui::TextEdit::singleline(&mut editor.hex[i]).desired_width(72.0));
+                        let hex = ui.add_sized(
+                            [80.0, 20.0],
+                            egui::TextEdit::singleline(&mut editor.hex[i]),
+                        );
                         hex.widget_info(|| {
                             egui::WidgetInfo::labeled(
                                 egui::Role::TextInput,

@@ -343,10 +343,10 @@ fn notes_from_reading_a_file_have_a_place_and_recent_files_are_remembered() {
 
 #[test]
 fn a_large_map_seen_whole_is_drawn_coarsely_and_in_full_once_zoomed_in() {
-    // 40,000 synthetic regions: seen whole from a little further out, each is under two pixels
-    // wide, so they are painted as an image; zoomed in 40 times, the few on screen are drawn
-    // with their outlines.
-    let regions = tinct::geo::synthetic::jittered_grid(200, 200, 3, 0.2, 11);
+    // 90,000 synthetic regions: seen whole, each is under three pixels wide, so they are
+    // painted as an image and none is triangulated; zoomed in 40 times, the few near the view
+    // are triangulated and drawn with their outlines.
+    let regions = tinct::geo::synthetic::jittered_grid(300, 300, 2, 0.2, 11);
     let json = tinct::geo::synthetic::to_geojson(&regions);
     let options = tinct::geo::ImportOptions {
         coordinates: tinct::geo::CoordinateMode::Planar,
@@ -358,8 +358,6 @@ fn a_large_map_seen_whole_is_drawn_coarsely_and_in_full_once_zoomed_in() {
     let mut app = App::new_with(None, None, None);
     app.show_document(doc);
     let mut h = harness(app);
-    h.state_mut().view.camera.pixels_per_unit /= 2.0;
-    h.run_steps(2);
     let whole = h
         .state()
         .view
@@ -368,13 +366,27 @@ fn a_large_map_seen_whole_is_drawn_coarsely_and_in_full_once_zoomed_in() {
         .expect("the map was drawn");
     assert!(whole.uses_raster());
     let coarse = whole.triangle_count();
+    let triangulated = |h: &Harness<'static, App>| {
+        h.state()
+            .scene
+            .outlined
+            .iter()
+            .filter(|o| o.triangles.is_some())
+            .count()
+    };
+    let seen_whole = triangulated(&h);
+    assert!(
+        seen_whole < 900,
+        "seen whole, only the odd larger region is triangulated: {seen_whole} of 90,000"
+    );
     h.state_mut().view.camera.pixels_per_unit *= 40.0;
     h.run_steps(2);
     let near = h.state().view.base_layer.as_ref().unwrap();
     assert!(!near.uses_raster());
     assert!(near.triangle_count() > 1000, "{}", near.triangle_count());
+    // Besides the image, only those odd larger regions are drawn as triangles.
     assert!(
-        coarse < 100,
+        coarse < 20 * seen_whole,
         "whole map: {coarse} triangles besides the image"
     );
 }

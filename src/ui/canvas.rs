@@ -566,6 +566,19 @@ fn base_layer(
         [view[0][0] - w * BASE_MARGIN, view[0][1] - h * BASE_MARGIN],
         [view[1][0] + w * BASE_MARGIN, view[1][1] + h * BASE_MARGIN],
     ];
+    // Only what this drawing shows at full detail needs triangles and outline chains.
+    let ppu = camera.pixels_per_unit;
+    app.scene.triangulate_where(|o| {
+        let [lo, hi] = o.bounds;
+        (hi[0] - lo[0]).max(hi[1] - lo[1]) * ppu >= LOD_PIXELS
+            && hi[0] >= covers[0][0]
+            && lo[0] <= covers[1][0]
+            && hi[1] >= covers[0][1]
+            && lo[1] <= covers[1][1]
+    });
+    if app.scene.typical_size * ppu >= LOD_PIXELS {
+        app.scene.ensure_chains();
+    }
     let hint = app
         .view
         .base_layer
@@ -653,8 +666,10 @@ fn draw_base(
             ));
             continue;
         }
+        let Some(tris) = &o.triangles else {
+            continue;
+        };
         let base = mesh.vertices.len() as u32;
-        let tris = &o.triangles;
         mesh.vertices.reserve(tris.vertices.len());
         for v in &tris.vertices {
             mesh.colored_vertex(to_screen(*v), colour);

@@ -3,7 +3,7 @@
 //! earcut, in world units, and cached until the outline changes), its bounding box, area and fill,
 //! and the outlines as chains in which a boundary shared by two regions appears once.
 
-use std::collections::{HashMap, HashSet};
+use std::collections::HashSet;
 use std::ops::Range;
 use std::sync::Arc;
 
@@ -45,7 +45,10 @@ pub struct Outlined {
     pub id: RegionId,
     pub bounds: [Point; 2],
     pub area: f64,
-    pub triangles: Arc<Triangles>,
+    pub geometry: Arc<Geometry>,
+    /// Made when the region is first drawn large enough to need them (a map of a million
+    /// regions seen whole needs none), then kept while the outline is unchanged.
+    pub triangles: Option<Arc<Triangles>>,
 }
 
 /// A run of outline points drawn as one line; `closed` when it is a whole ring.
@@ -62,13 +65,12 @@ const MERGE_LIMIT: usize = 2_000_000;
 /// The prepared drawing of a document.
 #[derive(Default)]
 pub struct Scene {
-    /// Triangulations by region, kept while the region's outline (an `Arc`) is unchanged.
-    cache: HashMap<RegionId, (Arc<Geometry>, Arc<Triangles>)>,
     /// Outlined regions in id order.
     pub outlined: Vec<Outlined>,
-    /// Outline chains and their points.
+    /// Outline chains and their points (built when first needed after the outlines change).
     pub chains: Vec<Chain>,
     pub chain_points: Vec<Point>,
+    chains_stale: bool,
     /// The median size (larger side of the bounding box) of an outlined region, in world units:
     /// decides at which zoom names and border links are worth drawing.
     pub typical_size: f64,
@@ -80,19 +82,16 @@ pub struct Scene {
 }
 
 impl Scene {
-    /// Brings the scene up to date with `doc`. Call when the document or its revision changes;
-    /// triangulations of unchanged outlines are reused.
+    /// Brings the scene up to date with `doc`. Call when the document or its revision changes.
+    /// Linear in the number of regions and outline vertices, without hashing: the old and new
+    /// region lists are both in id order and are merged; triangulations of unchanged outlines
+    /// (the same `Arc`) are kept.
     pub fn sync(&mut self, doc: &Document) {
         self.generation += 1;
-        let before = self.cache.len();
-        self.cache.retain(|id, (g, _)| {
-            doc.regions
-                .get(id)
-                .and_then(|r| r.geometry.as_ref())
-                .is_some_and(|now| Arc::ptr_eq(now, g))
-        });
-        let mut outlines_changed = self.cache.len() != before;
-        let mut outlined = Vec::with_capacity(self.outlined.len());
+        let old = std::mem::take(&mut self.outlined);
+        let mut old = old.into_iter().peekable();
+        let mut outlines_changed = false;
+        let mut outlined = Vec::with_capacity(doc.regions.len());
         self.markers.clear();
         self.pinned.clear();
         for (id, region) in &doc.regions {
@@ -104,25 +103,35 @@ impl Scene {
                 continue;
             };
             let Some(bounds) = g.bounds() else { continue };
-            let triangles = match self.cache.get(id) {
-                Some((_, t)) => t.clone(),
+            while old.peek().is_some_and(|o| o.id < *id) {
+                old.next();
+                outlines_changed = true;
+            }
+            let kept = match old.peek() {
+                Some(o) if o.id == *id && Arc::ptr_eq(&o.geometry, g) => {
+                    old.next().map(|o| (o.area, o.triangles))
+                }
+                _ => None,
+            };
+            let (area, triangles) = match kept {
+                Some(k) => k,
                 None => {
                     outlines_changed = true;
-                    let t = Arc::new(triangulate(g));
-                    self.cache.insert(*id, (g.clone(), t.clone()));
-                    t
+                    (g.area(), None)
                 }
             };
             outlined.push(Outlined {
                 id: *id,
                 bounds,
-                area: g.area(),
+                area,
+                geometry: g.clone(),
                 triangles,
             });
         }
+        outlines_changed |= old.next().is_some();
         self.outlined = outlined;
-        if outlines_changed || (self.chains.is_empty() && !self.outlined.is_empty()) {
-            self.build_chains(doc);
+        if outlines_changed {
+            self.chains_stale = true;
             let mut sizes: Vec<f64> = self
                 .outlined
                 .iter()
@@ -133,28 +142,41 @@ impl Scene {
         }
     }
 
+    /// Triangulates the outlined regions that `wanted` picks and that have no triangles yet.
+    pub fn triangulate_where(&mut self, wanted: impl Fn(&Outlined) -> bool) {
+        for o in &mut self.outlined {
+            if o.triangles.is_none() && wanted(o) {
+                o.triangles = Some(Arc::new(triangulate(&o.geometry)));
+            }
+        }
+    }
+
+    /// Builds the outline chains if the outlines changed since they were last built.
+    pub fn ensure_chains(&mut self) {
+        if self.chains_stale {
+            self.build_chains();
+            self.chains_stale = false;
+        }
+    }
+
     /// Bounding boxes and areas of every outlined region, for `view::hit_test`.
     pub fn hit_boxes(&self) -> impl Iterator<Item = (RegionId, [Point; 2], f64)> + '_ {
         self.outlined.iter().map(|o| (o.id, o.bounds, o.area))
     }
 
-    fn build_chains(&mut self, doc: &Document) {
+    fn build_chains(&mut self) {
         self.chains.clear();
         self.chain_points.clear();
         let total: usize = self
             .outlined
             .iter()
-            .filter_map(|o| doc.regions.get(&o.id)?.geometry.as_ref())
-            .map(|g| g.vertex_count())
+            .map(|o| o.geometry.vertex_count())
             .sum();
         let mut seen: Option<HashSet<[u64; 4]>> =
             (total <= MERGE_LIMIT).then(|| HashSet::with_capacity(total));
         let outlined = std::mem::take(&mut self.outlined);
         for o in &outlined {
-            let Some(g) = doc.regions.get(&o.id).and_then(|r| r.geometry.as_ref()) else {
-                continue;
-            };
-            for poly in &g.polygons {
+            for poly in &o.geometry.polygons {
                 for ring in std::iter::once(&poly.exterior).chain(poly.holes.iter()) {
                     self.add_ring(ring, seen.as_mut());
                 }
@@ -290,6 +312,7 @@ mod tests {
         add(&mut doc, 1.0);
         let mut scene = Scene::default();
         scene.sync(&doc);
+        scene.ensure_chains();
         // Two unit squares side by side: 8 sides, one of them shared (common practice: a shared
         // boundary is drawn once so it is not twice as dark).
         assert_eq!(segments(&scene), 7);
@@ -302,6 +325,7 @@ mod tests {
         })
         .unwrap();
         scene.sync(&doc);
+        scene.ensure_chains();
         assert_eq!(segments(&scene), 8);
         assert_eq!(scene.chains.iter().filter(|c| c.closed).count(), 2);
     }

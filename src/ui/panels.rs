@@ -9,7 +9,7 @@ use crate::doc::{BorderKind, Document, Edit, GroupId, RegionChange, RegionId, Ro
 use super::app::{App, Checks, ExportOptions, Highlight, Level, PathPurpose};
 use super::canvas::style;
 use super::commands::{Command, ExportFormat, Menu, Tool, search};
-use crate::worker::analysis::PlanarityVerdict;
+use crate::worker::analysis::{self, PlanarityVerdict};
 
 /// One line of the verdict panel.
 #[derive(Clone, Debug, PartialEq)]
@@ -129,10 +129,9 @@ pub fn verdict_lines(doc: &Document, checks: &Checks) -> Vec<VerdictLine> {
         });
     }
     if c.is_clean() && checks.conflicts.is_empty() {
-        let used: std::collections::BTreeSet<u32> = doc.colouring.values().copied().collect();
+        let used = checks.slot_use.iter().filter(|&&n| n > 0).count();
         out.push(VerdictLine::Good(format!(
-            "The colouring is complete and valid, with {} colours",
-            used.len()
+            "The colouring is complete and valid, with {used} colours"
         )));
     }
     out
@@ -500,9 +499,22 @@ pub fn verdict_ui(app: &mut App, ui: &mut egui::Ui) {
 
 /// The fewest colours, whether three can do, and the proof when they cannot.
 fn colouring_ui(app: &mut App, ui: &mut egui::Ui) {
+    // Borrowed out of the app for the frame rather than cloned: on a large map the verdict holds
+    // a colour for every region, and a clone each frame cost more than the rest of the frame.
+    let analysis = app.analysis.take();
+    let verdict = analysis.as_ref().and_then(|a| a.colouring.as_ref());
+    colouring_verdict_ui(app, ui, verdict);
+    app.analysis = analysis;
+}
+
+fn colouring_verdict_ui(
+    app: &mut App,
+    ui: &mut egui::Ui,
+    verdict: Option<&analysis::ColouringVerdict>,
+) {
     ui.label(RichText::new("Fewest colours").strong());
     let running = app.analysis_progress().is_some();
-    let Some(verdict) = app.analysis.as_ref().and_then(|a| a.colouring.clone()) else {
+    let Some(verdict) = verdict else {
         ui.label(if running {
             "Searching…"
         } else {

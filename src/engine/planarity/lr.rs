@@ -696,57 +696,19 @@ impl<'g> LrState<'g> {
             }
         }
 
-        // Half-edges: 2e leaves the source of e, 2e + 1 leaves its target. Each keeps its
-        // clockwise and counter-clockwise neighbours in the rotation and the caller's label of
-        // the vertex it points to, side by side.
-        #[derive(Clone, Copy)]
-        struct Half {
-            cw: u32,
-            ccw: u32,
-            label: u32,
-        }
-        let mut half: Vec<Half> = Vec::with_capacity(2 * m);
-        for e in 0..m {
-            half.push(Half {
-                cw: NONE,
-                ccw: NONE,
-                label: self.dst_orig[e],
-            });
-            half.push(Half {
-                cw: NONE,
-                ccw: NONE,
-                label: self.src_orig[e],
-            });
-        }
-        self.src_orig = Vec::new();
-        self.dst_orig = Vec::new();
-        let mut first = vec![NONE; n];
-        for v in 0..n {
-            let mut previous = NONE;
-            for k in self.out_offsets[v]..self.out_offsets[v + 1] {
-                let h = 2 * order[k as usize];
-                if previous == NONE {
-                    first[v] = h;
-                } else {
-                    half[previous as usize].cw = h;
-                    half[h as usize].ccw = previous;
-                }
-                previous = h;
-            }
-            if previous != NONE {
-                half[previous as usize].cw = first[v];
-                half[first[v] as usize].ccw = previous;
-            }
-        }
-        let insert_after = |half: &mut Vec<Half>, reference: u32, h: u32| {
-            let next = half[reference as usize].cw;
-            half[reference as usize].cw = h;
-            half[h as usize].ccw = reference;
-            half[h as usize].cw = next;
-            half[next as usize].ccw = h;
-        };
-        let mut left_ref = vec![NONE; n];
-        let mut right_ref = vec![NONE; n];
+        // Brandes' Alg. 7 inserts every back edge into the rotation of its target `w` next to
+        // the tree edge from `w` towards the back edge's source: to the right of it when the back
+        // edge is on the right, to the left otherwise, each new one nearest to the tree edge. So
+        // around `w` the clockwise order is: the parent, then for each outgoing edge in the
+        // final order either the edge itself (a back edge) or, for a tree edge to child `c`, the
+        // left back edges coming up from `c`'s subtree in reverse order of the embedding
+        // search, the tree edge, and the right ones in reverse order of the search. The search
+        // below only records, for each back edge, its group `2c + side` and its source's label;
+        // a counting sort by group then gives every rotation in one sequential pass, without
+        // linked lists.
+        let mut current_child = vec![NONE; n];
+        let mut back_group: Vec<u32> = Vec::with_capacity(m);
+        let mut back_label: Vec<u32> = Vec::with_capacity(m);
         let mut pos: Vec<u32> = self.out_offsets[..n].to_vec();
         let mut dfs: Vec<u32> = Vec::new();
         let mut visited = 0u64;
@@ -761,50 +723,72 @@ impl<'g> LrState<'g> {
                 let ei = order[pos[vi] as usize] as usize;
                 pos[vi] += 1;
                 let w = self.dst[ei] as usize;
-                let h_out = 2 * ei as u32;
-                let h_in = h_out + 1;
                 if self.parent_edge[w] == ei as u32 {
-                    // The parent becomes the first neighbour of w, just before its children.
-                    if first[w] == NONE {
-                        half[h_in as usize].cw = h_in;
-                        half[h_in as usize].ccw = h_in;
-                    } else {
-                        let before = half[first[w] as usize].ccw;
-                        insert_after(&mut half, before, h_in);
-                    }
-                    first[w] = h_in;
-                    left_ref[vi] = h_out;
-                    right_ref[vi] = h_out;
+                    current_child[vi] = w as u32;
                     dfs.push(w as u32);
                     visited += 1;
                     monitor.step(Phase::Embedding, m as u64 + visited, 2 * m as u64)?;
-                } else if self.side[ei] == 1 {
-                    insert_after(&mut half, right_ref[w], h_in);
                 } else {
-                    let before = half[left_ref[w] as usize].ccw;
-                    insert_after(&mut half, before, h_in);
-                    left_ref[w] = h_in;
+                    let c = current_child[w];
+                    back_group.push(2 * c + u32::from(self.side[ei] == 1));
+                    back_label.push(self.orig[vi]);
                 }
             }
         }
-        drop(order);
-        // Read the rotation lists out of the linked lists, in the caller's labels.
+        drop((pos, dfs, current_child));
+        // Counting sort of the back edges by group, keeping the search order inside a group.
+        let mut group_start = vec![0u32; 2 * n + 1];
+        for &gr in &back_group {
+            group_start[gr as usize + 1] += 1;
+        }
+        for k in 1..group_start.len() {
+            group_start[k] += group_start[k - 1];
+        }
+        let mut grouped = vec![0u32; back_group.len()];
+        {
+            let mut fill: Vec<u32> = group_start[..2 * n].to_vec();
+            for (&gr, &label) in back_group.iter().zip(&back_label) {
+                grouped[fill[gr as usize] as usize] = label;
+                fill[gr as usize] += 1;
+            }
+        }
+        drop((back_group, back_label));
+        // Write every rotation where the caller's CSR layout puts it.
         let (offsets, _) = self.g.csr();
         let mut rotation = vec![0u32; 2 * m];
-        #[allow(clippy::needless_range_loop)]
         for v in 0..n {
             let o = self.orig[v] as usize;
-            let (lo, hi) = (offsets[o] as usize, offsets[o + 1] as usize);
-            if lo == hi {
-                continue;
+            let mut slot = offsets[o] as usize;
+            let pe = self.parent_edge[v];
+            if pe != NONE {
+                rotation[slot] = self.src_orig[pe as usize];
+                slot += 1;
             }
-            let mut h = first[v];
-            for slot in rotation[lo..hi].iter_mut() {
-                let x = half[h as usize];
-                *slot = x.label;
-                h = x.cw;
+            for k in self.out_offsets[v]..self.out_offsets[v + 1] {
+                let e = order[k as usize] as usize;
+                let c = self.dst[e] as usize;
+                let tree = self.parent_edge[c] == e as u32;
+                if tree {
+                    let (lo, hi) = (group_start[2 * c] as usize, group_start[2 * c + 1] as usize);
+                    for &label in grouped[lo..hi].iter().rev() {
+                        rotation[slot] = label;
+                        slot += 1;
+                    }
+                }
+                rotation[slot] = self.dst_orig[e];
+                slot += 1;
+                if tree {
+                    let (lo, hi) = (
+                        group_start[2 * c + 1] as usize,
+                        group_start[2 * c + 2] as usize,
+                    );
+                    for &label in grouped[lo..hi].iter().rev() {
+                        rotation[slot] = label;
+                        slot += 1;
+                    }
+                }
             }
-            debug_assert_eq!(h, first[v]);
+            debug_assert_eq!(slot, offsets[o + 1] as usize);
         }
         Ok(Embedding::from_parts(offsets.to_vec(), rotation))
     }

@@ -15,7 +15,8 @@ use tinct::engine::planarity::{
 };
 
 use crate::planar_gen::{
-    Rng, crossing_chord_ring, move_one_edge, permutation, random_non_edge, random_triangulation, relabel, subdivide,
+    Rng, crossing_chord_ring, move_one_edge, permutation, random_non_edge, random_triangulation,
+    relabel, subdivide,
 };
 
 /// Runs the test, checks the certificate with its independent checker, and cross-checks the

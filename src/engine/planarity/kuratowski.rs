@@ -10,16 +10,24 @@
 //!   each checked by the planarity test itself, so the start is always correct.
 //! - *QuickXplain* (U. Junker, "QuickXplain: Preferred Explanations and Relaxations for
 //!   Over-Constrained Problems", AAAI 2004) finds a minimal set of back-edge pieces that keeps the
-//!   tree non-planar with O(k log(w / k)) oracle calls on suppressed graphs of size O(w), where w
-//!   is the window size and k the number of pieces needed. A last pass deletes pieces one by one
-//!   from the resulting O(k)-piece graph. An edge-minimal non-planar graph is a subdivision of K5
-//!   or K3,3 (Kuratowski 1930), so what is left is the certificate.
+//!   tree non-planar with O(k log(w / k)) oracle calls, where w is the number of back-edge pieces
+//!   in the window and k the number the subdivision needs. Each level suppresses its background
+//!   again while keeping the ends of the candidates still open, so the tree's share of an oracle
+//!   graph shrinks with the candidate set instead of staying as large as the window. A last pass
+//!   deletes pieces one by one from the resulting O(k)-piece graph. An edge-minimal non-planar
+//!   graph is a subdivision of K5 or K3,3 (Kuratowski 1930), so what is left is the certificate.
 //!
 //! # Complexity
-//! O(n + m) per window tried (at most about log m of them, usually one), then
-//! O(w * k log(w / k) + k^2) for the shrinking, where k is usually a small constant. This is not
-//! linear in the worst case: when a Kuratowski subdivision needs Θ(n) back edges of the depth-first
-//! tree, the shrinking is quadratic.
+//! O(n + m) per window tried (at most about log m of them, usually one), then at most
+//! O(w k log(w / k) + k^2) for the shrinking: each of the O(k log(w / k)) oracle calls runs the
+//! linear-time test on a graph with O(w) pieces (in practice far fewer: the candidates of that
+//! call, the pieces already found, and the candidates moved into the background on the way).
+//! k is a small constant on the graphs met in practice (4 or 5 on the benchmark's triangulations
+//! with one edge moved), but it is not bounded: when every Kuratowski subgraph needs Θ(n) back
+//! edges of the depth-first tree, the shrinking is quadratic. The crossing-chord rings of the
+//! benchmark (`tests/planar_gen.rs`) are such a family, and the benchmark prints the growth.
+//! A linear-time isolation (for example the one of Boyer and Myrvold 2004, which works from the
+//! failed state of an edge-addition test) is not implemented here.
 
 use super::lr::{FailureClue, LrState, Mode, Outcome};
 use super::{Kuratowski, KuratowskiKind, Monitor, Phase, PlanarityError};

@@ -5,9 +5,8 @@
 //! nesting order, merges conflict pairs of return-edge intervals on a stack; the embedding phase
 //! turns the resulting left/right sides into a rotation system. Both searches use explicit stacks
 //! so that graphs with millions of vertices (and depth-first trees just as deep) cannot overflow
-//! the call stack. Outgoing edges are grouped by source and each group is ordered by nesting depth
-//! (insertion sort for short lists, radix sort for long ones), keeping the whole test linear. The
-//! embedding phase groups back edges by the tree edge they attach beside with a counting sort.
+//! the call stack. Lowpoints and nesting depths are small integers, so adjacency lists are ordered
+//! by bucket sort, keeping the whole test linear.
 
 use super::{Embedding, Monitor, Phase, PlanarityError};
 use crate::engine::graph::{Graph, Vertex};
@@ -189,6 +188,7 @@ impl<'g> LrState<'g> {
         let mut orig = vec![0u32; n];
         let mut height = vec![0u32; n];
         let mut parent = vec![NONE; n];
+        let mut parent_edge_o = vec![NONE; n];
         /// One vertex on the search stack.
         #[derive(Clone, Copy)]
         struct Frame {
@@ -295,6 +295,7 @@ impl<'g> LrState<'g> {
                     orig[p] = w;
                     height[p] = hv + 1;
                     parent[p] = v_pre;
+                    parent_edge_o[p] = e;
                     dfs.push(Frame {
                         v: w,
                         cursor: offsets[wi],
@@ -326,11 +327,8 @@ impl<'g> LrState<'g> {
         drop((height_o, pre_o));
         debug_assert_eq!(src_pre.len(), m);
         drop(lowpt2_o);
-        // Renumber: vertices by preorder, edges by (source, nesting depth). Edges are first
-        // distributed by source (the search emits them with good locality: the source is the
-        // top of the search stack), then each source's short block is sorted by nesting depth
-        // in place. A global bucket sort on nesting depth would touch memory at random twice
-        // per edge on graphs with shuffled labels.
+        // Renumber: vertices by preorder, edges by (source, nesting depth) through one global
+        // bucket sort on nesting depth followed by a stable distribution by source.
         let mut out_offsets = vec![0u32; n + 1];
         for &s in &src_pre {
             out_offsets[s as usize + 1] += 1;
@@ -338,27 +336,29 @@ impl<'g> LrState<'g> {
         for v in 0..n {
             out_offsets[v + 1] += out_offsets[v];
         }
-        let mut records = vec![EdgeRecord::default(); m];
-        {
-            let mut fill: Vec<u32> = out_offsets[..n].to_vec();
-            for e in 0..m {
-                let s = src_pre[e] as usize;
-                records[fill[s] as usize] = EdgeRecord {
-                    nesting: nesting_o[e],
-                    dst: dst_pre[e],
-                    lowpt: lowpt_o[e],
-                    label: if keep_labels { dst_o[e] } else { 0 },
-                };
-                fill[s] += 1;
-            }
+        let key_count = 2 * n + 2;
+        let mut bucket = vec![0u32; key_count + 1];
+        for &d in &nesting_o {
+            bucket[d as usize + 1] += 1;
         }
-        drop((src_pre, dst_pre, dst_o, lowpt_o, nesting_o));
-        let mut scratch: Vec<EdgeRecord> = Vec::new();
-        for v in 0..n {
-            let (lo, hi) = (out_offsets[v] as usize, out_offsets[v + 1] as usize);
-            sort_by_nesting(&mut records[lo..hi], &mut scratch);
+        for k in 1..bucket.len() {
+            bucket[k] += bucket[k - 1];
         }
-        drop(scratch);
+        let mut by_key = vec![0u32; m];
+        for (e, &d) in nesting_o.iter().enumerate() {
+            by_key[bucket[d as usize] as usize] = e as u32;
+            bucket[d as usize] += 1;
+        }
+        drop(bucket);
+        let mut fill = out_offsets.clone();
+        let mut new_id = vec![0u32; m];
+        for &e in &by_key {
+            let s = src_pre[e as usize] as usize;
+            new_id[e as usize] = fill[s];
+            fill[s] += 1;
+        }
+        drop(by_key);
+        drop(fill);
         let mut dst = vec![0u32; m];
         let mut lowpt = vec![0u32; m];
         let mut nesting = vec![0u32; m];
@@ -367,24 +367,22 @@ impl<'g> LrState<'g> {
         } else {
             (Vec::new(), Vec::new())
         };
-        let mut parent_edge = vec![NONE; n];
-        for v in 0..n {
-            for k in out_offsets[v] as usize..out_offsets[v + 1] as usize {
-                let r = records[k];
-                dst[k] = r.dst;
-                lowpt[k] = r.lowpt;
-                nesting[k] = r.nesting;
-                if keep_labels {
-                    dst_orig[k] = r.label;
-                }
-                // Back edges lead to ancestors (smaller preorder numbers), tree edges to
-                // children.
-                if r.dst as usize > v {
-                    parent_edge[r.dst as usize] = k as u32;
-                }
+        for e in 0..m {
+            let k = new_id[e] as usize;
+            dst[k] = dst_pre[e];
+            lowpt[k] = lowpt_o[e];
+            nesting[k] = nesting_o[e];
+            if keep_labels {
+                dst_orig[k] = dst_o[e];
             }
         }
-        drop(records);
+        drop((dst_pre, dst_o, lowpt_o, nesting_o));
+        let mut parent_edge = parent_edge_o;
+        for e in parent_edge.iter_mut() {
+            if *e != NONE {
+                *e = new_id[*e as usize];
+            }
+        }
         if keep_labels {
             for (p, &v) in orig.iter().enumerate() {
                 for k in out_offsets[p]..out_offsets[p + 1] {
@@ -793,85 +791,5 @@ impl<'g> LrState<'g> {
             debug_assert_eq!(slot, offsets[o + 1] as usize);
         }
         Ok(Embedding::from_parts(offsets.to_vec(), rotation))
-    }
-}
-
-/// One oriented edge while the orientation phase renumbers edges.
-#[derive(Clone, Copy, Default)]
-struct EdgeRecord {
-    nesting: u32,
-    dst: u32,
-    lowpt: u32,
-    label: u32,
-}
-
-/// Stable sort of one vertex's outgoing edges by nesting depth: insertion sort for the short
-/// lists of typical graphs, a least-significant-digit radix sort (four byte-wide passes) for long
-/// ones, so the whole renumbering stays linear even with high degrees.
-fn sort_by_nesting(block: &mut [EdgeRecord], scratch: &mut Vec<EdgeRecord>) {
-    if block.len() <= 32 {
-        for i in 1..block.len() {
-            let x = block[i];
-            let mut j = i;
-            while j > 0 && block[j - 1].nesting > x.nesting {
-                block[j] = block[j - 1];
-                j -= 1;
-            }
-            block[j] = x;
-        }
-        return;
-    }
-    scratch.clear();
-    scratch.resize(block.len(), EdgeRecord::default());
-    for shift in [0u32, 8, 16, 24] {
-        let mut count = [0usize; 257];
-        for r in block.iter() {
-            count[((r.nesting >> shift) & 0xff) as usize + 1] += 1;
-        }
-        if count[1..].contains(&block.len()) {
-            continue; // every key has the same byte here: nothing to do
-        }
-        for b in 1..257 {
-            count[b] += count[b - 1];
-        }
-        for r in block.iter() {
-            let b = ((r.nesting >> shift) & 0xff) as usize;
-            scratch[count[b]] = *r;
-            count[b] += 1;
-        }
-        block.copy_from_slice(scratch);
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn nesting_sort_is_stable_for_short_and_long_lists() {
-        // Keys spread over all four bytes; `label` remembers the original position, so a stable
-        // sort must equal the standard library's stable sort by key.
-        for len in [0usize, 1, 5, 32, 33, 500] {
-            let mut state = 0x2545_f491_4f6c_dd1du64;
-            let block: Vec<EdgeRecord> = (0..len as u32)
-                .map(|i| {
-                    state ^= state << 13;
-                    state ^= state >> 7;
-                    state ^= state << 17;
-                    EdgeRecord {
-                        nesting: (state as u32) % if i % 2 == 0 { 7 } else { u32::MAX },
-                        dst: 0,
-                        lowpt: 0,
-                        label: i,
-                    }
-                })
-                .collect();
-            let mut ours = block.clone();
-            sort_by_nesting(&mut ours, &mut Vec::new());
-            let mut expected = block;
-            expected.sort_by_key(|r| r.nesting);
-            let key = |v: &[EdgeRecord]| v.iter().map(|r| (r.nesting, r.label)).collect::<Vec<_>>();
-            assert_eq!(key(&ours), key(&expected), "len = {len}");
-        }
     }
 }

@@ -1,5 +1,7 @@
 //! Planarity benchmark: random maximal planar graphs (labels shuffled), planar and with one edge
-//! moved, against a plain depth-first search over the same CSR graph measured in the same run.
+//! moved, against a plain depth-first search over the same CSR graph measured in the same run;
+//! then the adversarial family for Kuratowski isolation (rings of crossing chords), with the
+//! growth exponent of its running time.
 //!
 //! Run with `cargo bench --no-default-features --bench planarity`. Prints one table; the ratios
 //! are the numbers to quote.
@@ -15,7 +17,9 @@ use tinct::engine::Graph;
 use tinct::engine::certify::{check_embedding, check_kuratowski};
 use tinct::engine::planarity::{Planarity, is_planar, planarity};
 
-use planar_gen::{Rng, move_one_edge, permutation, random_triangulation, relabel};
+use planar_gen::{
+    Rng, crossing_chord_ring, move_one_edge, permutation, random_triangulation, relabel,
+};
 
 /// The floor: one iterative depth-first search touching every half-edge once.
 fn plain_dfs(g: &Graph) -> u64 {
@@ -189,9 +193,72 @@ fn main() {
             );
         }
     }
+    ring_section(&never);
     println!(
         "columns: test = is_planar on the planar graph; t+emb = planarity() with embedding; \
          test* = is_planar on the graph with one edge moved; t+K = planarity() with Kuratowski \
          subgraph; K pieces = edges in the certificate"
     );
+}
+
+/// The adversarial family: rings of k crossing chords (every certificate needs all k chords)
+/// inside a random triangulation of the same size. Prints the time of the test alone and of
+/// test+Kuratowski, and how test+Kuratowski grows from one size to the next.
+fn ring_section(never: &AtomicBool) {
+    // TINCT_BENCH_RING=1001,10001 chooses the chord counts (odd).
+    let sizes: Vec<usize> = std::env::var("TINCT_BENCH_RING")
+        .ok()
+        .map(|s| s.split(',').filter_map(|x| x.trim().parse().ok()).collect())
+        // Small sizes: the isolation is quadratic on this family, so 10^4 chords already take
+        // more than a minute.
+        .unwrap_or_else(|| vec![101, 301, 1_001, 3_001]);
+    println!(
+        "crossing-chord rings: {:>8} {:>9} {:>9} | {:>9} {:>9} {:>7} | {:>8}",
+        "k", "n", "m", "test ms", "t+K ms", "K/test", "growth"
+    );
+    let mut previous: Option<(usize, f64)> = None;
+    for &k in &sizes {
+        let mut rng = Rng::new(k as u64);
+        let (n, edges) = crossing_chord_ring(k, 2 * k, &mut rng);
+        let (g, _) = Graph::from_edges(n, &edges).expect("generated edges are in range");
+        match planarity(&g, never, &mut |_| {}) {
+            Ok(Planarity::NonPlanar(kur)) => {
+                check_kuratowski(&g, &kur).expect("Kuratowski subgraph verifies")
+            }
+            other => panic!(
+                "ring must be non-planar: {:?}",
+                other.map(|v| v.is_planar())
+            ),
+        }
+        let runs = if k >= 1_000 { 1 } else { 5 };
+        let mut best = [Duration::MAX; 2];
+        for _ in 0..runs {
+            let round = [
+                time(|| is_planar(&g, never, &mut |_| {})),
+                time(|| planarity(&g, never, &mut |_| {})),
+            ];
+            for (b, r) in best.iter_mut().zip(round) {
+                *b = (*b).min(r);
+            }
+        }
+        let [test, with_kuratowski] = best;
+        // Growth exponent of test+Kuratowski between consecutive sizes: 1 is linear, 2 quadratic.
+        let growth = previous.map_or(String::from("-"), |(k0, t0)| {
+            format!(
+                "{:.2}",
+                (ms(with_kuratowski) / t0).ln() / (k as f64 / k0 as f64).ln()
+            )
+        });
+        println!(
+            "                      {:>8} {:>9} {:>9} | {:>9.2} {:>9.2} {:>7.2} | {:>8}",
+            k,
+            n,
+            g.edge_count(),
+            ms(test),
+            ms(with_kuratowski),
+            ms(with_kuratowski) / ms(test),
+            growth
+        );
+        previous = Some((k, ms(with_kuratowski)));
+    }
 }

@@ -151,3 +151,37 @@ pub fn subdivide(
     }
     (next as usize, out)
 }
+
+/// A ring of crossing chords: a cycle on `2k` vertices plus the `k` chords `(2i, 2i + 3 mod 2k)`.
+/// Each chord crosses exactly the previous and the next one when drawn inside the cycle, so the
+/// chords' conflict graph is a cycle of length `k`: for odd `k >= 3` the graph is not planar (a
+/// Hamiltonian cycle plus chords is planar exactly when the chords can be split between the
+/// inside and the outside without crossings, i.e. when their conflict graph is bipartite; common
+/// practice), and deleting any one chord makes it planar. For `k = 3` it is K3,3 itself.
+/// Every Kuratowski subgraph therefore contains all `k` chords, which is what makes the family
+/// hard for isolation schemes whose cost grows with the number of pieces a certificate needs.
+///
+/// `padding` more vertices form a random triangulation glued to the ring at one vertex, so the
+/// obstruction sits inside a large planar graph. Labels and edge order are shuffled.
+pub fn crossing_chord_ring(k: usize, padding: usize, rng: &mut Rng) -> (usize, Vec<(u32, u32)>) {
+    assert!(k >= 3);
+    let ring = 2 * k;
+    let mut edges: Vec<(u32, u32)> = Vec::with_capacity(3 * k + 3 * padding);
+    for i in 0..ring {
+        edges.push((i as u32, ((i + 1) % ring) as u32));
+    }
+    for i in 0..k {
+        edges.push(((2 * i) as u32, ((2 * i + 3) % ring) as u32));
+    }
+    let mut n = ring;
+    if padding >= 3 {
+        // Triangulation vertices ring-1 .. ring-1+padding: its vertex 0 is the ring's last vertex.
+        let base = (ring - 1) as u32;
+        for (a, b) in random_triangulation(padding, padding, rng) {
+            edges.push((a + base, b + base));
+        }
+        n = ring - 1 + padding;
+    }
+    let p = permutation(n, rng);
+    (n, relabel(&edges, &p, rng))
+}

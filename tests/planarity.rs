@@ -15,7 +15,8 @@ use tinct::engine::planarity::{
 };
 
 use crate::planar_gen::{
-    Rng, move_one_edge, permutation, random_non_edge, random_triangulation, relabel, subdivide,
+    Rng, crossing_chord_ring, move_one_edge, permutation, random_non_edge, random_triangulation,
+    relabel, subdivide,
 };
 
 /// Runs the test, checks the certificate with its independent checker, and cross-checks the
@@ -515,6 +516,39 @@ fn kuratowski_checker_rejects_corruptions() {
     ));
 }
 
+// --- Crossing-chord rings: certificates that need many back edges --------------------------
+
+#[test]
+fn crossing_chord_rings_need_every_chord() {
+    // A cycle plus chords whose conflict graph is an odd cycle is not planar, and removing any
+    // chord makes it planar (common practice: a Hamiltonian cycle plus chords is planar exactly
+    // when the chords' conflict graph is bipartite). The verdicts are cross-checked against
+    // rustworkx-core, and every certificate goes through the checker in `verdict`.
+    for (k, padding, seed) in [(3, 0, 1), (5, 0, 2), (7, 20, 3), (31, 50, 4), (201, 400, 5)] {
+        let mut rng = Rng::new(seed);
+        let (n, edges) = crossing_chord_ring(k, padding, &mut rng);
+        assert!(!reference_is_planar(n, &edges), "k = {k}");
+        let certificate = expect_non_planar(n, &edges);
+        // The ring is cubic, so no subdivided K5 fits in it (K5 needs degree 4; the padding
+        // hangs off one cut vertex and cannot help). Every chord lies in every Kuratowski
+        // subgraph, so all 2k ring vertices do: six of degree 3 and the rest of degree 2 make
+        // exactly (6 * 3 + (2k - 6) * 2) / 2 = 2k + 3 edges. For k = 3 that is K3,3 itself.
+        assert_eq!(certificate.kind, KuratowskiKind::K33, "k = {k}");
+        assert_eq!(certificate.edges.len(), 2 * k + 3, "k = {k}");
+    }
+}
+
+#[test]
+fn crossing_chord_rings_with_an_even_number_of_chords_are_planar() {
+    // Even conflict cycles are bipartite: the chords alternate inside and outside.
+    for (k, padding, seed) in [(4, 0, 6), (6, 10, 7), (40, 60, 8)] {
+        let mut rng = Rng::new(seed);
+        let (n, edges) = crossing_chord_ring(k, padding, &mut rng);
+        assert!(reference_is_planar(n, &edges), "k = {k}");
+        expect_planar(n, &edges);
+    }
+}
+
 // --- Properties ------------------------------------------------------------------------------
 
 fn small_graph() -> impl Strategy<Value = (usize, Vec<(u32, u32)>)> {
@@ -555,6 +589,17 @@ proptest! {
         let p = permutation(n, &mut rng);
         let edges = relabel(&edges, &p, &mut rng);
         prop_assert!(!verdict(n, &edges).is_planar());
+    }
+
+    #[test]
+    fn crossing_chord_rings_agree_with_rustworkx(seed in any::<u64>(), k in 3usize..40, padding in 0usize..30) {
+        // Odd k: not planar; even k: planar (see `crossing_chord_ring`). `verdict` checks the
+        // certificate; rustworkx-core gives the reference answer.
+        let mut rng = Rng::new(seed);
+        let (n, edges) = crossing_chord_ring(k, padding, &mut rng);
+        let ours = verdict(n, &edges).is_planar();
+        prop_assert_eq!(ours, reference_is_planar(n, &edges));
+        prop_assert_eq!(ours, k % 2 == 0);
     }
 
     #[test]

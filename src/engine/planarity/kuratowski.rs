@@ -10,16 +10,24 @@
 //!   each checked by the planarity test itself, so the start is always correct.
 //! - *QuickXplain* (U. Junker, "QuickXplain: Preferred Explanations and Relaxations for
 //!   Over-Constrained Problems", AAAI 2004) finds a minimal set of back-edge pieces that keeps the
-//!   tree non-planar with O(k log(w / k)) oracle calls on suppressed graphs of size O(w), where w
-//!   is the window size and k the number of pieces needed. A last pass deletes pieces one by one
-//!   from the resulting O(k)-piece graph. An edge-minimal non-planar graph is a subdivision of K5
-//!   or K3,3 (Kuratowski 1930), so what is left is the certificate.
+//!   tree non-planar with O(k log(w / k)) oracle calls, where w is the number of back-edge pieces
+//!   in the window and k the number the subdivision needs. Each level suppresses its background
+//!   again while keeping the ends of the candidates still open, so the tree's share of an oracle
+//!   graph shrinks with the candidate set instead of staying as large as the window. A last pass
+//!   deletes pieces one by one from the resulting O(k)-piece graph. An edge-minimal non-planar
+//!   graph is a subdivision of K5 or K3,3 (Kuratowski 1930), so what is left is the certificate.
 //!
 //! # Complexity
-//! O(n + m) per window tried (at most about log m of them, usually one), then
-//! O(w * k log(w / k) + k^2) for the shrinking, where k is usually a small constant. This is not
-//! linear in the worst case: when a Kuratowski subdivision needs Θ(n) back edges of the depth-first
-//! tree, the shrinking is quadratic.
+//! O(n + m) per window tried (at most about log m of them, usually one), then at most
+//! O(w k log(w / k) + k^2) for the shrinking: each of the O(k log(w / k)) oracle calls runs the
+//! linear-time test on a graph with O(w) pieces (in practice far fewer: the candidates of that
+//! call, the pieces already found, and the candidates moved into the background on the way).
+//! k is a small constant on the graphs met in practice (4 or 5 on the benchmark's triangulations
+//! with one edge moved), but it is not bounded: when every Kuratowski subgraph needs Θ(n) back
+//! edges of the depth-first tree, the shrinking is quadratic. The crossing-chord rings of the
+//! benchmark (`tests/planar_gen.rs`) are such a family, and the benchmark prints the growth.
+//! A linear-time isolation (for example the one of Boyer and Myrvold 2004, which works from the
+//! failed state of an edge-addition test) is not implemented here.
 
 use super::lr::{FailureClue, LrState, Mode, Outcome};
 use super::{Kuratowski, KuratowskiKind, Monitor, Phase, PlanarityError};
@@ -50,6 +58,10 @@ struct Isolator<'m, 'a> {
     arena: Vec<Node>,
     /// Scratch map from original vertex to local index; all `NONE` between calls.
     local: Vec<u32>,
+    /// `protected[v] == epoch` marks the vertices `compress` must keep (ends of pieces that may
+    /// be added later).
+    protected: Vec<u32>,
+    epoch: u32,
     monitor: &'m mut Monitor<'a>,
     oracle_calls: u64,
 }
@@ -67,6 +79,8 @@ pub(super) fn isolate(
     let mut iso = Isolator {
         arena: Vec::new(),
         local: vec![NONE; n],
+        protected: vec![0; n],
+        epoch: 0,
         monitor,
         oracle_calls: 0,
     };
@@ -128,8 +142,8 @@ pub(super) fn isolate(
     // Back edges met just before the failure are the likeliest to be needed; QuickXplain needs
     // the fewest calls when the needed candidates come first.
     candidates.reverse();
-    let mut background = base.clone();
-    let needed = iso.quick_xplain(&mut background, false, &candidates)?;
+    let background = iso.compress_keeping(&base, &candidates);
+    let needed = iso.quick_xplain(&background, false, &candidates)?;
     let mut keep = base;
     keep.extend_from_slice(&needed);
     let mut keep = iso.compress(&keep);
@@ -169,28 +183,54 @@ impl Isolator<'_, '_> {
     /// QuickXplain: a minimal subset D of `candidates` with `background + D` non-planar, given
     /// that `background + candidates` is non-planar. `check` says whether `background` alone
     /// must be tested first (Junker 2004, Alg. QUICKXPLAIN).
+    ///
+    /// `background` must already be suppressed with the ends of all `candidates` kept. Each
+    /// level suppresses its new background again, keeping only the ends of the candidates still
+    /// open, so a call costs O(|candidates| + |D| + b) where b is the number of back-edge pieces
+    /// in the background, rather than the size of the whole window: suppression commutes with
+    /// adding pieces whose ends were kept, so every oracle answer is the one the unsuppressed
+    /// graph would give.
     fn quick_xplain(
         &mut self,
-        background: &mut Vec<u32>,
+        background: &[u32],
         check: bool,
         candidates: &[u32],
     ) -> Result<Vec<u32>, PlanarityError> {
-        if check && !self.planar_pieces(background)? {
+        if check && !self.test_compressed(background)? {
             return Ok(Vec::new());
         }
         if candidates.len() <= 1 {
             return Ok(candidates.to_vec());
         }
         let (c1, c2) = candidates.split_at(candidates.len() / 2);
-        let mark = background.len();
-        background.extend_from_slice(c1);
-        let d2 = self.quick_xplain(background, !c1.is_empty(), c2)?;
-        background.truncate(mark);
-        background.extend_from_slice(&d2);
-        let mut d1 = self.quick_xplain(background, !d2.is_empty(), c1)?;
-        background.truncate(mark);
+        let mut with_c1 = background.to_vec();
+        with_c1.extend_from_slice(c1);
+        let with_c1 = self.compress_keeping(&with_c1, c2);
+        let d2 = self.quick_xplain(&with_c1, !c1.is_empty(), c2)?;
+        drop(with_c1);
+        let mut with_d2 = background.to_vec();
+        with_d2.extend_from_slice(&d2);
+        let with_d2 = self.compress_keeping(&with_d2, c1);
+        let mut d1 = self.quick_xplain(&with_d2, !d2.is_empty(), c1)?;
         d1.extend_from_slice(&d2);
         Ok(d1)
+    }
+
+    /// [`Isolator::compress`] that keeps the ends of `kept` unsuppressed.
+    fn compress_keeping(&mut self, input: &[u32], kept: &[u32]) -> Vec<u32> {
+        self.epoch += 1;
+        if self.epoch == u32::MAX {
+            self.protected.fill(0);
+            self.epoch = 1;
+        }
+        for &p in kept {
+            let node = self.arena[p as usize];
+            self.protected[node.a as usize] = self.epoch;
+            self.protected[node.b as usize] = self.epoch;
+        }
+        let out = self.compress_inner(input, true);
+        self.epoch += 1;
+        out
     }
 
     fn planar_pieces(&mut self, pieces: &[u32]) -> Result<bool, PlanarityError> {
@@ -239,6 +279,10 @@ impl Isolator<'_, '_> {
     /// returns the surviving pieces. Loops are dropped (they never affect planarity); parallel
     /// pieces are kept, since removing one of them later must leave the other.
     fn compress(&mut self, input: &[u32]) -> Vec<u32> {
+        self.compress_inner(input, false)
+    }
+
+    fn compress_inner(&mut self, input: &[u32], protect: bool) -> Vec<u32> {
         let mut verts: Vec<Vertex> = Vec::new();
         let mut slot_node: Vec<u32> = Vec::with_capacity(input.len());
         let mut slot_ends: Vec<(u32, u32)> = Vec::with_capacity(input.len());
@@ -279,10 +323,18 @@ impl Isolator<'_, '_> {
         }
         let mut dead = vec![false; slot_ends.len()];
         let mut removed = vec![false; k];
+        let kept: Vec<bool> = if protect {
+            verts
+                .iter()
+                .map(|&v| self.protected[v as usize] == self.epoch)
+                .collect()
+        } else {
+            vec![false; k]
+        };
         let mut queue: Vec<u32> = (0..k as u32).filter(|&x| degree[x as usize] <= 2).collect();
         while let Some(x) = queue.pop() {
             let xi = x as usize;
-            if removed[xi] || degree[xi] > 2 {
+            if removed[xi] || degree[xi] > 2 || kept[xi] {
                 continue;
             }
             let mut alive = [NONE; 2];
@@ -526,6 +578,8 @@ mod tests {
         let mut iso = Isolator {
             arena: Vec::new(),
             local: vec![NONE; g.vertex_count()],
+            protected: vec![0; g.vertex_count()],
+            epoch: 0,
             monitor: &mut monitor,
             oracle_calls: 0,
         };

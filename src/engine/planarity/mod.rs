@@ -245,10 +245,11 @@ impl Planarity {
 /// # Complexity
 /// Planar graphs: O(n + m) time and space. Non-planar graphs: O(n + m) for the test, O(n + m) for
 /// each window of back edges tried around the failure (usually one, at most about log n), then
-/// O(w k log(w / k) + k^2) for the shrinking, where w is the window size and k the number of
-/// pieces the subdivision needs (a handful in practice). This is not linear in the worst case:
-/// a subdivision that needs Θ(n) back edges of the depth-first tree makes the shrinking
-/// quadratic. See `kuratowski.rs`.
+/// at most O(w k log(w / k) + k^2) for the shrinking, where w is the window size and k the number
+/// of back-edge pieces the subdivision needs (a handful in practice). This is not linear in the
+/// worst case: a graph whose every Kuratowski subgraph needs Θ(n) back edges of the depth-first
+/// tree (a ring of crossing chords, for instance) makes the shrinking quadratic. See
+/// `kuratowski.rs`.
 ///
 /// # Certificate
 /// [`Planarity::Planar`] carries an [`Embedding`] whose face walks satisfy Euler's formula;

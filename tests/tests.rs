@@ -8,6 +8,7 @@ mod geo;
 mod graph_formats;
 #[cfg(feature = "gui")]
 mod gui;
+mod hostile;
 mod invariants;
 mod planar_gen;
 mod planarity;

@@ -287,6 +287,12 @@ pub fn save(doc: &Document, path: &Path) -> Result<(), FileError> {
 }
 
 /// Writes `bytes` to `path` so that `path` holds either its old content or all of `bytes`, never a mix.
+///
+/// The bytes go to a temporary file beside the target (`.NAME.PID-N.saving`, same folder so the
+/// rename cannot cross file systems), which is flushed to disk, given the target's permissions,
+/// and renamed over the target; then the folder itself is flushed so the rename survives a power
+/// cut. A save that is killed part-way leaves the old file untouched and at most one temporary
+/// file, which the next successful save of the same file removes.
 pub fn write_atomically(path: &Path, bytes: &[u8]) -> Result<(), FileError> {
     let err = |source| FileError::Write {
         path: path.to_path_buf(),
@@ -300,10 +306,18 @@ pub fn write_atomically(path: &Path, bytes: &[u8]) -> Result<(), FileError> {
         .file_name()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_else(|| "project".into());
-    let temp = folder.join(format!(".{file_name}.{}.saving", std::process::id()));
+    // The counter keeps two saves from one process (the editor's save and its recovery writer,
+    // or two threads) from sharing a temporary file.
+    static SAVES: std::sync::atomic::AtomicU64 = std::sync::atomic::AtomicU64::new(0);
+    let n = SAVES.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+    let temp = folder.join(format!(".{file_name}.{}-{n}.saving", std::process::id()));
     let result = (|| {
         let mut file = std::fs::File::create(&temp)?;
         file.write_all(bytes)?;
+        if let Ok(meta) = std::fs::metadata(path) {
+            // Best effort: a project that was read-only to others stays so.
+            let _ = file.set_permissions(meta.permissions());
+        }
         file.sync_all()?;
         drop(file);
         std::fs::rename(&temp, path)?;
@@ -316,8 +330,41 @@ pub fn write_atomically(path: &Path, bytes: &[u8]) -> Result<(), FileError> {
     })();
     if result.is_err() {
         let _ = std::fs::remove_file(&temp);
+    } else {
+        remove_stale_temporaries(&folder, &file_name);
     }
     result.map_err(err)
+}
+
+/// The temporary files that saves of `file_name` left in `folder` when they were killed.
+pub fn stale_temporaries(folder: &Path, file_name: &str) -> Vec<PathBuf> {
+    let prefix = format!(".{file_name}.");
+    let mut found: Vec<PathBuf> = std::fs::read_dir(folder)
+        .into_iter()
+        .flatten()
+        .flatten()
+        .filter(|entry| {
+            let name = entry.file_name();
+            let name = name.to_string_lossy();
+            name.strip_prefix(&prefix)
+                .and_then(|rest| rest.strip_suffix(".saving"))
+                .is_some_and(|middle| {
+                    !middle.is_empty() && middle.bytes().all(|b| b.is_ascii_digit() || b == b'-')
+                })
+        })
+        .map(|entry| entry.path())
+        .collect();
+    found.sort();
+    found
+}
+
+/// Removes what interrupted saves of the same file left behind. A save of the same file running
+/// at this very moment in another process loses its temporary file and reports an error (its
+/// rename fails); the file on disk is whole either way.
+fn remove_stale_temporaries(folder: &Path, file_name: &str) {
+    for stale in stale_temporaries(folder, file_name) {
+        let _ = std::fs::remove_file(stale);
+    }
 }
 
 // ---- Reading ----
@@ -362,8 +409,13 @@ pub fn load(path: &Path) -> Result<Document, FileError> {
         path: path.to_path_buf(),
         source,
     })?;
-    let text = String::from_utf8(bytes).map_err(|e| {
-        let upto = &e.as_bytes()[..e.utf8_error().valid_up_to()];
+    from_bytes(&bytes)
+}
+
+/// Parses the bytes of a project file; text that is not UTF-8 is a syntax error naming where.
+pub fn from_bytes(bytes: &[u8]) -> Result<Document, FileError> {
+    let text = std::str::from_utf8(bytes).map_err(|e| {
+        let upto = &bytes[..e.valid_up_to()];
         let line = upto.iter().filter(|&&b| b == b'\n').count() + 1;
         let column = upto.iter().rev().take_while(|&&b| b != b'\n').count() + 1;
         FileError::Syntax {
@@ -372,7 +424,7 @@ pub fn load(path: &Path) -> Result<Document, FileError> {
             message: "the text is not valid UTF-8".into(),
         }
     })?;
-    from_str(&text)
+    from_str(text)
 }
 
 fn finite(p: (f64, f64)) -> bool {

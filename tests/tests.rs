@@ -9,9 +9,11 @@ mod graph_formats;
 #[cfg(feature = "gui")]
 mod gui;
 mod hostile;
+mod interrupted_saves;
 mod invariants;
 mod planar_gen;
 mod planarity;
 mod project_file;
+mod recovery;
 mod sample_maps;
 mod support;

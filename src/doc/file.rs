@@ -369,14 +369,26 @@ fn remove_stale_temporaries(folder: &Path, file_name: &str) {
 
 // ---- Reading ----
 
-fn syntax(e: ron::error::SpannedError) -> FileError {
+fn syntax(e: ron::error::SpannedError, text: &str) -> FileError {
+    let (line, column) = (e.span.start.line, e.span.start.col);
     let message = match &e.code {
         ron::Error::Eof => "the file ends too early (is it truncated?)".to_string(),
-        other => other.to_string(),
+        other => {
+            // An error on the last line, at or after its last character, means the text stopped
+            // where more was expected: most often a file cut short by an interrupted copy.
+            let lines = text.lines().count().max(1);
+            let last = text.lines().last().unwrap_or("").trim_end().chars().count();
+            let at_end = line > lines || (line == lines && column >= last);
+            if at_end && !text.ends_with(")\n") && !text.ends_with(')') {
+                format!("{other}; the file ends here (is it truncated?)")
+            } else {
+                other.to_string()
+            }
+        }
     };
     FileError::Syntax {
-        line: e.span.start.line,
-        column: e.span.start.col,
+        line,
+        column,
         message,
     }
 }
@@ -394,7 +406,7 @@ pub fn from_str(text: &str) -> Result<Document, FileError> {
             supported: FORMAT_VERSION,
         });
     }
-    let records: ProjectV1 = ron::de::from_str(text).map_err(syntax)?;
+    let records: ProjectV1 = ron::de::from_str(text).map_err(|e| syntax(e, text))?;
     if records.format_version == 0 {
         return Err(FileError::Invalid(
             "format_version 0 does not exist; the first version is 1".into(),

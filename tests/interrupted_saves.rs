@@ -5,7 +5,7 @@
 
 use std::path::Path;
 use std::process::{Command, Stdio};
-use std::time::{Duration, Instant};
+use std::time::Instant;
 
 use tinct::doc::Document;
 use tinct::doc::file;

@@ -16,4 +16,6 @@ mod planarity;
 mod project_file;
 mod recovery;
 mod sample_maps;
+mod scale;
 mod support;
+mod worker_faults;

@@ -703,3 +703,71 @@ fn graph_files_that_are_not_utf8_are_refused_naming_the_line() {
     let e = tinct::formats::load(&path).err().unwrap().to_string();
     assert!(e.contains("line 3") && e.contains("UTF-8"), "{e}");
 }
+
+// ---- Regressions found by the mutation tests above ----
+
+#[test]
+fn regression_json_error_just_after_a_line_break_names_column_one() {
+    // serde_json reports column 0 for a position just after a line break; the message named
+    // "column 0" and repeated the position.
+    let text = b"{\"type\": \"FeatureCollection\", \"features\": [\n{\"type\": \"Feature\", \"properties\": {\"name\": \"a\n\"}}]}";
+    match geo::import_json(text, &ImportOptions::default()) {
+        Err(ImportError::Json {
+            line,
+            column,
+            message,
+        }) => {
+            assert!(line >= 2 && column >= 1, "{line}:{column}");
+            assert!(message.contains("control character"), "{message}");
+            assert!(!message.contains(" at line "), "{message}");
+        }
+        other => panic!("expected a JSON error, got {other:?}"),
+    }
+}
+
+/// The exact mutants that once made border detection hold hundreds of megabytes: one coordinate
+/// turned huge, so the rounding tolerance (a fraction of the map's diagonal) covered every
+/// boundary and every pair of boundary pieces was examined and kept.
+#[test]
+fn regression_one_far_off_coordinate_no_longer_makes_border_detection_quadratic() {
+    let cases = [
+        (
+            Format::Shapefile,
+            0,
+            Mutation::Flip {
+                at: 139_660_031,
+                bit: 1,
+            },
+        ),
+        (
+            Format::TopoJson,
+            0,
+            Mutation::Huge {
+                at: 1_029_108_905,
+                which: 138,
+                field: false,
+                big_endian: false,
+            },
+        ),
+        (
+            Format::GeoJson,
+            1,
+            Mutation::Huge {
+                at: 1_291_922_341,
+                which: 15,
+                field: false,
+                big_endian: false,
+            },
+        ),
+    ];
+    for (format, seed, mutation) in cases {
+        let mut bytes = seeds(format)[seed].clone();
+        apply(format, &mut bytes, &mutation);
+        let (_, peak) = peak_bytes(|| read(format, &bytes));
+        assert!(
+            peak <= allocation_bound(bytes.len()),
+            "{format:?}: {peak} bytes for {} input bytes",
+            bytes.len()
+        );
+    }
+}

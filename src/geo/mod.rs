@@ -326,11 +326,16 @@ pub fn import_path(path: &Path, options: &ImportOptions) -> Result<ImportedMap, 
             finish(raw, options)
         }
         "geojson" | "json" | "topojson" => {
-            let bytes = std::fs::read(path).map_err(|source| ImportError::Io {
-                path: path.to_path_buf(),
-                source,
-            })?;
-            import_json(&bytes, options)
+            // The file's bytes go as soon as they are parsed: on a large map they are a good
+            // part of the peak memory.
+            let value = {
+                let bytes = std::fs::read(path).map_err(|source| ImportError::Io {
+                    path: path.to_path_buf(),
+                    source,
+                })?;
+                parse_json(&bytes)?
+            };
+            import_value(value, options)
         }
         _ => Err(ImportError::UnknownFormat {
             path: path.to_path_buf(),
@@ -340,7 +345,11 @@ pub fn import_path(path: &Path, options: &ImportOptions) -> Result<ImportedMap, 
 
 /// Imports a GeoJSON or TopoJSON document held in memory (the `type` member decides).
 pub fn import_json(bytes: &[u8], options: &ImportOptions) -> Result<ImportedMap, ImportError> {
-    let value: serde_json::Value = serde_json::from_slice(bytes).map_err(|e| {
+    import_value(parse_json(bytes)?, options)
+}
+
+fn parse_json(bytes: &[u8]) -> Result<serde_json::Value, ImportError> {
+    serde_json::from_slice(bytes).map_err(|e| {
         // serde_json's text ends with " at line L column C"; the error says where already.
         let text = e.to_string();
         let message = match text.rsplit_once(" at line ") {
@@ -353,12 +362,20 @@ pub fn import_json(bytes: &[u8], options: &ImportOptions) -> Result<ImportedMap,
             column: e.column().max(1),
             message,
         }
-    })?;
+    })
+}
+
+fn import_value(
+    value: serde_json::Value,
+    options: &ImportOptions,
+) -> Result<ImportedMap, ImportError> {
     let raw = if value.get("type").and_then(|t| t.as_str()) == Some("Topology") {
         topojson::read_value(&value, options.layer.as_deref())?
     } else {
         geojson::read_value(&value)?
     };
+    // The JSON tree is several times the size of the file; the features have what they need.
+    drop(value);
     finish(raw, options)
 }
 

@@ -53,7 +53,26 @@ fn timed<T>(f: impl FnOnce() -> T) -> (T, Duration) {
     (out, start.elapsed())
 }
 
+/// In a fresh process: load the project at `path` and analyse it, printing times and this
+/// process's own peak memory (what `tinct analyse` on the file needs, without the import's).
+fn load_and_analyse(path: &str) {
+    let (loaded, took) = timed(|| tinct::formats::load(Path::new(path)).unwrap());
+    row("  fresh process: load", took, None);
+    let ctx = JobContext {
+        cancel: Arc::new(AtomicBool::new(false)),
+        progress: Arc::new(Progress::default()),
+    };
+    let (result, took) = timed(|| analysis::analyse(&loaded.doc, &ctx));
+    row("  fresh process: analyse", took, None);
+    assert_eq!(result.planarity, PlanarityVerdict::Planar);
+}
+
 fn main() {
+    let args: Vec<String> = std::env::args().collect();
+    if let Some(i) = args.iter().position(|a| a == "--load-and-analyse") {
+        load_and_analyse(&args[i + 1]);
+        return;
+    }
     let regions: usize = std::env::args()
         .skip(1)
         .find_map(|a| a.parse().ok())
@@ -110,6 +129,13 @@ fn main() {
         None,
     );
     row("save the project", save, Some(copy));
+    // The same file opened by a process that did not import it: its own peak memory.
+    let child = std::process::Command::new(std::env::current_exe().unwrap())
+        .arg("--load-and-analyse")
+        .arg(&path)
+        .output()
+        .unwrap();
+    print!("{}", String::from_utf8_lossy(&child.stdout));
     drop(doc);
     let (loaded, took) = timed(|| tinct::formats::load(Path::new(&path)).unwrap());
     row("load the project", took, Some(copy));

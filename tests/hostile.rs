@@ -771,3 +771,21 @@ fn regression_one_far_off_coordinate_no_longer_makes_border_detection_quadratic(
         );
     }
 }
+
+/// Found by the `geojson` fuzz target (`fuzz/artifacts/geojson/slow-unit-2c14d6ce...`, 11 s per
+/// run): the Vessland sample with some coordinates mangled into values millions of units away,
+/// which made border detection examine every pair of boundary pieces.
+#[test]
+fn regression_fuzz_geojson_slow_far_coordinate() {
+    let bytes = data("tests/data/fuzz-regressions/geojson-slow-far-coordinate.geojson");
+    let (map, peak) = peak_bytes(|| geo::import_json(&bytes, &ImportOptions::default()));
+    let map = map.unwrap();
+    assert!(peak <= allocation_bound(bytes.len()), "{peak} bytes");
+    assert!(
+        map.diagnostics
+            .iter()
+            .any(|d| d.message.contains("border detection stopped after")),
+        "{:?}",
+        map.diagnostics
+    );
+}

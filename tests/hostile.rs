@@ -789,3 +789,25 @@ fn regression_fuzz_geojson_slow_far_coordinate() {
         map.diagnostics
     );
 }
+
+/// Found by the `shapefile` fuzz target (`crash-e31318ec...`, out of memory: 29 GB asked for):
+/// record 32, a polygon whose first part starts at point -1,840,700,269. The decoder sizes each
+/// part by the difference of two starts, so that part asked for 1.8 billion points.
+/// The input is in the fuzz target's layout: a 4-byte little-endian .shp length, the .shp, the .dbf.
+#[test]
+fn regression_fuzz_shapefile_out_of_step_point_count() {
+    let bytes = data("tests/data/fuzz-regressions/shapefile-out-of-step-point-count.bin");
+    let n = u32::from_le_bytes([bytes[0], bytes[1], bytes[2], bytes[3]]) as usize;
+    let (shp, dbf) = bytes[4..].split_at(n);
+    let dbf = (!dbf.is_empty()).then_some(dbf);
+    let options = ImportOptions::default();
+    let (result, peak) =
+        peak_bytes(|| geo::import_shapefile_bytes("hostile", shp, dbf, None, &options));
+    assert!(peak <= allocation_bound(bytes.len()), "{peak} bytes");
+    let message = result.unwrap_err().to_string();
+    assert!(
+        message.contains("hostile.shp")
+            && message.contains("record 32 (byte 14428): part 1 starts at point -1840700269"),
+        "{message}"
+    );
+}

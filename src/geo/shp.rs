@@ -39,8 +39,10 @@ fn le_i32(bytes: &[u8], at: usize) -> Option<i32> {
 /// Walks the record headers of a .shp before any record is decoded, so that no count declared in
 /// the file is trusted: every record must fit in the bytes that are actually there, and every part
 /// and point count must fit in its record. The `shapefile` crate reserves memory for the declared
-/// counts, so a 100-byte file claiming two billion points would otherwise ask for 32 GB.
-fn check_structure(bytes: &[u8], label: &str) -> Result<(), ImportError> {
+/// counts, so a 100-byte file claiming two billion points would otherwise ask for 32 GB. Returns
+/// each record's content as a byte range; each is then decoded on its own, so a record that says
+/// less than it holds cannot make the decoder read the next record's bytes as counts.
+fn check_structure(bytes: &[u8], label: &str) -> Result<Vec<std::ops::Range<usize>>, ImportError> {
     const HEADER: usize = 100;
     if bytes.len() < HEADER {
         return Err(shp_error(
@@ -62,6 +64,7 @@ fn check_structure(bytes: &[u8], label: &str) -> Result<(), ImportError> {
     let end = (declared.min(bytes.len() as u64)) as usize;
     let mut at = HEADER;
     let mut record = 0usize;
+    let mut contents = Vec::new();
     while at + 8 <= end {
         record += 1;
         let words = be_i32(bytes, at + 4).unwrap_or(-1);
@@ -119,6 +122,23 @@ fn check_structure(bytes: &[u8], label: &str) -> Result<(), ImportError> {
                     ),
                 ));
             }
+            // Each part starts at a point index; the decoder sizes a part by the difference of
+            // two starts, so they must rise from 0 and stay within the point count.
+            let mut previous = 0;
+            for k in 0..parts as usize {
+                let start = le_i32(bytes, content + count_at + 8 + 4 * k).unwrap_or(-1);
+                if (k == 0 && start != 0) || start < previous || start > points {
+                    return Err(shp_error(
+                        label,
+                        format!(
+                            "record {record} (byte {at}): part {} starts at point {start}, \
+                             outside 0..={points} or before the part ahead of it",
+                            k + 1
+                        ),
+                    ));
+                }
+                previous = start;
+            }
             Ok(())
         };
         match shape_type {
@@ -127,9 +147,20 @@ fn check_structure(bytes: &[u8], label: &str) -> Result<(), ImportError> {
             Some(MULTI_PATCH) => needed(44, 36, 8, true)?,
             _ => {}
         }
+        contents.push(content..content + length);
         at = content + length;
     }
-    Ok(())
+    if at < end || declared > bytes.len() as u64 {
+        return Err(shp_error(
+            label,
+            format!(
+                "the header declares {declared} bytes but the file ends at byte {} (after {record} \
+                 whole records); is it truncated?",
+                bytes.len().min(end.max(at))
+            ),
+        ));
+    }
+    Ok(contents)
 }
 
 /// How many .dbf records really fit in the file: the header's record count is not trusted, so
@@ -193,9 +224,9 @@ pub(super) struct Files<'a> {
 
 pub(super) fn read_files(files: &Files, mode: CoordinateMode) -> Result<RawMap, ImportError> {
     let (path, dbf_label) = (files.shp_label.as_str(), files.dbf_label.as_str());
-    check_structure(files.shp, path)?;
-    let mut reader = shapefile::ShapeReader::new(std::io::Cursor::new(files.shp))
-        .map_err(|e| shp_error(path, e))?;
+    let contents = check_structure(files.shp, path)?;
+    // The crate checks the header (file code, version, shape type); records are decoded below.
+    shapefile::ShapeReader::new(std::io::Cursor::new(files.shp)).map_err(|e| shp_error(path, e))?;
     let mut raw = RawMap::default();
 
     let mut records: Vec<Option<dbase::Record>> = Vec::new();
@@ -247,8 +278,18 @@ pub(super) fn read_files(files: &Files, mode: CoordinateMode) -> Result<RawMap, 
         }
     }
 
-    for (index, shape) in reader.iter_shapes().enumerate() {
-        let shape = shape.map_err(|e| shp_error(path, format!("record {}: {e}", index + 1)))?;
+    for (index, range) in contents.into_iter().enumerate() {
+        let record_error = |e: &dyn std::fmt::Display| {
+            shp_error(
+                path,
+                format!("record {} (byte {}): {e}", index + 1, range.start - 8),
+            )
+        };
+        let size = i32::try_from(range.len()).map_err(|e| record_error(&e))?;
+        let mut source = std::io::Cursor::new(&files.shp[range.clone()]);
+        let shape =
+            <shapefile::Shape as shapefile::record::ReadableShape>::read_from(&mut source, size)
+                .map_err(|e| record_error(&e))?;
         let mut feature = RawFeature {
             source_index: index,
             ..RawFeature::default()

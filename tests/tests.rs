@@ -10,9 +10,14 @@ mod geo;
 mod graph_formats;
 #[cfg(feature = "gui")]
 mod gui;
+mod hostile;
+mod interrupted_saves;
 mod invariants;
 mod planar_gen;
 mod planarity;
 mod project_file;
+mod recovery;
 mod sample_maps;
+mod scale;
 mod support;
+mod worker_faults;

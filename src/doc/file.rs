@@ -170,6 +170,18 @@ struct VersionProbe {
     format_version: u32,
 }
 
+/// The `format_version` at the head of a project file (`(` then `format_version: N`), read
+/// without parsing the rest; `None` when the text does not start that way.
+fn declared_version(text: &str) -> Option<u32> {
+    let rest = text.trim_start().strip_prefix('(')?.trim_start();
+    let rest = rest.strip_prefix("format_version")?.trim_start();
+    let rest = rest.strip_prefix(':')?.trim_start();
+    let end = rest
+        .find(|c: char| !c.is_ascii_digit())
+        .unwrap_or(rest.len());
+    rest[..end].parse().ok()
+}
+
 // ---- Writing ----
 
 fn ring_out(ring: &[[f64; 2]]) -> Vec<(f64, f64)> {
@@ -291,6 +303,12 @@ pub fn save(doc: &Document, path: &Path) -> Result<(), FileError> {
 }
 
 /// Writes `bytes` to `path` so that `path` holds either its old content or all of `bytes`, never a mix.
+///
+/// The bytes go to a temporary file beside the target (`.NAME.PID-N.saving`, same folder so the
+/// rename cannot cross file systems), which is flushed to disk, given the target's permissions,
+/// and renamed over the target; then the folder itself is flushed so the rename survives a power
+/// cut. A save that is killed part-way leaves the old file untouched and at most one temporary
+/// file, which the next successful save of the same file removes.
 pub fn write_atomically(path: &Path, bytes: &[u8]) -> Result<(), FileError> {
     let err = |source| FileError::Write {
         path: path.to_path_buf(),
@@ -304,10 +322,18 @@ pub fn write_atomically(path: &Path, bytes: &[u8]) -> Result<(), FileError> {
         .file_name()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_else(|| "project".into());
-    let temp = folder.join(format!(".{file_name}.{}.saving", std::process::id()));
+    // The counter keeps two saves from one process (the editor's save and its recovery writer,
+    // or two threads) from sharing a temporary file.
+    static SAVES: std::sync::atomic::AtomicU64 = std::sync::atomic::AtomicU64::new(0);
+    let n = SAVES.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+    let temp = folder.join(format!(".{file_name}.{}-{n}.saving", std::process::id()));
     let result = (|| {
         let mut file = std::fs::File::create(&temp)?;
         file.write_all(bytes)?;
+        if let Ok(meta) = std::fs::metadata(path) {
+            // Best effort: a project that was read-only to others stays so.
+            let _ = file.set_permissions(meta.permissions());
+        }
         file.sync_all()?;
         drop(file);
         std::fs::rename(&temp, path)?;
@@ -320,20 +346,66 @@ pub fn write_atomically(path: &Path, bytes: &[u8]) -> Result<(), FileError> {
     })();
     if result.is_err() {
         let _ = std::fs::remove_file(&temp);
+    } else {
+        remove_stale_temporaries(&folder, &file_name);
     }
     result.map_err(err)
 }
 
+/// The temporary files that saves of `file_name` left in `folder` when they were killed.
+pub fn stale_temporaries(folder: &Path, file_name: &str) -> Vec<PathBuf> {
+    let prefix = format!(".{file_name}.");
+    let mut found: Vec<PathBuf> = std::fs::read_dir(folder)
+        .into_iter()
+        .flatten()
+        .flatten()
+        .filter(|entry| {
+            let name = entry.file_name();
+            let name = name.to_string_lossy();
+            name.strip_prefix(&prefix)
+                .and_then(|rest| rest.strip_suffix(".saving"))
+                .is_some_and(|middle| {
+                    !middle.is_empty() && middle.bytes().all(|b| b.is_ascii_digit() || b == b'-')
+                })
+        })
+        .map(|entry| entry.path())
+        .collect();
+    found.sort();
+    found
+}
+
+/// Removes what interrupted saves of the same file left behind. A save of the same file running
+/// at this very moment in another process loses its temporary file and reports an error (its
+/// rename fails); the file on disk is whole either way.
+fn remove_stale_temporaries(folder: &Path, file_name: &str) {
+    for stale in stale_temporaries(folder, file_name) {
+        let _ = std::fs::remove_file(stale);
+    }
+}
+
 // ---- Reading ----
 
-fn syntax(e: ron::error::SpannedError) -> FileError {
+fn syntax(e: ron::error::SpannedError, text: &str) -> FileError {
+    let (line, column) = (e.span.start.line, e.span.start.col);
     let message = match &e.code {
         ron::Error::Eof => "the file ends too early (is it truncated?)".to_string(),
-        other => other.to_string(),
+        other => {
+            // An error on the last line of a text that does not end as a project does means the
+            // text stopped where more was expected: most often a file cut short by an interrupted
+            // copy. (The error may sit a few characters before the cut, at the start of the token
+            // the cut split, so the column is not compared.)
+            let lines = text.lines().count().max(1);
+            let at_end = line >= lines;
+            if at_end && !text.ends_with(")\n") && !text.ends_with(')') {
+                format!("{other}; the file ends here (is it truncated?)")
+            } else {
+                other.to_string()
+            }
+        }
     };
     FileError::Syntax {
-        line: e.span.start.line,
-        column: e.span.start.col,
+        line,
+        column,
         message,
     }
 }
@@ -343,15 +415,22 @@ pub fn from_str(text: &str) -> Result<Document, FileError> {
     if text.trim().is_empty() {
         return Err(FileError::Empty);
     }
-    if let Ok(probe) = ron::de::from_str::<VersionProbe>(text)
-        && probe.format_version > FORMAT_VERSION
+    // The version is read from the head of the text when it is where Tinct writes it (first);
+    // only an unusual file pays for a second full parse (seconds on a million regions).
+    let version = declared_version(text).or_else(|| {
+        ron::de::from_str::<VersionProbe>(text)
+            .ok()
+            .map(|p| p.format_version)
+    });
+    if let Some(found) = version
+        && found > FORMAT_VERSION
     {
         return Err(FileError::NewerVersion {
-            found: probe.format_version,
+            found,
             supported: FORMAT_VERSION,
         });
     }
-    let records: ProjectV1 = ron::de::from_str(text).map_err(syntax)?;
+    let records: ProjectV1 = ron::de::from_str(text).map_err(|e| syntax(e, text))?;
     if records.format_version == 0 {
         return Err(FileError::Invalid(
             "format_version 0 does not exist; the first version is 1".into(),
@@ -366,8 +445,13 @@ pub fn load(path: &Path) -> Result<Document, FileError> {
         path: path.to_path_buf(),
         source,
     })?;
-    let text = String::from_utf8(bytes).map_err(|e| {
-        let upto = &e.as_bytes()[..e.utf8_error().valid_up_to()];
+    from_bytes(&bytes)
+}
+
+/// Parses the bytes of a project file; text that is not UTF-8 is a syntax error naming where.
+pub fn from_bytes(bytes: &[u8]) -> Result<Document, FileError> {
+    let text = std::str::from_utf8(bytes).map_err(|e| {
+        let upto = &bytes[..e.valid_up_to()];
         let line = upto.iter().filter(|&&b| b == b'\n').count() + 1;
         let column = upto.iter().rev().take_while(|&&b| b != b'\n').count() + 1;
         FileError::Syntax {
@@ -376,7 +460,7 @@ pub fn load(path: &Path) -> Result<Document, FileError> {
             message: "the text is not valid UTF-8".into(),
         }
     })?;
-    from_str(&text)
+    from_str(text)
 }
 
 fn finite(p: (f64, f64)) -> bool {

@@ -13,8 +13,11 @@ use std::fmt::Write as _;
 use super::constraint::ConstraintGraph;
 use super::model::{Border, Document, Region, RegionId, RegionPair};
 
-/// Graphs with more vertices than this are refused before anything is allocated for them.
-pub const MAX_VERTICES: u64 = 10_000_000;
+/// Graphs with more vertices than this are refused before anything is allocated for them. The
+/// vertex count comes from the first line, and every vertex becomes a region (about 200 bytes),
+/// so a file of twenty bytes could otherwise ask for gigabytes; two million is twice the largest
+/// map Tinct is measured on (`benches/scale.rs`, a million regions).
+pub const MAX_VERTICES: u64 = 2_000_000;
 /// Graph files with more edge lines than this are refused.
 pub const MAX_EDGES: u64 = 50_000_000;
 
@@ -143,7 +146,9 @@ pub fn read_dimacs(text: &str, title: &str) -> Result<(Document, Vec<Notice>), G
                 if n > MAX_VERTICES {
                     return fail(
                         line,
-                        format!("{n} vertices is more than Tinct handles ({MAX_VERTICES})"),
+                        format!(
+                            "{n} vertices is more than Tinct handles (the limit is {MAX_VERTICES} vertices)"
+                        ),
                     );
                 }
                 declared = Some((n, m, line));
@@ -246,7 +251,9 @@ pub fn read_edge_list(text: &str, title: &str) -> Result<(Document, Vec<Notice>)
                 if a > MAX_VERTICES {
                     return fail(
                         line,
-                        format!("{a} vertices is more than Tinct handles ({MAX_VERTICES})"),
+                        format!(
+                            "{a} vertices is more than Tinct handles (the limit is {MAX_VERTICES} vertices)"
+                        ),
                     );
                 }
                 declared = Some((a, b));

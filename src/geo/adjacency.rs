@@ -134,41 +134,62 @@ fn node_envelope(node: &RTreeNode<Boxed>) -> AABB<Point> {
 /// Calls `found` once for every unordered pair of distinct leaves whose boxes intersect.
 /// (rstar's `intersection_candidates_with_other_tree` on the tree itself reports each pair in
 /// both orders and every leaf with itself; this walk does half the work.)
-fn self_join(node: &ParentNode<Boxed>, found: &mut dyn FnMut(&Boxed, &Boxed)) {
+fn self_join(node: &ParentNode<Boxed>, found: &mut dyn FnMut(&Boxed, &Boxed) -> bool) -> bool {
     let children = node.children();
     for (k, a) in children.iter().enumerate() {
-        if let RTreeNode::Parent(p) = a {
-            self_join(p, found);
+        if let RTreeNode::Parent(p) = a
+            && !self_join(p, found)
+        {
+            return false;
         }
         let envelope = node_envelope(a);
         for b in &children[k + 1..] {
-            if envelope.intersects(&node_envelope(b)) {
-                cross_join(a, b, found);
+            if envelope.intersects(&node_envelope(b)) && !cross_join(a, b, found) {
+                return false;
             }
         }
     }
+    true
 }
 
-fn cross_join(a: &RTreeNode<Boxed>, b: &RTreeNode<Boxed>, found: &mut dyn FnMut(&Boxed, &Boxed)) {
+/// Calls `found` for every pair of leaves under `a` and `b` whose envelopes meet; stops (and
+/// returns false) as soon as `found` does.
+fn cross_join(
+    a: &RTreeNode<Boxed>,
+    b: &RTreeNode<Boxed>,
+    found: &mut dyn FnMut(&Boxed, &Boxed) -> bool,
+) -> bool {
     match (a, b) {
         (RTreeNode::Leaf(x), RTreeNode::Leaf(y)) => found(x, y),
         (RTreeNode::Leaf(_), RTreeNode::Parent(p)) => {
             let envelope = node_envelope(a);
             for c in p.children() {
-                if envelope.intersects(&node_envelope(c)) {
-                    cross_join(a, c, found);
+                if envelope.intersects(&node_envelope(c)) && !cross_join(a, c, found) {
+                    return false;
                 }
             }
+            true
         }
         (RTreeNode::Parent(p), _) => {
             let envelope = node_envelope(b);
             for c in p.children() {
-                if node_envelope(c).intersects(&envelope) {
-                    cross_join(c, b, found);
+                if node_envelope(c).intersects(&envelope) && !cross_join(c, b, found) {
+                    return false;
                 }
             }
+            true
         }
     }
+}
+
+/// How many candidate pairs of boundary pieces the geometric pass examines before it gives up:
+/// clean maps need a few per segment (at most 4.6 across the test maps, with and without a
+/// tolerance), so sixteen leaves room for unusually dense ones; a map where everything lies within the tolerance of
+/// everything else (one coordinate far off makes the rounding tolerance and the gap band, both
+/// fractions of the map's diagonal, cover the whole map) would otherwise take time and memory
+/// quadratic in its size.
+pub fn candidate_pair_limit(segments: usize) -> usize {
+    segments.saturating_mul(16).saturating_add(10_000)
 }
 
 /// A stretch of one ring lying within the tolerance of another region's boundary.
@@ -470,17 +491,35 @@ impl Geometry {
                 }
             }
         };
+        let limit = candidate_pair_limit(self.segments.len());
+        let mut examined = 0usize;
         let mut found = |a: &Boxed, b: &Boxed| {
+            examined += 1;
             for i in a.first..a.first + a.count {
                 let bi = &boxes[i as usize];
                 for j in b.first..b.first + b.count {
                     if overlap(bi, &boxes[j as usize]) {
+                        examined += 1;
                         visit(i, j);
                     }
                 }
             }
+            examined <= limit
         };
-        self_join(tree.root(), &mut found);
+        let complete = self_join(tree.root(), &mut found);
+        if !complete {
+            diagnostics.push(Diagnostic {
+                kind: DiagnosticKind::File,
+                regions: vec![],
+                message: format!(
+                    "border detection stopped after {limit} candidate pairs: nearly every \
+                     boundary lies within the tolerance ({tolerance}) or the gap band ({band}) \
+                     of every other, so borders and gaps are incomplete. Is a coordinate far \
+                     from the rest? The map's diagonal is {}",
+                    self.diagonal
+                ),
+            });
+        }
         // Pairs within one chain: only self-intersections of its ring can show there.
         for chain in tree.iter() {
             for i in chain.first..chain.first + chain.count {

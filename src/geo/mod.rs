@@ -326,11 +326,16 @@ pub fn import_path(path: &Path, options: &ImportOptions) -> Result<ImportedMap, 
             finish(raw, options)
         }
         "geojson" | "json" | "topojson" => {
-            let bytes = std::fs::read(path).map_err(|source| ImportError::Io {
-                path: path.to_path_buf(),
-                source,
-            })?;
-            import_json(&bytes, options)
+            // The file's bytes go as soon as they are parsed: on a large map they are a good
+            // part of the peak memory.
+            let value = {
+                let bytes = std::fs::read(path).map_err(|source| ImportError::Io {
+                    path: path.to_path_buf(),
+                    source,
+                })?;
+                parse_json(&bytes)?
+            };
+            import_value(value, options)
         }
         _ => Err(ImportError::UnknownFormat {
             path: path.to_path_buf(),
@@ -340,17 +345,59 @@ pub fn import_path(path: &Path, options: &ImportOptions) -> Result<ImportedMap, 
 
 /// Imports a GeoJSON or TopoJSON document held in memory (the `type` member decides).
 pub fn import_json(bytes: &[u8], options: &ImportOptions) -> Result<ImportedMap, ImportError> {
-    let value: serde_json::Value =
-        serde_json::from_slice(bytes).map_err(|e| ImportError::Json {
+    import_value(parse_json(bytes)?, options)
+}
+
+fn parse_json(bytes: &[u8]) -> Result<serde_json::Value, ImportError> {
+    serde_json::from_slice(bytes).map_err(|e| {
+        // serde_json's text ends with " at line L column C"; the error says where already.
+        let text = e.to_string();
+        let message = match text.rsplit_once(" at line ") {
+            Some((head, _)) => head.to_string(),
+            None => text,
+        };
+        ImportError::Json {
             line: e.line(),
-            column: e.column(),
-            message: e.to_string(),
-        })?;
+            // serde_json counts a position just after a line break as column 0.
+            column: e.column().max(1),
+            message,
+        }
+    })
+}
+
+fn import_value(
+    value: serde_json::Value,
+    options: &ImportOptions,
+) -> Result<ImportedMap, ImportError> {
     let raw = if value.get("type").and_then(|t| t.as_str()) == Some("Topology") {
         topojson::read_value(&value, options.layer.as_deref())?
     } else {
         geojson::read_value(&value)?
     };
+    // The JSON tree is several times the size of the file; the features have what they need.
+    drop(value);
+    finish(raw, options)
+}
+
+/// Imports a shapefile held in memory: the `.shp` bytes, and the `.dbf` (names and attributes)
+/// and `.prj` (coordinate system) when there are any. Errors call the files `name.shp` and
+/// `name.dbf`. Counts declared in either file are checked against the bytes actually present
+/// before anything is allocated for them.
+pub fn import_shapefile_bytes(
+    name: &str,
+    shp: &[u8],
+    dbf: Option<&[u8]>,
+    prj: Option<&[u8]>,
+    options: &ImportOptions,
+) -> Result<ImportedMap, ImportError> {
+    let files = shp::Files {
+        shp,
+        dbf,
+        prj,
+        shp_label: format!("{name}.shp"),
+        dbf_label: format!("{name}.dbf"),
+    };
+    let raw = shp::read_files(&files, options.coordinates)?;
     finish(raw, options)
 }
 

@@ -62,17 +62,34 @@ pub(super) fn read_value(value: &Value, layer: Option<&str>) -> Result<RawMap, I
                 .and_then(|a| Some([a.first()?.as_f64()?, a.get(1)?.as_f64()?]));
             let [px, py] =
                 pair.ok_or_else(|| topology_error(format!("arc {i} has a malformed position")))?;
-            match transform {
+            let point = match transform {
                 Some(([sx, sy], [tx, ty])) => {
                     x += px;
                     y += py;
-                    decoded.push([x * sx + tx, y * sy + ty]);
+                    [x * sx + tx, y * sy + ty]
                 }
-                None => decoded.push([px, py]),
+                None => [px, py],
+            };
+            if !(point[0].is_finite() && point[1].is_finite()) {
+                return Err(topology_error(format!(
+                    "arc {i}, position {}: the coordinates are not finite numbers{}",
+                    decoded.len(),
+                    if transform.is_some() {
+                        " after applying the transform (is its scale too large?)"
+                    } else {
+                        ""
+                    }
+                )));
             }
+            decoded.push(point);
         }
         arcs.push(decoded);
     }
+    // Rings copy the arcs they use. In a topology each arc bounds at most two polygons (one on
+    // each side), so rings hold about twice the arc positions; a file that refers to one arc a
+    // million times would otherwise turn a few kilobytes into gigabytes of positions.
+    let arc_positions: usize = arcs.iter().map(Vec::len).sum();
+    let mut budget = ring_position_limit(arc_positions);
 
     let name = match layer {
         Some(l) => {
@@ -123,7 +140,14 @@ pub(super) fn read_value(value: &Value, layer: Option<&str>) -> Result<RawMap, I
                 feature.properties.insert(key.clone(), v.clone());
             }
         }
-        if !read_geometry(geometry, index, &arcs, &mut feature, &mut raw.diagnostics)? {
+        if !read_geometry(
+            geometry,
+            index,
+            &arcs,
+            &mut feature,
+            &mut raw.diagnostics,
+            &mut budget,
+        )? {
             continue;
         }
         raw.features.push(feature);
@@ -147,6 +171,12 @@ pub(super) fn read_value(value: &Value, layer: Option<&str>) -> Result<RawMap, I
     Ok(raw)
 }
 
+/// How many positions the rings of a topology may hold in all, given the positions of its arcs:
+/// four uses of every arc (a valid topology needs two) and a million positions to spare.
+pub(super) fn ring_position_limit(arc_positions: usize) -> usize {
+    arc_positions.saturating_mul(4).saturating_add(1_000_000)
+}
+
 fn count_polygons(value: &Value) -> usize {
     match value.get("type").and_then(Value::as_str) {
         Some("Polygon" | "MultiPolygon") => 1,
@@ -166,6 +196,7 @@ fn read_geometry(
     arcs: &[Vec<Point>],
     feature: &mut RawFeature,
     diagnostics: &mut Vec<Diagnostic>,
+    budget: &mut usize,
 ) -> Result<bool, ImportError> {
     let kind = geometry.get("type").and_then(Value::as_str);
     let polygon_arcs = |v: &Value| -> Result<Vec<Vec<i64>>, ImportError> {
@@ -185,7 +216,10 @@ fn read_geometry(
             })
             .collect()
     };
-    let add_polygon = |rings: Vec<Vec<i64>>, feature: &mut RawFeature| -> Result<(), ImportError> {
+    let add_polygon = |rings: Vec<Vec<i64>>,
+                       feature: &mut RawFeature,
+                       budget: &mut usize|
+     -> Result<(), ImportError> {
         let mut used = Vec::new();
         let mut decoded = Vec::new();
         for ring in rings {
@@ -204,6 +238,14 @@ fn read_geometry(
                     ))
                 })?;
                 used.push(i);
+                *budget = budget.checked_sub(arc.len()).ok_or_else(|| {
+                    topology_error(format!(
+                        "geometry {index}: the rings refer to the arcs more often than a topology \
+                         can (more than {} positions from {} arc positions)",
+                        ring_position_limit(arcs.iter().map(Vec::len).sum()),
+                        arcs.iter().map(Vec::len).sum::<usize>()
+                    ))
+                })?;
                 let mut points: Vec<Point> = arc.clone();
                 if reversed {
                     points.reverse();
@@ -229,7 +271,7 @@ fn read_geometry(
     match kind {
         Some("Polygon") => {
             let rings = polygon_arcs(geometry.get("arcs").unwrap_or(&Value::Null))?;
-            add_polygon(rings, feature)?;
+            add_polygon(rings, feature, budget)?;
             Ok(true)
         }
         Some("MultiPolygon") => {
@@ -241,7 +283,7 @@ fn read_geometry(
                 })?;
             for p in polygons {
                 let rings = polygon_arcs(p)?;
-                add_polygon(rings, feature)?;
+                add_polygon(rings, feature, budget)?;
             }
             Ok(true)
         }
@@ -252,7 +294,7 @@ fn read_geometry(
                 .cloned()
                 .unwrap_or_default();
             for member in &members {
-                read_geometry(member, index, arcs, feature, diagnostics)?;
+                read_geometry(member, index, arcs, feature, diagnostics, budget)?;
             }
             Ok(true)
         }

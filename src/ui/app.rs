@@ -402,7 +402,7 @@ impl App {
     }
 
     /// Writes unsaved work to the recovery file every few seconds; removes it once nothing is unsaved.
-    fn autosave(&mut self) {
+    fn autosave(&mut self, ctx: &egui::Context) {
         let Some(dir) = self.recovery_dir.clone() else {
             return;
         };
@@ -428,6 +428,13 @@ impl App {
                     format!("Unsaved work could not be written aside: {e}"),
                 ),
             }
+        } else if self.autosaved_revision != Some(revision) {
+            // An idle window draws no frames: ask for one when the write falls due, so work left
+            // unsaved is written aside on time even if the user walks away.
+            ctx.request_repaint_after(
+                self.autosave_every
+                    .saturating_sub(self.autosaved_at.elapsed()),
+            );
         }
     }
 
@@ -863,7 +870,7 @@ impl App {
                 ctx.request_repaint_after(ANALYSIS_DEBOUNCE - rest);
             }
         }
-        self.autosave();
+        self.autosave(ctx);
         let title = self.session.title();
         if title != self.last_title {
             ctx.send_viewport_cmd(egui::ViewportCommand::Title(title.clone()));

@@ -329,13 +329,5 @@ pub fn run_palette(file: &Path, args: &PaletteArgs) -> ExitCode {
     } else {
         report_text(&doc, &thresholds)
     };
-    use std::io::Write as _;
-    let mut stdout = std::io::stdout().lock();
-    if let Err(e) = stdout
-        .write_all(text.as_bytes())
-        .and_then(|_| stdout.flush())
-    {
-        return error(exit::CANNOT_WRITE, &e.into());
-    }
-    ExitCode::from(exit::OK)
+    super::print_out(&text)
 }

@@ -5,7 +5,6 @@
 //! rename or remove them. Region ids are those `tinct import` gives the regions (1, 2, ... in
 //! import order); `source_index` is the 0-based position of the feature in the input file.
 
-use std::io::Write;
 use std::path::Path;
 use std::process::ExitCode;
 
@@ -295,12 +294,5 @@ pub fn run_adjacency(file: &Path, json: bool, args: &GeoArgs) -> ExitCode {
     } else {
         render_text(&report)
     };
-    let mut stdout = std::io::stdout().lock();
-    if let Err(e) = stdout
-        .write_all(text.as_bytes())
-        .and_then(|_| stdout.flush())
-    {
-        return error(exit::CANNOT_WRITE, &e.into());
-    }
-    ExitCode::from(exit::OK)
+    super::print_out(&text)
 }

@@ -148,6 +148,19 @@ fn seconds(value: f64) -> Option<std::time::Duration> {
     (value.is_finite() && value > 0.0).then(|| std::time::Duration::from_secs_f64(value.min(1e9)))
 }
 
+/// Writes `text` to standard output: exit 0, or 3 when it cannot be written (a closed pipe).
+fn print_out(text: &str) -> ExitCode {
+    use std::io::Write as _;
+    let mut stdout = std::io::stdout().lock();
+    match stdout
+        .write_all(text.as_bytes())
+        .and_then(|_| stdout.flush())
+    {
+        Ok(()) => ExitCode::from(exit::OK),
+        Err(e) => error(exit::CANNOT_WRITE, &e.into()),
+    }
+}
+
 fn error(code: u8, e: &anyhow::Error) -> ExitCode {
     eprintln!("tinct: {e:#}");
     ExitCode::from(code)

@@ -358,18 +358,13 @@ impl Default for Palette {
     /// vision, the three simulated dichromacies and greyscale), then two reserves for maps that
     /// need more than four (less distinct; the palette check says when they are used).
     fn default() -> Palette {
-        let slots = [
-            ("Frost", [0xcc, 0xee, 0xff]),
-            ("Rosehip", [0xee, 0xaa, 0xcc]),
-            ("Heather", [0xaa, 0x88, 0xbb]),
-            ("Brick", [0xaa, 0x55, 0x33]),
-            ("Lagoon", [0x22, 0x99, 0x99]),
-            ("Reed", [0xbb, 0xbb, 0x88]),
-        ];
+        let reserves = [("Lagoon", [0x22, 0x99, 0x99]), ("Reed", [0xbb, 0xbb, 0x88])];
+        let four = crate::colour::default_palette_for(4).map_or(&[][..], |p| p.slots);
         Palette {
             name: "Tinct 4 with two reserves".to_string(),
-            slots: slots
+            slots: four
                 .iter()
+                .chain(reserves.iter())
                 .map(|(n, c)| Slot {
                     name: n.to_string(),
                     colour: Rgb(*c),

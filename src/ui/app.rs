@@ -659,6 +659,31 @@ impl App {
     }
 
     /// Writes the CNF and the DRAT proof that three colours fail into `folder`.
+    /// Runs `job` on the worker; without one (headless tests, benchmarks), runs it here and
+    /// takes its result at once. True when it went to the worker.
+    fn run_job(
+        &mut self,
+        revision: u64,
+        kind: JobKind,
+        job: crate::worker::JobFn<JobResult>,
+    ) -> bool {
+        match &mut self.worker {
+            Some(w) => {
+                w.submit(revision, kind, job);
+                true
+            }
+            None => {
+                let ctx = crate::worker::JobContext {
+                    cancel: Default::default(),
+                    progress: Default::default(),
+                };
+                let result = job(&ctx);
+                self.receive(result);
+                false
+            }
+        }
+    }
+
     /// Writes an export on the worker (a picture of a large map takes a while); the result
     /// arrives as a message.
     pub fn export_to(&mut self, format: ExportFormat, path: PathBuf) {
@@ -679,19 +704,8 @@ impl App {
                 result,
             }
         };
-        match &mut self.worker {
-            Some(w) => {
-                w.submit(revision, JobKind::Export, Box::new(job));
-                self.say(Level::Info, format!("Writing the {}…", format.name()));
-            }
-            None => {
-                let ctx = crate::worker::JobContext {
-                    cancel: Default::default(),
-                    progress: Default::default(),
-                };
-                let result = job(&ctx);
-                self.receive(result);
-            }
+        if self.run_job(revision, JobKind::Export, Box::new(job)) {
+            self.say(Level::Info, format!("Writing the {}…", format.name()));
         }
     }
 
@@ -1021,17 +1035,7 @@ impl App {
                         },
                     )),
                 };
-                match &mut self.worker {
-                    Some(w) => w.submit(revision, JobKind::Other, Box::new(job)),
-                    None => {
-                        let ctx = crate::worker::JobContext {
-                            cancel: Default::default(),
-                            progress: Default::default(),
-                        };
-                        let result = job(&ctx);
-                        self.receive(result);
-                    }
-                }
+                self.run_job(revision, JobKind::Other, Box::new(job));
             }
             Command::ExportProof => {
                 self.path_prompt = Some(PathPrompt {

@@ -6,6 +6,7 @@ use egui::{Color32, RichText};
 
 use crate::colour::{DEFAULT_PALETTES, Thresholds, Warning};
 use crate::doc::palette_check::{self, PairsChecked, SlotPairUse};
+use crate::doc::palette_edit;
 use crate::doc::{Edit, Palette, Rgb, Slot};
 
 use super::app::{App, Level};
@@ -108,22 +109,13 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
                 egui::ComboBox::from_id_salt("default-palettes")
                     .selected_text("choose…")
                     .show_ui(ui, |ui| {
-                        for p in &DEFAULT_PALETTES {
+                        for (index, p) in DEFAULT_PALETTES.iter().enumerate() {
                             let label = format!("{} ({} colours)", p.name, p.slots.len());
-                            if ui.selectable_label(false, label).clicked() {
-                                editor.draft = Palette {
-                                    name: p.name.to_string(),
-                                    slots: p
-                                        .slots
-                                        .iter()
-                                        .map(|(name, rgb)| Slot {
-                                            name: name.to_string(),
-                                            colour: Rgb(*rgb),
-                                        })
-                                        .collect(),
-                                };
-                                editor.hex =
-                                    editor.draft.slots.iter().map(|s| s.colour.to_hex()).collect();
+                            if ui.selectable_label(false, label).clicked()
+                                && let Some(palette) = palette_edit::default_palette(index)
+                            {
+                                editor.hex = palette.slots.iter().map(|s| s.colour.to_hex()).collect();
+                                editor.draft = palette;
                             }
                         }
                     });

@@ -196,36 +196,39 @@ fn grotzsch_graph_needs_four_with_a_checked_proof_and_argument() {
     assert!(check_drat(&r.cnf, &deletions_only).is_err());
 }
 
+/// The Chvátal graph (Chvátal 1970): 12 vertices, 4-regular, triangle-free, chromatic number 4.
+/// Edge list as in networkx 3.6 `chvatal_graph` (reference library; compared when written).
+const CHVATAL_EDGES: [(u32, u32); 24] = [
+    (0, 1),
+    (0, 4),
+    (0, 6),
+    (0, 9),
+    (1, 2),
+    (1, 5),
+    (1, 7),
+    (2, 3),
+    (2, 6),
+    (2, 8),
+    (3, 4),
+    (3, 7),
+    (3, 9),
+    (4, 5),
+    (4, 8),
+    (5, 10),
+    (5, 11),
+    (6, 10),
+    (6, 11),
+    (7, 8),
+    (7, 11),
+    (8, 10),
+    (9, 10),
+    (9, 11),
+];
+
 #[test]
 fn chvatal_graph_needs_four() {
     // Chvátal graph (Chvátal 1970): 12 vertices, 4-regular, triangle-free, chromatic number 4.
-    // Edge list as in networkx 3.6 `chvatal_graph` (reference library; compared when written).
-    let edges = [
-        (0, 1),
-        (0, 4),
-        (0, 6),
-        (0, 9),
-        (1, 2),
-        (1, 5),
-        (1, 7),
-        (2, 3),
-        (2, 6),
-        (2, 8),
-        (3, 4),
-        (3, 7),
-        (3, 9),
-        (4, 5),
-        (4, 8),
-        (5, 10),
-        (5, 11),
-        (6, 10),
-        (6, 11),
-        (7, 8),
-        (7, 11),
-        (8, 10),
-        (9, 10),
-        (9, 11),
-    ];
+    let edges = CHVATAL_EDGES;
     let r = chromatic(12, &edges, &SolveOptions::default());
     assert_eq!(r.minimum, Some(4));
     assert_eq!(r.three_colourable, Some(false));
@@ -786,32 +789,7 @@ fn proof_files_for_outside_checkers() {
     // Obstructions without a K4 (odd wheels, Grötzsch, Chvátal) and a 4-colour refutation of the
     // 23-vertex Mycielski graph (Mycielski 1955: it needs 5). Each is checked here; with
     // TINCT_PROOF_DIR set, the CNF and DRAT files are also written for tests/scripts/check_drat.py.
-    let chvatal = [
-        (0, 1),
-        (0, 4),
-        (0, 6),
-        (0, 9),
-        (1, 2),
-        (1, 5),
-        (1, 7),
-        (2, 3),
-        (2, 6),
-        (2, 8),
-        (3, 4),
-        (3, 7),
-        (3, 9),
-        (4, 5),
-        (4, 8),
-        (5, 10),
-        (5, 11),
-        (6, 10),
-        (6, 11),
-        (7, 8),
-        (7, 11),
-        (8, 10),
-        (9, 10),
-        (9, 11),
-    ];
+    let chvatal = CHVATAL_EDGES;
     let (m4n, m4) = mycielski(4);
     let (m5n, m5) = mycielski(5);
     type Case = (&'static str, usize, Vec<(u32, u32)>, u32);

@@ -1,6 +1,6 @@
 //! Small documents shared by unit tests across modules (compiled for tests only).
 
-use super::{Border, Document, Edit, Region, RegionId, RegionPair};
+use super::{Border, Document, Edit, Geometry, Polygon, Region, RegionId, RegionPair};
 
 /// Three marker regions named `names`; the first two border each other and both have colour 1
 /// (slot 0), the third has no colour. Returns the document and the clashing pair.
@@ -20,4 +20,14 @@ pub fn clashing_pair_and_one_uncoloured(names: [&str; 3]) -> (Document, RegionPa
         doc.apply(Edit::PutColour { id, slot: Some(0) }).unwrap();
     }
     (doc, pair)
+}
+
+/// An axis-parallel square outline with its lower left corner at (x, y) and side s.
+pub fn square(x: f64, y: f64, s: f64) -> Geometry {
+    Geometry {
+        polygons: vec![Polygon {
+            exterior: vec![[x, y], [x + s, y], [x + s, y + s], [x, y + s]],
+            holes: vec![],
+        }],
+    }
 }

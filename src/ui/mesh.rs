@@ -254,16 +254,8 @@ impl Scene {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::doc::fixtures::square;
     use crate::doc::{Edit, Polygon, Region};
-
-    fn square(x: f64, y: f64, s: f64) -> Geometry {
-        Geometry {
-            polygons: vec![Polygon {
-                exterior: vec![[x, y], [x + s, y], [x + s, y + s], [x, y + s]],
-                holes: vec![],
-            }],
-        }
-    }
 
     #[test]
     fn square_with_hole_has_eight_triangles_and_the_right_area() {

@@ -126,7 +126,8 @@ pub fn hit_test(
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::doc::{Polygon, Region};
+    use crate::doc::Region;
+    use crate::doc::fixtures::square;
     use std::sync::Arc;
 
     /// Bounding boxes and areas of every outlined region, for [`hit_test`].
@@ -138,15 +139,6 @@ mod tests {
                 Some((*id, g.bounds()?, g.area()))
             })
             .collect()
-    }
-
-    fn square(x: f64, y: f64, s: f64) -> Geometry {
-        Geometry {
-            polygons: vec![Polygon {
-                exterior: vec![[x, y], [x + s, y], [x + s, y + s], [x, y + s]],
-                holes: vec![],
-            }],
-        }
     }
 
     #[test]

@@ -348,6 +348,13 @@ pub fn replay_argument(g: &Graph, k: u32, steps: &[ArgumentStep]) -> bool {
     let mut cases: Vec<(usize, u32)> = Vec::new();
     let mut last_closed: Option<(usize, u32)> = None;
     let mut any_case = false;
+    // Colour c is out of reach for v: excluded by a closed case, or held by a neighbour.
+    let unavailable = |colour: &[u32], banned: u64, v: usize, c: u32| {
+        banned & (1 << c) != 0
+            || g.neighbours(v as Vertex)
+                .iter()
+                .any(|&w| colour[w as usize] == c)
+    };
     for step in steps {
         let v = step.vertex as usize;
         if v >= n {
@@ -378,12 +385,9 @@ pub fn replay_argument(g: &Graph, k: u32, steps: &[ArgumentStep]) -> bool {
                     return false;
                 }
                 // Every other colour is held by a neighbour or excluded by a closed case.
-                let ok = (0..k).filter(|&c| c != step.colour).all(|c| {
-                    banned[d][v] & (1 << c) != 0
-                        || g.neighbours(v as Vertex)
-                            .iter()
-                            .any(|&w| colour[d][w as usize] == c)
-                });
+                let ok = (0..k)
+                    .filter(|&c| c != step.colour)
+                    .all(|c| unavailable(&colour[d], banned[d][v], v, c));
                 if !ok {
                     return false;
                 }
@@ -412,12 +416,7 @@ pub fn replay_argument(g: &Graph, k: u32, steps: &[ArgumentStep]) -> bool {
                 if d + 1 != colour.len() {
                     return false;
                 }
-                let ok = (0..k).all(|c| {
-                    banned[d][v] & (1 << c) != 0
-                        || g.neighbours(v as Vertex)
-                            .iter()
-                            .any(|&w| colour[d][w as usize] == c)
-                });
+                let ok = (0..k).all(|c| unavailable(&colour[d], banned[d][v], v, c));
                 if !ok {
                     return false;
                 }

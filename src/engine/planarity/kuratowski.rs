@@ -29,6 +29,7 @@
 //! A linear-time isolation (for example the one of Boyer and Myrvold 2004, which works from the
 //! failed state of an edge-addition test) is not implemented here.
 
+use super::edge_addition;
 use super::lr::{FailureClue, LrState, Mode, Outcome};
 use super::{Kuratowski, KuratowskiKind, Monitor, Phase, PlanarityError};
 use crate::engine::graph::{Graph, Vertex};
@@ -129,24 +130,15 @@ pub(super) fn isolate(
     };
     iso.monitor.checkpoint(Phase::Kuratowski, 1, 3)?;
 
-    // Shrink the back-edge pieces to a minimal set with the tree pieces always present.
-    let mut base: Vec<u32> = Vec::new();
-    let mut candidates: Vec<u32> = Vec::new();
-    for &p in &h0 {
-        if iso.arena[p as usize].back {
-            candidates.push(p);
-        } else {
-            base.push(p);
+    // Locate the obstruction with edge addition (linear time, a constant number of pieces).
+    // Should that ever fail, shrink the back-edge pieces with QuickXplain instead.
+    let mut keep = match iso.locate(&h0)? {
+        Some(keep) => keep,
+        None => {
+            debug_assert!(false, "edge addition did not locate the obstruction");
+            iso.shrink(&h0)?
         }
-    }
-    // Back edges met just before the failure are the likeliest to be needed; QuickXplain needs
-    // the fewest calls when the needed candidates come first.
-    candidates.reverse();
-    let background = iso.compress_keeping(&base, &candidates);
-    let needed = iso.quick_xplain(&background, false, &candidates)?;
-    let mut keep = base;
-    keep.extend_from_slice(&needed);
-    let mut keep = iso.compress(&keep);
+    };
     iso.monitor.checkpoint(Phase::Kuratowski, 2, 3)?;
 
     // Delete whatever piece can go. A piece found essential stays essential after later
@@ -178,6 +170,67 @@ impl Isolator<'_, '_> {
             back,
         });
         (self.arena.len() - 1) as u32
+    }
+
+    /// The pieces of `h` (non-planar, suppressed) on the paths edge addition finds around the
+    /// obstruction, suppressed again: a constant number of pieces, or `None` if the located
+    /// union is not non-planar after all.
+    fn locate(&mut self, h: &[u32]) -> Result<Option<Vec<u32>>, PlanarityError> {
+        let mut verts: Vec<Vertex> = Vec::new();
+        let mut ends: Vec<(u32, u32, u32)> = Vec::with_capacity(h.len());
+        for &p in h {
+            let node = self.arena[p as usize];
+            let mut local = [0u32; 2];
+            for (slot, v) in [node.a, node.b].into_iter().enumerate() {
+                if self.local[v as usize] == NONE {
+                    self.local[v as usize] = verts.len() as u32;
+                    verts.push(v);
+                }
+                local[slot] = self.local[v as usize];
+            }
+            if local[0] != local[1] {
+                ends.push((local[0].min(local[1]), local[0].max(local[1]), p));
+            }
+        }
+        for &v in &verts {
+            self.local[v as usize] = NONE;
+        }
+        // One piece per pair of ends: parallel pieces never matter for planarity.
+        ends.sort_unstable();
+        ends.dedup_by_key(|&mut (a, b, _)| (a, b));
+        let edges: Vec<(u32, u32)> = ends.iter().map(|&(a, b, _)| (a, b)).collect();
+        let Some(found) = edge_addition::obstruction_edges(verts.len(), &edges, self.monitor)?
+        else {
+            return Ok(None);
+        };
+        let pieces: Vec<u32> = found.into_iter().map(|e| ends[e].2).collect();
+        let keep = self.compress(&pieces);
+        if self.test_compressed(&keep)? {
+            return Ok(None);
+        }
+        Ok(Some(keep))
+    }
+
+    /// Shrinks the back-edge pieces of `h0` to a minimal set with the tree pieces always
+    /// present (QuickXplain), and suppresses the result.
+    fn shrink(&mut self, h0: &[u32]) -> Result<Vec<u32>, PlanarityError> {
+        let mut base: Vec<u32> = Vec::new();
+        let mut candidates: Vec<u32> = Vec::new();
+        for &p in h0 {
+            if self.arena[p as usize].back {
+                candidates.push(p);
+            } else {
+                base.push(p);
+            }
+        }
+        // Back edges met just before the failure are the likeliest to be needed; QuickXplain
+        // needs the fewest calls when the needed candidates come first.
+        candidates.reverse();
+        let background = self.compress_keeping(&base, &candidates);
+        let needed = self.quick_xplain(&background, false, &candidates)?;
+        let mut keep = base;
+        keep.extend_from_slice(&needed);
+        Ok(self.compress(&keep))
     }
 
     /// QuickXplain: a minimal subset D of `candidates` with `background + D` non-planar, given

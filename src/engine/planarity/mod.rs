@@ -6,6 +6,7 @@
 //! The checkers in [`crate::engine::certify`] verify both kinds of evidence without sharing any code
 //! with this module.
 
+mod edge_addition;
 mod kuratowski;
 mod lr;
 

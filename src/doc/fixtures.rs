@@ -1,6 +1,8 @@
 //! Small documents shared by unit tests across modules (compiled for tests only).
 
-use super::{Border, Document, Edit, Geometry, Polygon, Region, RegionId, RegionPair};
+use super::{Border, Document, Edit, Region, RegionId, RegionPair};
+#[cfg(feature = "gui")]
+use super::{Geometry, Polygon};
 
 /// Three marker regions named `names`; the first two border each other and both have colour 1
 /// (slot 0), the third has no colour. Returns the document and the clashing pair.
@@ -23,6 +25,7 @@ pub fn clashing_pair_and_one_uncoloured(names: [&str; 3]) -> (Document, RegionPa
 }
 
 /// An axis-parallel square outline with its lower left corner at (x, y) and side s.
+#[cfg(feature = "gui")]
 pub fn square(x: f64, y: f64, s: f64) -> Geometry {
     Geometry {
         polygons: vec![Polygon {

@@ -1,7 +1,7 @@
 //! The document: regions, borders, groups, pins, palette and colouring; the edits that change it and
 //! the history that undoes them; the constraint graph handed to the engines; project and graph files.
 //!
-//! Nothing here knows about the GUI or threads. Only [`file`] knows RON.
+//! Nothing here knows about the GUI or threads. Only [`file`](mod@file) knows RON.
 
 pub mod checks;
 pub mod constraint;

@@ -238,19 +238,13 @@ impl Planarity {
 ///
 /// Uses the left-right planarity test of de Fraysseix and Rosenstiehl in the formulation of
 /// U. Brandes, "The Left-Right Planarity Test" (2009), including its embedding phase. When the
-/// test fails, a Kuratowski subdivision is isolated as described in `kuratowski.rs`: the depth-first
-/// tree of the test plus a small set of back edges found from the point where the test failed,
-/// shrunk to a minimal non-planar subgraph by a planarity oracle on graphs whose degree-2 chains
-/// are suppressed.
+/// test fails, a Kuratowski subdivision is isolated as described in `kuratowski.rs`: a window of
+/// back edges around the point where the test failed, suppressed to pieces; edge addition (Boyer
+/// and Myrvold 2004) run on it to locate the obstruction as a constant number of paths; then one
+/// deletion pass over those pieces with the test as an oracle.
 ///
 /// # Complexity
-/// Planar graphs: O(n + m) time and space. Non-planar graphs: O(n + m) for the test, O(n + m) for
-/// each window of back edges tried around the failure (usually one, at most about log n), then
-/// at most O(w k log(w / k) + k^2) for the shrinking, where w is the window size and k the number
-/// of back-edge pieces the subdivision needs (a handful in practice). This is not linear in the
-/// worst case: a graph whose every Kuratowski subgraph needs Θ(n) back edges of the depth-first
-/// tree (a ring of crossing chords, for instance) makes the shrinking quadratic. See
-/// `kuratowski.rs`.
+/// O(n + m) time and space, for planar and non-planar graphs alike.
 ///
 /// # Certificate
 /// [`Planarity::Planar`] carries an [`Embedding`] whose face walks satisfy Euler's formula;

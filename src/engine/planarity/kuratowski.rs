@@ -108,16 +108,17 @@ fn isolate_counting(
     for window in clue.windows.iter().map(Some).chain([None]) {
         let mut input: Vec<u32> = Vec::new();
         if let Some(&(start, a)) = window {
-            let mut top = clue.height[a as usize];
+            // Preorder numbers increase down every root path.
+            let mut top = a;
             for &(u, v) in &clue.processed[start..] {
                 input.push(iso.leaf(u, v, true));
-                top = top.min(clue.height[v as usize]);
+                top = top.min(v);
             }
             for x in a + 1..clue.subtree_end[a as usize] {
                 input.push(iso.leaf(clue.parent[x as usize], x, false));
             }
             let mut x = a;
-            while clue.height[x as usize] > top {
+            while x > top {
                 let p = clue.parent[x as usize];
                 input.push(iso.leaf(p, x, false));
                 x = p;

@@ -59,14 +59,12 @@ impl ConflictPair {
 }
 
 /// What the test saw when it failed, in the test's internal vertex numbering (depth-first
-/// preorder, so every subtree is a contiguous range).
+/// preorder, so every subtree is a contiguous range and ancestors have smaller numbers).
 pub(super) struct FailureClue {
     /// `orig[v]` is the caller's label of internal vertex `v`.
     pub orig: Vec<u32>,
     /// Parent in the depth-first forest (`NONE` for roots).
     pub parent: Vec<u32>,
-    /// Depth in the depth-first forest.
-    pub height: Vec<u32>,
     /// The subtree of `v` is `v..subtree_end[v]`.
     pub subtree_end: Vec<u32>,
     /// Back edges in the order the testing search met them, as `(descendant, ancestor)`.
@@ -91,7 +89,6 @@ pub(super) struct LrState<'g> {
     /// exactly `out_offsets[v]..out_offsets[v + 1]`, already in the order the test visits them.
     out_offsets: Vec<u32>,
     dst: Vec<u32>,
-    height: Vec<u32>,
     parent: Vec<u32>,
     parent_edge: Vec<u32>,
     lowpt: Vec<u32>,
@@ -119,7 +116,6 @@ impl<'g> LrState<'g> {
             dst_orig: Vec::new(),
             out_offsets: Vec::new(),
             dst: Vec::new(),
-            height: Vec::new(),
             parent: Vec::new(),
             parent_edge: Vec::new(),
             lowpt: Vec::new(),
@@ -178,15 +174,14 @@ impl<'g> LrState<'g> {
         let mut lowpt_o: Vec<u32> = Vec::with_capacity(m);
         let mut lowpt2_o: Vec<u32> = Vec::with_capacity(m);
         let mut nesting_o: Vec<u32> = vec![0; m];
-        // The only array read once per half-edge at a random place is `height_o` (caller's
-        // labels, `NONE` while unvisited): four bytes per vertex, so that on graphs with shuffled
-        // labels the scan misses the cache about as often as a plain search with a visited flag.
-        // Everything else per vertex is written once, in preorder (sequential), or lives on the
-        // search stack.
-        let mut height_o: Vec<u32> = vec![NONE; n];
-        let mut pre_o: Vec<u32> = vec![0; n];
+        // The only array read once per half-edge at a random place is `pre_o` (caller's labels,
+        // `NONE` while unvisited): four bytes per vertex. Lowpoints are preorder numbers rather
+        // than heights (Hopcroft and Tarjan's convention): both increase strictly along every
+        // root path, and the test only ever compares return points on one root path, so the
+        // same array also tells ancestors apart and no height is needed. Everything else per
+        // vertex is written once, in preorder (sequential), or lives on the search stack.
+        let mut pre_o: Vec<u32> = vec![NONE; n];
         let mut orig = vec![0u32; n];
-        let mut height = vec![0u32; n];
         let mut parent = vec![NONE; n];
         let mut parent_edge_o = vec![NONE; n];
         /// One vertex on the search stack.
@@ -195,7 +190,6 @@ impl<'g> LrState<'g> {
             v: u32,
             cursor: u32,
             end: u32,
-            height: u32,
             parent_edge: u32,
             pre: u32,
             /// The parent's label (`NONE` for a root): the one earlier neighbour that is not a
@@ -204,7 +198,7 @@ impl<'g> LrState<'g> {
         }
         let mut next_pre = 0u32;
         let mut dfs: Vec<Frame> = Vec::new();
-        // Nesting depth of `e` (leaving a vertex at height `hv` whose parent edge is `p`) and the
+        // Nesting depth of `e` (leaving vertex `hv` whose parent edge is `p`) and the
         // lowpoint update of `p`.
         let finish = |e: usize,
                       hv: u32,
@@ -227,10 +221,9 @@ impl<'g> LrState<'g> {
             }
         };
         for s in 0..n {
-            if height_o[s] != NONE {
+            if pre_o[s] != NONE {
                 continue;
             }
-            height_o[s] = 0;
             pre_o[s] = next_pre;
             orig[next_pre as usize] = s as u32;
             self.roots.push(next_pre);
@@ -238,7 +231,6 @@ impl<'g> LrState<'g> {
                 v: s as u32,
                 cursor: offsets[s],
                 end: offsets[s + 1],
-                height: 0,
                 parent_edge: NONE,
                 pre: next_pre,
                 parent: NONE,
@@ -249,7 +241,6 @@ impl<'g> LrState<'g> {
                     v,
                     cursor,
                     end,
-                    height: hv,
                     parent_edge: pe,
                     pre: v_pre,
                     parent: par,
@@ -260,21 +251,21 @@ impl<'g> LrState<'g> {
                 while h < end {
                     let w = targets[h as usize];
                     h += 1;
-                    let hw = height_o[w as usize];
-                    if hw == NONE {
+                    let pw = pre_o[w as usize];
+                    if pw == NONE {
                         child = w;
                         break;
                     }
-                    if hw < hv && w != par {
+                    if pw < v_pre && w != par {
                         let e = src_pre.len();
                         src_pre.push(v_pre);
-                        dst_pre.push(pre_o[w as usize]);
+                        dst_pre.push(pw);
                         if keep_labels {
                             dst_o.push(w);
                         }
-                        lowpt_o.push(hw);
-                        lowpt2_o.push(hv);
-                        finish(e, hv, pe, &mut lowpt_o, &mut lowpt2_o, &mut nesting_o);
+                        lowpt_o.push(pw);
+                        lowpt2_o.push(v_pre);
+                        finish(e, v_pre, pe, &mut lowpt_o, &mut lowpt2_o, &mut nesting_o);
                     }
                 }
                 top.cursor = h;
@@ -286,21 +277,18 @@ impl<'g> LrState<'g> {
                     if keep_labels {
                         dst_o.push(w);
                     }
-                    lowpt_o.push(hv);
-                    lowpt2_o.push(hv);
+                    lowpt_o.push(v_pre);
+                    lowpt2_o.push(v_pre);
                     let wi = w as usize;
-                    height_o[wi] = hv + 1;
                     pre_o[wi] = next_pre;
                     let p = next_pre as usize;
                     orig[p] = w;
-                    height[p] = hv + 1;
                     parent[p] = v_pre;
                     parent_edge_o[p] = e;
                     dfs.push(Frame {
                         v: w,
                         cursor: offsets[wi],
                         end: offsets[wi + 1],
-                        height: hv + 1,
                         parent_edge: e,
                         pre: next_pre,
                         parent: v,
@@ -315,7 +303,7 @@ impl<'g> LrState<'g> {
                 {
                     finish(
                         pe as usize,
-                        below.height,
+                        below.pre,
                         below.parent_edge,
                         &mut lowpt_o,
                         &mut lowpt2_o,
@@ -324,7 +312,7 @@ impl<'g> LrState<'g> {
                 }
             }
         }
-        drop((height_o, pre_o));
+        drop(pre_o);
         debug_assert_eq!(src_pre.len(), m);
         drop(lowpt2_o);
         // Renumber: vertices by preorder, edges by (source, nesting depth) through one global
@@ -395,7 +383,6 @@ impl<'g> LrState<'g> {
         self.orig = orig;
         self.out_offsets = out_offsets;
         self.dst = dst;
-        self.height = height;
         self.parent = parent;
         self.parent_edge = parent_edge;
         self.lowpt = lowpt;
@@ -475,7 +462,7 @@ impl<'g> LrState<'g> {
                 let u = self.parent[vi];
                 self.trim_back_edges(u);
                 // The side of `e` follows a highest return edge.
-                if self.lowpt_of(e) < self.height[u as usize]
+                if self.lowpt_of(e) < u
                     && let Some(top) = self.stack.last()
                 {
                     let (hl, hr) = (top.left.high, top.right.high);
@@ -499,7 +486,7 @@ impl<'g> LrState<'g> {
     #[inline]
     fn integrate(&mut self, v: Vertex, ei: u32) -> bool {
         let vi = v as usize;
-        if self.lowpt_of(ei) < self.height[vi] {
+        if self.lowpt_of(ei) < v {
             let e = self.parent_edge[vi];
             if self.out_offsets[vi] == ei {
                 if e != NONE {
@@ -576,7 +563,7 @@ impl<'g> LrState<'g> {
 
     /// Drops return edges that end at `u` from the top of the stack.
     fn trim_back_edges(&mut self, u: Vertex) {
-        let hu = self.height[u as usize];
+        let hu = u;
         while let Some(top) = self.stack.last() {
             if self.lowest(top) != hu {
                 break;
@@ -646,7 +633,6 @@ impl<'g> LrState<'g> {
         FailureClue {
             orig: std::mem::take(&mut self.orig),
             parent: std::mem::take(&mut self.parent),
-            height: std::mem::take(&mut self.height),
             subtree_end,
             processed,
             windows,
@@ -753,12 +739,14 @@ impl<'g> LrState<'g> {
             }
         }
         drop((back_group, back_label));
-        // Write every rotation where the caller's CSR layout puts it.
+        // Write every rotation where the caller's CSR layout puts it. The start of each block is
+        // gathered first in a loop of independent loads, which the processor overlaps; inside
+        // the main loop each of those cache misses would stall it.
         let (offsets, _) = self.g.csr();
+        let start: Vec<u32> = self.orig.iter().map(|&o| offsets[o as usize]).collect();
         let mut rotation = vec![0u32; 2 * m];
         for v in 0..n {
-            let o = self.orig[v] as usize;
-            let mut slot = offsets[o] as usize;
+            let mut slot = start[v] as usize;
             let pe = self.parent_edge[v];
             if pe != NONE {
                 rotation[slot] = self.src_orig[pe as usize];
@@ -788,7 +776,7 @@ impl<'g> LrState<'g> {
                     }
                 }
             }
-            debug_assert_eq!(slot, offsets[o + 1] as usize);
+            debug_assert_eq!(slot, offsets[self.orig[v] as usize + 1] as usize);
         }
         Ok(Embedding::from_parts(offsets.to_vec(), rotation))
     }

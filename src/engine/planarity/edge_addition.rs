@@ -682,15 +682,8 @@ impl EdgeAddition {
         }
         // Unembedded connections.
         let mut top = v;
-        let mut ok = true;
         for u in [x, y] {
-            match self.connect_up(u, v, &mut keep) {
-                Some(anc) => top = top.min(anc),
-                None => ok = false,
-            }
-        }
-        if !ok {
-            return None;
+            top = top.min(self.connect_up(u, v, &mut keep)?);
         }
         // Minor B: w's last pertinent child piece also reaches above v; one vertex of that
         // subtree then branches towards v and towards the ancestor.

@@ -513,8 +513,14 @@ impl EdgeAddition {
         }
     }
 
-    /// Reverses a node's adjacency list (and its outer-face sides).
+    /// Reverses a node's adjacency list and its outer-face sides.
     fn invert(&mut self, node: u32) {
+        self.reverse_list(node);
+        self.ext[node as usize].swap(0, 1);
+    }
+
+    /// Reverses a node's adjacency list.
+    fn reverse_list(&mut self, node: u32) {
         let node = node as usize;
         let mut a = self.link[node][0];
         while a != NIL {
@@ -523,7 +529,6 @@ impl EdgeAddition {
             a = next;
         }
         self.link[node].swap(0, 1);
-        self.ext[node].swap(0, 1);
     }
 
     fn pr_push(&mut self, z: u32, c: u32, front: bool) {
@@ -600,14 +605,7 @@ impl EdgeAddition {
         let mut todo: Vec<(u32, bool)> = vec![(root, false)];
         while let Some((u, flipped)) = todo.pop() {
             if flipped {
-                let ui = u as usize;
-                let mut a = self.link[ui][0];
-                while a != NIL {
-                    let next = self.arc_link[a as usize][1];
-                    self.arc_link[a as usize].swap(0, 1);
-                    a = next;
-                }
-                self.link[ui].swap(0, 1);
+                self.reverse_list(u);
             }
             let mut a = self.link[u as usize][0];
             while a != NIL {
@@ -807,65 +805,43 @@ impl EdgeAddition {
         }
         let inner = |s: &[u32], u: u32| s[u as usize] != NIL && u != px && u != py;
         // A path from the root to an inner vertex of the x-y path, avoiding the outer face and
-        // the rest of the x-y path (minor D).
-        {
-            let mut from = vec![NIL; self.n];
-            let mut queue: Vec<u32> = Vec::new();
-            let mut found = NIL;
-            let mut a = self.link[root as usize][0];
-            'search: while a != NIL {
-                if a != rf && a != rl {
-                    let q = self.arc_nbr[a as usize];
-                    if inner(&on_path, q) {
+        // the rest of the x-y path (minor D): breadth-first from the root's inner edges.
+        let r_real = self.real(root);
+        let mut from = vec![NIL; self.n];
+        let mut queue: Vec<u32> = vec![root];
+        let mut head = 0;
+        'search: while head < queue.len() {
+            let u = queue[head];
+            head += 1;
+            let mut a = self.link[u as usize][0];
+            while a != NIL {
+                let t = self.arc_nbr[a as usize];
+                let usable = if u == root {
+                    a != rf && a != rl
+                } else {
+                    t != root
+                };
+                if usable {
+                    if inner(&on_path, t) {
                         keep[(a / 2) as usize] = true;
-                        found = q;
+                        let mut p = u;
+                        while p != root && p != r_real {
+                            let e = from[p as usize];
+                            keep[e as usize] = true;
+                            let (ea, ed) = (self.anc[e as usize], self.desc[e as usize]);
+                            p = if ea == p { ed } else { ea };
+                        }
                         break 'search;
                     }
-                    if side_of[q as usize] == 0
-                        && on_path[q as usize] == NIL
-                        && from[q as usize] == NIL
+                    if side_of[t as usize] == 0
+                        && on_path[t as usize] == NIL
+                        && from[t as usize] == NIL
                     {
-                        from[q as usize] = a / 2;
-                        queue.push(q);
+                        from[t as usize] = a / 2;
+                        queue.push(t);
                     }
                 }
                 a = self.arc_link[a as usize][1];
-            }
-            let mut head = 0;
-            while found == NIL && head < queue.len() {
-                let u = queue[head];
-                head += 1;
-                let mut a = self.link[u as usize][0];
-                while a != NIL {
-                    let t = self.arc_nbr[a as usize];
-                    if t != root {
-                        if inner(&on_path, t) {
-                            keep[(a / 2) as usize] = true;
-                            let r_real = self.real(root);
-                            let mut p = u;
-                            loop {
-                                let e = from[p as usize];
-                                keep[e as usize] = true;
-                                let (ea, ed) = (self.anc[e as usize], self.desc[e as usize]);
-                                let other = if ea == p { ed } else { ea };
-                                if other == r_real {
-                                    break;
-                                }
-                                p = other;
-                            }
-                            found = t;
-                            break;
-                        }
-                        if side_of[t as usize] == 0
-                            && on_path[t as usize] == NIL
-                            && from[t as usize] == NIL
-                        {
-                            from[t as usize] = a / 2;
-                            queue.push(t);
-                        }
-                    }
-                    a = self.arc_link[a as usize][1];
-                }
             }
         }
         // Minor E: an externally active vertex below the x-y path.

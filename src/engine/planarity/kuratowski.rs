@@ -206,12 +206,12 @@ impl Isolator<'_, '_> {
         (self.arena.len() - 1) as u32
     }
 
-    /// Runs edge addition on the suppressed pieces `h`: planar, or the pieces on the paths it
-    /// finds around the obstruction, suppressed again (a constant number of pieces).
-    fn locate(&mut self, h: &[u32]) -> Result<Located, PlanarityError> {
+    /// Numbers the ends of `pieces` 0, 1, ... in order of first appearance: the vertices in
+    /// that order, and each piece's ends in the new numbers.
+    fn localise(&mut self, pieces: &[u32]) -> (Vec<Vertex>, Vec<[u32; 2]>) {
         let mut verts: Vec<Vertex> = Vec::new();
-        let mut ends: Vec<(u32, u32, u32)> = Vec::with_capacity(h.len());
-        for &p in h {
+        let mut ends: Vec<[u32; 2]> = Vec::with_capacity(pieces.len());
+        for &p in pieces {
             let node = self.arena[p as usize];
             let mut local = [0u32; 2];
             for (slot, v) in [node.a, node.b].into_iter().enumerate() {
@@ -221,13 +221,24 @@ impl Isolator<'_, '_> {
                 }
                 local[slot] = self.local[v as usize];
             }
-            if local[0] != local[1] {
-                ends.push((local[0].min(local[1]), local[0].max(local[1]), p));
-            }
+            ends.push(local);
         }
         for &v in &verts {
             self.local[v as usize] = NONE;
         }
+        (verts, ends)
+    }
+
+    /// Runs edge addition on the suppressed pieces `h`: planar, or the pieces on the paths it
+    /// finds around the obstruction, suppressed again (a constant number of pieces).
+    fn locate(&mut self, h: &[u32]) -> Result<Located, PlanarityError> {
+        let (verts, local) = self.localise(h);
+        let ends: Vec<(u32, u32, u32)> = local
+            .iter()
+            .zip(h)
+            .filter(|(e, _)| e[0] != e[1])
+            .map(|(e, &p)| (e[0].min(e[1]), e[0].max(e[1]), p))
+            .collect();
         // One piece per pair of ends: parallel pieces never matter for planarity. Grouped by
         // the smaller end with a counting sort, then deduplicated with a mark per larger end.
         let k = verts.len();
@@ -353,23 +364,8 @@ impl Isolator<'_, '_> {
         if pieces.is_empty() {
             return Ok(true);
         }
-        let mut verts: Vec<Vertex> = Vec::new();
-        let mut edges: Vec<(u32, u32)> = Vec::with_capacity(pieces.len());
-        for &p in pieces {
-            let node = self.arena[p as usize];
-            let mut ends = [0u32; 2];
-            for (slot, v) in [node.a, node.b].into_iter().enumerate() {
-                if self.local[v as usize] == NONE {
-                    self.local[v as usize] = verts.len() as u32;
-                    verts.push(v);
-                }
-                ends[slot] = self.local[v as usize];
-            }
-            edges.push((ends[0], ends[1]));
-        }
-        for &v in &verts {
-            self.local[v as usize] = NONE;
-        }
+        let (verts, local) = self.localise(pieces);
+        let edges: Vec<(u32, u32)> = local.iter().map(|e| (e[0], e[1])).collect();
         let Ok((h, _)) = Graph::from_edges(verts.len(), &edges) else {
             debug_assert!(false, "local indices are always in range");
             return Ok(true);
@@ -390,28 +386,16 @@ impl Isolator<'_, '_> {
     }
 
     fn compress_inner(&mut self, input: &[u32], protect: bool) -> Vec<u32> {
-        let mut verts: Vec<Vertex> = Vec::new();
+        let (verts, local) = self.localise(input);
         let mut slot_node: Vec<u32> = Vec::with_capacity(input.len());
         let mut slot_ends: Vec<(u32, u32)> = Vec::with_capacity(input.len());
-        for &p in input {
-            let node = self.arena[p as usize];
-            if node.a == node.b {
-                continue;
+        for (&p, e) in input.iter().zip(&local) {
+            if e[0] != e[1] {
+                slot_node.push(p);
+                slot_ends.push((e[0], e[1]));
             }
-            let mut ends = [0u32; 2];
-            for (slot, v) in [node.a, node.b].into_iter().enumerate() {
-                if self.local[v as usize] == NONE {
-                    self.local[v as usize] = verts.len() as u32;
-                    verts.push(v);
-                }
-                ends[slot] = self.local[v as usize];
-            }
-            slot_node.push(p);
-            slot_ends.push((ends[0], ends[1]));
         }
-        for &v in &verts {
-            self.local[v as usize] = NONE;
-        }
+        drop(local);
         let k = verts.len();
         let mut head = vec![NONE; k];
         let mut next: Vec<u32> = Vec::with_capacity(2 * slot_ends.len());
@@ -615,14 +599,14 @@ mod tests {
     use super::*;
     use crate::engine::certify::check_kuratowski;
 
-    /// Runs the test in certifying mode and isolates, optionally without any window, so that the
-    /// fallback over all back edges is exercised too.
-    fn isolate_with(n: usize, edges: &[(u32, u32)], use_windows: bool) -> Kuratowski {
-        let (g, _) = Graph::from_edges(n, edges).unwrap();
+    /// Runs the test in certifying mode on a graph that must fail it, then isolates: the
+    /// certificate (checked) and the oracle's work. Without windows, the isolation starts from
+    /// the whole graph.
+    fn isolate_checked(g: &Graph, use_windows: bool) -> (Kuratowski, OracleWork) {
         let never = AtomicBool::new(false);
         let mut progress = |_| {};
         let mut monitor = Monitor::new(&never, &mut progress);
-        let mut state = LrState::new(&g);
+        let mut state = LrState::new(g);
         assert_eq!(
             state.run(&mut monitor, Mode::Certify).unwrap(),
             Outcome::NonPlanar
@@ -632,9 +616,14 @@ mod tests {
         if !use_windows {
             clue.windows.clear();
         }
-        let k = isolate(&g, clue, &mut monitor).unwrap();
-        check_kuratowski(&g, &k).unwrap();
-        k
+        let (k, work) = isolate_counting(g, clue, &mut monitor).unwrap();
+        check_kuratowski(g, &k).unwrap();
+        (k, work)
+    }
+
+    fn isolate_with(n: usize, edges: &[(u32, u32)], use_windows: bool) -> Kuratowski {
+        let (g, _) = Graph::from_edges(n, edges).unwrap();
+        isolate_checked(&g, use_windows).0
     }
 
     #[test]
@@ -670,18 +659,7 @@ mod tests {
             let mut edges: Vec<(u32, u32)> = (0..ring).map(|i| (i, (i + 1) % ring)).collect();
             edges.extend((0..k).map(|i| (2 * i, (2 * i + 3) % ring)));
             let (g, _) = Graph::from_edges(ring as usize, &edges).unwrap();
-            let never = AtomicBool::new(false);
-            let mut progress = |_| {};
-            let mut monitor = Monitor::new(&never, &mut progress);
-            let mut state = LrState::new(&g);
-            assert_eq!(
-                state.run(&mut monitor, Mode::Certify).unwrap(),
-                Outcome::NonPlanar
-            );
-            let clue = state.failure_clue();
-            drop(state);
-            let (cert, work) = isolate_counting(&g, clue, &mut monitor).unwrap();
-            check_kuratowski(&g, &cert).unwrap();
+            let (cert, work) = isolate_checked(&g, true);
             let chords = cert
                 .edges
                 .iter()

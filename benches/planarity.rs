@@ -78,10 +78,20 @@ fn ms(d: Duration) -> f64 {
     d.as_secs_f64() * 1e3
 }
 
+fn median(mut values: Vec<f64>) -> f64 {
+    values.sort_by(f64::total_cmp);
+    let k = values.len();
+    if k % 2 == 1 {
+        values[k / 2]
+    } else {
+        (values[k / 2 - 1] + values[k / 2]) / 2.0
+    }
+}
+
 fn main() {
     let never = AtomicBool::new(false);
     println!(
-        "{:>9} {:>9} | {:>8} {:>9} {:>9} {:>8} | {:>9} {:>9} {:>7} | {:>8} {:>8}",
+        "{:>9} {:>9} | {:>8} {:>9} {:>9} {:>8} | {:>9} {:>9} {:>7} {:>7} | {:>8} {:>8}",
         "n",
         "m",
         "DFS ms",
@@ -91,6 +101,7 @@ fn main() {
         "test* ms",
         "t+K ms",
         "K/test",
+        "K/DFS",
         "t/DFS",
         "K pieces"
     );
@@ -100,7 +111,8 @@ fn main() {
         .map(|s| s.split(',').filter_map(|x| x.trim().parse().ok()).collect())
         .unwrap_or_else(|| vec![10_000, 100_000, 1_000_000]);
     for &n in &sizes {
-        let runs = if n >= 1_000_000 { 5 } else { 15 };
+        // Best of many interleaved rounds: on a shared machine the plain search varies most.
+        let runs = if n >= 1_000_000 { 9 } else { 15 };
         let mut rng = Rng::new(n as u64);
         let tri = random_triangulation(n, n, &mut rng);
         let p = permutation(n, &mut rng);
@@ -133,34 +145,35 @@ fn main() {
             ),
         };
 
-        // Interleaved rounds, best of each: other processes on a shared machine only ever add
-        // time, so the minimum is the least disturbed measurement of each column.
-        let mut best = [Duration::MAX; 5];
+        // Interleaved rounds. Times are the best of each column (other processes on a shared
+        // machine only ever add time); ratios are the median over rounds of the ratio within a
+        // round, so that a fast moment for one column is never set against a slow one for the
+        // other.
+        let mut rounds: Vec<[f64; 5]> = Vec::with_capacity(runs);
         for _ in 0..runs {
-            let round = [
-                time(|| plain_dfs(&g)),
-                time(|| is_planar(&g, &never, &mut |_| {})),
-                time(|| planarity(&g, &never, &mut |_| {})),
-                time(|| is_planar(&h, &never, &mut |_| {})),
-                time(|| planarity(&h, &never, &mut |_| {})),
-            ];
-            for (b, r) in best.iter_mut().zip(round) {
-                *b = (*b).min(r);
-            }
+            rounds.push([
+                ms(time(|| plain_dfs(&g))),
+                ms(time(|| is_planar(&g, &never, &mut |_| {}))),
+                ms(time(|| planarity(&g, &never, &mut |_| {}))),
+                ms(time(|| is_planar(&h, &never, &mut |_| {}))),
+                ms(time(|| planarity(&h, &never, &mut |_| {}))),
+            ]);
         }
-        let [dfs, test, with_embedding, test_np, with_kuratowski] = best;
+        let best = |i: usize| rounds.iter().map(|r| r[i]).fold(f64::MAX, f64::min);
+        let ratio = |a: usize, b: usize| median(rounds.iter().map(|r| r[a] / r[b]).collect());
         println!(
-            "{:>9} {:>9} | {:>8.2} {:>9.2} {:>9.2} {:>8.2} | {:>9.2} {:>9.2} {:>7.2} | {:>8.2} {:>8}",
+            "{:>9} {:>9} | {:>8.2} {:>9.2} {:>9.2} {:>8.2} | {:>9.2} {:>9.2} {:>7.2} {:>7.2} | {:>8.2} {:>8}",
             n,
             g.edge_count(),
-            ms(dfs),
-            ms(test),
-            ms(with_embedding),
-            ms(with_embedding) / ms(dfs),
-            ms(test_np),
-            ms(with_kuratowski),
-            ms(with_kuratowski) / ms(test_np),
-            ms(test) / ms(dfs),
+            best(0),
+            best(1),
+            best(2),
+            ratio(2, 0),
+            best(3),
+            best(4),
+            ratio(4, 3),
+            ratio(4, 0),
+            ratio(1, 0),
             pieces,
         );
         // Where the time goes: the first progress report of each phase, relative to the start.
@@ -197,7 +210,9 @@ fn main() {
     println!(
         "columns: test = is_planar on the planar graph; t+emb = planarity() with embedding; \
          test* = is_planar on the graph with one edge moved; t+K = planarity() with Kuratowski \
-         subgraph; K pieces = edges in the certificate"
+         subgraph; emb/DFS and K/DFS = those against the plain search; K/test = t+K against \
+         test*; times are the best round, ratios the median of the ratios within rounds; \
+         K pieces = edges in the certificate"
     );
 }
 

@@ -3,8 +3,8 @@
 //! Four steps, each linear in the size of the graph it works on:
 //! - *A local start.* The depth-first tree of the failed test plus the back edges the test had
 //!   processed inside the subtree of the failing vertex is usually already non-planar; nested
-//!   windows (ancestors' subtrees growing eightfold, then all back edges) are tried in turn, each
-//!   checked by the planarity test itself, so the start is always correct and the windows tried
+//!   windows (ancestors' subtrees growing eightfold, then the whole graph) are tried in turn, each
+//!   decided by edge addition (third step), so the start is always correct and the windows tried
 //!   cost O(n + m) together.
 //! - *Suppression.* Deleting vertices of degree 1 and replacing each vertex of degree 2 by one
 //!   edge (its two edges joined into a "piece") never changes planarity, so the window shrinks to

@@ -265,3 +265,116 @@ fn a_bad_time_limit_is_bad_input() {
     assert_eq!(out.status.code(), Some(2));
     assert!(stderr(&out).contains("time-limit"));
 }
+
+/// An edge-list file (vertices from 0) in `dir`.
+fn edge_file(
+    dir: &std::path::Path,
+    name: &str,
+    n: u32,
+    edges: &[(u32, u32)],
+) -> std::path::PathBuf {
+    let mut text = format!("{n} {}\n", edges.len());
+    for (a, b) in edges {
+        text.push_str(&format!("{a} {b}\n"));
+    }
+    let path = dir.join(name);
+    std::fs::write(&path, text).unwrap();
+    path
+}
+
+#[test]
+fn a_map_needing_more_colours_than_the_palette_gets_a_colouring_and_an_offer_of_slots() {
+    // Regression: K8 (needs 8 colours, common practice) loaded with the six-slot palette gave
+    // "minimum": 8 with an empty assignment.
+    let dir = tempfile::tempdir().unwrap();
+    let k8: Vec<(u32, u32)> = (0..8)
+        .flat_map(|a| (a + 1..8).map(move |b| (a, b)))
+        .collect();
+    let file = edge_file(dir.path(), "k8.edges", 8, &k8);
+    let out = tinct_path(&["analyse"], &file, &["--json", "--only", "colouring"]);
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    let json: Value = serde_json::from_str(&stdout(&out)).unwrap();
+    let c = &json["colouring"];
+    assert_eq!(c["minimum"], 8);
+    assert_eq!(c["extra_slots_needed"], 2);
+    let slots: std::collections::BTreeSet<u64> = c["assignment"]
+        .as_object()
+        .unwrap()
+        .values()
+        .map(|v| v.as_u64().unwrap())
+        .collect();
+    assert_eq!(slots.len(), 8, "eight regions, eight slots");
+
+    // `tinct colour` says how many slots are missing, and adds them when asked.
+    let coloured = dir.path().join("k8.tinct");
+    let out = tinct_path(&["colour"], &file, &["--out", coloured.to_str().unwrap()]);
+    assert_bad_input(&out, "--add-slots to add 2 slots");
+    assert!(!coloured.exists());
+    let out = tinct_path(
+        &["colour"],
+        &file,
+        &["--out", coloured.to_str().unwrap(), "--add-slots"],
+    );
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    assert!(stderr(&out).contains("added 2 slots"), "{}", stderr(&out));
+    let strict = tinct_path(
+        &["analyse"],
+        &coloured,
+        &["--strict", "--json", "--only", "rules"],
+    );
+    assert_eq!(strict.status.code(), Some(0), "{}", stdout(&strict));
+    let json: Value = serde_json::from_str(&stdout(&strict)).unwrap();
+    assert_eq!(json["summary"]["palette_slots"], 8);
+}
+
+#[test]
+fn a_bound_no_clique_shows_gets_its_own_obstruction_proof_and_files() {
+    // Regression: a map needing five colours without five mutual neighbours said only "an
+    // exhaustive search ruled out 4 colours". The 23-vertex Mycielski graph (DIMACS myciel4:
+    // chromatic number 5, no triangle; Mycielski 1955) needs 5.
+    let mut n = 2u32;
+    let mut edges = vec![(0u32, 1u32)];
+    for _ in 0..3 {
+        let mut next = edges.clone();
+        for &(a, b) in &edges {
+            next.push((a, n + b));
+            next.push((b, n + a));
+        }
+        next.extend((0..n).map(|i| (n + i, 2 * n)));
+        edges = next;
+        n = 2 * n + 1;
+    }
+    assert_eq!(n, 23);
+    let dir = tempfile::tempdir().unwrap();
+    let file = edge_file(dir.path(), "myciel4.edges", n, &edges);
+    let proof = dir.path().join("proof");
+    let out = tinct_path(
+        &["analyse"],
+        &file,
+        &[
+            "--json",
+            "--only",
+            "colouring",
+            "--proof-out",
+            proof.to_str().unwrap(),
+        ],
+    );
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    let json: Value = serde_json::from_str(&stdout(&out)).unwrap();
+    let c = &json["colouring"];
+    assert_eq!(
+        (c["minimum"].as_u64(), c["proven"].as_bool()),
+        (Some(5), Some(true))
+    );
+    assert_eq!(c["stopped"], false);
+    let o = &c["minimum_obstruction"];
+    assert_eq!(o["colours"], 4);
+    assert_eq!(o["proof_checked"], true);
+    assert_eq!(o["critical"], true);
+    let reason = c["lower_bound_reason"].as_str().unwrap();
+    assert!(reason.contains("cannot take 4 colours"), "{reason}");
+    let cnf = std::fs::read_to_string(proof.join("4-colours.cnf")).unwrap();
+    let drat = std::fs::read_to_string(proof.join("4-colours.drat")).unwrap();
+    tinct::engine::colouring::check_drat(&cnf, &drat).expect("the written proof checks");
+    assert!(proof.join("three-colours.cnf").exists());
+}

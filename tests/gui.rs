@@ -309,7 +309,7 @@ fn the_three_colour_argument_can_be_walked_step_by_step() {
     h.get_by_label("Show all").click();
     h.run_steps(2);
     // The argument ends in a contradiction (cases may end in their own ones before it).
-    assert!(h.query_all_by_label_contains("contradiction").count() >= 1);
+    assert!(h.query_all_by_label_contains("Contradiction.").count() >= 1);
 }
 
 #[test]
@@ -493,5 +493,79 @@ fn every_export_is_reachable_from_the_export_menu_and_written_where_asked() {
         features
             .iter()
             .all(|f| f["properties"]["tinct_colour"].is_u64())
+    );
+}
+
+/// An edge-list file (vertices from 0) in `dir`, opened in the editor.
+fn open_edges(dir: &std::path::Path, n: u32, edges: &[(u32, u32)]) -> Harness<'static, App> {
+    let mut text = format!("{n} {}\n", edges.len());
+    for (a, b) in edges {
+        text.push_str(&format!("{a} {b}\n"));
+    }
+    let path = dir.join("graph.edges");
+    std::fs::write(&path, text).unwrap();
+    let mut h = harness(App::new_with(None, Some(path), Some(dir.join("state"))));
+    h.run_steps(3);
+    h
+}
+
+#[test]
+fn a_palette_too_small_is_said_and_the_missing_slots_are_added_in_one_undoable_step() {
+    // K8 needs 8 colours (common practice); a graph file opens with six palette slots.
+    let dir = tempfile::tempdir().unwrap();
+    let k8: Vec<(u32, u32)> = (0..8)
+        .flat_map(|a| (a + 1..8).map(move |b| (a, b)))
+        .collect();
+    let mut h = open_edges(dir.path(), 8, &k8);
+    assert_eq!(h.state().session.doc.palette.slots.len(), 6);
+    assert!(
+        h.query_by_label_contains("this colouring needs 2 more")
+            .is_some()
+    );
+    h.get_by_label("Add the missing palette slots and colour")
+        .click();
+    h.run_steps(3);
+    let doc = &h.state().session.doc;
+    assert_eq!(doc.palette.slots.len(), 8);
+    assert!(tinct::doc::check_colouring(doc).is_clean());
+    assert_eq!(doc.colouring.len(), 8);
+    h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::Z);
+    h.run_steps(3);
+    let doc = &h.state().session.doc;
+    assert_eq!(doc.palette.slots.len(), 6, "one undo takes back both");
+    assert!(doc.colouring.is_empty());
+}
+
+#[test]
+fn the_part_that_rules_out_one_colour_fewer_is_shown_on_the_map() {
+    // The 23-vertex Mycielski graph needs 5 colours without a triangle (Mycielski 1955).
+    let mut n = 2u32;
+    let mut edges = vec![(0u32, 1u32)];
+    for _ in 0..3 {
+        let mut next = edges.clone();
+        for &(a, b) in &edges {
+            next.push((a, n + b));
+            next.push((b, n + a));
+        }
+        next.extend((0..n).map(|i| (n + i, 2 * n)));
+        edges = next;
+        n = 2 * n + 1;
+    }
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = open_edges(dir.path(), n, &edges);
+    assert!(h.query_by_label_contains("5, proven").is_some());
+    assert!(
+        h.query_by_label_contains("regions cannot take 4 colours")
+            .is_some()
+    );
+    // The first "Show them on map" belongs to the fewest-colours line.
+    h.get_all_by_label("Show them on map")
+        .next()
+        .unwrap()
+        .click();
+    h.run_steps(2);
+    assert_eq!(
+        h.state().view.highlight,
+        Some(tinct::ui::app::Highlight::NotFewerColourable)
     );
 }

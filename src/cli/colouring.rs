@@ -3,17 +3,22 @@
 //! JSON shape (key `colouring`):
 //! - `minimum`: the fewest colours found (null when nothing could be coloured); `proven`: whether it
 //!   is proven minimal; `lower_bound` and `lower_bound_reason`: what is proven, and why in words.
-//! - `assignment`: `{"<region id>": slot}` for every land region (slots 0-based), when a colouring
-//!   fits the palette.
+//! - `assignment`: `{"<region id>": slot}` for every land region (slots 0-based): always a
+//!   colouring with `minimum` colours, using slots past the palette when it is too small;
+//!   `extra_slots_needed` says how many slots the palette lacks.
 //! - `three_colourable`: true, false, or null when undecided.
 //! - `obstruction` (when three colours are impossible): `kind` (`K4`, `odd_wheel`, `odd_cycle`,
 //!   `grotzsch`, `pinned`, `critical`), `vertices` (its regions), `edges` (its borders as `[a, b]`),
-//!   `argument` (the case analysis in words, when small enough), `proof_checked` (the DRAT proof passed
-//!   Tinct's own checker).
-//! - `stopped`: the time limit ended the search early; `impossible`: why no colouring can exist.
+//!   `pins` (the pins it needs), `critical` (every region in it is needed), `argument` (the case
+//!   analysis in words, when small enough), `proof_checked` (the DRAT proof passed Tinct's own
+//!   checker).
+//! - `minimum_obstruction`: the same shape, for one colour fewer than the minimum, whenever a
+//!   clique of `minimum` regions does not show the bound by itself.
+//! - `stopped`: the time limit ended the search before the minimum was proven; `stopped_parts`:
+//!   what else it cut short; `impossible`: why no colouring can exist.
 
 use std::collections::BTreeMap;
-use std::path::{Path, PathBuf};
+use std::path::Path;
 use std::time::Duration;
 
 use anyhow::Context as _;
@@ -22,17 +27,28 @@ use serde::Serialize;
 use crate::doc::Document;
 use crate::engine::colouring::check_drat;
 use crate::worker::JobContext;
-use crate::worker::analysis::{self, BalanceBy, ColourOptions, ColouringVerdict};
+use crate::worker::analysis::{self, BalanceBy, ColourOptions, ColouringVerdict, Impossibility};
 
-/// The `obstruction` object.
+/// The `obstruction` and `minimum_obstruction` objects.
 #[derive(Serialize, Clone, Debug)]
 pub struct ObstructionOut {
+    /// The number of colours it rules out.
+    pub colours: u32,
     pub kind: String,
     pub description: String,
     pub vertices: Vec<u64>,
     pub edges: Vec<[u64; 2]>,
+    pub pins: Vec<PinOut>,
+    pub critical: bool,
     pub argument: Vec<String>,
     pub proof_checked: bool,
+}
+
+/// A pin an obstruction needs.
+#[derive(Serialize, Clone, Debug)]
+pub struct PinOut {
+    pub region: u64,
+    pub slot: u32,
 }
 
 /// The `colouring` object of `tinct analyse --json`.
@@ -43,10 +59,14 @@ pub struct ColouringOut {
     pub lower_bound: u32,
     pub lower_bound_reason: String,
     pub assignment: BTreeMap<String, u32>,
+    pub extra_slots_needed: u32,
     pub three_colourable: Option<bool>,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub obstruction: Option<ObstructionOut>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub minimum_obstruction: Option<ObstructionOut>,
     pub stopped: bool,
+    pub stopped_parts: Vec<&'static str>,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub impossible: Option<String>,
 }
@@ -58,8 +78,9 @@ fn context() -> JobContext {
     }
 }
 
-/// Analyses the colouring of `doc` (fresh, not keeping current colours) within `time_limit`, and writes
-/// the proof files into `proof_out` when three colours are impossible.
+/// Analyses the colouring of `doc` (fresh, not keeping current colours) within `time_limit`, and
+/// writes the proof files into `proof_out`: `three-colours.*` when three colours are impossible,
+/// `N-colours.*` for the obstruction to one colour fewer than the minimum.
 pub fn section(
     doc: &Document,
     time_limit: Duration,
@@ -71,20 +92,55 @@ pub fn section(
         time_limit,
     };
     let verdict = analysis::colour(doc, &context(), options);
-    if let (Some(dir), Some((cnf, drat))) = (
-        proof_out,
-        verdict
-            .three_impossible
-            .as_ref()
-            .and_then(|i| i.cnf_and_proof.as_ref()),
-    ) {
-        std::fs::create_dir_all(dir).with_context(|| format!("cannot create {}", dir.display()))?;
-        for (name, text) in [("three-colours.cnf", cnf), ("three-colours.drat", drat)] {
-            crate::doc::file::write_atomically(&dir.join(name), text.as_bytes())
-                .map_err(|e| anyhow::anyhow!("{e}"))?;
-        }
+    if let Some(dir) = proof_out {
+        write_proofs(dir, &verdict)?;
     }
     Ok(to_out(&verdict))
+}
+
+fn write_proofs(dir: &Path, v: &ColouringVerdict) -> anyhow::Result<()> {
+    let files = analysis::proof_texts(v);
+    if files.is_empty() {
+        return Ok(());
+    }
+    std::fs::create_dir_all(dir).with_context(|| format!("cannot create {}", dir.display()))?;
+    for (name, text) in files {
+        crate::doc::file::write_atomically(&dir.join(&name), text.as_bytes())
+            .map_err(|e| anyhow::anyhow!("{e}"))?;
+    }
+    Ok(())
+}
+
+fn obstruction_out(i: &Impossibility) -> ObstructionOut {
+    ObstructionOut {
+        colours: i.colours,
+        kind: i.code.clone(),
+        description: i.kind.clone(),
+        vertices: i.regions.iter().map(|r| r.0).collect(),
+        edges: i.links.iter().map(|p| [p.a().0, p.b().0]).collect(),
+        pins: i
+            .pins
+            .iter()
+            .map(|&(region, slot)| PinOut {
+                region: region.0,
+                slot,
+            })
+            .collect(),
+        critical: i.critical,
+        argument: i
+            .steps
+            .as_ref()
+            .map(|s| {
+                s.iter()
+                    .map(|st| format!("{}{}", "  ".repeat(st.depth as usize), st.text))
+                    .collect()
+            })
+            .unwrap_or_default(),
+        proof_checked: i
+            .cnf_and_proof
+            .as_ref()
+            .is_some_and(|(cnf, drat)| check_drat(cnf, drat).is_ok()),
+    }
 }
 
 fn to_out(v: &ColouringVerdict) -> ColouringOut {
@@ -98,29 +154,19 @@ fn to_out(v: &ColouringVerdict) -> ColouringOut {
             .as_ref()
             .map(|c| c.iter().map(|(id, s)| (id.0.to_string(), *s)).collect())
             .unwrap_or_default(),
+        extra_slots_needed: v.extra_slots_needed,
         three_colourable: v.three_colourable,
-        obstruction: v.three_impossible.as_ref().map(|i| ObstructionOut {
-            kind: i.code.clone(),
-            description: i.kind.to_string(),
-            vertices: i.regions.iter().map(|r| r.0).collect(),
-            edges: i.links.iter().map(|p| [p.a().0, p.b().0]).collect(),
-            argument: i
-                .steps
-                .as_ref()
-                .map(|s| {
-                    s.iter()
-                        .map(|st| format!("{}{}", "  ".repeat(st.depth as usize), st.text))
-                        .collect()
-                })
-                .unwrap_or_default(),
-            proof_checked: i
-                .cnf_and_proof
-                .as_ref()
-                .is_some_and(|(cnf, drat)| check_drat(cnf, drat).is_ok()),
-        }),
+        obstruction: v.three_impossible.as_ref().map(obstruction_out),
+        minimum_obstruction: v.minimum_impossible.as_ref().map(obstruction_out),
         stopped: v.stopped,
+        stopped_parts: v.stopped_parts.iter().map(|p| p.code()).collect(),
         impossible: v.impossible.clone(),
     }
+}
+
+/// "1 slot", "3 slots".
+fn slots(n: u32) -> String {
+    format!("{n} slot{}", if n == 1 { "" } else { "s" })
 }
 
 /// The colouring lines of the text report.
@@ -132,7 +178,7 @@ pub fn render_text(c: &ColouringOut) -> String {
     }
     match c.minimum {
         Some(m) if c.proven => out.push_str(&format!(
-            "  fewest colours: {m}, proven ({} need {m})\n",
+            "  fewest colours: {m}, proven: fewer cannot work because {}\n",
             c.lower_bound_reason
         )),
         Some(m) => out.push_str(&format!(
@@ -145,6 +191,33 @@ pub fn render_text(c: &ColouringOut) -> String {
             }
         )),
         None => out.push_str("  fewest colours: none found\n"),
+    }
+    if let Some(o) = c.minimum_obstruction.as_ref().filter(|o| o.colours != 3) {
+        out.push_str(&format!(
+            "  why not {}: {} ({} regions){}{}\n",
+            o.colours,
+            o.description,
+            o.vertices.len(),
+            if o.proof_checked {
+                "; DRAT proof checked"
+            } else {
+                ""
+            },
+            if o.critical {
+                ""
+            } else {
+                "; not shrunk to the fewest regions in time"
+            }
+        ));
+        for line in &o.argument {
+            out.push_str(&format!("    {line}\n"));
+        }
+    }
+    if c.extra_slots_needed > 0 {
+        out.push_str(&format!(
+            "  palette: {} too few for this colouring (`tinct colour --add-slots` adds them)\n",
+            slots(c.extra_slots_needed)
+        ));
     }
     match (c.three_colourable, &c.obstruction) {
         (Some(true), _) => out.push_str("  three colours: possible\n"),
@@ -166,6 +239,12 @@ pub fn render_text(c: &ColouringOut) -> String {
         (Some(false), None) => out.push_str("  three colours: impossible\n"),
         (None, _) => out.push_str("  three colours: not decided\n"),
     }
+    if !c.stopped_parts.is_empty() {
+        out.push_str(&format!(
+            "  cut short by the time limit: {}\n",
+            c.stopped_parts.join(", ").replace('_', " ")
+        ));
+    }
     out
 }
 
@@ -183,12 +262,15 @@ pub fn append(rendered: String, json: bool, section: &ColouringOut) -> anyhow::R
 }
 
 /// `tinct colour FILE --out OUT`: colours the map with the fewest colours and writes the project.
+/// When the palette has too few slots, `add_slots` adds them (as distinct as possible from the
+/// palette's colours); without it the command refuses and says how many are missing.
 pub fn run_colour(
     file: &Path,
     out: &Path,
     keep: bool,
     balance: Option<BalanceBy>,
     time_limit: Duration,
+    add_slots: bool,
 ) -> anyhow::Result<String> {
     let loaded = crate::formats::load(file)?;
     let mut doc = loaded.doc;
@@ -204,9 +286,26 @@ pub fn run_colour(
     let colouring = verdict
         .colouring
         .clone()
-        .context("the palette has too few colours for this map")?;
-    doc.apply(crate::doc::Edit::SetColouring(colouring))
-        .map_err(|e| anyhow::anyhow!("{e}"))?;
+        .context("no colouring was found within the time limit")?;
+    let extra = verdict.extra_slots_needed;
+    if extra > 0 && !add_slots {
+        anyhow::bail!(
+            "this map needs {} colours but the palette has only {}: run again with --add-slots to add {}",
+            verdict.minimum.unwrap_or(0),
+            doc.palette.slots.len(),
+            slots(extra)
+        );
+    }
+    let mut edits = Vec::new();
+    if extra > 0 {
+        edits.push(crate::doc::palette_edit::grow_palette(&doc, extra));
+    }
+    edits.push(crate::doc::Edit::SetColouring(colouring));
+    doc.apply(crate::doc::Edit::Batch {
+        label: "Colour with the fewest colours".into(),
+        edits,
+    })
+    .map_err(|e| anyhow::anyhow!("{e}"))?;
     crate::formats::save(&doc, out)?;
     let mut summary = format!(
         "coloured {} with {} colours{}",
@@ -218,16 +317,11 @@ pub fn run_colour(
             ""
         }
     );
+    if extra > 0 {
+        summary.push_str(&format!("; added {} to the palette", slots(extra)));
+    }
     if let Some(changed) = verdict.changed.filter(|_| keep) {
         summary.push_str(&format!("; {changed} regions changed colour"));
     }
     Ok(summary)
-}
-
-/// Where `--proof-out` writes.
-pub fn proof_files(dir: &Path) -> [PathBuf; 2] {
-    [
-        dir.join("three-colours.cnf"),
-        dir.join("three-colours.drat"),
-    ]
 }

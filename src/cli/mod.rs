@@ -70,7 +70,8 @@ pub enum Command {
         /// Stop the search for the fewest colours after this many seconds and report what is proven.
         #[arg(long, value_name = "SECS", default_value_t = 20.0)]
         time_limit: f64,
-        /// When three colours are impossible, write the proof (three-colours.cnf, three-colours.drat) to DIR.
+        /// Write the proofs to DIR: three-colours.cnf and .drat when three colours are impossible,
+        /// N-colours.cnf and .drat for one colour fewer than the minimum (N = minimum - 1).
         #[arg(long, value_name = "DIR")]
         proof_out: Option<PathBuf>,
     },
@@ -90,6 +91,10 @@ pub enum Command {
         /// Stop the search after this many seconds and use the best colouring found.
         #[arg(long, value_name = "SECS", default_value_t = 20.0)]
         time_limit: f64,
+        /// When the map needs more colours than the palette has, add the missing slots (each as
+        /// distinct as possible from the palette's colours) instead of refusing.
+        #[arg(long)]
+        add_slots: bool,
     },
     /// Import a boundary file (.geojson, .json, .topojson, .shp) into a project file.
     Import {
@@ -243,6 +248,7 @@ pub fn run(command: Command) -> ExitCode {
             keep_colours,
             balance,
             time_limit,
+            add_slots,
         } => {
             let Some(limit) = seconds(time_limit) else {
                 return error(
@@ -254,7 +260,7 @@ pub fn run(command: Command) -> ExitCode {
                 BalanceArg::Count => crate::worker::analysis::BalanceBy::Count,
                 BalanceArg::Area => crate::worker::analysis::BalanceBy::Area,
             });
-            match colouring::run_colour(&file, &out, keep_colours, balance, limit) {
+            match colouring::run_colour(&file, &out, keep_colours, balance, limit, add_slots) {
                 Ok(summary) => {
                     eprintln!("tinct: {summary}");
                     ExitCode::from(exit::OK)

@@ -81,6 +81,51 @@ fn score(chosen: &[usize], all: &[Candidate], t: &Thresholds) -> Score {
     s
 }
 
+/// Colours to add to an existing palette: `extra` candidates chosen one at a time, each the
+/// farthest (by the same worst-case ratio as [`design_palette`]) from every colour already in the
+/// palette and those added before it. The existing colours stay as they are.
+///
+/// # Complexity
+/// O(extra · (existing + extra) · m) CIEDE2000 evaluations for `m` candidates (about 1,500).
+pub fn extend_palette(existing: &[Srgb8], extra: usize, thresholds: &Thresholds) -> Vec<Srgb8> {
+    let all = candidates();
+    let mut present: Vec<Candidate> = existing
+        .iter()
+        .map(|&rgb| {
+            let linear = srgb8_to_linear(rgb);
+            Candidate {
+                rgb,
+                labs: Vision::ALL.map(|v| linear_to_lab(v.simulate_linear(linear))),
+            }
+        })
+        .collect();
+    let mut added = Vec::new();
+    let mut used = vec![false; all.len()];
+    for _ in 0..extra {
+        let mut best: Option<(f64, usize)> = None;
+        for (c, candidate) in all.iter().enumerate() {
+            if used[c] || present.iter().any(|p| p.rgb == candidate.rgb) {
+                continue;
+            }
+            let d = present
+                .iter()
+                .map(|x| pair(x, candidate, thresholds).0)
+                .fold(f64::INFINITY, f64::min);
+            if best.is_none_or(|(b, _)| d > b) {
+                best = Some((d, c));
+            }
+        }
+        let Some((_, c)) = best else { break };
+        used[c] = true;
+        added.push(all[c].rgb);
+        present.push(Candidate {
+            rgb: all[c].rgb,
+            labs: all[c].labs,
+        });
+    }
+    added
+}
+
 /// Designs a palette of `n` colours (2 or more) as described in the module documentation,
 /// ordered from light to dark.
 ///

@@ -15,7 +15,7 @@ pub mod space;
 pub use assign::{AssignError, AssignmentScore, assign_slots, assignment_score};
 pub use ciede2000::ciede2000;
 pub use cvd::Vision;
-pub use design::design_palette;
+pub use design::{design_palette, extend_palette};
 pub use distinct::{
     NamedColour, PairDifference, Thresholds, View, Warning, distinctness_matrix,
     distinctness_warnings, pair_difference,

@@ -89,6 +89,26 @@ pub fn add_slot(doc: &Document, name: &str, hex: &str) -> Result<Edit, PaletteEd
     Ok(Edit::SetPalette(palette))
 }
 
+/// Adds `count` slots at the end of the palette, each as distinct as possible from every colour
+/// already in it (by the palette check's own measures; see [`crate::colour::extend_palette`]),
+/// named "Slot N" after their position. Used when a map needs more colours than the palette has.
+pub fn grow_palette(doc: &Document, count: u32) -> Edit {
+    let mut palette = doc.palette.clone();
+    let existing: Vec<[u8; 3]> = palette.slots.iter().map(|s| s.colour.0).collect();
+    let added = crate::colour::extend_palette(
+        &existing,
+        count as usize,
+        &crate::colour::Thresholds::default(),
+    );
+    for colour in added {
+        palette.slots.push(Slot {
+            name: format!("Slot {}", palette.slots.len() + 1),
+            colour: Rgb(colour),
+        });
+    }
+    Edit::SetPalette(palette)
+}
+
 /// Removes slot `slot`, which no region may use (as colour or pin); later slots move down by
 /// one, and the colouring and pins that refer to them move with them, all in one undo step.
 pub fn remove_slot(doc: &Document, slot: usize) -> Result<Edit, PaletteEditError> {
@@ -159,6 +179,22 @@ pub fn use_default_palette(_doc: &Document, index: usize) -> Result<Edit, Palett
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_grown_palette_keeps_its_slots_and_adds_distinct_ones() {
+        let doc = Document::default();
+        let before = doc.palette.slots.clone();
+        let Edit::SetPalette(grown) = grow_palette(&doc, 3) else {
+            panic!("a palette edit")
+        };
+        assert_eq!(grown.slots.len(), before.len() + 3);
+        assert_eq!(&grown.slots[..before.len()], &before[..]);
+        let mut colours: Vec<Rgb> = grown.slots.iter().map(|s| s.colour).collect();
+        colours.sort_by_key(|c| c.0);
+        colours.dedup();
+        assert_eq!(colours.len(), grown.slots.len(), "no colour twice");
+        assert_eq!(grown.slots.last().map(|s| s.name.as_str()), Some("Slot 9"));
+    }
     use crate::doc::{Region, RegionId};
 
     fn doc_with_regions() -> Document {

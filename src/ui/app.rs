@@ -185,6 +185,8 @@ pub enum Highlight {
     NotPlanar,
     /// The regions that cannot take three colours.
     NotThreeColourable,
+    /// The regions that cannot take one colour fewer than the minimum.
+    NotFewerColourable,
 }
 
 /// How often unsaved work is written to the recovery file.
@@ -291,8 +293,10 @@ pub struct App {
     /// A command waiting for the user to decide about unsaved changes.
     pub confirm_discard: Option<Command>,
     pub command_search: Option<String>,
-    /// The step of the argument on show, while walking through why three colours fail.
+    /// The step of the argument on show, while walking through why fewer colours fail.
     pub argument_step: Option<usize>,
+    /// Which argument is on show: the one for three colours, or for one fewer than the minimum.
+    pub argument_for: Highlight,
     /// Apply the fewest-colours colouring as soon as an analysis of the current revision arrives.
     pub apply_when_ready: bool,
     /// The latest background analysis (possibly for an older revision: then it is shown as stale).
@@ -359,6 +363,7 @@ impl App {
             confirm_discard: None,
             command_search: None,
             argument_step: None,
+            argument_for: Highlight::NotThreeColourable,
             apply_when_ready: false,
             analysis: None,
             analysis_requested: None,
@@ -563,7 +568,7 @@ impl App {
                 self.analysis = Some(*a);
                 if self.apply_when_ready && !self.analysis_is_stale() {
                     self.apply_when_ready = false;
-                    self.apply_fewest();
+                    self.apply_fewest(false);
                 }
             }
             JobResult::Balanced { revision, verdict } => {
@@ -617,8 +622,10 @@ impl App {
         self.confirm_or_run_open(path);
     }
 
-    /// Applies the analysis's fewest-colours colouring as one undoable edit.
-    pub fn apply_fewest(&mut self) {
+    /// Applies the analysis's fewest-colours colouring as one undoable edit. With `add_slots`,
+    /// the palette first gains the slots the colouring lacks (in the same undo step); without it,
+    /// a palette that is too small is reported and nothing changes.
+    pub fn apply_fewest(&mut self, add_slots: bool) {
         let Some(verdict) = self.analysis.as_ref().and_then(|a| a.colouring.clone()) else {
             self.say(Level::Warning, "No colouring is available yet");
             return;
@@ -630,30 +637,53 @@ impl App {
             );
             return;
         }
+        let extra = verdict.extra_slots_needed;
         match verdict.colouring {
-            Some(colouring) if colouring == self.session.doc.colouring => {
+            Some(_) if extra > 0 && !add_slots => self.say(
+                Level::Warning,
+                format!(
+                    "This map needs {} colours but the palette has {}: use \"{}\" or add slots in the palette window",
+                    verdict.minimum.unwrap_or(0),
+                    self.session.doc.palette.slots.len(),
+                    Command::ColourAddingSlots.label()
+                ),
+            ),
+            Some(colouring) if colouring == self.session.doc.colouring && extra == 0 => {
                 self.say(Level::Info, "The map already has this colouring");
             }
             Some(colouring) => {
+                let mut edits = Vec::new();
+                if extra > 0 {
+                    edits.push(doc::palette_edit::grow_palette(&self.session.doc, extra));
+                }
+                edits.push(Edit::SetColouring(colouring));
                 self.edit(Edit::Batch {
                     label: "Colour with the fewest colours".into(),
-                    edits: vec![Edit::SetColouring(colouring)],
+                    edits,
                 });
                 let changed = verdict
                     .changed
                     .map(|c| format!(" ({c} regions changed colour)"))
                     .unwrap_or_default();
+                let added = if extra > 0 {
+                    format!(
+                        "; added {extra} palette slot{}",
+                        if extra == 1 { "" } else { "s" }
+                    )
+                } else {
+                    String::new()
+                };
                 self.say(
                     Level::Info,
                     format!(
-                        "Coloured with {} colours{changed}",
+                        "Coloured with {} colours{changed}{added}",
                         verdict.minimum.map_or("?".into(), |m| m.to_string())
                     ),
                 );
             }
             None => self.say(
                 Level::Warning,
-                "The palette has too few colours for this map",
+                "No colouring was found before the search stopped",
             ),
         }
     }
@@ -710,35 +740,33 @@ impl App {
     }
 
     pub fn export_proof(&mut self, folder: &Path) {
-        let proof = self
+        let files = self
             .analysis
             .as_ref()
             .and_then(|a| a.colouring.as_ref())
-            .and_then(|c| c.three_impossible.as_ref())
-            .and_then(|i| i.cnf_and_proof.clone());
-        let Some((cnf, drat)) = proof else {
+            .map(analysis::proof_texts)
+            .unwrap_or_default();
+        if files.is_empty() {
             self.say(
                 Level::Warning,
-                "There is no proof to export: three colours are not known to fail on this map",
+                "There is no proof to export: no number of colours is known to fail on this map beyond what its mutual neighbours show",
             );
             return;
-        };
+        }
         let result = std::fs::create_dir_all(folder)
             .map_err(|e| e.to_string())
             .and_then(|_| {
-                for (name, text) in [("three-colours.cnf", &cnf), ("three-colours.drat", &drat)] {
+                for (name, text) in &files {
                     doc::file::write_atomically(&folder.join(name), text.as_bytes())
                         .map_err(|e| e.to_string())?;
                 }
                 Ok(())
             });
+        let names: Vec<&str> = files.iter().map(|(n, _)| n.as_str()).collect();
         match result {
             Ok(()) => self.say(
                 Level::Info,
-                format!(
-                    "Wrote three-colours.cnf and three-colours.drat to {}",
-                    folder.display()
-                ),
+                format!("Wrote {} to {}", names.join(", "), folder.display()),
             ),
             Err(e) => self.say(Level::Error, format!("Proof not written: {e}")),
         }
@@ -1018,9 +1046,10 @@ impl App {
                         "Colouring: the colours are applied as soon as the analysis finishes",
                     );
                 } else {
-                    self.apply_fewest();
+                    self.apply_fewest(false);
                 }
             }
+            Command::ColourAddingSlots => self.apply_fewest(true),
             Command::BalanceColours => {
                 let revision = self.session.doc.revision();
                 let snapshot = crate::worker::snapshot(&self.session.doc);

@@ -371,6 +371,9 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
         (Some(Highlight::NotThreeColourable), _) => colouring
             .and_then(|c| c.three_impossible.as_ref())
             .map(|why| (&why.regions, &why.links, &[][..], style::OBSTRUCTION)),
+        (Some(Highlight::NotFewerColourable), _) => colouring
+            .and_then(|c| c.minimum_impossible.as_ref())
+            .map(|why| (&why.regions, &why.links, &[][..], style::OBSTRUCTION)),
         _ => None,
     };
     if let Some((regions, links, corners, colour)) = evidence {

@@ -123,6 +123,8 @@ pub enum Command {
     ToggleLabels,
     UseTool(Tool),
     ColourFewest,
+    /// Adds the palette slots the fewest-colours colouring lacks, then applies it.
+    ColourAddingSlots,
     BalanceColours,
     ExportProof,
     ClearColours,
@@ -187,6 +189,7 @@ impl Command {
         out.extend(Tool::ALL.iter().map(|t| Command::UseTool(*t)));
         out.extend([
             Command::ColourFewest,
+            Command::ColourAddingSlots,
             Command::BalanceColours,
             Command::PaletteWindow,
             Command::AssignSlots,
@@ -211,6 +214,7 @@ impl Command {
             | Command::CommandList => Menu::View,
             Command::UseTool(_) => Menu::Tools,
             Command::ColourFewest
+            | Command::ColourAddingSlots
             | Command::BalanceColours
             | Command::ExportProof
             | Command::ClearColours
@@ -237,8 +241,9 @@ impl Command {
             Command::CommandList => "Find a command…".into(),
             Command::UseTool(t) => format!("{} tool", t.label()),
             Command::ColourFewest => "Colour with the fewest colours".into(),
+            Command::ColourAddingSlots => "Add the missing palette slots and colour".into(),
             Command::BalanceColours => "Even out colour use".into(),
-            Command::ExportProof => "Export the proof that three colours fail…".into(),
+            Command::ExportProof => "Export the proofs that fewer colours fail…".into(),
             Command::ClearColours => "Remove all colours".into(),
             Command::PaletteWindow => "Palette and print check…".into(),
             Command::AssignSlots => "Most distinct colours for most borders".into(),
@@ -270,11 +275,14 @@ impl Command {
             Command::ColourFewest => {
                 "Colour the map with the fewest colours that honour pins and groups, keeping current colours where possible (undoable)"
             }
+            Command::ColourAddingSlots => {
+                "When the map needs more colours than the palette has: add the missing slots, each as distinct as possible from the others, and colour with the fewest colours (one undoable step)"
+            }
             Command::BalanceColours => {
                 "Recolour with the same number of colours, each used about equally often (undoable)"
             }
             Command::ExportProof => {
-                "Write the obstruction's CNF and its DRAT proof, for checking with any DRAT checker"
+                "Write the CNF and DRAT proof of each part of the map that rules out fewer colours, for checking with any DRAT checker"
             }
             Command::ClearColours => "Remove the colour of every region (undoable)",
             Command::PaletteWindow => {
@@ -325,6 +333,7 @@ impl Command {
             Command::UseTool(Tool::Group) => plain(Key::G),
             Command::UseTool(Tool::Water) => plain(Key::W),
             Command::ColourFewest => ctrl(Key::Enter),
+            Command::ColourAddingSlots => None,
             Command::BalanceColours => None,
             Command::ExportProof => None,
             Command::ClearColours => None,

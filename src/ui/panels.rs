@@ -530,7 +530,10 @@ fn colouring_verdict_ui(
         Some(m) if verdict.proven => marked(
             ui,
             true,
-            format!("{m}, proven: {} need {m}.", verdict.lower_bound_reason),
+            format!(
+                "{m}, proven: fewer cannot work because {}.",
+                verdict.lower_bound_reason
+            ),
         ),
         Some(m) => {
             let still = if running {
@@ -550,7 +553,44 @@ fn colouring_verdict_ui(
             ui.label("No colouring found yet.");
         }
     }
-    if ui
+    // The part of the map that rules out one colour fewer, when no clique of regions shows it
+    // (the three-colour case has its own line below).
+    if let Some(why) = verdict
+        .minimum_impossible
+        .as_ref()
+        .filter(|w| w.colours != 3)
+    {
+        ui.label(format!(
+            "{} regions cannot take {} colours: {}{}.",
+            why.regions.len(),
+            why.colours,
+            why.kind,
+            if why.critical {
+                ""
+            } else {
+                " (not shrunk to the fewest regions before the time limit)"
+            }
+        ));
+        evidence_buttons(app, ui, why, Highlight::NotFewerColourable);
+    }
+    if verdict.extra_slots_needed > 0 {
+        let n = verdict.extra_slots_needed;
+        marked(
+            ui,
+            false,
+            format!(
+                "The palette has {} slots; this colouring needs {n} more.",
+                app.session.doc.palette.slots.len()
+            ),
+        );
+        if ui
+            .button(Command::ColourAddingSlots.label())
+            .on_hover_text(Command::ColourAddingSlots.tooltip())
+            .clicked()
+        {
+            app.emit(Command::ColourAddingSlots);
+        }
+    } else if ui
         .button("Colour the map with them")
         .on_hover_text(Command::ColourFewest.tooltip())
         .clicked()
@@ -571,35 +611,7 @@ fn colouring_verdict_ui(
                     why.regions.len()
                 ),
             );
-            ui.horizontal_wrapped(|ui| {
-                let showing = app.view.highlight == Some(Highlight::NotThreeColourable);
-                if ui
-                    .button(if showing {
-                        "Hide on map"
-                    } else {
-                        "Show them on map"
-                    })
-                    .clicked()
-                {
-                    app.view.highlight = if showing {
-                        None
-                    } else {
-                        Some(Highlight::NotThreeColourable)
-                    };
-                }
-                if why.steps.is_some() && ui.button("Walk through the argument").clicked() {
-                    app.argument_step = Some(0);
-                    app.view.highlight = Some(Highlight::NotThreeColourable);
-                }
-                if why.cnf_and_proof.is_some()
-                    && ui
-                        .button("Export the proof…")
-                        .on_hover_text(Command::ExportProof.tooltip())
-                        .clicked()
-                {
-                    app.emit(Command::ExportProof);
-                }
-            });
+            evidence_buttons(app, ui, why, Highlight::NotThreeColourable);
         }
         (Some(false), None) => marked(ui, false, "No.".into()),
         (None, _) => {
@@ -612,17 +624,60 @@ fn colouring_verdict_ui(
     }
 }
 
-/// The step-by-step argument that three colours fail, in a window of its own.
+/// Show on map, walk through the argument, export the proof: for one obstruction.
+fn evidence_buttons(
+    app: &mut App,
+    ui: &mut egui::Ui,
+    why: &analysis::Impossibility,
+    highlight: Highlight,
+) {
+    ui.horizontal_wrapped(|ui| {
+        let showing = app.view.highlight == Some(highlight);
+        if ui
+            .button(if showing {
+                "Hide on map"
+            } else {
+                "Show them on map"
+            })
+            .clicked()
+        {
+            app.view.highlight = if showing { None } else { Some(highlight) };
+        }
+        if why.steps.is_some() && ui.button("Walk through the argument").clicked() {
+            app.argument_step = Some(0);
+            app.argument_for = highlight;
+            app.view.highlight = Some(highlight);
+        }
+        if why.cnf_and_proof.is_some()
+            && ui
+                .button("Export the proof…")
+                .on_hover_text(Command::ExportProof.tooltip())
+                .clicked()
+        {
+            app.emit(Command::ExportProof);
+        }
+    });
+}
+
+/// The step-by-step argument that fewer colours fail, in a window of its own.
 pub fn argument_ui(app: &mut App, ctx: &egui::Context) {
     let Some(index) = app.argument_step else {
         return;
     };
-    let steps = app
+    let minimum = app.argument_for == Highlight::NotFewerColourable;
+    let why = app
         .analysis
         .as_ref()
         .and_then(|a| a.colouring.as_ref())
-        .and_then(|c| c.three_impossible.as_ref())
-        .and_then(|i| i.steps.clone());
+        .and_then(|c| {
+            if minimum {
+                c.minimum_impossible.as_ref()
+            } else {
+                c.three_impossible.as_ref()
+            }
+        });
+    let colours = why.map_or(3, |w| w.colours);
+    let steps = why.and_then(|i| i.steps.clone());
     let Some(steps) = steps.filter(|s| !s.is_empty()) else {
         app.argument_step = None;
         return;
@@ -630,7 +685,12 @@ pub fn argument_ui(app: &mut App, ctx: &egui::Context) {
     let index = index.min(steps.len() - 1);
     let mut open = true;
     let mut next = index;
-    egui::Window::new("Why three colours are impossible")
+    let title = if colours == 3 {
+        "Why three colours are impossible".to_string()
+    } else {
+        format!("Why {colours} colours are impossible")
+    };
+    egui::Window::new(title)
         .open(&mut open)
         .default_width(460.0)
         .default_pos([240.0, 70.0])

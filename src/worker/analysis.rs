@@ -7,8 +7,8 @@ use std::time::Duration;
 
 use crate::doc::{ConstraintGraph, Document, RegionId, RegionPair};
 use crate::engine::colouring::{
-    BoundEvidence, ColouringError, ColouringProblem, ObstructionKind, SolveOptions, Stage,
-    StepKind, solve,
+    BoundEvidence, ColouringError, ColouringProblem, Obstruction, ObstructionKind, SolveOptions,
+    Stage, StoppedPart, solve, step_text,
 };
 use crate::engine::planarity::{Phase, Planarity, PlanarityError, planarity};
 
@@ -50,18 +50,31 @@ pub struct Step {
 #[derive(Clone, Debug, PartialEq)]
 pub struct Impossibility {
     pub colours: u32,
-    /// Its name in words ("an odd wheel", ...).
-    pub kind: &'static str,
+    /// Its name in words ("an odd wheel", ...; for a pinned one, which pins it needs).
+    pub kind: String,
     /// Its name for machines: `K4` (or `K<n>`), `odd_cycle`, `odd_wheel`, `grotzsch`, `pinned`, `critical`.
     pub code: String,
     /// Its regions, groups expanded, ascending.
     pub regions: Vec<RegionId>,
     /// Its borders (pairs that really border each other).
     pub links: Vec<RegionPair>,
+    /// The pins it needs, `(region, palette slot)`; empty when it holds whatever the pins.
+    pub pins: Vec<(RegionId, u32)>,
+    /// True when every region (and pin) in it is needed; false when the time limit stopped the
+    /// shrinking first.
+    pub critical: bool,
     /// The case analysis, for small obstructions.
     pub steps: Option<Vec<Step>>,
     /// The DIMACS CNF and the DRAT proof that refutes it (checkable by any DRAT checker).
     pub cnf_and_proof: Option<(String, String)>,
+}
+
+impl Impossibility {
+    /// The proof files' names for `colours` colours: `three-colours.*` for three (the name
+    /// earlier versions wrote), `N-colours.*` for every number.
+    pub fn proof_file_stem(colours: u32) -> String {
+        format!("{colours}-colours")
+    }
 }
 
 /// The colouring part of an analysis.
@@ -73,18 +86,44 @@ pub struct ColouringVerdict {
     /// The proven lower bound, and why, in words.
     pub lower_bound: u32,
     pub lower_bound_reason: String,
-    /// A colouring with that many colours (region -> slot), when one fits the palette.
+    /// A colouring with that many colours (region -> slot). Slots past the palette are used when
+    /// the palette is too small (`extra_slots_needed` says how many).
     pub colouring: Option<BTreeMap<RegionId, u32>>,
+    /// How many slots the palette lacks for `colouring` (0 when it fits).
+    pub extra_slots_needed: u32,
     /// Whether three colours suffice; `None` when not decided.
     pub three_colourable: Option<bool>,
     /// Why three colours are impossible, when they are.
     pub three_impossible: Option<Impossibility>,
+    /// Why one colour fewer than the minimum is impossible, when a clique does not show it.
+    pub minimum_impossible: Option<Impossibility>,
     /// With the current colouring kept where possible: how many regions change colour.
     pub changed: Option<usize>,
-    /// The search stopped early (time limit or cancellation): the minimum may not be proven.
+    /// The time limit (or cancellation) stopped the search before the minimum was proven.
     pub stopped: bool,
+    /// Other parts the time limit cut short.
+    pub stopped_parts: Vec<StoppedPart>,
     /// A reason no colouring can exist at all (contradictory rules, a palette too small).
     pub impossible: Option<String>,
+}
+
+/// The proof files a verdict has, as (file name, text): `three-colours.*` when three colours
+/// are impossible, `N-colours.*` for the obstruction to one colour fewer than the minimum.
+pub fn proof_texts(v: &ColouringVerdict) -> Vec<(String, String)> {
+    let mut files = Vec::new();
+    let mut add = |stem: String, i: &Impossibility| {
+        if let Some((cnf, drat)) = &i.cnf_and_proof {
+            files.push((format!("{stem}.cnf"), cnf.clone()));
+            files.push((format!("{stem}.drat"), drat.clone()));
+        }
+    };
+    if let Some(i) = &v.three_impossible {
+        add("three-colours".into(), i);
+    }
+    if let Some(i) = &v.minimum_impossible {
+        add(Impossibility::proof_file_stem(i.colours), i);
+    }
+    files
 }
 
 /// Everything the background analysis found for one revision.
@@ -108,8 +147,75 @@ fn kind_words(kind: ObstructionKind, colours: u32) -> &'static str {
         ObstructionKind::OddCycle => "an odd ring of regions",
         ObstructionKind::OddWheel => "an odd wheel: a region ringed by an odd number of neighbours",
         ObstructionKind::Grotzsch => "a Grötzsch configuration",
-        ObstructionKind::Pinned => "a cluster of regions whose pinned colours leave no way out",
+        ObstructionKind::Pinned => "a cluster of regions that their pins leave no way to colour",
         ObstructionKind::Critical => "a tightly knit cluster of regions",
+    }
+}
+
+/// "a", "a and b", "a, b and c".
+fn and_list(items: &[String]) -> String {
+    match items {
+        [] => String::new(),
+        [one] => one.clone(),
+        [init @ .., last] => format!("{} and {last}", init.join(", ")),
+    }
+}
+
+/// An engine obstruction in region terms, with its argument in the regions' names.
+fn impossibility(doc: &Document, cg: &ConstraintGraph, o: &Obstruction) -> Impossibility {
+    let label = |v: u32| cg.vertex_label(doc, v);
+    let mut regions = BTreeSet::new();
+    for &v in &o.vertices {
+        regions.extend(cg.vertex_regions[v as usize].iter().copied());
+    }
+    let first = |v: u32| cg.vertex_regions[v as usize][0];
+    let steps = o.argument.as_ref().map(|steps| {
+        steps
+            .iter()
+            .map(|st| Step {
+                depth: st.depth,
+                text: step_text(st, &label),
+                region: first(st.vertex),
+            })
+            .collect()
+    });
+    let mut kind = kind_words(o.kind, o.colours).to_string();
+    if !o.pins.is_empty() {
+        let pins: Vec<String> = o
+            .pins
+            .iter()
+            .map(|&(v, slot)| format!("{} in slot {}", label(v), slot + 1))
+            .collect();
+        kind = format!(
+            "{kind} (it needs the {} on {})",
+            if pins.len() == 1 { "pin" } else { "pins" },
+            and_list(&pins)
+        );
+    }
+    Impossibility {
+        colours: o.colours,
+        kind,
+        code: match o.kind {
+            ObstructionKind::Complete => format!("K{}", o.colours + 1),
+            ObstructionKind::OddCycle => "odd_cycle".into(),
+            ObstructionKind::OddWheel => "odd_wheel".into(),
+            ObstructionKind::Grotzsch => "grotzsch".into(),
+            ObstructionKind::Pinned => "pinned".into(),
+            ObstructionKind::Critical => "critical".into(),
+        },
+        regions: regions.into_iter().collect(),
+        links: o
+            .edges
+            .iter()
+            .filter_map(|&(u, v)| bordering_pair(doc, cg, u, v))
+            .collect(),
+        pins: o.pins.iter().map(|&(v, slot)| (first(v), slot)).collect(),
+        critical: o.vertex_critical,
+        steps,
+        cnf_and_proof: o
+            .refutation
+            .as_ref()
+            .map(|r| (r.cnf.clone(), r.drat.clone())),
     }
 }
 
@@ -159,10 +265,13 @@ fn colour_graph(
         lower_bound: 0,
         lower_bound_reason: String::new(),
         colouring: None,
+        extra_slots_needed: 0,
         three_colourable: None,
         three_impossible: None,
+        minimum_impossible: None,
         changed: None,
         stopped: false,
+        stopped_parts: Vec::new(),
         impossible: None,
     };
     if let Some(conflict) = cg.conflicts.first() {
@@ -241,25 +350,43 @@ fn colour_graph(
             return verdict;
         }
     };
-    let names = |vs: &[u32]| vs.iter().map(|&v| label(v)).collect::<Vec<_>>().join(", ");
+    let names = |vs: &[u32]| and_list(&vs.iter().map(|&v| label(v)).collect::<Vec<_>>());
     verdict.minimum = report.minimum;
     verdict.proven = report.proven;
     verdict.stopped = report.stopped;
+    verdict.stopped_parts = report.stopped_parts.clone();
     verdict.lower_bound = report.lower_bound.value;
-    verdict.lower_bound_reason = match &report.lower_bound.evidence {
-        BoundEvidence::Empty => "there is no land to colour".into(),
-        BoundEvidence::Clique(c) if c.len() == 1 => "there is land to colour".into(),
-        BoundEvidence::Clique(c) => format!("{} all border each other", names(c)),
-        BoundEvidence::OddCycle(c) => format!("{} form an odd ring", names(c)),
-        BoundEvidence::OddWheel { hub, rim } => {
+    verdict.three_colourable = report.three_colourable;
+    verdict.three_impossible = report
+        .obstruction
+        .as_ref()
+        .map(|o| impossibility(doc, cg, o));
+    verdict.minimum_impossible = report
+        .minimum_obstruction
+        .as_ref()
+        .map(|o| impossibility(doc, cg, o));
+    verdict.lower_bound_reason = match (&report.lower_bound.evidence, &verdict.minimum_impossible) {
+        (BoundEvidence::Refuted { colours }, Some(part)) if part.colours == *colours => {
+            let n = part.regions.len();
+            format!(
+                "{n} region{} ({}) cannot take {colours} colours, as the proof shows",
+                if n == 1 { "" } else { "s" },
+                part.kind,
+            )
+        }
+        (BoundEvidence::Empty, _) => "there is no land to colour".into(),
+        (BoundEvidence::Clique(c), _) if c.len() == 1 => "there is land to colour".into(),
+        (BoundEvidence::Clique(c), _) => format!("{} all border each other", names(c)),
+        (BoundEvidence::OddCycle(c), _) => format!("{} form an odd ring", names(c)),
+        (BoundEvidence::OddWheel { hub, rim }, _) => {
             format!(
                 "{} is ringed by an odd number of neighbours ({})",
                 label(*hub),
                 names(rim)
             )
         }
-        BoundEvidence::PinnedSlots(s) => format!("pins name {} different colours", s.len()),
-        BoundEvidence::Refuted { colours } => {
+        (BoundEvidence::PinnedSlots(s), _) => format!("pins name {} different colours", s.len()),
+        (BoundEvidence::Refuted { colours }, _) => {
             format!("an exhaustive search ruled out {colours} colours")
         }
     };
@@ -267,83 +394,12 @@ fn colour_graph(
         let per_vertex: Vec<Option<u32>> = c.iter().map(|&s| Some(s)).collect();
         cg.to_region_colouring(&per_vertex)
     });
+    verdict.extra_slots_needed = report
+        .colouring
+        .as_ref()
+        .and_then(|c| c.iter().max())
+        .map_or(0, |&top| (top + 1).saturating_sub(problem.max_colours));
     verdict.changed = report.changed;
-    verdict.three_colourable = report.three_colourable;
-    verdict.three_impossible = report.obstruction.as_ref().map(|o| {
-        let mut regions = BTreeSet::new();
-        for &v in &o.vertices {
-            regions.extend(cg.vertex_regions[v as usize].iter().copied());
-        }
-        let first = |v: u32| cg.vertex_regions[v as usize][0];
-        let steps = o.argument.as_ref().map(|steps| {
-            steps
-                .iter()
-                .map(|st| {
-                    let who = label(st.vertex);
-                    let colour = st.colour.wrapping_add(1);
-                    let text = match st.kind {
-                        StepKind::Fix if cg.pins[st.vertex as usize].is_some() => {
-                            format!("{who} is pinned to colour {colour}")
-                        }
-                        StepKind::Fix => {
-                            format!("Fix {who} as colour {colour} (colours are interchangeable)")
-                        }
-                        StepKind::Suppose => format!("Suppose {who} is colour {colour}"),
-                        StepKind::Forced if st.because.is_empty() => {
-                            format!("Then {who} must be colour {colour}")
-                        }
-                        StepKind::Forced => {
-                            format!(
-                                "Then {who} must be colour {colour}: {} hold the other colours",
-                                names(&st.because)
-                            )
-                        }
-                        StepKind::Excluded => format!("So {who} cannot be colour {colour}"),
-                        StepKind::Renamed => format!(
-                            "{who} need not be colour {colour}: no pin names it, so colours can be renamed"
-                        ),
-                        StepKind::Contradiction if st.because.is_empty() => {
-                            format!("{who} has no colour left: contradiction")
-                        }
-                        StepKind::Contradiction => {
-                            format!(
-                                "{who} has no colour left ({} take them all): contradiction",
-                                names(&st.because)
-                            )
-                        }
-                    };
-                    Step {
-                        depth: st.depth,
-                        text,
-                        region: first(st.vertex),
-                    }
-                })
-                .collect()
-        });
-        Impossibility {
-            colours: o.colours,
-            kind: kind_words(o.kind, o.colours),
-            code: match o.kind {
-                ObstructionKind::Complete => format!("K{}", o.colours + 1),
-                ObstructionKind::OddCycle => "odd_cycle".into(),
-                ObstructionKind::OddWheel => "odd_wheel".into(),
-                ObstructionKind::Grotzsch => "grotzsch".into(),
-                ObstructionKind::Pinned => "pinned".into(),
-                ObstructionKind::Critical => "critical".into(),
-            },
-            regions: regions.into_iter().collect(),
-            links: o
-                .edges
-                .iter()
-                .filter_map(|&(u, v)| bordering_pair(doc, cg, u, v))
-                .collect(),
-            steps,
-            cnf_and_proof: o
-                .refutation
-                .as_ref()
-                .map(|r| (r.cnf.clone(), r.drat.clone())),
-        }
-    });
     verdict
 }
 
@@ -468,6 +524,24 @@ mod tests {
         assert!(
             why.steps.as_ref().is_some_and(|s| !s.is_empty()),
             "a readable argument"
+        );
+        // Regression: Eskelvane's pin was named as the culprit, though its odd wheel fails
+        // three colours with or without it.
+        assert!(
+            province
+                .region_by_name("Eskelvane")
+                .is_some_and(|id| province.regions[&id].pin.is_some())
+        );
+        assert_eq!(why.code, "odd_wheel");
+        assert!(why.pins.is_empty());
+        for step in why.steps.as_ref().unwrap() {
+            assert!(!step.text.contains("pinned"), "{}", step.text);
+            assert!(!step.text.contains("colour 1"), "{}", step.text);
+        }
+        assert!(
+            !c.lower_bound_reason.contains("pin"),
+            "{}",
+            c.lower_bound_reason
         );
         assert!(why.cnf_and_proof.is_some(), "a checkable proof");
         let colouring = c.colouring.unwrap();

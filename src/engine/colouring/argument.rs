@@ -24,7 +24,8 @@ pub enum StepKind {
 }
 
 /// One step. Vertices are numbered as in the graph the argument was built for; colours are
-/// classes `0..k` (shown to people as `1..=k`).
+/// classes `0..k`, shown to people as the letters A, B, C, … (see [`colour_letter`]) so that they
+/// are never mistaken for palette slots, which are numbered.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct ArgumentStep {
     /// Nesting depth of cases (0 = unconditional).
@@ -35,10 +36,99 @@ pub struct ArgumentStep {
     pub vertex: Vertex,
     /// The colour involved (for a contradiction: none, `u32::MAX`).
     pub colour: u32,
-    /// The vertices that justify the step (neighbours holding the excluded colours).
+    /// The vertices that justify the step: neighbours holding the excluded colours (for a fixed
+    /// clique vertex: the clique vertices fixed before it).
     pub because: Vec<Vertex>,
-    /// The step in words.
+    /// The colour each vertex of `because` holds, in the same order.
+    pub because_colours: Vec<u32>,
+    /// Some colours were excluded by earlier cases rather than by neighbours.
+    pub after_cases: bool,
+    /// For a `Fix` step of a pinned vertex: the palette slot it is pinned to (0-based).
+    pub pinned_slot: Option<u32>,
+    /// The step in words (with the names the argument was built with; see [`step_text`]).
     pub text: String,
+}
+
+/// The name of argument colour `c` as people read it: `A`, `B`, `C`, … (`A2`, `B2`, … past `Z`).
+pub fn colour_letter(c: u32) -> String {
+    let letter = char::from(b'A' + (c % 26) as u8);
+    if c < 26 {
+        letter.to_string()
+    } else {
+        format!("{letter}{}", c / 26 + 1)
+    }
+}
+
+/// "a", "a and b", "a, b and c".
+fn and_list(items: &[String]) -> String {
+    match items {
+        [] => String::new(),
+        [one] => one.clone(),
+        [init @ .., last] => format!("{} and {last}", init.join(", ")),
+    }
+}
+
+/// Why a colour is out of reach: "its neighbour X holds colour A" or "its neighbours X and Y hold
+/// colours A and B", with "the other cases ruled out the rest" when earlier cases took part.
+fn held_by(step: &ArgumentStep, names: &dyn Fn(Vertex) -> String) -> String {
+    let who: Vec<String> = step.because.iter().map(|&v| names(v)).collect();
+    let colours: Vec<String> = step
+        .because_colours
+        .iter()
+        .map(|&c| colour_letter(c))
+        .collect();
+    let held = match who.len() {
+        0 => String::new(),
+        1 => format!("its neighbour {} holds colour {}", who[0], colours[0]),
+        _ => format!(
+            "its neighbours {} hold colours {}",
+            and_list(&who),
+            and_list(&colours)
+        ),
+    };
+    match (held.is_empty(), step.after_cases) {
+        (true, _) => "the other cases failed".into(),
+        (false, true) => format!("{held}, and the other cases failed"),
+        (false, false) => held,
+    }
+}
+
+/// A step in plain words, with `names` for the vertices. Colours are letters, pins name their
+/// palette slot (numbered from 1, as the palette shows them).
+pub fn step_text(step: &ArgumentStep, names: &dyn Fn(Vertex) -> String) -> String {
+    let who = names(step.vertex);
+    let colour = colour_letter(step.colour);
+    match step.kind {
+        StepKind::Fix => match step.pinned_slot {
+            Some(slot) => format!(
+                "{who} is pinned to palette slot {}; call that colour {colour}.",
+                slot + 1
+            ),
+            None if step.because.is_empty() => {
+                format!("Colours are interchangeable, so we may call {who}'s colour {colour}.")
+            }
+            None => {
+                let earlier: Vec<String> = step.because.iter().map(|&v| names(v)).collect();
+                format!(
+                    "{who} borders {}, so its colour is another one; colours are interchangeable, so we may call it {colour}.",
+                    and_list(&earlier)
+                )
+            }
+        },
+        StepKind::Renamed => format!(
+            "Colours that no pin names are interchangeable, so we may choose their names so that {who} is not colour {colour}."
+        ),
+        StepKind::Suppose => format!("Suppose {who} takes colour {colour}."),
+        StepKind::Forced => format!(
+            "Then {who} must take colour {colour}: {}.",
+            held_by(step, names)
+        ),
+        StepKind::Excluded => format!("So {who} cannot take colour {colour}."),
+        StepKind::Contradiction => format!(
+            "{who} has no colour left: {}. Contradiction.",
+            held_by(step, names)
+        ),
+    }
 }
 
 #[derive(Clone, Copy, PartialEq, Eq)]
@@ -68,7 +158,8 @@ const NONE: u32 = u32::MAX;
 
 /// Builds a case analysis refuting k-colourability of `g` with the given pins (classes) and
 /// symmetry rule, or `None` if the graph is colourable, k exceeds 31, or the argument would need
-/// more than `max_steps` steps. `names` turns a vertex into the word used in the text.
+/// more than `max_steps` steps. `names` turns a vertex into the word used in the text;
+/// `pinned_slots[c]` is the palette slot of pinned class `c` (for the words only).
 ///
 /// The search assigns forced colours first (a vertex with one colour left), and otherwise splits on
 /// the vertex with fewest colours left, which keeps arguments short on critical graphs.
@@ -81,6 +172,7 @@ const NONE: u32 = u32::MAX;
 pub fn case_analysis(
     g: &Graph,
     pin_class: &[Option<u32>],
+    pinned_slots: &[u32],
     k: u32,
     symmetry: &Symmetry,
     names: &dyn Fn(Vertex) -> String,
@@ -103,33 +195,26 @@ pub fn case_analysis(
             reason: vec![Reason::None; n * k as usize],
         },
     };
-    let mut fixes: Vec<(Vertex, u32, bool)> = Vec::new();
+    // (vertex, class, pinned slot, clique vertices fixed before it)
+    let mut fixes: Vec<(Vertex, u32, Option<u32>, Vec<Vertex>)> = Vec::new();
     for v in 0..n {
         if let Some(Some(c)) = pin_class.get(v) {
-            fixes.push((v as Vertex, *c, true));
+            let slot = pinned_slots.get(*c as usize).copied().unwrap_or(*c);
+            fixes.push((v as Vertex, *c, Some(slot), Vec::new()));
         }
     }
-    for (i, &v) in symmetry.clique.iter().enumerate() {
-        // Only a clique vertex that is not pinned; with pins, it may still take a pinned class, so
-        // only fix it when no pins exist (the general rule becomes an exclusion below).
-        if symmetry.first_free_class == 0 {
-            fixes.push((v, i as u32, false));
+    if symmetry.first_free_class == 0 {
+        // Only without pins: with pins a clique vertex may still take a pinned class, so the
+        // general rule becomes the exclusions below.
+        for (i, &v) in symmetry.clique.iter().enumerate() {
+            fixes.push((v, i as u32, None, symmetry.clique[..i].to_vec()));
         }
     }
-    for (v, c, pinned) in fixes {
+    for (v, c, slot, earlier) in fixes {
         if c >= k {
             return None;
         }
-        let text = if pinned {
-            format!("Fix {} = colour {} (pinned).", names(v), c + 1)
-        } else {
-            format!(
-                "Fix {} = colour {} (a clique: colours can be renamed so).",
-                names(v),
-                c + 1
-            )
-        };
-        search.push(0, StepKind::Fix, v, c, Vec::new(), text);
+        search.push(0, StepKind::Fix, v, c, earlier, false, slot);
         if search.assign(v, c, 0) {
             return Some(search.steps);
         }
@@ -138,12 +223,7 @@ pub fn case_analysis(
         for (i, &v) in symmetry.clique.iter().enumerate() {
             for c in (symmetry.first_free_class + i as u32 + 1)..k {
                 if search.state.domain[v as usize] & (1 << c) != 0 {
-                    let text = format!(
-                        "{} need not use colour {} (unpinned colours can be renamed).",
-                        names(v),
-                        c + 1
-                    );
-                    search.push(0, StepKind::Renamed, v, c, Vec::new(), text);
+                    search.push(0, StepKind::Renamed, v, c, Vec::new(), false, None);
                     if search.exclude(v, c, Reason::Case, 0) {
                         return Some(search.steps);
                     }
@@ -158,6 +238,7 @@ pub fn case_analysis(
 }
 
 impl Search<'_> {
+    #[allow(clippy::too_many_arguments)]
     fn push(
         &mut self,
         depth: u32,
@@ -165,23 +246,26 @@ impl Search<'_> {
         vertex: Vertex,
         colour: u32,
         because: Vec<Vertex>,
-        text: String,
+        after_cases: bool,
+        pinned_slot: Option<u32>,
     ) {
-        self.steps.push(ArgumentStep {
+        let because_colours = because
+            .iter()
+            .map(|&u| self.state.assigned[u as usize])
+            .collect();
+        let mut step = ArgumentStep {
             depth,
             kind,
             vertex,
             colour,
             because,
-            text,
-        });
-    }
-
-    fn list(&self, vs: &[Vertex]) -> String {
-        vs.iter()
-            .map(|&v| (self.names)(v))
-            .collect::<Vec<_>>()
-            .join(", ")
+            because_colours,
+            after_cases,
+            pinned_slot,
+            text: String::new(),
+        };
+        step.text = step_text(&step, self.names);
+        self.steps.push(step);
     }
 
     /// Vertices (neighbours) that excluded colours from v; "case" exclusions are noted by the flag.
@@ -239,51 +323,13 @@ impl Search<'_> {
         let d = self.state.domain[v as usize];
         if d == 0 {
             let (who, case) = self.excluders(v);
-            let colours: Vec<String> = who
-                .iter()
-                .map(|&u| (self.state.assigned[u as usize] + 1).to_string())
-                .collect();
-            let text = if case {
-                format!(
-                    "Contradiction: {} has no colour left (neighbours {} have colours {}; the other cases failed).",
-                    (self.names)(v),
-                    self.list(&who),
-                    colours.join(", ")
-                )
-            } else {
-                format!(
-                    "Contradiction: {} has neighbours {} coloured {}.",
-                    (self.names)(v),
-                    self.list(&who),
-                    colours.join(", ")
-                )
-            };
-            self.push(depth, StepKind::Contradiction, v, NONE, who, text);
+            self.push(depth, StepKind::Contradiction, v, NONE, who, case, None);
             return true;
         }
         if d.count_ones() == 1 && self.state.assigned[v as usize] == NONE {
             let forced = d.trailing_zeros();
             let (who, case) = self.excluders(v);
-            let colours: Vec<String> = who
-                .iter()
-                .map(|&u| (self.state.assigned[u as usize] + 1).to_string())
-                .collect();
-            let mut text = format!("Then {} must be colour {}", (self.names)(v), forced + 1);
-            if !who.is_empty() {
-                text.push_str(&format!(
-                    " (neighbours {} have colours {}",
-                    self.list(&who),
-                    colours.join(", ")
-                ));
-                text.push_str(if case {
-                    "; the other cases failed)."
-                } else {
-                    ")."
-                });
-            } else {
-                text.push_str(" (the other cases failed).");
-            }
-            self.push(depth, StepKind::Forced, v, forced, who, text);
+            self.push(depth, StepKind::Forced, v, forced, who, case, None);
             return self.assign(v, forced, depth);
         }
         false
@@ -317,15 +363,13 @@ impl Search<'_> {
         loop {
             let c = self.state.domain[v as usize].trailing_zeros();
             let saved = self.state.clone();
-            let text = format!("Suppose {} = colour {}.", (self.names)(v), c + 1);
-            self.push(depth + 1, StepKind::Suppose, v, c, Vec::new(), text);
+            self.push(depth + 1, StepKind::Suppose, v, c, Vec::new(), false, None);
             let conflict = self.assign(v, c, depth + 1);
             if !conflict && !self.refute(depth + 1)? {
                 return Some(false);
             }
             self.state = saved;
-            let text = format!("So {} is not colour {}.", (self.names)(v), c + 1);
-            self.push(depth, StepKind::Excluded, v, c, Vec::new(), text);
+            self.push(depth, StepKind::Excluded, v, c, Vec::new(), false, None);
             if self.exclude(v, c, Reason::Case, depth) {
                 return Some(true);
             }
@@ -451,7 +495,7 @@ mod tests {
             first_free_class: 0,
         };
         let names = |v: Vertex| format!("v{v}");
-        let steps = case_analysis(&g, &[], 3, &sym, &names, 1000).unwrap();
+        let steps = case_analysis(&g, &[], &[], 3, &sym, &names, 1000).unwrap();
         assert!(replay_argument(&g, 3, &steps));
         assert!(steps.iter().any(|s| s.kind == StepKind::Contradiction));
         // Corrupt a forced step: the replay must reject it.
@@ -465,7 +509,7 @@ mod tests {
             .flat_map(|i| [(0, i), (i, if i == 6 { 1 } else { i + 1 })])
             .collect();
         let (g6, _) = Graph::from_edges(7, &edges).unwrap();
-        assert!(case_analysis(&g6, &[], 3, &sym, &names, 1000).is_none());
+        assert!(case_analysis(&g6, &[], &[], 3, &sym, &names, 1000).is_none());
     }
 
     #[test]
@@ -479,7 +523,16 @@ mod tests {
             first_free_class: 1,
         };
         let names = |v: Vertex| format!("v{v}");
-        let steps = case_analysis(&g, &[Some(0), None, None, None], 3, &sym, &names, 1000).unwrap();
+        let steps = case_analysis(
+            &g,
+            &[Some(0), None, None, None],
+            &[4],
+            3,
+            &sym,
+            &names,
+            1000,
+        )
+        .unwrap();
         assert!(replay_argument(&g, 3, &steps));
         let renamed = steps.iter().filter(|s| s.kind == StepKind::Renamed).count();
         assert!(renamed > 0, "{steps:#?}");
@@ -491,5 +544,51 @@ mod tests {
             .unwrap();
         bad[first].depth = 1;
         assert!(!replay_argument(&g, 3, &bad));
+    }
+
+    #[test]
+    fn steps_read_as_sentences_with_letters_for_colours_and_agreeing_verbs() {
+        let names = |v: Vertex| ["Ardle", "Brisk", "Corran"][v as usize].to_string();
+        let step = |kind, because: Vec<Vertex>, because_colours: Vec<u32>| ArgumentStep {
+            depth: 0,
+            kind,
+            vertex: 2,
+            colour: 2,
+            because,
+            because_colours,
+            after_cases: false,
+            pinned_slot: None,
+            text: String::new(),
+        };
+        assert_eq!(
+            step_text(&step(StepKind::Forced, vec![0], vec![0]), &names),
+            "Then Corran must take colour C: its neighbour Ardle holds colour A."
+        );
+        assert_eq!(
+            step_text(&step(StepKind::Forced, vec![0, 1], vec![0, 1]), &names),
+            "Then Corran must take colour C: its neighbours Ardle and Brisk hold colours A and B."
+        );
+        let mut pinned = step(StepKind::Fix, vec![], vec![]);
+        pinned.pinned_slot = Some(4);
+        assert_eq!(
+            step_text(&pinned, &names),
+            "Corran is pinned to palette slot 5; call that colour C."
+        );
+        assert_eq!(
+            step_text(&step(StepKind::Fix, vec![], vec![]), &names),
+            "Colours are interchangeable, so we may call Corran's colour C."
+        );
+        // No digit ever names an argument colour: digits are palette slots.
+        for kind in [
+            StepKind::Suppose,
+            StepKind::Excluded,
+            StepKind::Renamed,
+            StepKind::Contradiction,
+        ] {
+            let text = step_text(&step(kind, vec![0, 1], vec![0, 1]), &names);
+            assert!(!text.chars().any(|c| c.is_ascii_digit()), "{text}");
+        }
+        assert_eq!(colour_letter(0), "A");
+        assert_eq!(colour_letter(27), "B2");
     }
 }

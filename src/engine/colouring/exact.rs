@@ -4,7 +4,7 @@
 use std::sync::atomic::AtomicBool;
 use std::time::Instant;
 
-use crate::engine::colouring::encoding::{Symmetry, colouring_cnf, decode};
+use crate::engine::colouring::encoding::{Cnf, Symmetry, colouring_cnf, decode};
 use crate::engine::colouring::lower_bound::find_clique;
 use crate::engine::colouring::sat::{Sat, SatAnswer};
 use crate::engine::components::connected_components;
@@ -17,10 +17,26 @@ const NONE: u32 = u32::MAX;
 pub enum Decision {
     /// Yes: a class in `0..k` per vertex.
     Colourable(Vec<u32>),
-    /// No: these vertices (a connected part of the k-core) already cannot be coloured.
-    NotColourable { part: Vec<Vertex> },
+    /// No: these vertices (a connected part of the k-core, ascending) already cannot be
+    /// coloured; with the DRAT proof the search logged, when it was asked to.
+    NotColourable {
+        part: Vec<Vertex>,
+        proof: Option<PartProof>,
+    },
     /// Stopped before an answer.
     Unknown,
+}
+
+/// The refutation the exact search logged for a part: the part's colouring CNF (vertex `i` of
+/// the CNF is `part[i]`, pins as the caller's classes) under `symmetry`, and its DRAT proof.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct PartProof {
+    /// The symmetry rule of the CNF, in part numbering.
+    pub symmetry: Symmetry,
+    /// The CNF.
+    pub cnf: Cnf,
+    /// DRAT proof text refuting it.
+    pub drat: String,
 }
 
 /// Stop conditions shared by the long searches.
@@ -74,11 +90,24 @@ pub fn symmetry_for(g: &Graph, pin_class: &[Option<u32>], budget: u64) -> Symmet
 /// A colouring, or the part that could not be coloured (prove it with
 /// [`crate::engine::colouring::find_obstruction`]).
 pub fn k_colourable(g: &Graph, pin_class: &[Option<u32>], k: u32, limits: Limits) -> Decision {
+    k_colourable_logged(g, pin_class, k, limits, 0)
+}
+
+/// [`k_colourable`], logging a DRAT proof for a failing part of at most `proof_max_vertices`
+/// vertices (proof logging costs about a tenth more time, and memory for the proof text).
+pub fn k_colourable_logged(
+    g: &Graph,
+    pin_class: &[Option<u32>],
+    k: u32,
+    limits: Limits,
+    proof_max_vertices: usize,
+) -> Decision {
     let n = g.vertex_count();
     let pin = |v: usize| pin_class.get(v).copied().flatten();
     if let Some(v) = (0..n).find(|&v| pin(v).is_some_and(|c| c >= k)) {
         return Decision::NotColourable {
             part: vec![v as Vertex],
+            proof: None,
         };
     }
     // Peel unpinned vertices of degree < k.
@@ -113,14 +142,18 @@ pub fn k_colourable(g: &Graph, pin_class: &[Option<u32>], k: u32, limits: Limits
             let original: Vec<Vertex> = members.iter().map(|&i| core[i as usize]).collect();
             let sub = g.induced(&original);
             let sub_pins: Vec<Option<u32>> = original.iter().map(|&v| pin(v as usize)).collect();
-            match decide_component(&sub, &sub_pins, k, limits) {
+            let log = original.len() <= proof_max_vertices;
+            match decide_component(&sub, &sub_pins, k, limits, log) {
                 Decision::Colourable(c) => {
                     for (i, &v) in original.iter().enumerate() {
                         colour[v as usize] = c[i];
                     }
                 }
-                Decision::NotColourable { .. } => {
-                    return Decision::NotColourable { part: original };
+                Decision::NotColourable { proof, .. } => {
+                    return Decision::NotColourable {
+                        part: original,
+                        proof,
+                    };
                 }
                 Decision::Unknown => return Decision::Unknown,
             }
@@ -153,18 +186,32 @@ fn lowest_free(g: &Graph, colour: &[u32], v: Vertex) -> u32 {
     c
 }
 
-fn decide_component(g: &Graph, pin_class: &[Option<u32>], k: u32, limits: Limits) -> Decision {
+fn decide_component(
+    g: &Graph,
+    pin_class: &[Option<u32>],
+    k: u32,
+    limits: Limits,
+    log_proof: bool,
+) -> Decision {
     let symmetry = symmetry_for(g, pin_class, 20_000);
     let cnf = colouring_cnf(g, pin_class, k, &symmetry);
-    let mut sat = Sat::new(cnf.variables, false, limits.cancel, limits.deadline);
+    let mut sat = Sat::new(cnf.variables, log_proof, limits.cancel, limits.deadline);
     for c in &cnf.clauses {
         sat.add_clause(c);
     }
     match sat.solve(&[]) {
         SatAnswer::Sat => Decision::Colourable(decode(sat.model(), g.vertex_count(), k)),
-        SatAnswer::Unsat => Decision::NotColourable {
-            part: (0..g.vertex_count() as Vertex).collect(),
-        },
+        SatAnswer::Unsat => {
+            let proof = sat.proof().map(|drat| PartProof {
+                symmetry,
+                cnf,
+                drat,
+            });
+            Decision::NotColourable {
+                part: (0..g.vertex_count() as Vertex).collect(),
+                proof,
+            }
+        }
         SatAnswer::Unknown => Decision::Unknown,
     }
 }
@@ -219,6 +266,11 @@ pub fn repair(
                         boundary.push(w);
                     }
                 }
+            }
+            // Repair is for a few stuck vertices in a large graph: a ball over half the graph
+            // would only redo the exact search's work, without its time share.
+            if 2 * ball.len() >= n {
+                return false;
             }
             let region: Vec<Vertex> = ball.iter().chain(boundary.iter()).copied().collect();
             let sub = g.induced(&region);

@@ -15,20 +15,23 @@ pub mod refutation_check;
 pub mod sat;
 pub mod smallest_last;
 pub mod solve;
+pub mod tabu;
 
-pub use argument::{ArgumentStep, StepKind, case_analysis, replay_argument};
+pub use argument::{
+    ArgumentStep, StepKind, case_analysis, colour_letter, replay_argument, step_text,
+};
 pub use balance::balance_colouring;
 pub use check::{ColouringViolation, check_colouring};
 pub use drat_check::{DratError, DratSummary, check_drat, parse_dimacs};
 pub use dsatur::dsatur;
 pub use encoding::{Cnf, Symmetry, colour_var, colouring_cnf};
-pub use exact::{Decision, Limits, k_colourable, repair};
+pub use exact::{Decision, Limits, PartProof, k_colourable, k_colourable_logged, repair};
 pub use lower_bound::{
     BoundEvidence, LowerBound, check_bound, find_clique, find_clique_in_order, lower_bound,
     lower_bound_in_order,
 };
 pub use obstruction::{
-    Obstruction, ObstructionKind, ObstructionOptions, Refutation, find_obstruction,
+    FailedPart, Obstruction, ObstructionKind, ObstructionOptions, Refutation, find_obstruction,
 };
 pub use problem::{Classes, ColouringError, ColouringProblem, colour_count};
 pub use recolour::{Recolouring, stable_recolour};
@@ -36,4 +39,5 @@ pub use refutation_check::{RefutationError, check_refutation};
 pub use smallest_last::{
     KempeOutcome, kempe_colouring, kempe_colouring_in_order, smallest_last_order,
 };
-pub use solve::{Balance, ColouringReport, Progress, SolveOptions, Stage, solve};
+pub use solve::{Balance, ColouringReport, Progress, SolveOptions, Stage, StoppedPart, solve};
+pub use tabu::tabu_colouring;

@@ -3,7 +3,9 @@
 
 use crate::engine::colouring::argument::{ArgumentStep, case_analysis};
 use crate::engine::colouring::encoding::{Symmetry, colour_var, colouring_cnf};
-use crate::engine::colouring::exact::{Decision, Limits, k_colourable, symmetry_for};
+use crate::engine::colouring::exact::{
+    Decision, Limits, PartProof, k_colourable_logged, symmetry_for,
+};
 use crate::engine::colouring::lower_bound::{
     BoundEvidence, LowerBound, find_clique_in_order, odd_cycle, odd_wheel,
 };
@@ -79,7 +81,13 @@ pub struct ObstructionOptions {
     pub argument_max_steps: usize,
     /// Do not try deletion search on parts larger than this.
     pub max_search_vertices: usize,
+    /// Log a DRAT proof while deciding a part of at most this many vertices, so that a part whose
+    /// shrinking runs out of time still carries its proof.
+    pub proof_max_vertices: usize,
 }
+
+/// A part that cannot be coloured, with the proof its search logged (if any).
+pub type FailedPart = (Vec<Vertex>, Option<PartProof>);
 
 impl Default for ObstructionOptions {
     fn default() -> Self {
@@ -87,6 +95,7 @@ impl Default for ObstructionOptions {
             argument_max_vertices: 30,
             argument_max_steps: 4000,
             max_search_vertices: 20_000,
+            proof_max_vertices: 2_000,
         }
     }
 }
@@ -94,16 +103,18 @@ impl Default for ObstructionOptions {
 /// Finds an obstruction to k-colouring `g` with the given pins, or `None` if `g` is k-colourable
 /// (or the search was stopped).
 ///
-/// First from `known` bound evidence or by structure (a K_{k+1}; an odd cycle for k = 2; an odd
-/// wheel for k = 3), which are
-/// vertex-critical by themselves; otherwise by deletion (Chinneck and Dravnieks' deletion filter,
-/// 1991): take a part that cannot be coloured, shrink it with the solver's unsatisfiable cores,
-/// then try removing each vertex in turn and keep the removal whenever the rest is still not
-/// k-colourable. What is left is vertex-critical.
+/// An obstruction that needs no pins is preferred whenever one exists, because removing a pin
+/// would not help there: first from `known` bound evidence or by structure (a K_{k+1}; an odd
+/// cycle for k = 2; an odd wheel for k = 3), which are vertex-critical by themselves; otherwise
+/// by deletion (Chinneck and Dravnieks' deletion filter, 1991): take a part that cannot be
+/// coloured, shrink it with the solver's unsatisfiable cores, then try removing each vertex in
+/// turn and keep the removal whenever the rest is still not k-colourable. Only when the map
+/// without its pins is k-colourable are pins part of the search, and then the filter removes
+/// pins as well as vertices, so that the pins left are exactly the ones the obstruction needs.
 ///
 /// # Complexity
-/// Structural search: about O(n + m) on sparse graphs. Deletion: one SAT call per vertex of the
-/// shrunk part.
+/// Structural search: about O(n + m) on sparse graphs. Deletion: one SAT call per vertex (and
+/// per pin) of the shrunk part.
 ///
 /// # Certificate
 /// The returned [`Refutation`]; check it with [`crate::engine::colouring::check_refutation`].
@@ -113,7 +124,7 @@ pub fn find_obstruction(
     pin_class: &[Option<u32>],
     pinned_slots: &[u32],
     k: u32,
-    start: Option<Vec<Vertex>>,
+    start: Option<FailedPart>,
     known: Option<&LowerBound>,
     limits: Limits,
     options: &ObstructionOptions,
@@ -133,32 +144,127 @@ pub fn find_obstruction(
         }
         None => structural_obstruction(g, k),
     };
-    let (vertices, critical) = match structural {
-        Some(vs) => (vs, true),
+    let no_pins: Vec<Option<u32>> = Vec::new();
+    if let Some(vs) = structural {
+        return Some(build(
+            g,
+            &no_pins,
+            pinned_slots,
+            k,
+            vs,
+            true,
+            limits,
+            options,
+            None,
+        ));
+    }
+    let has_pins = pin_class.iter().any(Option::is_some);
+    let logged =
+        |pins: &[Option<u32>]| k_colourable_logged(g, pins, k, limits, options.proof_max_vertices);
+    // Without pins, `start` (a part that failed with the pins) is what we want already.
+    let pin_free_part = if has_pins {
+        match logged(&no_pins) {
+            Decision::NotColourable { part, proof } => Some((part, proof)),
+            Decision::Colourable(_) => None,
+            Decision::Unknown => return None,
+        }
+    } else {
+        None
+    };
+    let ((part, proof), pins): (FailedPart, &[Option<u32>]) = match pin_free_part {
+        Some(failed) => (failed, &no_pins),
         None => {
-            let part = match start {
-                Some(p) => p,
-                None => match k_colourable(g, pin_class, k, limits) {
-                    Decision::NotColourable { part } => part,
+            let failed = match start {
+                Some(failed) => failed,
+                None => match logged(pin_class) {
+                    Decision::NotColourable { part, proof } => (part, proof),
                     _ => return None,
                 },
             };
-            if part.len() > options.max_search_vertices {
-                return None;
-            }
-            shrink(g, pin_class, k, &part, limits)?
+            (failed, pin_class)
         }
     };
-    Some(build(
-        g,
-        pin_class,
-        pinned_slots,
-        k,
-        vertices,
-        critical,
-        limits,
-        options,
-    ))
+    if part.len() > options.max_search_vertices {
+        return None;
+    }
+    let shrunk = shrink(g, pins, k, &part, limits);
+    // The part as found, with the proof its search logged: the answer when shrinking or the
+    // shrunk part's proof runs out of time.
+    let whole = |proof: PartProof| {
+        let refutation = refutation_from(&part, pins, pinned_slots, k, proof);
+        build(
+            g,
+            pins,
+            pinned_slots,
+            k,
+            part.clone(),
+            false,
+            limits,
+            options,
+            Some(refutation),
+        )
+    };
+    match shrunk {
+        Some(sh) => {
+            let o = build(
+                g,
+                &sh.pins,
+                pinned_slots,
+                k,
+                sh.vertices,
+                sh.complete,
+                limits,
+                options,
+                None,
+            );
+            match proof {
+                Some(proof) if !(o.vertex_critical && o.refutation.is_some()) => Some(whole(proof)),
+                _ => Some(o),
+            }
+        }
+        None => proof.map(whole),
+    }
+}
+
+/// The refutation a search logged for `part`, in the form the checker reads.
+fn refutation_from(
+    part: &[Vertex],
+    pin_class: &[Option<u32>],
+    pinned_slots: &[u32],
+    k: u32,
+    proof: PartProof,
+) -> Refutation {
+    let comments = vec![
+        format!(
+            "Tinct: no {k}-colouring of a {}-vertex part of the map",
+            part.len()
+        ),
+        format!("variable i*{k}+c+1 means: part vertex i has colour class c"),
+        format!("part vertex i is graph vertex {part:?}[i]"),
+        format!(
+            "symmetry: clique {:?}, first free class {}",
+            proof.symmetry.clique, proof.symmetry.first_free_class
+        ),
+    ];
+    Refutation {
+        colours: k,
+        vertices: part.to_vec(),
+        pinned_slots: pinned_slots.to_vec(),
+        pins: part
+            .iter()
+            .enumerate()
+            .filter_map(|(i, &v)| {
+                pin_class
+                    .get(v as usize)
+                    .copied()
+                    .flatten()
+                    .map(|c| (i as u32, c))
+            })
+            .collect(),
+        symmetry: proof.symmetry,
+        cnf: proof.cnf.to_dimacs(&comments),
+        drat: proof.drat,
+    }
 }
 
 fn structural_obstruction(g: &Graph, k: u32) -> Option<Vec<Vertex>> {
@@ -186,33 +292,53 @@ fn structural_obstruction(g: &Graph, k: u32) -> Option<Vec<Vertex>> {
     None
 }
 
-/// Deletion filter over `part`; returns the remaining vertices and whether every vertex was tried.
+/// What the deletion filter kept.
+struct Shrunk {
+    /// Graph vertices, ascending.
+    vertices: Vec<Vertex>,
+    /// Class per graph vertex for the pins that are still needed (empty when none are).
+    pins: Vec<Option<u32>>,
+    /// True when every vertex and pin was tried (the result is critical).
+    complete: bool,
+}
+
+/// Deletion filter over the vertices of `part` and their pins. Each vertex and each pin has a
+/// selector variable; the SAT call assumes the selectors of what is still in, and its
+/// unsatisfiable core drops everything it did not use. Pins are tried first, so that an
+/// obstruction leans on as few pins as possible.
 fn shrink(
     g: &Graph,
     pin_class: &[Option<u32>],
     k: u32,
     part: &[Vertex],
     limits: Limits,
-) -> Option<(Vec<Vertex>, bool)> {
+) -> Option<Shrunk> {
     let sub = g.induced(part);
     let s = part.len() as u32;
     let sub_pins: Vec<Option<u32>> = part
         .iter()
         .map(|&v| pin_class.get(v as usize).copied().flatten())
         .collect();
-    let selector = |i: u32| (s * k + i + 1) as i32;
+    let pinned: Vec<u32> = (0..s).filter(|&i| sub_pins[i as usize].is_some()).collect();
+    let vertex_selector = |i: u32| (s * k + i + 1) as i32;
+    let pin_selector = |j: usize| (s * k + s + j as u32 + 1) as i32;
+    // Sound whatever pins are deselected: it only permutes classes no pin in `sub_pins` names.
     let symmetry = symmetry_for(&sub, &sub_pins, 20_000);
-    let mut sat = Sat::new(s * k + s, false, limits.cancel, limits.deadline);
+    let mut sat = Sat::new(
+        s * k + s + pinned.len() as u32,
+        false,
+        limits.cancel,
+        limits.deadline,
+    );
     for i in 0..s {
-        let mut clause = vec![-selector(i)];
+        let mut clause = vec![-vertex_selector(i)];
         clause.extend((0..k).map(|c| colour_var(i, c, k)));
         sat.add_clause(&clause);
-        if let Some(c) = sub_pins[i as usize] {
-            if c < k {
-                sat.add_clause(&[-selector(i), colour_var(i, c, k)]);
-            } else {
-                sat.add_clause(&[-selector(i)]);
-            }
+    }
+    for (j, &i) in pinned.iter().enumerate() {
+        match sub_pins[i as usize] {
+            Some(c) if c < k => sat.add_clause(&[-pin_selector(j), colour_var(i, c, k)]),
+            _ => sat.add_clause(&[-pin_selector(j)]),
         }
     }
     for (u, v) in sub.edges() {
@@ -220,57 +346,95 @@ fn shrink(
             sat.add_clause(&[-colour_var(u, c, k), -colour_var(v, c, k)]);
         }
     }
-    // Symmetry units stay sound when clique vertices are deselected: a sub-clique keeps the rule.
     for (i, &v) in symmetry.clique.iter().enumerate() {
         for c in (symmetry.first_free_class + i as u32 + 1)..k {
             sat.add_clause(&[-colour_var(v, c, k)]);
         }
     }
-    let mut active = vec![true; s as usize];
-    let assumptions = |active: &[bool], skip: Option<u32>| -> Vec<i32> {
-        (0..s)
-            .filter(|&i| active[i as usize] && Some(i) != skip)
-            .map(selector)
-            .collect()
+    let mut vertex_in = vec![true; s as usize];
+    let mut pin_in = vec![true; pinned.len()];
+    let assumptions = |vertex_in: &[bool], pin_in: &[bool]| -> Vec<i32> {
+        let mut a: Vec<i32> = (0..s)
+            .filter(|&i| vertex_in[i as usize])
+            .map(vertex_selector)
+            .collect();
+        a.extend(
+            (0..pinned.len())
+                .filter(|&j| pin_in[j] && vertex_in[pinned[j] as usize])
+                .map(pin_selector),
+        );
+        a
     };
-    let restrict_to_core = |sat: &Sat, active: &mut Vec<bool>| {
+    let restrict_to_core = |sat: &Sat, vertex_in: &mut [bool], pin_in: &mut [bool]| {
         let core = sat.core_vars();
+        let used = |lit: i32| core.binary_search(&(lit as u32)).is_ok();
         for i in 0..s {
-            if active[i as usize] && core.binary_search(&(selector(i) as u32)).is_err() {
-                active[i as usize] = false;
+            if vertex_in[i as usize] && !used(vertex_selector(i)) {
+                vertex_in[i as usize] = false;
+            }
+        }
+        for j in 0..pinned.len() {
+            if pin_in[j] && (!vertex_in[pinned[j] as usize] || !used(pin_selector(j))) {
+                pin_in[j] = false;
             }
         }
     };
-    match sat.solve(&assumptions(&active, None)) {
-        SatAnswer::Unsat => restrict_to_core(&sat, &mut active),
+    match sat.solve(&assumptions(&vertex_in, &pin_in)) {
+        SatAnswer::Unsat => restrict_to_core(&sat, &mut vertex_in, &mut pin_in),
         _ => return None,
     }
-    // Try low-degree vertices first: they are the likeliest to be unnecessary.
-    let mut order: Vec<u32> = (0..s).collect();
-    order.sort_by_key(|&i| (sub.degree(i), i));
     let mut complete = true;
-    for i in order {
-        if !active[i as usize] {
+    // Pins first; then low-degree vertices, the likeliest to be unnecessary.
+    for j in 0..pinned.len() {
+        if !pin_in[j] {
             continue;
         }
-        match sat.solve(&assumptions(&active, Some(i))) {
-            SatAnswer::Unsat => {
-                active[i as usize] = false;
-                restrict_to_core(&sat, &mut active);
-            }
-            SatAnswer::Sat => {}
+        pin_in[j] = false;
+        match sat.solve(&assumptions(&vertex_in, &pin_in)) {
+            SatAnswer::Unsat => restrict_to_core(&sat, &mut vertex_in, &mut pin_in),
+            SatAnswer::Sat => pin_in[j] = true,
             SatAnswer::Unknown => {
+                pin_in[j] = true;
                 complete = false;
                 break;
             }
         }
     }
-    let mut kept: Vec<Vertex> = (0..s)
-        .filter(|&i| active[i as usize])
+    let mut order: Vec<u32> = (0..s).collect();
+    order.sort_by_key(|&i| (sub.degree(i), i));
+    for i in order {
+        if !complete || !vertex_in[i as usize] {
+            continue;
+        }
+        vertex_in[i as usize] = false;
+        match sat.solve(&assumptions(&vertex_in, &pin_in)) {
+            SatAnswer::Unsat => restrict_to_core(&sat, &mut vertex_in, &mut pin_in),
+            SatAnswer::Sat => vertex_in[i as usize] = true,
+            SatAnswer::Unknown => {
+                vertex_in[i as usize] = true;
+                complete = false;
+            }
+        }
+    }
+    let mut vertices: Vec<Vertex> = (0..s)
+        .filter(|&i| vertex_in[i as usize])
         .map(|i| part[i as usize])
         .collect();
-    kept.sort_unstable();
-    Some((kept, complete))
+    vertices.sort_unstable();
+    let mut pins = Vec::new();
+    if pin_in.iter().any(|&b| b) {
+        pins = vec![None; g.vertex_count()];
+        for (j, &i) in pinned.iter().enumerate() {
+            if pin_in[j] && vertex_in[i as usize] {
+                pins[part[i as usize] as usize] = sub_pins[i as usize];
+            }
+        }
+    }
+    Some(Shrunk {
+        vertices,
+        pins,
+        complete,
+    })
 }
 
 #[allow(clippy::too_many_arguments)]
@@ -283,6 +447,7 @@ fn build(
     critical: bool,
     limits: Limits,
     options: &ObstructionOptions,
+    ready: Option<Refutation>,
 ) -> Obstruction {
     let sub = g.induced(&vertices);
     // Renumber the pinned classes that occur here as 0..q, so the symmetry rule can use the rest.
@@ -320,32 +485,35 @@ fn build(
             symmetry.clique, symmetry.first_free_class
         ),
     ];
-    let cnf_text = cnf.to_dimacs(&comments);
-    let mut sat = Sat::new(cnf.variables, true, limits.cancel, limits.deadline);
-    for c in &cnf.clauses {
-        sat.add_clause(c);
-    }
-    let refutation = match sat.solve(&[]) {
-        SatAnswer::Unsat => sat.proof().map(|drat| Refutation {
-            colours: k,
-            vertices: vertices.clone(),
-            pinned_slots: sub_slots.clone(),
-            pins: sub_pins
-                .iter()
-                .enumerate()
-                .filter_map(|(i, p)| p.map(|c| (i as u32, c)))
-                .collect(),
-            symmetry: symmetry.clone(),
-            cnf: cnf_text,
-            drat,
-        }),
-        _ => None,
-    };
+    let refutation = ready.or_else(|| {
+        let cnf_text = cnf.to_dimacs(&comments);
+        let mut sat = Sat::new(cnf.variables, true, limits.cancel, limits.deadline);
+        for c in &cnf.clauses {
+            sat.add_clause(c);
+        }
+        match sat.solve(&[]) {
+            SatAnswer::Unsat => sat.proof().map(|drat| Refutation {
+                colours: k,
+                vertices: vertices.clone(),
+                pinned_slots: sub_slots.clone(),
+                pins: sub_pins
+                    .iter()
+                    .enumerate()
+                    .filter_map(|(i, p)| p.map(|c| (i as u32, c)))
+                    .collect(),
+                symmetry: symmetry.clone(),
+                cnf: cnf_text,
+                drat,
+            }),
+            _ => None,
+        }
+    });
     let argument = if vertices.len() <= options.argument_max_vertices {
         let names = |i: Vertex| format!("vertex {}", vertices[i as usize]);
         case_analysis(
             &sub,
             &sub_pins,
+            &sub_slots,
             k,
             &symmetry,
             &names,

@@ -1,6 +1,7 @@
 //! Checks a colouring refutation end to end, apart from the code that made it: the CNF must say
 //! only things that hold for every colouring of the named subgraph (edge clauses on real edges,
-//! pins that really exist, symmetry units that name a clique), and the DRAT proof must refute it.
+//! pins that really exist (a refutation may leave some of the problem's pins out), symmetry units
+//! that name a clique of vertices it does not pin), and the DRAT proof must refute it.
 
 use crate::engine::colouring::drat_check::{DratError, DratSummary, check_drat, parse_dimacs};
 use crate::engine::colouring::obstruction::Refutation;
@@ -75,7 +76,9 @@ pub fn check_refutation(
         });
     }
     for (a, &x) in sym.clique.iter().enumerate() {
-        if x >= s || pin_of(original(x)).is_some() {
+        // Pinned in this refutation's CNF. A vertex pinned in the problem but not here is only
+        // a constraint left out, and refuting fewer constraints refutes the problem too.
+        if x >= s || pinned_class[x as usize].is_some() {
             return Err(RefutationError::Symmetry {
                 reason: "clique vertex outside the subgraph or pinned",
             });

@@ -555,7 +555,7 @@ fn the_part_that_rules_out_one_colour_fewer_is_shown_on_the_map() {
     let mut h = open_edges(dir.path(), n, &edges);
     assert!(h.query_by_label_contains("5, proven").is_some());
     assert!(
-        h.query_by_label_contains("regions cannot take 4 colours")
+        h.query_by_label_contains("The part of the map that rules out 4 colours")
             .is_some()
     );
     // The first "Show them on map" belongs to the fewest-colours line.

@@ -561,14 +561,13 @@ fn colouring_verdict_ui(
         .filter(|w| w.colours != 3)
     {
         ui.label(format!(
-            "{} regions cannot take {} colours: {}{}.",
-            why.regions.len(),
+            "The part of the map that rules out {} colours ({} regions{}):",
             why.colours,
-            why.kind,
+            why.regions.len(),
             if why.critical {
                 ""
             } else {
-                " (not shrunk to the fewest regions before the time limit)"
+                "; not shrunk to the fewest before the time limit"
             }
         ));
         evidence_buttons(app, ui, why, Highlight::NotFewerColourable);

@@ -112,12 +112,12 @@ fn main() {
     for &(cols, rows) in sizes {
         let doc = map(cols, rows);
         let vertices: usize = doc
-            .regions
+            .regions()
             .values()
             .filter_map(|r| r.geometry.as_ref())
             .map(|g| g.vertex_count())
             .sum();
-        let regions = doc.regions.len();
+        let regions = doc.regions().len();
         for (view, step, zoom) in [
             ("whole, at rest", None, 1.0),
             ("whole, zooming", Some(1.01), 1.0),

@@ -109,8 +109,8 @@ fn main() {
     row("make the document", took, None);
     println!(
         "  {} regions, {} borders",
-        doc.regions.len(),
-        doc.borders.len()
+        doc.regions().len(),
+        doc.borders().len()
     );
 
     let dir = tempfile::tempdir().unwrap();

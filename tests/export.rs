@@ -43,7 +43,7 @@ fn svg_is_well_formed_xml_with_every_region_and_escaped_names() {
     let mut doc = sample("vessland-province");
     greedy_colour(&mut doc);
     // A name with every character XML reserves.
-    let first = *doc.regions.keys().next().unwrap();
+    let first = *doc.regions().keys().next().unwrap();
     doc.apply(Edit::UpdateRegion {
         id: first,
         change: RegionChange::Name("Fenn & <Marsh> \"Old\" 'Mill'".into()),
@@ -65,7 +65,7 @@ fn svg_is_well_formed_xml_with_every_region_and_escaped_names() {
         .filter(|n| n.has_tag_name("path"))
         .collect();
     let with_geometry = doc
-        .regions
+        .regions()
         .values()
         .filter(|r| r.geometry.is_some())
         .count();
@@ -80,7 +80,7 @@ fn svg_is_well_formed_xml_with_every_region_and_escaped_names() {
         .and_then(|t| t.text());
     assert_eq!(title, Some("Fenn & <Marsh> \"Old\" 'Mill'"));
     // The legend lists every slot in use, with its count.
-    let used: std::collections::BTreeSet<u32> = doc.colouring.values().copied().collect();
+    let used: std::collections::BTreeSet<u32> = doc.colouring().values().copied().collect();
     let legend = tree
         .descendants()
         .find(|n| n.attribute("id") == Some("legend"))
@@ -197,23 +197,23 @@ fn geojson_reimports_with_the_same_regions_colours_borders_and_coordinates() {
     let imported = geo::import_json(source_text.as_bytes(), &ImportOptions::default()).unwrap();
     let mut doc = imported.into_document("States");
     assert!(
-        doc.settings.projection_origin.is_some(),
+        doc.settings().projection_origin.is_some(),
         "import records the projection centre"
     );
     greedy_colour(&mut doc);
 
     let text = export::to_geojson(&doc).expect("geographic map exports");
     let out = features(&text);
-    assert_eq!(out.len(), doc.regions.len());
-    for (f, (id, region)) in out.iter().zip(&doc.regions) {
+    assert_eq!(out.len(), doc.regions().len());
+    for (f, (id, region)) in out.iter().zip(doc.regions()) {
         assert_eq!(f["type"], "Feature");
         assert_eq!(f["id"], id.0);
         assert_eq!(f["properties"]["name"], region.name.as_str());
-        let slot = doc.colouring[id];
+        let slot = doc.colouring()[id];
         assert_eq!(f["properties"]["tinct_colour"], slot);
         assert_eq!(
             f["properties"]["tinct_fill"],
-            doc.palette.slots[slot as usize].colour.to_hex()
+            doc.palette().slots[slot as usize].colour.to_hex()
         );
         // RFC 7946 section 3.1.1: longitude within -180..180 and latitude within -90..90.
         for [lon, lat] in positions(&f["geometry"]) {
@@ -251,23 +251,25 @@ fn geojson_reimports_with_the_same_regions_colours_borders_and_coordinates() {
     let again = geo::import_json(text.as_bytes(), &ImportOptions::default()).unwrap();
     let doc2 = again.into_document("States again");
     let names = |d: &Document| {
-        d.regions
+        d.regions()
             .values()
             .map(|r| r.name.clone())
             .collect::<Vec<_>>()
     };
     assert_eq!(names(&doc2), names(&doc));
-    let pairs = |d: &Document| d.borders.keys().copied().collect::<Vec<_>>();
+    let pairs = |d: &Document| d.borders().keys().copied().collect::<Vec<_>>();
     assert_eq!(pairs(&doc2), pairs(&doc));
-    for (id, region) in &doc2.regions {
+    for (id, region) in doc2.regions() {
         let slot = region.attributes.get("tinct_colour");
         assert_eq!(
             slot,
-            Some(&tinct::doc::AttrValue::Number(f64::from(doc.colouring[id]))),
+            Some(&tinct::doc::AttrValue::Number(f64::from(
+                doc.colouring()[id]
+            ))),
             "{}",
             region.name
         );
-        let a = doc.regions[id].geometry.as_ref().unwrap().area();
+        let a = doc.regions()[id].geometry.as_ref().unwrap().area();
         let b = region.geometry.as_ref().unwrap().area();
         assert!((a - b).abs() / a < 1e-6, "{}: area {a} vs {b}", region.name);
     }
@@ -315,7 +317,7 @@ fn csv_round_trips_under_rfc_4180() {
     let mut doc = sample("exclave-coast");
     greedy_colour(&mut doc);
     let awkward = "Cape \"North\", upper\nand lower";
-    let first = *doc.regions.keys().next().unwrap();
+    let first = *doc.regions().keys().next().unwrap();
     doc.apply(Edit::UpdateRegion {
         id: first,
         change: RegionChange::Name(awkward.into()),
@@ -326,15 +328,15 @@ fn csv_round_trips_under_rfc_4180() {
         rows[0],
         ["id", "name", "colour", "fill", "group", "pinned", "role"]
     );
-    assert_eq!(rows.len(), doc.regions.len() + 1);
-    for (row, (id, region)) in rows[1..].iter().zip(&doc.regions) {
+    assert_eq!(rows.len(), doc.regions().len() + 1);
+    for (row, (id, region)) in rows[1..].iter().zip(doc.regions()) {
         assert_eq!(row[0], id.to_string());
         assert_eq!(row[1], region.name);
-        let slot = doc.colouring.get(id);
+        let slot = doc.colouring().get(id);
         assert_eq!(row[2], slot.map(|s| s.to_string()).unwrap_or_default());
-        let fill = slot.map(|&s| doc.palette.slots[s as usize].colour.to_hex());
+        let fill = slot.map(|&s| doc.palette().slots[s as usize].colour.to_hex());
         assert_eq!(row[3], fill.unwrap_or_default());
-        let group = region.group.map(|g| doc.groups[&g].name.clone());
+        let group = region.group.map(|g| doc.groups()[&g].name.clone());
         assert_eq!(row[4], group.unwrap_or_default());
         assert_eq!(row[5], region.pin.is_some().to_string());
         assert_eq!(row[6], region.role.as_str());
@@ -361,7 +363,7 @@ fn palette_report_and_slot_assignment_on_a_document() {
         })
         .unwrap();
     }
-    let mut palette = doc.palette.clone();
+    let mut palette = doc.palette().clone();
     palette.slots.truncate(3);
     palette.slots[0].colour = Rgb([0x70, 0xa0, 0x60]);
     palette.slots[1].colour = Rgb([0x78, 0xa8, 0x64]);
@@ -392,9 +394,9 @@ fn palette_report_and_slot_assignment_on_a_document() {
         .expect("a better assignment");
     let before = doc.clone();
     let undo = doc.apply(edit).unwrap();
-    assert_eq!(doc.colouring[&RegionId(1)], 0);
-    assert_eq!(doc.colouring[&RegionId(2)], 2);
-    assert_eq!(doc.colouring[&RegionId(3)], 0);
+    assert_eq!(doc.colouring()[&RegionId(1)], 0);
+    assert_eq!(doc.colouring()[&RegionId(2)], 2);
+    assert_eq!(doc.colouring()[&RegionId(3)], 0);
     assert!(
         palette_report(&doc, &t)
             .warnings
@@ -416,9 +418,9 @@ fn palette_report_and_slot_assignment_on_a_document() {
     .unwrap();
     doc.apply(slot_assignment_edit(&doc, &t).unwrap().unwrap())
         .unwrap();
-    assert_eq!(doc.colouring[&RegionId(2)], 1);
-    assert_eq!(doc.colouring[&RegionId(1)], 2);
-    assert_eq!(doc.colouring[&RegionId(3)], 2);
+    assert_eq!(doc.colouring()[&RegionId(2)], 1);
+    assert_eq!(doc.colouring()[&RegionId(1)], 2);
+    assert_eq!(doc.colouring()[&RegionId(3)], 2);
 }
 
 #[test]

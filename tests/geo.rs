@@ -878,21 +878,24 @@ fn into_document_records_every_contact_and_the_rule() {
     let (borders, excluded) = (map.borders.len(), map.excluded.len());
     assert_eq!(excluded, 2);
     let doc = map.into_document("Vessland");
-    assert_eq!(doc.regions.len(), 34);
-    assert_eq!(doc.borders.len(), borders + excluded);
-    assert!(!doc.settings.corners_count);
+    assert_eq!(doc.regions().len(), 34);
+    assert_eq!(doc.borders().len(), borders + excluded);
+    assert!(!doc.settings().corners_count);
     let water = doc
-        .regions
+        .regions()
         .values()
         .filter(|r| r.role == tinct::doc::Role::Water)
         .count();
     assert_eq!(water, 3);
-    assert_eq!(doc.regions.values().filter(|r| r.pin.is_some()).count(), 1);
+    assert_eq!(
+        doc.regions().values().filter(|r| r.pin.is_some()).count(),
+        1
+    );
     // Active borders under rook are exactly the shared ones.
     assert_eq!(
         doc.active_borders()
             .filter(|(p, _)| {
-                let land = |id| doc.regions[&id].role == tinct::doc::Role::Land;
+                let land = |id| doc.regions()[&id].role == tinct::doc::Role::Land;
                 land(p.a()) && land(p.b())
             })
             .count(),
@@ -907,7 +910,7 @@ fn into_document_records_every_contact_and_the_rule() {
         .unwrap()
         .into_document("Exclave Coast");
     let group = doc
-        .groups
+        .groups()
         .iter()
         .find(|(_, g)| g.name == "Aldwyn")
         .map(|(id, _)| *id)
@@ -1098,7 +1101,7 @@ fn topojson_split_parts_keeps_arc_borders_per_part() {
         .map(|r| base(&r.name))
         .collect();
     let doc = map.clone().into_document("split");
-    assert_eq!(doc.groups.len(), split_states.len());
+    assert_eq!(doc.groups().len(), split_states.len());
     let by_state: BTreeSet<(String, String)> = named_edges(&map)
         .into_iter()
         .map(|(a, b)| (base(&a), base(&b)))

@@ -19,14 +19,14 @@ e 2 1\n";
 #[test]
 fn reads_the_hand_written_dimacs_instance() {
     let (doc, notices) = read_dimacs(WHEEL, "wheel").unwrap();
-    assert_eq!(doc.regions.len(), 6);
+    assert_eq!(doc.regions().len(), 6);
     // Vertices keep their DIMACS numbers as region ids and names.
-    assert_eq!(doc.regions[&RegionId(6)].name, "6");
-    assert_eq!(doc.borders.len(), 10);
-    assert!(doc.borders.values().all(|b| b.kind == BorderKind::Manual));
+    assert_eq!(doc.regions()[&RegionId(6)].name, "6");
+    assert_eq!(doc.borders().len(), 10);
+    assert!(doc.borders().values().all(|b| b.kind == BorderKind::Manual));
     for rim in 1..=5 {
         assert!(
-            doc.borders
+            doc.borders()
                 .contains_key(&RegionPair::new(RegionId(6), RegionId(rim)).unwrap())
         );
     }

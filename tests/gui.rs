@@ -18,7 +18,7 @@ fn harness(app: App) -> Harness<'static, App> {
 }
 
 fn click_region(h: &mut Harness<'static, App>, id: RegionId) {
-    let anchor = h.state().session.doc.regions[&id].anchor;
+    let anchor = h.state().session.doc.regions()[&id].anchor;
     let p = screen_of(h.state(), anchor).expect("the canvas has been drawn");
     h.hover_at(p);
     for pressed in [true, false] {
@@ -73,7 +73,7 @@ fn non_neighbours(doc: &doc::Document) -> (RegionId, RegionId) {
     let land: Vec<RegionId> = doc.land_regions().map(|(id, _)| id).collect();
     for &a in &land {
         for &b in &land {
-            if a < b && !doc.borders.contains_key(&RegionPair::new(a, b).unwrap()) {
+            if a < b && !doc.borders().contains_key(&RegionPair::new(a, b).unwrap()) {
                 return (a, b);
             }
         }
@@ -85,7 +85,7 @@ fn non_neighbours(doc: &doc::Document) -> (RegionId, RegionId) {
 fn the_editor_opens_on_the_invented_sample_map_and_shows_a_verdict() {
     let h = harness(App::new(None, None));
     assert_eq!(
-        h.state().session.doc.title,
+        h.state().session.doc.title(),
         "Vessland Province, Kingdom of Estmarrow"
     );
     h.get_by_label("Map canvas");
@@ -105,7 +105,7 @@ fn clicking_two_regions_with_the_border_tool_adds_a_border_and_undo_redo_work() 
     let edges_before = h.state().checks.graph_edges;
     add_border_by_clicking(&mut h, a, b);
     assert_eq!(
-        h.state().session.doc.borders.get(&pair).map(|b| b.kind),
+        h.state().session.doc.borders().get(&pair).map(|b| b.kind),
         Some(doc::BorderKind::Manual)
     );
     assert_eq!(h.state().checks.graph_edges, edges_before + 1);
@@ -124,11 +124,11 @@ fn clicking_two_regions_with_the_border_tool_adds_a_border_and_undo_redo_work() 
     h.run_steps(2);
     h.get_by_label_contains("Undo").click();
     h.run_steps(2);
-    assert!(!h.state().session.doc.borders.contains_key(&pair));
+    assert!(!h.state().session.doc.borders().contains_key(&pair));
     let ctx = h.ctx.clone();
     h.state_mut().run(&ctx, tinct::ui::commands::Command::Redo);
     h.run_steps(2);
-    assert!(h.state().session.doc.borders.contains_key(&pair));
+    assert!(h.state().session.doc.borders().contains_key(&pair));
 }
 
 #[test]
@@ -188,7 +188,7 @@ fn every_sample_map_renders_and_the_exclave_map_shows_its_certificate() {
             Some(root().join("sample-maps").join(format!("{name}.tinct"))),
         ));
         h.run_steps(3);
-        assert!(!h.state().session.doc.regions.is_empty(), "{name}");
+        assert!(!h.state().session.doc.regions().is_empty(), "{name}");
         if name == "exclave-coast" {
             assert!(
                 h.query_by_label_contains("form a subdivided K3,3")
@@ -241,7 +241,7 @@ fn unsaved_work_is_offered_back_after_a_crash_and_a_damaged_recovery_file_is_not
         "{message}"
     );
     assert_eq!(
-        h.state().session.doc.title,
+        h.state().session.doc.title(),
         "Vessland Province, Kingdom of Estmarrow"
     );
 }
@@ -260,7 +260,7 @@ fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up
         h.state()
             .session
             .doc
-            .colouring
+            .colouring()
             .values()
             .collect::<std::collections::BTreeSet<_>>()
             .len(),
@@ -270,16 +270,16 @@ fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up
     // Pin a region to the colour of one of its neighbours: the verdict reports it at once.
     let doc = h.state().session.doc.clone();
     let (pair, _) = doc.active_borders().next().unwrap();
-    let neighbour_colour = doc.colouring[&pair.b()];
+    let neighbour_colour = doc.colouring()[&pair.b()];
     h.get_by_label("Pin colour").click();
     h.run_steps(2);
     h.state_mut().view.pin_slot = neighbour_colour;
     click_region(&mut h, pair.a());
     assert_eq!(
-        h.state().session.doc.regions[&pair.a()].pin,
+        h.state().session.doc.regions()[&pair.a()].pin,
         Some(neighbour_colour)
     );
-    let name = doc.regions[&pair.a()].name.clone();
+    let name = doc.regions()[&pair.a()].name.clone();
     assert!(
         h.query_by_label_contains(&format!("{name} is pinned to colour"))
             .is_some()
@@ -289,7 +289,7 @@ fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up
     h.get_by_label("Colour the map with them").click();
     h.run_steps(3);
     let coloured = &h.state().session.doc;
-    assert_eq!(coloured.colouring[&pair.a()], neighbour_colour);
+    assert_eq!(coloured.colouring()[&pair.a()], neighbour_colour);
     assert!(tinct::doc::check_colouring(coloured).is_clean());
 }
 
@@ -327,7 +327,7 @@ fn notes_from_reading_a_file_have_a_place_and_recent_files_are_remembered() {
         Some(dir.path().join("state")),
     ));
     h.run_steps(3);
-    assert_eq!(h.state().session.doc.regions.len(), 5);
+    assert_eq!(h.state().session.doc.regions().len(), 5);
     assert!(
         h.query_by_label_contains("Notes from reading the file (1)")
             .is_some()
@@ -398,7 +398,7 @@ fn the_palette_window_edits_a_colour_warns_about_a_look_alike_and_undo_restores_
     h.state_mut()
         .emit(tinct::ui::commands::Command::ColourFewest);
     h.run_steps(4);
-    let before = h.state().session.doc.palette.clone();
+    let before = h.state().session.doc.palette().clone();
     // The palette section sits at the foot of the inspector: scroll to it first, as a user would.
     h.get_by_label("Edit and check…").scroll_to_me();
     h.run_steps(10);
@@ -418,12 +418,12 @@ fn the_palette_window_edits_a_colour_warns_about_a_look_alike_and_undo_restores_
     assert_eq!(h.query_all_by_label_contains("look alike").count(), 5);
     h.get_by_label("Apply to the project").click();
     h.run_steps(2);
-    let after = &h.state().session.doc.palette;
+    let after = &h.state().session.doc.palette();
     assert_eq!(after.slots[1].colour, before.slots[0].colour);
     assert!(!h.state().checks.palette_warnings.is_empty());
     h.state_mut().emit(tinct::ui::commands::Command::Undo);
     h.run_steps(2);
-    assert_eq!(h.state().session.doc.palette, before);
+    assert_eq!(*h.state().session.doc.palette(), before);
 }
 
 /// Exports through the Export menu and the path window, as a user does; returns the message.
@@ -466,7 +466,7 @@ fn every_export_is_reachable_from_the_export_menu_and_written_where_asked() {
     let csv = std::fs::read_to_string(dir.path().join("regions.csv")).unwrap();
     assert_eq!(
         csv.lines().count(),
-        h.state().session.doc.regions.len() + 1,
+        h.state().session.doc.regions().len() + 1,
         "a header and one row per region"
     );
     // The invented sample map lies on a plane, not on the globe: GeoJSON is refused, saying why.
@@ -488,7 +488,7 @@ fn every_export_is_reachable_from_the_export_menu_and_written_where_asked() {
     let json: serde_json::Value =
         serde_json::from_str(&std::fs::read_to_string(&out).unwrap()).unwrap();
     let features = json["features"].as_array().unwrap();
-    assert_eq!(features.len(), h.state().session.doc.regions.len());
+    assert_eq!(features.len(), h.state().session.doc.regions().len());
     assert!(
         features
             .iter()
@@ -517,7 +517,7 @@ fn a_palette_too_small_is_said_and_the_missing_slots_are_added_in_one_undoable_s
         .flat_map(|a| (a + 1..8).map(move |b| (a, b)))
         .collect();
     let mut h = open_edges(dir.path(), 8, &k8);
-    assert_eq!(h.state().session.doc.palette.slots.len(), 6);
+    assert_eq!(h.state().session.doc.palette().slots.len(), 6);
     assert!(
         h.query_by_label_contains("this colouring needs 2 more")
             .is_some()
@@ -526,14 +526,14 @@ fn a_palette_too_small_is_said_and_the_missing_slots_are_added_in_one_undoable_s
         .click();
     h.run_steps(3);
     let doc = &h.state().session.doc;
-    assert_eq!(doc.palette.slots.len(), 8);
+    assert_eq!(doc.palette().slots.len(), 8);
     assert!(tinct::doc::check_colouring(doc).is_clean());
-    assert_eq!(doc.colouring.len(), 8);
+    assert_eq!(doc.colouring().len(), 8);
     h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::Z);
     h.run_steps(3);
     let doc = &h.state().session.doc;
-    assert_eq!(doc.palette.slots.len(), 6, "one undo takes back both");
-    assert!(doc.colouring.is_empty());
+    assert_eq!(doc.palette().slots.len(), 6, "one undo takes back both");
+    assert!(doc.colouring().is_empty());
 }
 
 #[test]

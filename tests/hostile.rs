@@ -169,7 +169,7 @@ fn read(format: Format, bytes: &[u8]) -> Result<usize, String> {
     };
     let outcome: Result<usize, String> = match format {
         Format::Project => match file::from_bytes(bytes) {
-            Ok(doc) => Ok(doc.regions.len()),
+            Ok(doc) => Ok(doc.regions().len()),
             Err(e) => {
                 if let FileError::Syntax { line, column, .. } = &e {
                     // Lines and columns count from 1 and lie within the text (or just past it).
@@ -221,7 +221,7 @@ fn read(format: Format, bytes: &[u8]) -> Result<usize, String> {
                 graph_formats::read_edge_list(text, "hostile")
             };
             match result {
-                Ok((doc, _)) => Ok(doc.regions.len()),
+                Ok((doc, _)) => Ok(doc.regions().len()),
                 Err(e) => {
                     let lines = text.lines().count().max(1);
                     assert!(

@@ -162,5 +162,5 @@ fn saving_over_a_project_keeps_its_permissions() {
     file::save(&Document::new("Second"), &target).unwrap();
     let mode = std::fs::metadata(&target).unwrap().permissions().mode() & 0o777;
     assert_eq!(mode, 0o640);
-    assert_eq!(file::load(&target).unwrap().title, "Second");
+    assert_eq!(file::load(&target).unwrap().title(), "Second");
 }

@@ -15,34 +15,34 @@ fn golden(name: &str) -> std::path::PathBuf {
 #[test]
 fn golden_v1_full_loads_with_every_feature() {
     let doc = file::load(&golden("full.tinct")).expect("golden file loads");
-    assert_eq!(doc.title, "Golden full: Orrin Marches");
-    assert_eq!(doc.settings.units, Units::Metres);
-    assert!(doc.settings.corners_count);
-    assert_eq!(doc.settings.min_border_length, 25.0);
-    assert_eq!(doc.palette.slots.len(), 4);
-    assert_eq!(doc.palette.slots[3].colour.to_hex(), "#86c0c9");
-    assert_eq!(doc.regions.len(), 5);
-    let brack = &doc.regions[&RegionId(1)];
+    assert_eq!(doc.title(), "Golden full: Orrin Marches");
+    assert_eq!(doc.settings().units, Units::Metres);
+    assert!(doc.settings().corners_count);
+    assert_eq!(doc.settings().min_border_length, 25.0);
+    assert_eq!(doc.palette().slots.len(), 4);
+    assert_eq!(doc.palette().slots[3].colour.to_hex(), "#86c0c9");
+    assert_eq!(doc.regions().len(), 5);
+    let brack = &doc.regions()[&RegionId(1)];
     assert_eq!(brack.name, "Brack");
     assert_eq!(brack.group, Some(GroupId(1)));
     let geometry = brack.geometry.as_ref().expect("Brack has an outline");
     assert_eq!(geometry.polygons[0].holes.len(), 1);
-    assert_eq!(doc.regions[&RegionId(4)].role, Role::Water);
-    assert_eq!(doc.regions[&RegionId(2)].pin, Some(1));
-    assert!(doc.regions[&RegionId(5)].geometry.is_none());
+    assert_eq!(doc.regions()[&RegionId(4)].role, Role::Water);
+    assert_eq!(doc.regions()[&RegionId(2)].pin, Some(1));
+    assert!(doc.regions()[&RegionId(5)].geometry.is_none());
     let pair = RegionPair::new(RegionId(2), RegionId(3)).unwrap();
-    assert_eq!(doc.borders[&pair].kind, BorderKind::Shared);
-    assert!(doc.borders[&RegionPair::new(RegionId(1), RegionId(3)).unwrap()].suppressed);
-    assert_eq!(doc.colouring.get(&RegionId(2)), Some(&1));
-    assert_eq!(doc.groups[&GroupId(1)].name, "Brack and exclave");
+    assert_eq!(doc.borders()[&pair].kind, BorderKind::Shared);
+    assert!(doc.borders()[&RegionPair::new(RegionId(1), RegionId(3)).unwrap()].suppressed);
+    assert_eq!(doc.colouring().get(&RegionId(2)), Some(&1));
+    assert_eq!(doc.groups()[&GroupId(1)].name, "Brack and exclave");
 }
 
 #[test]
 fn golden_v1_minimal_loads() {
     let doc = file::load(&golden("minimal.tinct")).expect("golden file loads");
-    assert_eq!(doc.title, "Golden minimal");
-    assert!(doc.regions.is_empty());
-    assert_eq!(doc.palette.slots.len(), 1);
+    assert_eq!(doc.title(), "Golden minimal");
+    assert!(doc.regions().is_empty());
+    assert_eq!(doc.palette().slots.len(), 1);
 }
 
 #[test]

@@ -31,7 +31,7 @@ fn sample() -> (Document, PathBuf) {
 
 /// Edit number `i` (from 0): a new title naming it, and a colour on one region.
 fn edit(doc: &Document, i: usize) -> Edit {
-    let ids: Vec<RegionId> = doc.regions.keys().copied().collect();
+    let ids: Vec<RegionId> = doc.regions().keys().copied().collect();
     Edit::Batch {
         label: format!("draft {i}"),
         edits: vec![
@@ -133,7 +133,7 @@ fn autosaved_work_comes_back_after_a_kill_losing_at_most_one_interval() {
             .expect("a recovery file");
         let k: usize = found
             .doc
-            .title
+            .title()
             .strip_prefix("Draft ")
             .and_then(|n| n.parse().ok())
             .expect("the recovered title names its edit");
@@ -164,7 +164,7 @@ fn damaged(bytes: &[u8], expected: &str) {
         Err(e) => e,
         Ok(found) => panic!(
             "a damaged recovery file was trusted: {:?}",
-            found.map(|f| f.doc.title)
+            found.map(|f| f.doc.title().to_string())
         ),
     };
     let message = err.to_string();

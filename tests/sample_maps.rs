@@ -45,7 +45,7 @@ pub fn build(name: &str) -> Document {
         .unwrap();
     let json: Value = serde_json::from_str(&text).unwrap();
     let mut doc = Document::new(json["name"].as_str().unwrap_or(name));
-    let mut settings = doc.settings;
+    let mut settings = *doc.settings();
     settings.units = Units::Metres;
     doc.apply(Edit::SetSettings(settings)).unwrap();
     let mut groups: BTreeMap<String, GroupId> = BTreeMap::new();
@@ -153,7 +153,7 @@ fn every_label_point_lies_inside_its_region() {
     }
     for name in SAMPLES {
         let doc = build(name);
-        for (id, r) in &doc.regions {
+        for (id, r) in doc.regions() {
             let g = r.geometry.as_ref().unwrap();
             assert!(
                 inside(r.anchor, g),

@@ -177,20 +177,20 @@ pub mod arb {
     }
 
     fn region_at(doc: &Document, i: usize) -> Option<RegionId> {
-        let n = doc.regions.len();
+        let n = doc.regions().len();
         if n == 0 {
             None
         } else {
-            doc.regions.keys().nth(i % n).copied()
+            doc.regions().keys().nth(i % n).copied()
         }
     }
 
     fn group_at(doc: &Document, g: usize) -> Option<GroupId> {
-        let n = doc.groups.len();
+        let n = doc.groups().len();
         if n == 0 {
             None
         } else {
-            doc.groups.keys().nth(g % n).copied()
+            doc.groups().keys().nth(g % n).copied()
         }
     }
 

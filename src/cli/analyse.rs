@@ -100,39 +100,39 @@ pub struct NoticeOut {
 pub fn report(file: &str, doc: &Document, notices: &[doc::graph_formats::Notice]) -> Report {
     let cg = ConstraintGraph::build(doc);
     let check = check_colouring(doc);
-    let count = |k: BorderKind| doc.borders.values().filter(|b| b.kind == k).count();
+    let count = |k: BorderKind| doc.borders().values().filter(|b| b.kind == k).count();
     let land = doc
-        .regions
+        .regions()
         .values()
         .filter(|r| r.role == Role::Land)
         .count();
-    let used: BTreeSet<u32> = doc.colouring.values().copied().collect();
+    let used: BTreeSet<u32> = doc.colouring().values().copied().collect();
     Report {
         schema: 1,
         file: file.to_string(),
-        title: doc.title.clone(),
+        title: doc.title().to_string(),
         summary: Summary {
-            regions: doc.regions.len(),
+            regions: doc.regions().len(),
             land,
-            water: doc.regions.len() - land,
-            groups: doc.groups.len(),
-            pins: doc.regions.values().filter(|r| r.pin.is_some()).count(),
-            coloured: doc.colouring.len(),
+            water: doc.regions().len() - land,
+            groups: doc.groups().len(),
+            pins: doc.regions().values().filter(|r| r.pin.is_some()).count(),
+            coloured: doc.colouring().len(),
             colours_used: used.len(),
-            palette_slots: doc.palette.slots.len(),
+            palette_slots: doc.palette().slots.len(),
             graph_vertices: cg.graph.vertex_count(),
             graph_edges: cg.graph.edge_count(),
         },
         borders: BorderCounts {
-            recorded: doc.borders.len(),
+            recorded: doc.borders().len(),
             active: doc.active_borders().count(),
             shared: count(BorderKind::Shared),
             corner: count(BorderKind::Corner),
             manual: count(BorderKind::Manual),
-            suppressed: doc.borders.values().filter(|b| b.suppressed).count(),
+            suppressed: doc.borders().values().filter(|b| b.suppressed).count(),
         },
         groups: doc
-            .groups
+            .groups()
             .iter()
             .map(|(id, g)| GroupOut {
                 id: id.0,
@@ -141,7 +141,7 @@ pub fn report(file: &str, doc: &Document, notices: &[doc::graph_formats::Notice]
             })
             .collect(),
         pins: doc
-            .regions
+            .regions()
             .iter()
             .filter_map(|(id, r)| r.pin.map(|slot| PinOut { region: id.0, slot }))
             .collect(),
@@ -188,7 +188,7 @@ pub fn report(file: &str, doc: &Document, notices: &[doc::graph_formats::Notice]
 /// The report as text for people.
 pub fn render_text(r: &Report, doc: &Document) -> String {
     let name = |id: u64| {
-        doc.regions
+        doc.regions()
             .get(&doc::RegionId(id))
             .map_or_else(|| format!("#{id}"), |r| r.name.clone())
     };
@@ -260,7 +260,7 @@ pub fn render_text(r: &Report, doc: &Document) -> String {
     }
     for g in &r.groups_split {
         let group = doc
-            .groups
+            .groups()
             .get(&doc::GroupId(*g))
             .map_or("?", |g| g.name.as_str());
         let _ = writeln!(

@@ -292,7 +292,7 @@ pub fn run_colour(
         anyhow::bail!(
             "this map needs {} colours but the palette has only {}: run again with --add-slots to add {}",
             verdict.minimum.unwrap_or(0),
-            doc.palette.slots.len(),
+            doc.palette().slots.len(),
             slots(extra)
         );
     }

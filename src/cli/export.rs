@@ -139,9 +139,9 @@ pub struct PaletteArgs {
 /// The report as JSON (see the module documentation).
 pub fn report_json(doc: &Document, thresholds: &Thresholds) -> serde_json::Value {
     let report = palette_report(doc, thresholds);
-    let rows = simulated_palettes(&doc.palette);
+    let rows = simulated_palettes(doc.palette());
     let slots: Vec<_> = doc
-        .palette
+        .palette()
         .slots
         .iter()
         .enumerate()
@@ -163,11 +163,11 @@ pub fn report_json(doc: &Document, thresholds: &Thresholds) -> serde_json::Value
     let pairs: Vec<_> = report
         .pairs
         .iter()
-        .filter(|p| p.slots.1 < doc.palette.slots.len())
+        .filter(|p| p.slots.1 < doc.palette().slots.len())
         .map(|p| {
             let d = colour::pair_difference(
-                doc.palette.slots[p.slots.0].colour.0,
-                doc.palette.slots[p.slots.1].colour.0,
+                doc.palette().slots[p.slots.0].colour.0,
+                doc.palette().slots[p.slots.1].colour.0,
             );
             let by_vision: BTreeMap<&str, f64> = Vision::ALL
                 .iter()
@@ -200,7 +200,7 @@ pub fn report_json(doc: &Document, thresholds: &Thresholds) -> serde_json::Value
         })
         .collect();
     json!({
-        "palette": doc.palette.name,
+        "palette": doc.palette().name,
         "slots": slots,
         "thresholds": { "delta_e00": thresholds.delta_e00, "grey_delta_l": thresholds.grey_delta_l },
         "pairs_checked": match report.pairs_checked {
@@ -218,12 +218,12 @@ pub fn report_text(doc: &Document, thresholds: &Thresholds) -> String {
     let report = palette_report(doc, thresholds);
     let mut out = format!(
         "Palette \"{}\", {} slots\n",
-        doc.palette.name,
-        doc.palette.slots.len()
+        doc.palette().name,
+        doc.palette().slots.len()
     );
-    let rows = simulated_palettes(&doc.palette);
+    let rows = simulated_palettes(doc.palette());
     out.push_str("  slot  name              fill     L*    protan.  deutan.  tritan.  grey\n");
-    for (i, s) in doc.palette.slots.iter().enumerate() {
+    for (i, s) in doc.palette().slots.iter().enumerate() {
         let sim = |k: usize| rows[k].1[i].to_hex();
         out.push_str(&format!(
             "  {:>4}  {:<16}  {}  {:>4.1}  {}  {}  {}  {}\n",

@@ -58,11 +58,7 @@ pub fn analyse(doc: &Document, with_embedding: bool) -> anyhow::Result<Planarity
     let verdict = planarity(&cg.graph, &never, &mut |_| {})
         .context("planarity test of the constraint graph")?;
     // A vertex is named by its smallest region id (groups list their regions ascending).
-    let label = |v: Vertex| -> u64 {
-        cg.vertex_regions[v as usize]
-            .first()
-            .map_or(u64::from(v), |id| id.0)
-    };
+    let label = |v: Vertex| -> u64 { cg.members(v).first().map_or(u64::from(v), |id| id.0) };
     let mut out = PlanarityOut {
         planar: verdict.is_planar(),
         kind: None,
@@ -106,7 +102,7 @@ pub fn analyse(doc: &Document, with_embedding: bool) -> anyhow::Result<Planarity
             vertices.sort_unstable();
             vertices.dedup();
             for v in vertices {
-                let members = &cg.vertex_regions[v as usize];
+                let members = cg.members(v);
                 out.regions.extend(members.iter().map(|id| id.0));
                 if members.len() > 1 {
                     out.groups.insert(
@@ -186,7 +182,7 @@ fn analyse_text(report: &Report, doc: &Document) -> String {
 /// The planarity lines of the text report, naming regions by name.
 pub fn render_text(p: &PlanarityOut, doc: &Document) -> String {
     let name = |id: u64| {
-        doc.regions
+        doc.regions()
             .get(&crate::doc::RegionId(id))
             .map_or_else(|| format!("#{id}"), |r| r.name.clone())
     };

@@ -1,7 +1,9 @@
 //! Checks of the document's current colouring against its rules: clashes between neighbours, land
 //! left uncoloured, pins not honoured, groups split across colours.
 
-use super::model::{Document, RegionId, RegionPair};
+use std::collections::BTreeMap;
+
+use super::model::{Document, GroupId, RegionId, RegionPair, Role};
 
 /// Two active neighbours that have the same colour.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -45,47 +47,56 @@ impl ColouringCheck {
 /// Checks the document's colouring.
 ///
 /// # Complexity
-/// O((R + B) log R).
+/// O(R + B + G log G) for R regions, B borders and G groups.
 pub fn check_colouring(doc: &Document) -> ColouringCheck {
     let mut out = ColouringCheck::default();
-    for (pair, _) in doc.active_borders() {
-        if let (Some(&x), Some(&y)) = (doc.colouring.get(&pair.a()), doc.colouring.get(&pair.b()))
+    let regions = doc.regions();
+    let index = doc.border_index();
+    for (i, border) in doc.borders().values().enumerate() {
+        let (a, b) = index.ends[i];
+        if let (Some(x), Some(y)) = (regions.colour_at(a as usize), regions.colour_at(b as usize))
             && x == y
+            && doc.border_is_active_at(border, a, b)
         {
-            out.clashes.push(Clash { pair, slot: x });
+            out.clashes.push(Clash {
+                pair: doc.borders().at(i).0,
+                slot: x,
+            });
         }
     }
-    for (id, region) in doc.land_regions() {
-        let colour = doc.colouring.get(&id).copied();
+    let palette_slots = doc.palette().slots.len();
+    // Colours seen per group: the first colour, and whether another one (or none) appeared.
+    let mut group_colours: BTreeMap<GroupId, (Option<u32>, bool, Vec<RegionId>)> = BTreeMap::new();
+    for (slot, (id, region)) in regions.iter().enumerate() {
+        if region.role != Role::Land {
+            continue;
+        }
+        let colour = regions.colour_at(slot);
         match colour {
-            None => out.uncoloured.push(id),
-            Some(slot) if slot as usize >= doc.palette.slots.len() => out.slots_missing.push(id),
+            None => out.uncoloured.push(*id),
+            Some(s) if s as usize >= palette_slots => out.slots_missing.push(*id),
             Some(_) => {}
         }
         if let Some(pinned) = region.pin
             && colour != Some(pinned)
         {
             out.pins_broken.push(PinBroken {
-                region: id,
+                region: *id,
                 pinned,
                 coloured: colour,
             });
         }
+        if let Some(g) = region.group {
+            let entry = group_colours
+                .entry(g)
+                .or_insert((colour, false, Vec::new()));
+            entry.1 |= entry.0 != colour;
+            entry.2.push(*id);
+        }
     }
-    for group in doc.groups.keys() {
-        let members = doc.group_members(*group);
-        let land: Vec<RegionId> = members
-            .into_iter()
-            .filter(|id| doc.regions[id].role == super::model::Role::Land)
-            .collect();
-        let mut colours: Vec<Option<u32>> = land
-            .iter()
-            .map(|id| doc.colouring.get(id).copied())
-            .collect();
-        colours.sort();
-        colours.dedup();
-        if colours.len() > 1 {
-            out.groups_split.push((*group, land));
+    for (group, (_, split, members)) in group_colours {
+        if split {
+            out.groups_split.push((group, members));
         }
     }
     out

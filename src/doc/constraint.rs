@@ -9,7 +9,7 @@ use std::collections::BTreeMap;
 
 use crate::engine::{Graph, Vertex};
 
-use super::model::{Document, GroupId, RegionId};
+use super::model::{Document, GroupId, RegionId, Role};
 
 /// A contradiction in the map's rules: no colouring can satisfy them.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -99,62 +99,98 @@ impl RuleConflict {
 #[derive(Clone, Debug)]
 pub struct ConstraintGraph {
     pub graph: Graph,
-    /// The regions each vertex stands for, ascending; a vertex stands for several when they form a group.
-    pub vertex_regions: Vec<Vec<RegionId>>,
+    /// Vertex `v` stands for `members[member_start[v]..member_start[v + 1]]`, ascending; a vertex
+    /// stands for several regions when they form a group.
+    member_start: Vec<u32>,
+    members: Vec<RegionId>,
     /// The fixed colour of each vertex, if any.
     pub pins: Vec<Option<u32>>,
-    /// Which vertex each land region belongs to.
-    pub region_vertex: BTreeMap<RegionId, Vertex>,
+    /// Every region's id (the document's, in slot order) and its vertex (`NO_VERTEX` for water).
+    ids: Vec<RegionId>,
+    slot_vertex: Vec<Vertex>,
     /// Contradictions in the rules; when non-empty, no colouring satisfies every rule.
     pub conflicts: Vec<RuleConflict>,
 }
 
+const NO_VERTEX: Vertex = Vertex::MAX;
+
 impl ConstraintGraph {
-    /// Builds the constraint graph of `doc`. Vertices are numbered in order of their smallest region id.
+    /// Builds the constraint graph of `doc`. Vertices are numbered in order of their smallest
+    /// region id.
     ///
     /// # Complexity
-    /// O((R + B) log R) for R regions and B borders.
+    /// O(R + B + G log G) for R regions, B borders and G groups (plus the graph's own build).
     pub fn build(doc: &Document) -> ConstraintGraph {
-        let mut vertex_regions: Vec<Vec<RegionId>> = Vec::new();
-        let mut region_vertex = BTreeMap::new();
+        let regions = doc.regions();
+        let n = regions.len();
+        let mut slot_vertex = vec![NO_VERTEX; n];
         let mut group_vertex: BTreeMap<GroupId, Vertex> = BTreeMap::new();
-        for (id, region) in doc.land_regions() {
+        let mut vertices = 0u32;
+        let mut size: Vec<u32> = Vec::new();
+        for (slot, region) in regions.values().enumerate() {
+            if region.role != Role::Land {
+                continue;
+            }
             let vertex = match region.group {
                 Some(g) => *group_vertex.entry(g).or_insert_with(|| {
-                    vertex_regions.push(Vec::new());
-                    (vertex_regions.len() - 1) as Vertex
+                    vertices += 1;
+                    size.push(0);
+                    vertices - 1
                 }),
                 None => {
-                    vertex_regions.push(Vec::new());
-                    (vertex_regions.len() - 1) as Vertex
+                    vertices += 1;
+                    size.push(0);
+                    vertices - 1
                 }
             };
-            vertex_regions[vertex as usize].push(id);
-            region_vertex.insert(id, vertex);
+            slot_vertex[slot] = vertex;
+            size[vertex as usize] += 1;
         }
+        let mut member_start = Vec::with_capacity(size.len() + 1);
+        member_start.push(0u32);
+        for &k in &size {
+            member_start.push(member_start[member_start.len() - 1] + k);
+        }
+        let mut fill: Vec<u32> = member_start[..size.len()].to_vec();
+        let mut members = vec![RegionId(0); regions.len()];
+        let mut member_slots = vec![0u32; regions.len()];
+        for (slot, &v) in slot_vertex.iter().enumerate() {
+            if v != NO_VERTEX {
+                let at = fill[v as usize] as usize;
+                members[at] = regions.ids()[slot];
+                member_slots[at] = slot as u32;
+                fill[v as usize] += 1;
+            }
+        }
+        let land = member_start[size.len()] as usize;
+        members.truncate(land);
+        member_slots.truncate(land);
 
         let mut conflicts = Vec::new();
-        let slots = doc.palette.slots.len();
-        let mut pins = vec![None; vertex_regions.len()];
-        for (v, members) in vertex_regions.iter().enumerate() {
-            let pinned: Vec<(RegionId, u32)> = members
-                .iter()
-                .filter_map(|id| doc.regions[id].pin.map(|s| (*id, s)))
+        let palette_slots = doc.palette().slots.len();
+        let mut pins = vec![None; size.len()];
+        for v in 0..size.len() {
+            let range = member_start[v] as usize..member_start[v + 1] as usize;
+            let pinned: Vec<(RegionId, u32)> = range
+                .filter_map(|i| {
+                    let (id, region) = regions.at(member_slots[i] as usize);
+                    region.pin.map(|s| (id, s))
+                })
                 .collect();
             for &(region, slot) in &pinned {
-                if slot as usize >= slots {
+                if slot as usize >= palette_slots {
                     conflicts.push(RuleConflict::PinOutsidePalette {
                         region,
                         slot,
-                        slots,
+                        slots: palette_slots,
                     });
                 }
             }
             if let Some(&(_, first)) = pinned.first() {
                 if pinned.iter().any(|&(_, s)| s != first) {
-                    let group = doc.regions[&members[0]].group.unwrap_or(GroupId(0));
+                    let first_member = regions.at(member_slots[member_start[v] as usize] as usize);
                     conflicts.push(RuleConflict::GroupPinsDisagree {
-                        group,
+                        group: first_member.1.group.unwrap_or(GroupId(0)),
                         pins: pinned.clone(),
                     });
                 }
@@ -162,16 +198,18 @@ impl ConstraintGraph {
             }
         }
 
+        let index = doc.border_index();
         let mut edges = Vec::new();
-        for (pair, _) in doc.active_borders() {
-            let (Some(&u), Some(&v)) = (region_vertex.get(&pair.a()), region_vertex.get(&pair.b()))
-            else {
+        for (i, border) in doc.borders().values().enumerate() {
+            let (a, b) = index.ends[i];
+            if !doc.border_is_active_at(border, a, b) {
                 continue;
-            };
+            }
+            let (u, v) = (slot_vertex[a as usize], slot_vertex[b as usize]);
             if u == v {
-                let group = doc.regions[&pair.a()].group.unwrap_or(GroupId(0));
+                let (pair, _) = doc.borders().at(i);
                 conflicts.push(RuleConflict::GroupMembersBorder {
-                    group,
+                    group: regions.at(a as usize).1.group.unwrap_or(GroupId(0)),
                     a: pair.a(),
                     b: pair.b(),
                 });
@@ -181,26 +219,59 @@ impl ConstraintGraph {
         }
         // Vertices come from our own numbering, so from_edges cannot fail; parallel edges (two
         // members of a group bordering one region) are expected and simply merged.
-        let graph = match Graph::from_edges(vertex_regions.len(), &edges) {
+        let graph = match Graph::from_edges(size.len(), &edges) {
             Ok((g, _)) => g,
-            Err(_) => Graph::empty(vertex_regions.len()),
+            Err(_) => Graph::empty(size.len()),
         };
         ConstraintGraph {
             graph,
-            vertex_regions,
+            member_start,
+            members,
             pins,
-            region_vertex,
+            ids: regions.ids().to_vec(),
+            slot_vertex,
             conflicts,
         }
+    }
+
+    /// Number of vertices.
+    pub fn vertex_count(&self) -> usize {
+        self.pins.len()
+    }
+
+    /// The regions vertex `v` stands for, ascending.
+    pub fn members(&self, v: Vertex) -> &[RegionId] {
+        &self.members
+            [self.member_start[v as usize] as usize..self.member_start[v as usize + 1] as usize]
+    }
+
+    /// The first (smallest) region of vertex `v`: the one that names it in certificates.
+    pub fn first_member(&self, v: Vertex) -> RegionId {
+        self.members[self.member_start[v as usize] as usize]
+    }
+
+    /// The vertex a land region belongs to.
+    pub fn vertex_of(&self, id: RegionId) -> Option<Vertex> {
+        let slot = self.ids.binary_search(&id).ok()?;
+        Some(self.slot_vertex[slot]).filter(|&v| v != NO_VERTEX)
+    }
+
+    /// `(region, vertex)` for every land region, in region id order.
+    pub fn region_vertices(&self) -> impl Iterator<Item = (RegionId, Vertex)> + '_ {
+        self.ids
+            .iter()
+            .zip(&self.slot_vertex)
+            .filter(|(_, v)| **v != NO_VERTEX)
+            .map(|(id, v)| (*id, *v))
     }
 
     /// Spreads a per-vertex colouring back onto the regions (every member of a group gets its
     /// vertex's colour). Vertices without a colour leave their regions out.
     pub fn to_region_colouring(&self, vertex_colours: &[Option<u32>]) -> BTreeMap<RegionId, u32> {
         let mut out = BTreeMap::new();
-        for (members, colour) in self.vertex_regions.iter().zip(vertex_colours) {
+        for (v, colour) in vertex_colours.iter().enumerate() {
             if let Some(c) = colour {
-                for id in members {
+                for id in self.members(v as Vertex) {
                     out.insert(*id, *c);
                 }
             }
@@ -211,15 +282,18 @@ impl ConstraintGraph {
     /// The document's current colouring seen per vertex: the colour of the vertex's first coloured
     /// region, or `None`.
     pub fn vertex_colouring(&self, doc: &Document) -> Vec<Option<u32>> {
-        self.vertex_regions
-            .iter()
-            .map(|members| members.iter().find_map(|id| doc.colouring.get(id).copied()))
+        (0..self.vertex_count() as Vertex)
+            .map(|v| {
+                self.members(v)
+                    .iter()
+                    .find_map(|id| doc.colouring().get(id).copied())
+            })
             .collect()
     }
 
     /// A short label for a vertex: its region's name, or the names of the group's members.
     pub fn vertex_label(&self, doc: &Document, v: Vertex) -> String {
-        let members = &self.vertex_regions[v as usize];
+        let members = self.members(v);
         let names: Vec<&str> = members
             .iter()
             .filter_map(|id| doc.regions.get(id).map(|r| r.name.as_str()))
@@ -276,12 +350,13 @@ mod tests {
             .unwrap();
         }
         let cg = ConstraintGraph::build(&doc);
+        let members: Vec<&[RegionId]> = (0..3).map(|v| cg.members(v)).collect();
         assert_eq!(
-            cg.vertex_regions,
+            members,
             vec![
-                vec![RegionId(1), RegionId(5)],
-                vec![RegionId(2)],
-                vec![RegionId(3)]
+                &[RegionId(1), RegionId(5)][..],
+                &[RegionId(2)][..],
+                &[RegionId(3)][..]
             ]
         );
         assert_eq!(

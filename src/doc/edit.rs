@@ -119,6 +119,7 @@ impl Document {
     pub fn apply(&mut self, edit: Edit) -> Result<Edit, EditError> {
         let inverse = self.apply_inner(edit)?;
         self.revision += 1;
+        self.index = std::sync::OnceLock::new();
         Ok(inverse)
     }
 
@@ -143,7 +144,7 @@ impl Document {
                 Edit::PutRegion { id, region: old }
             }
             Edit::PutRegion { id, region: None } => {
-                let region = self
+                let (region, colour) = self
                     .regions
                     .remove(&id)
                     .ok_or(EditError::NoSuchRegion(id))?;
@@ -151,17 +152,13 @@ impl Document {
                     id,
                     region: Some(region),
                 }];
-                let pairs: Vec<RegionPair> = self
-                    .borders
-                    .keys()
-                    .filter(|p| p.contains(id))
-                    .copied()
-                    .collect();
-                for pair in pairs {
-                    let border = self.borders.remove(&pair);
-                    restore.push(Edit::PutBorder { pair, border });
+                for (pair, border) in self.borders.remove_all_of(id) {
+                    restore.push(Edit::PutBorder {
+                        pair,
+                        border: Some(border),
+                    });
                 }
-                if let Some(slot) = self.colouring.remove(&id) {
+                if let Some(slot) = colour {
                     restore.push(Edit::PutColour {
                         id,
                         slot: Some(slot),
@@ -232,20 +229,17 @@ impl Document {
                 Edit::PutBorder { pair, border: old }
             }
             Edit::PutColour { id, slot } => {
-                if !self.regions.contains_key(&id) {
-                    return Err(EditError::NoSuchRegion(id));
-                }
-                let old = match slot {
-                    Some(s) => self.colouring.insert(id, s),
-                    None => self.colouring.remove(&id),
-                };
+                let old = self
+                    .regions
+                    .set_colour(&id, slot)
+                    .ok_or(EditError::NoSuchRegion(id))?;
                 Edit::PutColour { id, slot: old }
             }
             Edit::SetColouring(colouring) => {
                 if let Some(id) = colouring.keys().find(|id| !self.regions.contains_key(id)) {
                     return Err(EditError::NoSuchRegion(*id));
                 }
-                Edit::SetColouring(std::mem::replace(&mut self.colouring, colouring))
+                Edit::SetColouring(self.regions.replace_colouring(&colouring))
             }
             Edit::PutGroup {
                 id,
@@ -411,7 +405,7 @@ mod tests {
                 region: None,
             })
             .unwrap();
-        assert!(doc.borders.is_empty() && doc.colouring.is_empty());
+        assert!(doc.borders.is_empty() && doc.colouring().is_empty());
         doc.apply(inverse).unwrap();
         assert_eq!(doc, before);
     }

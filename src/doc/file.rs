@@ -12,6 +12,7 @@ use std::sync::Arc;
 
 use serde::{Deserialize, Serialize};
 
+use super::builder::DocumentBuilder;
 use super::model::{
     AttrValue, Border, BorderKind, Document, Geometry, Group, GroupId, Palette, Polygon, Region,
     RegionId, RegionPair, Rgb, Role, Settings, Slot, Units,
@@ -274,7 +275,7 @@ fn to_records(doc: &Document) -> ProjectV1 {
                 suppressed: b.suppressed,
             })
             .collect(),
-        colouring: doc.colouring.iter().map(|(id, s)| (id.0, *s)).collect(),
+        colouring: doc.colouring().iter().map(|(id, s)| (id.0, *s)).collect(),
         next_region_id: doc.peek_region_id().0,
         next_group_id: doc.peek_group_id().0,
     }
@@ -469,7 +470,7 @@ fn finite(p: (f64, f64)) -> bool {
 
 fn from_records(r: ProjectV1) -> Result<Document, FileError> {
     let invalid = |m: String| Err(FileError::Invalid(m));
-    let mut doc = Document::new(r.title);
+    let mut doc = DocumentBuilder::new(r.title);
     if !(r.settings.min_border_length.is_finite()
         && r.settings.min_border_length >= 0.0
         && r.settings.tolerance.is_finite()
@@ -486,7 +487,7 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
             "settings: projection_origin ({lon}, {lat}) is not a longitude and latitude"
         ));
     }
-    doc.settings = Settings {
+    doc.settings(Settings {
         corners_count: r.settings.corners_count,
         min_border_length: r.settings.min_border_length,
         tolerance: r.settings.tolerance,
@@ -495,7 +496,7 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
             UnitsV1::Unitless => Units::Unitless,
         },
         projection_origin: r.settings.projection_origin.map(|(x, y)| [x, y]),
-    };
+    });
     let mut slots = Vec::with_capacity(r.palette.len());
     for (i, s) in r.palette.into_iter().enumerate() {
         let Some(colour) = Rgb::from_hex(&s.colour) else {
@@ -511,32 +512,19 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
             colour,
         });
     }
-    doc.palette = Palette {
+    doc.palette(Palette {
         name: r.palette_name,
         slots,
-    };
+    });
+    doc.reserve(r.regions.len(), r.borders.len());
     for g in r.groups {
-        if doc
-            .groups
-            .insert(GroupId(g.id), Group { name: g.name })
-            .is_some()
-        {
-            return invalid(format!("group id {} appears twice", g.id));
-        }
+        doc.group(GroupId(g.id), Group { name: g.name });
     }
     for rec in r.regions {
         let id = RegionId(rec.id);
         if !finite(rec.anchor) {
             return invalid(format!(
                 "region {}: the anchor is not a finite point",
-                rec.id
-            ));
-        }
-        if let Some(g) = rec.group
-            && !doc.groups.contains_key(&GroupId(g))
-        {
-            return invalid(format!(
-                "region {} is in group {g}, which the file does not define",
                 rec.id
             ));
         }
@@ -600,21 +588,12 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
                 })
                 .collect(),
         };
-        if doc.regions.insert(id, region).is_some() {
-            return invalid(format!("region id {} appears twice", rec.id));
-        }
+        doc.region(id, region);
     }
     for b in r.borders {
         let Some(pair) = RegionPair::new(RegionId(b.a), RegionId(b.b)) else {
             return invalid(format!("a border joins region {} to itself", b.a));
         };
-        for end in [b.a, b.b] {
-            if !doc.regions.contains_key(&RegionId(end)) {
-                return invalid(format!(
-                    "a border names region {end}, which the file does not define"
-                ));
-            }
-        }
         if !(b.length.is_finite() && b.length >= 0.0) {
             return invalid(format!(
                 "the border between {} and {} has a length that is not a finite number >= 0",
@@ -626,35 +605,20 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
             KindV1::Corner => BorderKind::Corner,
             KindV1::Manual => BorderKind::Manual,
         };
-        if doc
-            .borders
-            .insert(
-                pair,
-                Border {
-                    kind,
-                    length: b.length,
-                    suppressed: b.suppressed,
-                },
-            )
-            .is_some()
-        {
-            return invalid(format!(
-                "the border between {} and {} appears twice",
-                b.a, b.b
-            ));
-        }
+        doc.border(
+            pair,
+            Border {
+                kind,
+                length: b.length,
+                suppressed: b.suppressed,
+            },
+        );
     }
     for (id, slot) in r.colouring {
-        if !doc.regions.contains_key(&RegionId(id)) {
-            return invalid(format!(
-                "the colouring names region {id}, which the file does not define"
-            ));
-        }
-        doc.colouring.insert(RegionId(id), slot);
+        doc.colour(RegionId(id), slot);
     }
-    doc.next_region_id = r.next_region_id.max(doc.peek_region_id().0);
-    doc.next_group_id = r.next_group_id.max(doc.peek_group_id().0);
-    Ok(doc)
+    doc.next_ids(r.next_region_id, r.next_group_id);
+    doc.build().map_err(|e| FileError::Invalid(e.to_string()))
 }
 
 #[cfg(test)]

@@ -10,6 +10,7 @@
 use std::collections::BTreeMap;
 use std::fmt::Write as _;
 
+use super::builder::DocumentBuilder;
 use super::constraint::ConstraintGraph;
 use super::model::{Border, Document, Region, RegionId, RegionPair};
 
@@ -78,24 +79,29 @@ fn schematic(
     edges: &[(u64, u64)],
     notices: &mut Vec<Notice>,
 ) -> Document {
-    let mut doc = Document::new(title);
+    let mut doc = DocumentBuilder::new(title);
+    doc.reserve(n as usize, edges.len());
     for i in 0..n {
         let label = first + i;
-        doc.regions.insert(
+        doc.region(
             RegionId(label),
             Region::new(label.to_string(), spiral_anchor(i as usize)),
         );
     }
     let mut self_loops = 0usize;
-    let mut repeats = 0usize;
+    let mut pairs: Vec<RegionPair> = Vec::with_capacity(edges.len());
     for &(u, v) in edges {
-        let Some(pair) = RegionPair::new(RegionId(first + u), RegionId(first + v)) else {
-            self_loops += 1;
-            continue;
-        };
-        if doc.borders.insert(pair, Border::manual()).is_some() {
-            repeats += 1;
+        match RegionPair::new(RegionId(first + u), RegionId(first + v)) {
+            Some(pair) => pairs.push(pair),
+            None => self_loops += 1,
         }
+    }
+    pairs.sort_unstable();
+    let before = pairs.len();
+    pairs.dedup();
+    let repeats = before - pairs.len();
+    for pair in pairs {
+        doc.border(pair, Border::manual());
     }
     if self_loops > 0 {
         notices.push(Notice {
@@ -109,8 +115,16 @@ fn schematic(
             message: format!("{repeats} repeated edge(s) merged"),
         });
     }
-    doc.next_region_id = first + n;
-    doc
+    doc.next_ids(first + n, 1);
+    // Vertices are numbered from `first` and every edge is checked against `n` by the readers, so
+    // the parts are consistent by construction.
+    match doc.build() {
+        Ok(doc) => doc,
+        Err(e) => {
+            debug_assert!(false, "a schematic document is consistent: {e}");
+            Document::new(title)
+        }
+    }
 }
 
 /// Reads a DIMACS graph (`.col`).
@@ -309,7 +323,8 @@ pub fn write_dimacs(doc: &Document) -> String {
         out,
         "c written by Tinct: one vertex per land region or same-colour group"
     );
-    for (v, members) in cg.vertex_regions.iter().enumerate() {
+    for v in 0..cg.vertex_count() {
+        let members = cg.members(v as u32);
         let ids: Vec<String> = members.iter().map(|id| id.to_string()).collect();
         let _ = writeln!(
             out,
@@ -336,7 +351,8 @@ pub fn write_edge_list(doc: &Document) -> String {
     let cg = ConstraintGraph::build(doc);
     let mut out = String::new();
     let _ = writeln!(out, "# {}", doc.title.replace('\n', " "));
-    for (v, members) in cg.vertex_regions.iter().enumerate() {
+    for v in 0..cg.vertex_count() {
+        let members = cg.members(v as u32);
         let ids: Vec<String> = members.iter().map(|id| id.to_string()).collect();
         let _ = writeln!(
             out,
@@ -355,8 +371,7 @@ pub fn write_edge_list(doc: &Document) -> String {
 /// Vertex numbers used by [`write_dimacs`] (1-based) for each land region.
 pub fn dimacs_numbering(doc: &Document) -> BTreeMap<RegionId, u32> {
     ConstraintGraph::build(doc)
-        .region_vertex
-        .into_iter()
+        .region_vertices()
         .map(|(r, v)| (r, v + 1))
         .collect()
 }

@@ -3,6 +3,7 @@
 //!
 //! Nothing here knows about the GUI or threads. Only [`file`](mod@file) knows RON.
 
+pub mod builder;
 pub mod checks;
 pub mod constraint;
 pub mod edit;
@@ -15,7 +16,9 @@ pub mod model;
 pub mod palette_check;
 pub mod palette_edit;
 pub mod recovery;
+pub mod store;
 
+pub use builder::{BuildError, DocumentBuilder};
 pub use checks::{ColouringCheck, check_colouring};
 pub use constraint::{ConstraintGraph, RuleConflict};
 pub use edit::{Edit, EditError, RegionChange};
@@ -26,3 +29,4 @@ pub use model::{
 };
 pub use palette_check::{PaletteReport, palette_report, simulated_palettes, slot_assignment_edit};
 pub use palette_edit::PaletteEditError;
+pub use store::{BorderIndex, Borders, Colouring, Regions, SlotLookup};

@@ -1,12 +1,15 @@
 //! The project document: regions, borders, groups, pins, palette, colouring and settings.
 //!
 //! This is the single source of truth for a map. It changes only through [`crate::doc::Edit`]s applied
-//! with [`Document::apply`]; fields are public for reading, and the only code that writes them is the
-//! edit module and the loaders that build a fresh document.
+//! with [`Document::apply`]; its fields are private and read through methods, and a fresh document
+//! is made by [`crate::doc::DocumentBuilder`]. Regions and borders sit in dense sorted vectors
+//! (`store.rs`), so reading a million regions costs what reading a vector does.
 
 use std::collections::BTreeMap;
 use std::fmt;
-use std::sync::Arc;
+use std::sync::{Arc, OnceLock};
+
+use super::store::{BorderIndex, Borders, Colouring, Regions};
 
 /// A region's stable identifier. Chosen by Tinct, saved in project files, never reused within a
 /// document (the counter only grows), and independent of any graph library's indices.
@@ -426,24 +429,25 @@ impl Default for Settings {
 /// The whole project.
 #[derive(Clone, Debug, Default)]
 pub struct Document {
-    pub title: String,
-    pub settings: Settings,
-    pub palette: Palette,
-    pub groups: BTreeMap<GroupId, Group>,
-    pub regions: BTreeMap<RegionId, Region>,
-    pub borders: BTreeMap<RegionPair, Border>,
-    /// The current colouring: region -> palette slot. Land regions without an entry are uncoloured.
-    pub colouring: BTreeMap<RegionId, u32>,
+    pub(super) title: String,
+    pub(super) settings: Settings,
+    pub(super) palette: Palette,
+    pub(super) groups: BTreeMap<GroupId, Group>,
+    /// The regions in id order, with the current colouring beside them.
+    pub(super) regions: Regions,
+    pub(super) borders: Borders,
     /// The next region id to hand out; only grows, so ids are never reused.
-    pub(crate) next_region_id: u64,
+    pub(super) next_region_id: u64,
     /// The next group id to hand out; only grows.
-    pub(crate) next_group_id: u64,
+    pub(super) next_group_id: u64,
     /// Increases on every change; not saved. Analysis results carry the revision they were made for.
-    pub(crate) revision: u64,
+    pub(super) revision: u64,
+    /// Derived from regions and borders when first asked for after a change.
+    pub(super) index: OnceLock<Arc<BorderIndex>>,
 }
 
-/// Two documents are equal when their content is: the revision counter and the id counters are
-/// bookkeeping, not content.
+/// Two documents are equal when their content is: the revision counter, the id counters and the
+/// derived index are bookkeeping, not content.
 impl PartialEq for Document {
     fn eq(&self, other: &Document) -> bool {
         self.title == other.title
@@ -452,7 +456,6 @@ impl PartialEq for Document {
             && self.groups == other.groups
             && self.regions == other.regions
             && self.borders == other.borders
-            && self.colouring == other.colouring
     }
 }
 
@@ -465,6 +468,41 @@ impl Document {
             next_group_id: 1,
             ..Default::default()
         }
+    }
+
+    /// The project's title.
+    pub fn title(&self) -> &str {
+        &self.title
+    }
+    /// Which recorded borders constrain the colouring, and what world units mean.
+    pub fn settings(&self) -> &Settings {
+        &self.settings
+    }
+    /// The fill colours.
+    pub fn palette(&self) -> &Palette {
+        &self.palette
+    }
+    /// The same-colour groups.
+    pub fn groups(&self) -> &BTreeMap<GroupId, Group> {
+        &self.groups
+    }
+    /// The regions, in id order.
+    pub fn regions(&self) -> &Regions {
+        &self.regions
+    }
+    /// The recorded borders (active or not), in pair order.
+    pub fn borders(&self) -> &Borders {
+        &self.borders
+    }
+    /// The current colouring: region to palette slot.
+    pub fn colouring(&self) -> Colouring<'_> {
+        Colouring::of(&self.regions)
+    }
+    /// The slots of every border's regions and the borders of every region, derived once per
+    /// revision (on first use after a change).
+    pub fn border_index(&self) -> &BorderIndex {
+        self.index
+            .get_or_init(|| Arc::new(BorderIndex::build(&self.regions, &self.borders)))
     }
 
     /// The revision counter: it increases on every applied edit.
@@ -508,35 +546,45 @@ impl Document {
 
     /// The active borders, in pair order.
     pub fn active_borders(&self) -> impl Iterator<Item = (RegionPair, &Border)> + '_ {
+        let index = self.border_index();
         self.borders
             .iter()
-            .filter(|(p, b)| self.border_is_active(**p, b))
-            .map(|(p, b)| (*p, b))
+            .zip(index.ends.iter())
+            .filter(|((_, border), ends)| self.border_is_active_at(border, ends.0, ends.1))
+            .map(|((pair, border), _)| (*pair, border))
     }
 
-    /// Every recorded border of one region (active or not), with the neighbour's id.
+    /// [`Document::border_is_active`] for a border whose regions sit at slots `a` and `b`.
+    #[inline]
+    pub fn border_is_active_at(&self, border: &Border, a: u32, b: u32) -> bool {
+        if border.suppressed {
+            return false;
+        }
+        let land = |s: u32| self.regions.at(s as usize).1.role == Role::Land;
+        if !land(a) || !land(b) {
+            return false;
+        }
+        match border.kind {
+            BorderKind::Manual => true,
+            BorderKind::Shared if border.length >= self.settings.min_border_length => true,
+            BorderKind::Shared | BorderKind::Corner => self.settings.corners_count,
+        }
+    }
+
+    /// Every recorded border of one region (active or not), with the neighbour's id, in the
+    /// neighbours' id order.
     pub fn borders_of(&self, id: RegionId) -> Vec<(RegionId, RegionPair, Border)> {
-        // Borders are keyed by (smaller, larger): those where `id` is the smaller sit in one range;
-        // the others need a scan. Regions have few borders, maps have many regions, so index lazily.
-        let mut out: Vec<_> = self
-            .borders
-            .range(
-                RegionPair {
-                    a: id,
-                    b: RegionId(0),
-                }..,
-            )
-            .take_while(|(p, _)| p.a() == id)
-            .map(|(p, b)| (p.b(), *p, *b))
-            .collect();
-        out.extend(
-            self.borders
-                .iter()
-                .filter(|(p, _)| p.b() == id)
-                .map(|(p, b)| (p.a(), *p, *b)),
-        );
-        out.sort_by_key(|(other, _, _)| *other);
-        out
+        let Some(slot) = self.regions.slot(&id) else {
+            return Vec::new();
+        };
+        self.border_index()
+            .of_slot(slot)
+            .iter()
+            .map(|&i| {
+                let (pair, border) = self.borders.at(i as usize);
+                (pair.other(id).unwrap_or(id), pair, *border)
+            })
+            .collect()
     }
 
     /// The land regions, in id order.

@@ -16,8 +16,10 @@ use super::model::{Document, Palette, RegionId, Rgb};
 pub fn slot_border_counts(doc: &Document) -> BTreeMap<(u32, u32), u64> {
     let mut out = BTreeMap::new();
     for (pair, _) in doc.active_borders() {
-        let (Some(&x), Some(&y)) = (doc.colouring.get(&pair.a()), doc.colouring.get(&pair.b()))
-        else {
+        let (Some(&x), Some(&y)) = (
+            doc.colouring().get(&pair.a()),
+            doc.colouring().get(&pair.b()),
+        ) else {
             continue;
         };
         if x != y {
@@ -96,7 +98,7 @@ pub fn palette_report(doc: &Document, thresholds: &Thresholds) -> PaletteReport 
 pub fn checked_pairs(doc: &Document, slots: usize) -> (PairsChecked, Vec<SlotPairUse>, Vec<u32>) {
     let used: BTreeSet<u32> = doc
         .land_regions()
-        .filter_map(|(id, _)| doc.colouring.get(&id).copied())
+        .filter_map(|(id, _)| doc.colouring().get(&id).copied())
         .collect();
     let missing_slots = used
         .iter()
@@ -183,7 +185,7 @@ pub fn slot_assignment_edit(
     let n = doc.palette.slots.len();
     // Classes are the slots in use, in slot order.
     let classes: Vec<u32> = doc
-        .colouring
+        .colouring()
         .values()
         .copied()
         .collect::<BTreeSet<u32>>()
@@ -204,7 +206,7 @@ pub fn slot_assignment_edit(
     }
     let mut fixed: Vec<Option<usize>> = vec![None; n];
     for (id, region) in &doc.regions {
-        if let (Some(_), Some(&slot)) = (region.pin, doc.colouring.get(id)) {
+        if let (Some(_), Some(&slot)) = (region.pin, doc.colouring().get(id)) {
             fixed[slot as usize] = Some(slot as usize);
         }
     }
@@ -215,7 +217,7 @@ pub fn slot_assignment_edit(
         return Ok(None);
     }
     let colouring: BTreeMap<RegionId, u32> = doc
-        .colouring
+        .colouring()
         .iter()
         .map(|(id, &slot)| (*id, map[slot as usize] as u32))
         .collect();

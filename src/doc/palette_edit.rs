@@ -117,7 +117,7 @@ pub fn remove_slot(doc: &Document, slot: usize) -> Result<Edit, PaletteEditError
         return Err(PaletteEditError::LastSlot);
     }
     let s = slot as u32;
-    let coloured = doc.colouring.values().filter(|&&c| c == s).count();
+    let coloured = doc.colouring().values().filter(|&&c| c == s).count();
     let pinned = doc.regions.values().filter(|r| r.pin == Some(s)).count();
     if coloured + pinned > 0 {
         return Err(PaletteEditError::SlotInUse {
@@ -130,7 +130,7 @@ pub fn remove_slot(doc: &Document, slot: usize) -> Result<Edit, PaletteEditError
     let mut palette = doc.palette.clone();
     palette.slots.remove(slot);
     let colouring = doc
-        .colouring
+        .colouring()
         .iter()
         .map(|(id, &c)| (*id, if c > s { c - 1 } else { c }))
         .collect();
@@ -260,10 +260,10 @@ mod tests {
         let before = doc.clone();
         let name_of_3 = doc.palette.slots[3].name.clone();
         let undo = doc.apply(remove_slot(&doc, 2).unwrap()).unwrap();
-        assert_eq!(doc.colouring[&RegionId(1)], 2);
+        assert_eq!(doc.colouring()[&RegionId(1)], 2);
         assert_eq!(doc.palette.slots[2].name, name_of_3);
         assert_eq!(doc.regions[&RegionId(2)].pin, Some(3));
-        assert_eq!(doc.colouring[&RegionId(3)], 1);
+        assert_eq!(doc.colouring()[&RegionId(3)], 1);
         doc.apply(undo).unwrap();
         assert_eq!(doc, before);
     }

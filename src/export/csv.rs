@@ -24,15 +24,15 @@ pub fn field(text: &str) -> String {
 pub fn to_csv(doc: &Document) -> String {
     let mut out = HEADER.join(",");
     out.push_str("\r\n");
-    for (id, region) in &doc.regions {
-        let slot = doc.colouring.get(id).copied();
+    for (id, region) in doc.regions() {
+        let slot = doc.colouring().get(id).copied();
         let fill = slot
-            .and_then(|s| doc.palette.slots.get(s as usize))
+            .and_then(|s| doc.palette().slots.get(s as usize))
             .map(|s| s.colour.to_hex())
             .unwrap_or_default();
         let group = region
             .group
-            .and_then(|g| doc.groups.get(&g))
+            .and_then(|g| doc.groups().get(&g))
             .map(|g| g.name.clone())
             .unwrap_or_default();
         let row = [

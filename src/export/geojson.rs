@@ -164,7 +164,7 @@ fn attr(value: &AttrValue) -> Value {
 
 /// The map as a GeoJSON FeatureCollection.
 pub fn to_geojson(doc: &Document) -> Result<String, ExportError> {
-    let origin = match (doc.settings.units, doc.settings.projection_origin) {
+    let origin = match (doc.settings().units, doc.settings().projection_origin) {
         (Units::Metres, Some(origin)) => origin,
         (Units::Metres, None) => {
             return Err(ExportError::NotGeographic(
@@ -185,20 +185,20 @@ pub fn to_geojson(doc: &Document) -> Result<String, ExportError> {
         }
     };
     let projection = LambertAzimuthalEqualArea::new(origin[0], origin[1]);
-    let mut features = Vec::with_capacity(doc.regions.len());
-    for (id, region) in &doc.regions {
+    let mut features = Vec::with_capacity(doc.regions().len());
+    for (id, region) in doc.regions() {
         let mut properties: Map<String, Value> = region
             .attributes
             .iter()
             .map(|(k, v)| (k.clone(), attr(v)))
             .collect();
         let slot = if region.role == Role::Land {
-            doc.colouring.get(id).copied()
+            doc.colouring().get(id).copied()
         } else {
             None
         };
         let fill = slot
-            .and_then(|s| doc.palette.slots.get(s as usize))
+            .and_then(|s| doc.palette().slots.get(s as usize))
             .map(|s| s.colour.to_hex());
         properties.insert("name".into(), json!(region.name));
         properties.insert("tinct_id".into(), json!(id.0));
@@ -209,7 +209,7 @@ pub fn to_geojson(doc: &Document) -> Result<String, ExportError> {
             json!(
                 region
                     .group
-                    .and_then(|g| doc.groups.get(&g))
+                    .and_then(|g| doc.groups().get(&g))
                     .map(|g| g.name.clone())
             ),
         );

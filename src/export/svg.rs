@@ -133,7 +133,7 @@ impl MapFrame {
 fn legend_entries(doc: &Document) -> Vec<(u32, usize)> {
     let mut counts = std::collections::BTreeMap::new();
     for (id, _) in doc.land_regions() {
-        if let Some(&s) = doc.colouring.get(&id) {
+        if let Some(&s) = doc.colouring().get(&id) {
             *counts.entry(s).or_insert(0usize) += 1;
         }
     }
@@ -178,15 +178,15 @@ impl Num {
 
 /// The fill of one region: `#rrggbb`, or `url(#water)` for water.
 pub fn fill_of(doc: &Document, id: RegionId) -> String {
-    let Some(region) = doc.regions.get(&id) else {
+    let Some(region) = doc.regions().get(&id) else {
         return UNCOLOURED_FILL.to_string();
     };
     if region.role == Role::Water {
         return WATER_FILL.to_string();
     }
-    doc.colouring
+    doc.colouring()
         .get(&id)
-        .and_then(|&s| doc.palette.slots.get(s as usize))
+        .and_then(|&s| doc.palette().slots.get(s as usize))
         .map_or_else(|| UNCOLOURED_FILL.to_string(), |s| s.colour.to_hex())
 }
 
@@ -213,7 +213,7 @@ pub fn to_svg(doc: &Document, options: &SvgOptions) -> Result<String, ExportErro
         num.f(pw),
         num.f(ph)
     );
-    let _ = writeln!(out, "<title>{}</title>", escape(&doc.title));
+    let _ = writeln!(out, "<title>{}</title>", escape(doc.title()));
     let _ = writeln!(
         out,
         r##"<rect x="0" y="0" width="{}" height="{}" fill="#ffffff"/>"##,
@@ -235,7 +235,7 @@ pub fn to_svg(doc: &Document, options: &SvgOptions) -> Result<String, ExportErro
         out,
         r#"<g id="regions" stroke="{OUTLINE}" stroke-width="{stroke}" stroke-linejoin="round">"#
     );
-    for (id, region) in &doc.regions {
+    for (id, region) in doc.regions() {
         let Some(geometry) = &region.geometry else {
             continue;
         };
@@ -269,7 +269,7 @@ pub fn to_svg(doc: &Document, options: &SvgOptions) -> Result<String, ExportErro
 
     // Regions without outlines (sketches): their borders as lines, then markers on top.
     let sketched: Vec<RegionId> = doc
-        .regions
+        .regions()
         .iter()
         .filter(|(_, r)| r.geometry.is_none())
         .map(|(id, _)| *id)
@@ -280,7 +280,7 @@ pub fn to_svg(doc: &Document, options: &SvgOptions) -> Result<String, ExportErro
             r#"<g id="links" stroke="{OUTLINE}" stroke-width="{stroke}" fill="none">"#
         );
         for (pair, _) in doc.active_borders() {
-            let (Some(a), Some(b)) = (doc.regions.get(&pair.a()), doc.regions.get(&pair.b()))
+            let (Some(a), Some(b)) = (doc.regions().get(&pair.a()), doc.regions().get(&pair.b()))
             else {
                 continue;
             };
@@ -304,7 +304,7 @@ pub fn to_svg(doc: &Document, options: &SvgOptions) -> Result<String, ExportErro
         );
         let r = num.f(frame.units(MARKER_RADIUS_MM));
         for id in &sketched {
-            let region = &doc.regions[id];
+            let region = &doc.regions()[id];
             let [x, y] = frame.to_svg(region.anchor);
             let _ = writeln!(
                 out,
@@ -330,7 +330,7 @@ pub fn to_svg(doc: &Document, options: &SvgOptions) -> Result<String, ExportErro
             r##"<g id="labels" {text_style} text-anchor="middle" stroke="#ffffff" stroke-width="{}" stroke-linejoin="round" paint-order="stroke">"##,
             num.f(frame.units(0.5))
         );
-        for region in doc.regions.values() {
+        for region in doc.regions().values() {
             let (point, lift) = match region.geometry.as_ref().and_then(|g| g.label_point()) {
                 Some(p) => (p, 0.0),
                 None => (region.anchor, frame.units(MARKER_RADIUS_MM + 1.0)),
@@ -359,7 +359,7 @@ pub fn to_svg(doc: &Document, options: &SvgOptions) -> Result<String, ExportErro
                 let (col, row) = (k / rows, k % rows);
                 let x = frame.units(MARGIN_MM + col as f64 * LEGEND_COLUMN_MM);
                 let y = frame.legend_top + frame.units(row as f64 * LEGEND_ROW_MM);
-                let (name, fill) = match doc.palette.slots.get(*slot as usize) {
+                let (name, fill) = match doc.palette().slots.get(*slot as usize) {
                     Some(s) => (s.name.clone(), s.colour.to_hex()),
                     None => (
                         format!("Slot {} (not in palette)", slot + 1),

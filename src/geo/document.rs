@@ -14,16 +14,16 @@ use serde_json::Value;
 
 use super::{BorderKind as GeoBorderKind, ImportedMap, Point, Polygon as GeoPolygon, Rule, Units};
 use crate::doc::{
-    self, AttrValue, Border, Document, Geometry, Group, GroupId, Region, RegionId, RegionPair,
-    Role, Settings,
+    self, AttrValue, Border, Document, DocumentBuilder, Geometry, Group, GroupId, Region, RegionId,
+    RegionPair, Role, Settings,
 };
 
 impl ImportedMap {
     /// Builds a fresh document titled `title`: one region per imported region (ids from 1 in
     /// import order), every contact as a border, settings from the import options.
     pub fn into_document(self, title: impl Into<String>) -> Document {
-        let mut document = Document::new(title);
-        document.settings = Settings {
+        let mut document = DocumentBuilder::new(title);
+        document.settings(Settings {
             corners_count: self.rule == Rule::Queen,
             min_border_length: self.min_border_length,
             tolerance: self.tolerance,
@@ -32,7 +32,8 @@ impl ImportedMap {
                 Units::MapUnits => doc::Units::Unitless,
             },
             projection_origin: self.projection.map(|p| [p.lon0_deg, p.lat0_deg]),
-        };
+        });
+        document.reserve(self.regions.len(), self.borders.len() + self.excluded.len());
 
         // Same-colour groups: named in the properties, or the parts of one split feature.
         let mut per_feature: BTreeMap<usize, usize> = BTreeMap::new();
@@ -40,14 +41,18 @@ impl ImportedMap {
             *per_feature.entry(region.source_index).or_default() += 1;
         }
         let mut group_ids: BTreeMap<String, GroupId> = BTreeMap::new();
-        let mut group_of = |name: String, document: &mut Document| {
+        let mut group_of = |name: String, document: &mut DocumentBuilder| {
             let next = GroupId(group_ids.len() as u64 + 1);
-            let id = *group_ids.entry(name.clone()).or_insert(next);
-            document.groups.entry(id).or_insert(Group { name });
-            id
+            if let Some(id) = group_ids.get(&name) {
+                return *id;
+            }
+            group_ids.insert(name.clone(), next);
+            document.group(next, Group { name });
+            next
         };
 
-        let first_id = document.peek_region_id().0;
+        let first_id = 1;
+        let region_count = self.regions.len() as u64;
         for (i, imported) in self.regions.into_iter().enumerate() {
             let properties = &imported.properties;
             let role = match properties.get("role").and_then(Value::as_str) {
@@ -96,13 +101,12 @@ impl ImportedMap {
                 source_index: Some(imported.source_index as u64),
                 attributes,
             };
-            document
-                .regions
-                .insert(RegionId(first_id + i as u64), region);
+            document.region(RegionId(first_id + i as u64), region);
         }
-        document.next_region_id = first_id + document.regions.len() as u64;
-        document.next_group_id = group_ids.len() as u64 + 1;
+        document.next_ids(first_id + region_count, group_ids.len() as u64 + 1);
 
+        // A contact recorded twice keeps its last record, as inserting into a map would.
+        let mut borders: Vec<(RegionPair, Border)> = Vec::new();
         for border in self.borders.iter().chain(&self.excluded) {
             let pair = RegionPair::new(
                 RegionId(first_id + border.a as u64),
@@ -113,9 +117,22 @@ impl ImportedMap {
                 GeoBorderKind::Shared { length } => Border::shared(length),
                 GeoBorderKind::Corner => Border::corner(),
             };
-            document.borders.insert(pair, value);
+            borders.push((pair, value));
         }
-        document
+        borders.reverse();
+        borders.sort_by_key(|(pair, _)| *pair);
+        borders.dedup_by_key(|(pair, _)| *pair);
+        for (pair, border) in borders {
+            document.border(pair, border);
+        }
+        match document.build() {
+            Ok(doc) => doc,
+            Err(e) => {
+                // Ids are numbered here and groups made here, so this cannot happen.
+                debug_assert!(false, "an imported document is consistent: {e}");
+                Document::new("")
+            }
+        }
     }
 }
 

@@ -48,7 +48,7 @@ impl Session {
             .as_ref()
             .and_then(|p| p.file_name())
             .map(|n| n.to_string_lossy().into_owned())
-            .unwrap_or_else(|| format!("{} (not saved)", self.doc.title));
+            .unwrap_or_else(|| format!("{} (not saved)", self.doc.title()));
         format!(
             "{}{} — Tinct",
             if self.is_dirty() { "• " } else { "" },
@@ -82,8 +82,8 @@ impl Checks {
             graph_edges: cg.graph.edge_count(),
             land_regions: doc.land_regions().count(),
             slot_use: {
-                let mut counts = vec![0usize; doc.palette.slots.len()];
-                for s in doc.colouring.values() {
+                let mut counts = vec![0usize; doc.palette().slots.len()];
+                for s in doc.colouring().values() {
                     if let Some(c) = counts.get_mut(*s as usize) {
                         *c += 1;
                     }
@@ -644,11 +644,11 @@ impl App {
                 format!(
                     "This map needs {} colours but the palette has {}: use \"{}\" or add slots in the palette window",
                     verdict.minimum.unwrap_or(0),
-                    self.session.doc.palette.slots.len(),
+                    self.session.doc.palette().slots.len(),
                     Command::ColourAddingSlots.label()
                 ),
             ),
-            Some(colouring) if colouring == self.session.doc.colouring && extra == 0 => {
+            Some(colouring) if colouring == self.session.doc.colouring() && extra == 0 => {
                 self.say(Level::Info, "The map already has this colouring");
             }
             Some(colouring) => {
@@ -1073,14 +1073,14 @@ impl App {
                 })
             }
             Command::ClearColours => {
-                if !self.session.doc.colouring.is_empty() {
+                if !self.session.doc.colouring().is_empty() {
                     self.edit(Edit::SetColouring(Default::default()));
                 }
             }
             Command::PaletteWindow => {
                 if self.palette_editor.is_none() {
                     self.palette_editor = Some(super::palette::PaletteEditor::new(
-                        &self.session.doc.palette,
+                        self.session.doc.palette(),
                     ));
                 }
             }

@@ -50,9 +50,9 @@ fn fill_of(doc: &Document, id: RegionId, region: &Region) -> Color32 {
         return style::WATER;
     }
     match doc
-        .colouring
+        .colouring()
         .get(&id)
-        .and_then(|s| doc.palette.slots.get(*s as usize))
+        .and_then(|s| doc.palette().slots.get(*s as usize))
     {
         Some(slot) => Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]),
         None => style::UNCOLOURED,
@@ -119,7 +119,7 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
         && app
             .session
             .doc
-            .regions
+            .regions()
             .get(&id)
             .is_some_and(|r| r.geometry.is_none())
     {
@@ -137,7 +137,7 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
     }
     if response.drag_stopped()
         && let Some((id, offset)) = app.view.dragging.take()
-        && let Some(region) = app.session.doc.regions.get(&id)
+        && let Some(region) = app.session.doc.regions().get(&id)
     {
         let to = [region.anchor[0] + offset[0], region.anchor[1] + offset[1]];
         app.edit(Edit::UpdateRegion {
@@ -155,16 +155,16 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
     draw(app, &painter, centre, rect);
 
     if let Some(id) = app.view.hover
-        && let Some(r) = app.session.doc.regions.get(&id)
+        && let Some(r) = app.session.doc.regions().get(&id)
     {
-        let text = match (r.role, app.session.doc.colouring.get(&id)) {
+        let text = match (r.role, app.session.doc.colouring().get(&id)) {
             (Role::Water, _) => format!("{} (water)", r.name),
             (_, Some(s)) => format!(
                 "{} — colour {}",
                 r.name,
                 app.session
                     .doc
-                    .palette
+                    .palette()
                     .slots
                     .get(*s as usize)
                     .map_or_else(|| format!("{}", s + 1), |slot| slot.name.clone())
@@ -191,7 +191,7 @@ fn click(app: &mut App, hit: Option<RegionId>, world: [f64; 2]) {
             (Some(a), Some(b)) if a != b => {
                 app.view.border_first = None;
                 if let Some(pair) = RegionPair::new(a, b) {
-                    let active = doc.borders.get(&pair).is_some_and(|bd| !bd.suppressed);
+                    let active = doc.borders().get(&pair).is_some_and(|bd| !bd.suppressed);
                     let edit = if active {
                         doc.remove_border_edit(pair)
                     } else {
@@ -206,7 +206,7 @@ fn click(app: &mut App, hit: Option<RegionId>, world: [f64; 2]) {
         },
         Tool::Pin => {
             if let Some(h) = hit
-                && let Some(region) = doc.regions.get(&h)
+                && let Some(region) = doc.regions().get(&h)
             {
                 let slot = app.view.pin_slot;
                 let pin = if region.pin == Some(slot) {
@@ -223,9 +223,9 @@ fn click(app: &mut App, hit: Option<RegionId>, world: [f64; 2]) {
         }
         Tool::Group => {
             if let Some(h) = hit
-                && let Some(region) = doc.regions.get(&h)
+                && let Some(region) = doc.regions().get(&h)
             {
-                match app.view.group.filter(|g| doc.groups.contains_key(g)) {
+                match app.view.group.filter(|g| doc.groups().contains_key(g)) {
                     Some(g) => {
                         let to = if region.group == Some(g) {
                             None
@@ -255,7 +255,7 @@ fn click(app: &mut App, hit: Option<RegionId>, world: [f64; 2]) {
         }
         Tool::Water => {
             if let Some(h) = hit
-                && let Some(region) = doc.regions.get(&h)
+                && let Some(region) = doc.regions().get(&h)
             {
                 let role = if region.role == Role::Water {
                     Role::Land
@@ -282,7 +282,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
     let camera = app.view.camera;
     let to_screen = |p: [f64; 2]| pos(camera.to_screen(centre, p));
     let anchor_of = |id: RegionId| -> Option<[f64; 2]> {
-        let r = doc.regions.get(&id)?;
+        let r = doc.regions().get(&id)?;
         Some(match app.view.dragging {
             Some((d, off)) if d == id => [r.anchor[0] + off[0], r.anchor[1] + off[1]],
             _ => r.anchor,
@@ -305,7 +305,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
         );
     }
     if app.view.show_borders && links_readable {
-        for (pair, border) in &doc.borders {
+        for (pair, border) in doc.borders() {
             let (Some(a), Some(b)) = (anchor_of(pair.a()), anchor_of(pair.b())) else {
                 continue;
             };
@@ -330,7 +330,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
     let focus_group = app.view.group.or_else(|| {
         app.view
             .selection
-            .and_then(|s| doc.regions.get(&s))
+            .and_then(|s| doc.regions().get(&s))
             .and_then(|r| r.group)
     });
     if let Some(g) = focus_group {
@@ -395,7 +395,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
 
     // Markers for regions without an outline.
     for id in &app.scene.markers {
-        let Some(region) = doc.regions.get(id) else {
+        let Some(region) = doc.regions().get(id) else {
             continue;
         };
         let Some(a) = anchor_of(*id) else { continue };
@@ -412,7 +412,12 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
     }
 
     // Pins: a small dark square at the label point.
-    for region in app.scene.pinned.iter().filter_map(|id| doc.regions.get(id)) {
+    for region in app
+        .scene
+        .pinned
+        .iter()
+        .filter_map(|id| doc.regions().get(id))
+    {
         if region.pin.is_some() {
             let p = to_screen(region.anchor) + egui::vec2(0.0, -13.0);
             painter.rect_filled(
@@ -454,7 +459,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
         // Outlined regions: skipped as a whole when a typical one is too small for a short name.
         if typical_px >= 24.0 {
             for o in &app.scene.outlined {
-                if let Some(region) = doc.regions.get(&o.id) {
+                if let Some(region) = doc.regions().get(&o.id) {
                     let width_px = ((o.bounds[1][0] - o.bounds[0][0]) * ppu) as f32;
                     label(region, width_px, egui::vec2(0.0, 0.0));
                 }
@@ -464,7 +469,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
             .scene
             .markers
             .iter()
-            .filter_map(|id| doc.regions.get(id))
+            .filter_map(|id| doc.regions().get(id))
         {
             label(region, 80.0, egui::vec2(0.0, MARKER_RADIUS + 8.0));
         }
@@ -656,7 +661,7 @@ fn draw_base(
         if !visible(&o.bounds) {
             continue;
         }
-        let Some(region) = doc.regions.get(&o.id) else {
+        let Some(region) = doc.regions().get(&o.id) else {
             continue;
         };
         let colour = fill_of(doc, o.id, region);
@@ -839,7 +844,7 @@ fn outline_region(
     to_screen: &dyn Fn([f64; 2]) -> Pos2,
     stroke: Stroke,
 ) {
-    let Some(region) = doc.regions.get(&id) else {
+    let Some(region) = doc.regions().get(&id) else {
         return;
     };
     match &region.geometry {

@@ -91,10 +91,10 @@ impl Scene {
         let old = std::mem::take(&mut self.outlined);
         let mut old = old.into_iter().peekable();
         let mut outlines_changed = false;
-        let mut outlined = Vec::with_capacity(doc.regions.len());
+        let mut outlined = Vec::with_capacity(doc.regions().len());
         self.markers.clear();
         self.pinned.clear();
-        for (id, region) in &doc.regions {
+        for (id, region) in doc.regions() {
             if region.pin.is_some() {
                 self.pinned.push(*id);
             }

@@ -79,7 +79,7 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
         let mut in_use: Vec<bool> = (0..key.1)
             .map(|i| app.checks.slot_use.get(i).copied().unwrap_or(0) > 0)
             .collect();
-        for pin in doc.regions.values().filter_map(|r| r.pin) {
+        for pin in doc.regions().values().filter_map(|r| r.pin) {
             if let Some(u) = in_use.get_mut(pin as usize) {
                 *u = true;
             }
@@ -220,7 +220,7 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
             }
             ui.separator();
             ui.horizontal(|ui| {
-                let changed = editor.draft != doc.palette;
+                let changed = editor.draft != *doc.palette();
                 if ui
                     .add_enabled(changed, egui::Button::new("Apply to the project"))
                     .clicked()
@@ -240,7 +240,7 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
         editor.hex.remove(i);
     }
     if reset {
-        editor.reset(&doc.palette);
+        editor.reset(doc.palette());
     }
     if apply {
         let draft = editor.draft.clone();

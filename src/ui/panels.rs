@@ -50,7 +50,7 @@ fn marked(ui: &mut egui::Ui, good: bool, text: String) {
 const GOOD: Color32 = Color32::from_rgb(0x2e, 0x7d, 0x32);
 
 fn name(doc: &Document, id: RegionId) -> String {
-    doc.regions
+    doc.regions()
         .get(&id)
         .map_or_else(|| format!("#{id}"), |r| r.name.clone())
 }
@@ -122,7 +122,7 @@ pub fn verdict_lines(doc: &Document, checks: &Checks) -> Vec<VerdictLine> {
         });
     }
     for (g, members) in &c.groups_split {
-        let group = doc.groups.get(g).map_or("?", |g| g.name.as_str());
+        let group = doc.groups().get(g).map_or("?", |g| g.name.as_str());
         out.push(VerdictLine::Problem {
             text: format!("Group \"{group}\" is split across colours"),
             regions: members.clone(),
@@ -206,7 +206,7 @@ pub fn toolbar_ui(app: &mut App, ui: &mut egui::Ui) {
         ui.separator();
         if app.view.tool == Tool::Pin {
             ui.label("Pin to:");
-            let slots = app.session.doc.palette.slots.clone();
+            let slots = app.session.doc.palette().slots.clone();
             for (i, slot) in slots.iter().enumerate() {
                 let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
                 swatch(ui, c, 12.0);
@@ -222,7 +222,7 @@ pub fn toolbar_ui(app: &mut App, ui: &mut egui::Ui) {
             let groups: Vec<(GroupId, String)> = app
                 .session
                 .doc
-                .groups
+                .groups()
                 .iter()
                 .map(|(id, g)| (*id, g.name.clone()))
                 .collect();
@@ -264,7 +264,7 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
         let ids: Vec<RegionId> = app
             .session
             .doc
-            .regions
+            .regions()
             .iter()
             .filter(|(_, r)| filter.is_empty() || r.name.to_lowercase().contains(&filter))
             .map(|(id, _)| *id)
@@ -276,21 +276,21 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
         None => Vec::new(),
     };
     let doc = &app.session.doc;
-    ui.label(format!("{} shown of {}", rows.len(), doc.regions.len()));
+    ui.label(format!("{} shown of {}", rows.len(), doc.regions().len()));
     let row_height = ui.text_style_height(&egui::TextStyle::Body) + 4.0;
     egui::ScrollArea::vertical()
         .auto_shrink([false, false])
         .show_rows(ui, row_height, rows.len(), |ui, range| {
             for id in &rows[range] {
-                let Some(r) = doc.regions.get(id) else {
+                let Some(r) = doc.regions().get(id) else {
                     continue;
                 };
                 let colour = match r.role {
                     Role::Water => Some(style::WATER),
                     Role::Land => doc
-                        .colouring
+                        .colouring()
                         .get(id)
-                        .and_then(|s| doc.palette.slots.get(*s as usize))
+                        .and_then(|s| doc.palette().slots.get(*s as usize))
                         .map(|s| Color32::from_rgb(s.colour.0[0], s.colour.0[1], s.colour.0[2])),
                 };
                 ui.horizontal(|ui| {
@@ -313,12 +313,12 @@ pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
     let Some(id) = app
         .view
         .selection
-        .filter(|id| app.session.doc.regions.contains_key(id))
+        .filter(|id| app.session.doc.regions().contains_key(id))
     else {
         ui.label("Click a region on the map or in the list.");
         return;
     };
-    let region = app.session.doc.regions[&id].clone();
+    let region = app.session.doc.regions()[&id].clone();
     let mut edits: Vec<Edit> = Vec::new();
 
     // Name: typed into a draft, committed on Enter or when the field loses focus. While the field
@@ -363,19 +363,19 @@ pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
     let slot_name = |s: Option<u32>| match s {
         None => "none".to_string(),
         Some(s) => doc
-            .palette
+            .palette()
             .slots
             .get(s as usize)
             .map_or(format!("slot {}", s + 1), |slot| slot.name.clone()),
     };
-    let colour = doc.colouring.get(&id).copied();
+    let colour = doc.colouring().get(&id).copied();
     ui.label(format!("Colour: {}", slot_name(colour)));
     let mut pin = region.pin;
     egui::ComboBox::from_label("Pinned colour")
         .selected_text(slot_name(pin))
         .show_ui(ui, |ui| {
             ui.selectable_value(&mut pin, None, "none");
-            for (i, slot) in doc.palette.slots.iter().enumerate() {
+            for (i, slot) in doc.palette().slots.iter().enumerate() {
                 ui.selectable_value(&mut pin, Some(i as u32), &slot.name);
             }
         });
@@ -386,7 +386,7 @@ pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
         });
     }
     let group_name = |g: Option<GroupId>| {
-        g.and_then(|g| doc.groups.get(&g))
+        g.and_then(|g| doc.groups().get(&g))
             .map_or("none".to_string(), |g| g.name.clone())
     };
     let mut group = region.group;
@@ -394,7 +394,7 @@ pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
         .selected_text(group_name(group))
         .show_ui(ui, |ui| {
             ui.selectable_value(&mut group, None, "none");
-            for (gid, g) in &doc.groups {
+            for (gid, g) in doc.groups() {
                 ui.selectable_value(&mut group, Some(*gid), &g.name);
             }
         });
@@ -408,7 +408,7 @@ pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
     ui.separator();
     let neighbours = doc.borders_of(id);
     ui.label(RichText::new(format!("Borders ({})", neighbours.len())).strong());
-    let units = if doc.settings.units == crate::doc::Units::Metres {
+    let units = if doc.settings().units == crate::doc::Units::Metres {
         " m"
     } else {
         ""
@@ -579,7 +579,7 @@ fn colouring_verdict_ui(
             false,
             format!(
                 "The palette has {} slots; this colouring needs {n} more.",
-                app.session.doc.palette.slots.len()
+                app.session.doc.palette().slots.len()
             ),
         );
         if ui
@@ -814,10 +814,10 @@ fn planarity_ui(app: &mut App, ui: &mut egui::Ui) {
 pub fn palette_ui(app: &mut App, ui: &mut egui::Ui) {
     ui.heading("Palette");
     let doc = &app.session.doc;
-    ui.label(&doc.palette.name);
+    ui.label(&doc.palette().name);
     let counts = &app.checks.slot_use;
     let warnings = &app.checks.palette_warnings;
-    for (i, slot) in doc.palette.slots.iter().enumerate() {
+    for (i, slot) in doc.palette().slots.iter().enumerate() {
         let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
         ui.horizontal(|ui| {
             swatch(ui, c, 16.0);
@@ -931,8 +931,8 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
             .unwrap_or_else(|| "recently".into());
         let what = format!(
             "\"{}\" ({} regions), written aside {when}{}.",
-            offer.doc.title,
-            offer.doc.regions.len(),
+            offer.doc.title(),
+            offer.doc.regions().len(),
             offer
                 .original
                 .as_ref()

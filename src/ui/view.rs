@@ -100,7 +100,7 @@ pub fn hit_test(
         if p[0] < lo[0] || p[0] > hi[0] || p[1] < lo[1] || p[1] > hi[1] {
             continue;
         }
-        let Some(g) = doc.regions.get(&id).and_then(|r| r.geometry.as_ref()) else {
+        let Some(g) = doc.regions().get(&id).and_then(|r| r.geometry.as_ref()) else {
             continue;
         };
         if contains(g, p) && best.is_none_or(|(a, _)| area < a) {
@@ -111,7 +111,7 @@ pub fn hit_test(
         return Some(id);
     }
     let mut nearest: Option<(f64, RegionId)> = None;
-    for (id, r) in &doc.regions {
+    for (id, r) in doc.regions() {
         if r.geometry.is_some() {
             continue;
         }
@@ -132,7 +132,7 @@ mod tests {
 
     /// Bounding boxes and areas of every outlined region, for [`hit_test`].
     fn outline_bounds(doc: &Document) -> Vec<(RegionId, [Point; 2], f64)> {
-        doc.regions
+        doc.regions()
             .iter()
             .filter_map(|(id, r)| {
                 let g = r.geometry.as_ref()?;

@@ -166,9 +166,9 @@ fn impossibility(doc: &Document, cg: &ConstraintGraph, o: &Obstruction) -> Impos
     let label = |v: u32| cg.vertex_label(doc, v);
     let mut regions = BTreeSet::new();
     for &v in &o.vertices {
-        regions.extend(cg.vertex_regions[v as usize].iter().copied());
+        regions.extend(cg.members(v).iter().copied());
     }
-    let first = |v: u32| cg.vertex_regions[v as usize][0];
+    let first = |v: u32| cg.first_member(v);
     let steps = o.argument.as_ref().map(|steps| {
         steps
             .iter()
@@ -288,7 +288,7 @@ fn colour_graph(
         graph: cg.graph.clone(),
         pins: cg.pins.clone(),
         previous: has_previous.then(|| current.clone()),
-        max_colours: doc.palette.slots.len() as u32,
+        max_colours: doc.palette().slots.len() as u32,
     };
     let options = SolveOptions {
         time_limit: Some(how.time_limit),
@@ -296,13 +296,12 @@ fn colour_graph(
         balance: how.balance.map(|by| match by {
             BalanceBy::Count => crate::engine::colouring::Balance::Count,
             BalanceBy::Area => crate::engine::colouring::Balance::Weight(
-                cg.vertex_regions
-                    .iter()
-                    .map(|members| {
-                        members
+                (0..cg.vertex_count() as u32)
+                    .map(|v| {
+                        cg.members(v)
                             .iter()
                             .filter_map(|id| {
-                                doc.regions.get(id)?.geometry.as_ref().map(|g| g.area())
+                                doc.regions().get(id)?.geometry.as_ref().map(|g| g.area())
                             })
                             .sum::<f64>()
                     })
@@ -406,15 +405,12 @@ fn colour_graph(
 /// The two regions behind a graph edge that actually border each other. For a same-colour group
 /// this is the member on that border, not just any member, so the map shows the real contact.
 fn bordering_pair(doc: &Document, cg: &ConstraintGraph, u: u32, v: u32) -> Option<RegionPair> {
-    let (us, vs) = (
-        &cg.vertex_regions[u as usize],
-        &cg.vertex_regions[v as usize],
-    );
+    let (us, vs) = (cg.members(u), cg.members(v));
     us.iter()
         .flat_map(|a| vs.iter().map(move |b| (*a, *b)))
         .filter_map(|(a, b)| RegionPair::new(a, b))
         .find(|pair| {
-            doc.borders
+            doc.borders()
                 .get(pair)
                 .is_some_and(|border| doc.border_is_active(*pair, border))
         })
@@ -443,11 +439,11 @@ pub fn analyse(doc: &Document, ctx: &JobContext) -> Analysis {
     let planarity = match planarity(&cg.graph, &ctx.cancel, &mut report) {
         Ok(Planarity::Planar(_)) => PlanarityVerdict::Planar,
         Ok(Planarity::NonPlanar(k)) => {
-            let first = |v: u32| cg.vertex_regions[v as usize][0];
+            let first = |v: u32| cg.first_member(v);
             let mut regions = BTreeSet::new();
             for &(u, v) in &k.edges {
                 for w in [u, v] {
-                    regions.extend(cg.vertex_regions[w as usize].iter().copied());
+                    regions.extend(cg.members(w).iter().copied());
                 }
             }
             PlanarityVerdict::NotPlanar(Obstacle {
@@ -530,7 +526,7 @@ mod tests {
         assert!(
             province
                 .region_by_name("Eskelvane")
-                .is_some_and(|id| province.regions[&id].pin.is_some())
+                .is_some_and(|id| province.regions()[&id].pin.is_some())
         );
         assert_eq!(why.code, "odd_wheel");
         assert!(why.pins.is_empty());

@@ -7,11 +7,11 @@
 
 use std::time::{Duration, Instant};
 
+use tinct::analysis;
 use tinct::doc::{Document, Edit};
 use tinct::geo::{ImportOptions, import_json, synthetic};
 use tinct::ui::App;
 use tinct::worker::JobContext;
-use tinct::worker::analysis;
 
 fn map(cols: usize, rows: usize) -> Document {
     let regions = synthetic::jittered_grid(cols, rows, 6, 0.25, 7);
@@ -27,7 +27,8 @@ fn map(cols: usize, rows: usize) -> Document {
         cancel: Default::default(),
         progress: Default::default(),
     };
-    let verdict = analysis::colour(&doc, &ctx, analysis::ColourOptions::default());
+    let verdict =
+        ctx.with_control(|c| analysis::colour(&doc, c, analysis::ColourOptions::default()));
     let colouring = verdict.colouring.expect("the synthetic map colours");
     doc.apply(Edit::SetColouring(colouring))
         .expect("colouring applies");

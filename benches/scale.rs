@@ -11,9 +11,9 @@ use std::sync::Arc;
 use std::sync::atomic::AtomicBool;
 use std::time::{Duration, Instant};
 
+use tinct::analysis::{Analysis, PlanarityVerdict, Request};
 use tinct::doc::{Edit, check_colouring};
 use tinct::geo::{ImportOptions, import_json, synthetic};
-use tinct::worker::analysis::{self, PlanarityVerdict};
 use tinct::worker::{JobContext, Progress};
 
 /// Peak and current resident memory in MiB, from /proc/self/status (Linux), else getrusage.
@@ -62,9 +62,10 @@ fn load_and_analyse(path: &str) {
         cancel: Arc::new(AtomicBool::new(false)),
         progress: Arc::new(Progress::default()),
     };
-    let (result, took) = timed(|| analysis::analyse(&loaded.doc, &ctx));
+    let (result, took) =
+        timed(|| ctx.with_control(|c| Analysis::run(&loaded.doc, Request::everything(), c)));
     row("  fresh process: analyse", took, None);
-    assert_eq!(result.planarity, PlanarityVerdict::Planar);
+    assert_eq!(result.planarity, Some(PlanarityVerdict::Planar));
 }
 
 fn main() {
@@ -145,16 +146,17 @@ fn main() {
         cancel: Arc::new(AtomicBool::new(false)),
         progress: Arc::new(Progress::default()),
     };
-    let (result, took) = timed(|| analysis::analyse(&doc, &ctx));
+    let (result, took) =
+        timed(|| ctx.with_control(|c| Analysis::run(&doc, Request::everything(), c)));
     row("analyse (planarity, colours)", took, None);
     let colouring = result.colouring.as_ref().expect("not cancelled");
     println!(
         "  planar: {}, fewest colours: {:?} (proven: {}), {} vertices, {} edges",
-        result.planarity == PlanarityVerdict::Planar,
+        result.planarity == Some(PlanarityVerdict::Planar),
         colouring.minimum,
         colouring.proven,
-        result.vertices,
-        result.edges
+        result.rules.graph_vertices,
+        result.rules.graph_edges
     );
     let slots = colouring.colouring.clone().expect("a colouring");
     doc.apply(Edit::SetColouring(slots)).unwrap();

@@ -2,9 +2,11 @@
 //!
 //! Layers, each using only those before it: [`engine`] (graph algorithms and certificates) and
 //! [`colour`] (colour science for palettes) <- [`doc`] (the project document, edits, files) <-
-//! [`geo`] (importers), [`worker`] (background jobs), [`formats`] (every file kind by extension)
-//! and [`export`] (SVG, PNG, GeoJSON, CSV) <- the editor (`ui`) and [`cli`].
+//! [`geo`] (importers), [`analysis`] (rules, planarity and colouring of one revision, in region
+//! terms), [`formats`] (every file kind by extension) and [`export`] (SVG, PNG, GeoJSON, CSV) <-
+//! [`worker`] (background jobs) <- the editor (`ui`) and [`cli`].
 
+pub mod analysis;
 pub mod cli;
 pub mod colour;
 pub mod doc;

@@ -102,13 +102,13 @@ fn clicking_two_regions_with_the_border_tool_adds_a_border_and_undo_redo_work() 
     let mut h = harness(App::new(None, None));
     let (a, b) = non_neighbours(&h.state().session.doc);
     let pair = RegionPair::new(a, b).unwrap();
-    let edges_before = h.state().checks.graph_edges;
+    let edges_before = h.state().rules.graph_edges;
     add_border_by_clicking(&mut h, a, b);
     assert_eq!(
         h.state().session.doc.borders().get(&pair).map(|b| b.kind),
         Some(doc::BorderKind::Manual)
     );
-    assert_eq!(h.state().checks.graph_edges, edges_before + 1);
+    assert_eq!(h.state().rules.graph_edges, edges_before + 1);
     let text = format!(
         "{} land regions as {} colouring units with {} borders",
         31,
@@ -420,7 +420,7 @@ fn the_palette_window_edits_a_colour_warns_about_a_look_alike_and_undo_restores_
     h.run_steps(2);
     let after = &h.state().session.doc.palette();
     assert_eq!(after.slots[1].colour, before.slots[0].colour);
-    assert!(!h.state().checks.palette_warnings.is_empty());
+    assert!(!h.state().palette_warnings.warnings.is_empty());
     h.state_mut().emit(tinct::ui::commands::Command::Undo);
     h.run_steps(2);
     assert_eq!(*h.state().session.doc.palette(), before);

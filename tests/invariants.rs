@@ -193,10 +193,38 @@ fn export_looks_only_down() {
 }
 
 #[test]
+fn analysis_looks_only_down_and_the_command_line_does_not_use_the_worker() {
+    // One analysis for both front ends: it uses doc, engine and colour, and knows nothing of
+    // threads, the GUI, the worker or the command line; the command line calls it directly.
+    let mut found = offences(
+        "analysis",
+        &["egui", "eframe", "rfd", "println", "eprintln", "spawn"],
+        &[],
+    );
+    found.extend(offences_text(
+        "analysis",
+        &[
+            "crate::ui",
+            "crate::cli",
+            "crate::worker",
+            "crate::formats",
+            "std::fs",
+            "std::thread",
+        ],
+    ));
+    found.extend(offences_text("cli", &["crate::worker", "worker::"]));
+    assert!(
+        found.is_empty(),
+        "src/analysis must only use the layers below it, and src/cli not the worker:\n{}",
+        found.join("\n")
+    );
+}
+
+#[test]
 fn only_the_project_file_module_knows_ron() {
     let mut found = Vec::new();
     for folder in [
-        "engine", "colour", "doc", "geo", "export", "worker", "ui", "cli",
+        "engine", "colour", "doc", "geo", "export", "analysis", "worker", "ui", "cli",
     ] {
         found.extend(offences(folder, &["ron"], &["src/doc/file.rs"]));
     }
@@ -210,7 +238,9 @@ fn only_the_project_file_module_knows_ron() {
 #[test]
 fn only_the_user_interface_knows_the_gui_crates() {
     let mut found = Vec::new();
-    for folder in ["engine", "colour", "doc", "geo", "export", "worker", "cli"] {
+    for folder in [
+        "engine", "colour", "doc", "geo", "export", "analysis", "worker", "cli",
+    ] {
         found.extend(offences(folder, &["egui", "eframe", "rfd"], &[]));
     }
     assert!(

@@ -697,13 +697,23 @@ fn analyse_json_and_certificate_file_round_trip() {
     for (a, b) in generalised_petersen(5, 2) {
         text.push_str(&format!("{a} {b}\n"));
     }
+    let analyse = |doc: &tinct::doc::Document| {
+        let request = tinct::analysis::Request {
+            planarity: true,
+            embedding: true,
+            colouring: None,
+        };
+        tinct::analysis::uncontrolled(|c| tinct::analysis::Analysis::run(doc, request, c))
+    };
     let (doc, notices) = read_edge_list(&text, "petersen").unwrap();
-    let report = tinct::cli::analyse::report("petersen.edges", &doc, &notices);
+    let analysis = analyse(&doc);
+    let report = tinct::cli::analyse::report("petersen.edges", &doc, &analysis.rules, &notices);
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("certificate.json");
     let json = attach(
         &report,
         &doc,
+        &analysis,
         true,
         Some(Section::Planarity),
         false,
@@ -749,15 +759,16 @@ fn analyse_json_and_certificate_file_round_trip() {
     };
     check_kuratowski(&g, &k).unwrap();
     // The full report keeps its other keys and gains `planarity`; text mode names the verdict.
-    let json = attach(&report, &doc, true, None, false, None).unwrap();
+    let json = attach(&report, &doc, &analysis, true, None, false, None).unwrap();
     let value: serde_json::Value = serde_json::from_str(&json).unwrap();
     assert!(value.get("summary").is_some() && value.get("planarity").is_some());
-    let text = attach(&report, &doc, false, None, false, None).unwrap();
+    let text = attach(&report, &doc, &analysis, false, None, false, None).unwrap();
     assert!(text.contains("NOT planar: a K3,3 subdivision"));
     // A planar map with --embedding lists every vertex's rotation.
     let (doc, notices) = read_edge_list("4 6\n0 1\n0 2\n0 3\n1 2\n1 3\n2 3\n", "k4").unwrap();
-    let report = tinct::cli::analyse::report("k4.edges", &doc, &notices);
-    let json = attach(&report, &doc, true, None, true, None).unwrap();
+    let analysis = analyse(&doc);
+    let report = tinct::cli::analyse::report("k4.edges", &doc, &analysis.rules, &notices);
+    let json = attach(&report, &doc, &analysis, true, None, true, None).unwrap();
     let value: serde_json::Value = serde_json::from_str(&json).unwrap();
     assert_eq!(value["planarity"]["planar"], true);
     assert_eq!(value["planarity"]["embedding"].as_array().unwrap().len(), 4);

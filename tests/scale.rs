@@ -6,11 +6,11 @@
 use std::sync::Arc;
 use std::sync::atomic::AtomicBool;
 
+use tinct::analysis::{Analysis, PlanarityVerdict, Request};
 use tinct::doc::{ConstraintGraph, Edit, check_colouring, file};
 use tinct::engine::certify::check_embedding;
 use tinct::engine::planarity::{Planarity, planarity};
 use tinct::geo::{ImportOptions, import_json, synthetic};
-use tinct::worker::analysis::{self, PlanarityVerdict};
 use tinct::worker::{JobContext, Progress};
 
 #[test]
@@ -50,9 +50,9 @@ fn a_map_of_forty_thousand_regions_imports_saves_loads_and_analyses_correctly() 
         cancel: Arc::new(AtomicBool::new(false)),
         progress: Arc::new(Progress::default()),
     };
-    let result = analysis::analyse(&doc, &ctx);
-    assert_eq!(result.planarity, PlanarityVerdict::Planar);
-    assert_eq!(result.vertices, cols * rows);
+    let result = ctx.with_control(|c| Analysis::run(&doc, Request::everything(), c));
+    assert_eq!(result.planarity, Some(PlanarityVerdict::Planar));
+    assert_eq!(result.rules.graph_vertices, cols * rows);
     let colouring = result.colouring.unwrap();
     assert_eq!((colouring.minimum, colouring.proven), (Some(2), true));
     doc.apply(Edit::SetColouring(colouring.colouring.unwrap()))

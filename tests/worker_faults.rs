@@ -7,8 +7,8 @@ use std::sync::Arc;
 use std::sync::atomic::{AtomicUsize, Ordering};
 use std::time::{Duration, Instant};
 
+use tinct::analysis::{Analysis, PlanarityVerdict, Request};
 use tinct::doc::{Edit, check_colouring, file};
-use tinct::worker::analysis::{self, Analysis, PlanarityVerdict};
 use tinct::worker::{Event, JobKind, Worker, snapshot};
 
 fn next<T: Send + 'static>(worker: &mut Worker<T>) -> Event<T> {
@@ -40,10 +40,10 @@ fn a_panic_inside_an_analysis_job_is_reported_and_the_next_analysis_runs() {
         1,
         JobKind::Analysis,
         Box::new(move |ctx| {
-            let partial = analysis::analyse(&snap, ctx);
+            let partial = ctx.with_control(|c| Analysis::run(&snap, Request::everything(), c));
             panic!(
                 "injected fault after analysing {} regions",
-                partial.vertices
+                partial.rules.graph_vertices
             )
         }),
     );
@@ -75,7 +75,7 @@ fn a_panic_inside_an_analysis_job_is_reported_and_the_next_analysis_runs() {
     worker.submit(
         3,
         JobKind::Analysis,
-        Box::new(move |ctx| analysis::analyse(&snap, ctx)),
+        Box::new(move |ctx| ctx.with_control(|c| Analysis::run(&snap, Request::everything(), c))),
     );
     let result = match next(&mut worker) {
         Event::Done {
@@ -86,7 +86,7 @@ fn a_panic_inside_an_analysis_job_is_reported_and_the_next_analysis_runs() {
         } => result,
         other => panic!("expected the analysis of revision 3, got {other:?}"),
     };
-    assert_eq!(result.planarity, PlanarityVerdict::Planar);
+    assert_eq!(result.planarity, Some(PlanarityVerdict::Planar));
     let colouring = result.colouring.unwrap();
     let mut coloured = doc.clone();
     coloured

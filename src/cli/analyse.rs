@@ -3,12 +3,12 @@
 //! The JSON shape is documented in the README and is stable: later versions add fields, never
 //! rename or remove them.
 
-use std::collections::BTreeSet;
 use std::fmt::Write as _;
 
 use serde::Serialize;
 
-use crate::doc::{self, BorderKind, ConstraintGraph, Document, Role, check_colouring};
+use crate::analysis::Rules;
+use crate::doc::{self, Document};
 
 /// The analysis report (`--json` prints exactly this).
 #[derive(Serialize)]
@@ -97,39 +97,37 @@ pub struct NoticeOut {
 }
 
 /// Builds the report for a loaded document.
-pub fn report(file: &str, doc: &Document, notices: &[doc::graph_formats::Notice]) -> Report {
-    let cg = ConstraintGraph::build(doc);
-    let check = check_colouring(doc);
-    let count = |k: BorderKind| doc.borders().values().filter(|b| b.kind == k).count();
-    let land = doc
-        .regions()
-        .values()
-        .filter(|r| r.role == Role::Land)
-        .count();
-    let used: BTreeSet<u32> = doc.colouring().values().copied().collect();
+pub fn report(
+    file: &str,
+    doc: &Document,
+    rules: &Rules,
+    notices: &[doc::graph_formats::Notice],
+) -> Report {
+    let check = &rules.colouring;
+    let b = &rules.borders;
     Report {
         schema: 1,
         file: file.to_string(),
         title: doc.title().to_string(),
         summary: Summary {
-            regions: doc.regions().len(),
-            land,
-            water: doc.regions().len() - land,
-            groups: doc.groups().len(),
-            pins: doc.regions().values().filter(|r| r.pin.is_some()).count(),
-            coloured: doc.colouring().len(),
-            colours_used: used.len(),
+            regions: rules.regions,
+            land: rules.land,
+            water: rules.water,
+            groups: rules.groups,
+            pins: rules.pinned,
+            coloured: rules.coloured,
+            colours_used: rules.colours_used,
             palette_slots: doc.palette().slots.len(),
-            graph_vertices: cg.graph.vertex_count(),
-            graph_edges: cg.graph.edge_count(),
+            graph_vertices: rules.graph_vertices,
+            graph_edges: rules.graph_edges,
         },
         borders: BorderCounts {
-            recorded: doc.borders().len(),
-            active: doc.active_borders().count(),
-            shared: count(BorderKind::Shared),
-            corner: count(BorderKind::Corner),
-            manual: count(BorderKind::Manual),
-            suppressed: doc.borders().values().filter(|b| b.suppressed).count(),
+            recorded: b.recorded,
+            active: b.active,
+            shared: b.shared,
+            corner: b.corner,
+            manual: b.manual,
+            suppressed: b.suppressed,
         },
         groups: doc
             .groups()
@@ -165,7 +163,7 @@ pub fn report(file: &str, doc: &Document, notices: &[doc::graph_formats::Notice]
             })
             .collect(),
         groups_split: check.groups_split.iter().map(|(g, _)| g.0).collect(),
-        rule_conflicts: cg
+        rule_conflicts: rules
             .conflicts
             .iter()
             .map(|c| ConflictOut {
@@ -181,7 +179,7 @@ pub fn report(file: &str, doc: &Document, notices: &[doc::graph_formats::Notice]
                 message: n.message.clone(),
             })
             .collect(),
-        ok: check.is_clean() && cg.conflicts.is_empty(),
+        ok: rules.ok(),
     }
 }
 

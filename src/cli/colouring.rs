@@ -24,10 +24,8 @@ use std::time::Duration;
 use anyhow::Context as _;
 use serde::Serialize;
 
-use crate::doc::Document;
+use crate::analysis::{self, BalanceBy, ColourOptions, ColouringVerdict, Impossibility};
 use crate::engine::colouring::check_drat;
-use crate::worker::JobContext;
-use crate::worker::analysis::{self, BalanceBy, ColourOptions, ColouringVerdict, Impossibility};
 
 /// The `obstruction` and `minimum_obstruction` objects.
 #[derive(Serialize, Clone, Debug)]
@@ -71,31 +69,17 @@ pub struct ColouringOut {
     pub impossible: Option<String>,
 }
 
-fn context() -> JobContext {
-    JobContext {
-        cancel: Default::default(),
-        progress: Default::default(),
-    }
-}
-
-/// Analyses the colouring of `doc` (fresh, not keeping current colours) within `time_limit`, and
-/// writes the proof files into `proof_out`: `three-colours.*` when three colours are impossible,
-/// `N-colours.*` for the obstruction to one colour fewer than the minimum.
+/// The colouring section of an analysis, writing the proof files into `proof_out`:
+/// `three-colours.*` when three colours are impossible, `N-colours.*` for the obstruction to one
+/// colour fewer than the minimum.
 pub fn section(
-    doc: &Document,
-    time_limit: Duration,
+    verdict: &ColouringVerdict,
     proof_out: Option<&Path>,
 ) -> anyhow::Result<ColouringOut> {
-    let options = ColourOptions {
-        keep_current: false,
-        balance: None,
-        time_limit,
-    };
-    let verdict = analysis::colour(doc, &context(), options);
     if let Some(dir) = proof_out {
-        write_proofs(dir, &verdict)?;
+        write_proofs(dir, verdict)?;
     }
-    Ok(to_out(&verdict))
+    Ok(to_out(verdict))
 }
 
 fn write_proofs(dir: &Path, v: &ColouringVerdict) -> anyhow::Result<()> {
@@ -279,7 +263,7 @@ pub fn run_colour(
         balance,
         time_limit,
     };
-    let verdict = analysis::colour(&doc, &context(), options);
+    let verdict = analysis::uncontrolled(|c| analysis::colour(&doc, c, options));
     if let Some(why) = &verdict.impossible {
         anyhow::bail!("no colouring can satisfy this map: {why}");
     }

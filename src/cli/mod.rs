@@ -193,13 +193,34 @@ pub fn run(command: Command) -> ExitCode {
                 Ok(l) => l,
                 Err(e) => return error(exit::BAD_INPUT, &e),
             };
-            let report = analyse::report(&file.display().to_string(), &loaded.doc, &loaded.notices);
             let Some(limit) = seconds(time_limit) else {
                 return error(
                     exit::BAD_INPUT,
                     &anyhow::anyhow!("--time-limit must be a positive number of seconds"),
                 );
             };
+            // One analysis: the constraint graph once, then the parts asked for.
+            let request = crate::analysis::Request {
+                planarity: matches!(only, None | Some(Section::Planarity))
+                    || certificate_out.is_some(),
+                embedding: embedding || certificate_out.is_some(),
+                colouring: matches!(only, None | Some(Section::Colouring)).then_some(
+                    crate::analysis::ColourOptions {
+                        keep_current: false,
+                        balance: None,
+                        time_limit: limit,
+                    },
+                ),
+            };
+            let analysis = crate::analysis::uncontrolled(|c| {
+                crate::analysis::Analysis::run(&loaded.doc, request, c)
+            });
+            let report = analyse::report(
+                &file.display().to_string(),
+                &loaded.doc,
+                &analysis.rules,
+                &loaded.notices,
+            );
             // The planarity section lives in src/cli/planarity.rs, the colouring one in colouring.rs.
             let text = if only == Some(Section::Colouring) {
                 let head = if json {
@@ -212,18 +233,17 @@ pub fn run(command: Command) -> ExitCode {
                 planarity::attach(
                     &report,
                     &loaded.doc,
+                    &analysis,
                     json,
                     only,
                     embedding,
                     certificate_out.as_deref(),
                 )
             };
-            let text = match text {
-                Ok(t) if matches!(only, None | Some(Section::Colouring)) => {
-                    colouring::section(&loaded.doc, limit, proof_out.as_deref())
-                        .and_then(|c| colouring::append(t, json, &c))
-                }
-                other => other,
+            let text = match (text, &analysis.colouring) {
+                (Ok(t), Some(verdict)) => colouring::section(verdict, proof_out.as_deref())
+                    .and_then(|c| colouring::append(t, json, &c)),
+                (other, _) => other,
             };
             let text = match text {
                 Ok(t) => t,
@@ -257,8 +277,8 @@ pub fn run(command: Command) -> ExitCode {
                 );
             };
             let balance = balance.map(|b| match b {
-                BalanceArg::Count => crate::worker::analysis::BalanceBy::Count,
-                BalanceArg::Area => crate::worker::analysis::BalanceBy::Area,
+                BalanceArg::Count => crate::analysis::BalanceBy::Count,
+                BalanceArg::Area => crate::analysis::BalanceBy::Area,
             });
             match colouring::run_colour(&file, &out, keep_colours, balance, limit, add_slots) {
                 Ok(summary) => {

@@ -16,16 +16,14 @@
 
 use std::collections::BTreeMap;
 use std::path::Path;
-use std::sync::atomic::AtomicBool;
 
 use anyhow::Context as _;
 use serde::Serialize;
 
 use super::Section;
 use super::analyse::Report;
-use crate::doc::{ConstraintGraph, Document};
-use crate::engine::Vertex;
-use crate::engine::planarity::{Planarity, planarity};
+use crate::analysis::{Analysis, PlanarityVerdict};
+use crate::doc::Document;
 
 /// One vertex's clockwise neighbours.
 #[derive(Serialize, Clone, Debug, PartialEq, Eq)]
@@ -50,17 +48,15 @@ pub struct PlanarityOut {
     pub embedding: Option<Vec<RotationOut>>,
 }
 
-/// Tests the document's constraint graph (land regions, groups merged, active borders) for
-/// planarity. `with_embedding` adds the rotation system when the graph is planar.
-pub fn analyse(doc: &Document, with_embedding: bool) -> anyhow::Result<PlanarityOut> {
-    let cg = ConstraintGraph::build(doc);
-    let never = AtomicBool::new(false);
-    let verdict = planarity(&cg.graph, &never, &mut |_| {})
-        .context("planarity test of the constraint graph")?;
-    // A vertex is named by its smallest region id (groups list their regions ascending).
-    let label = |v: Vertex| -> u64 { cg.members(v).first().map_or(u64::from(v), |id| id.0) };
+/// The planarity section from an analysis that ran the test; `with_embedding` adds the rotation
+/// system when the graph is planar (and the analysis kept it).
+pub fn section(analysis: &Analysis, with_embedding: bool) -> anyhow::Result<PlanarityOut> {
+    let verdict = analysis
+        .planarity
+        .as_ref()
+        .context("the planarity test did not run")?;
     let mut out = PlanarityOut {
-        planar: verdict.is_planar(),
+        planar: false,
         kind: None,
         branch_vertices: Vec::new(),
         paths: Vec::new(),
@@ -70,49 +66,38 @@ pub fn analyse(doc: &Document, with_embedding: bool) -> anyhow::Result<Planarity
         embedding: None,
     };
     match verdict {
-        Planarity::Planar(embedding) => {
-            if with_embedding {
-                let rotations = (0..cg.graph.vertex_count() as Vertex)
-                    .map(|v| RotationOut {
-                        vertex: label(v),
-                        neighbours: embedding.rotation(v).iter().map(|&w| label(w)).collect(),
-                    })
-                    .collect();
-                out.embedding = Some(rotations);
+        PlanarityVerdict::Planar => {
+            out.planar = true;
+            if with_embedding && let Some(e) = &analysis.embedding {
+                out.embedding = Some(
+                    e.rotations(&analysis.graph)
+                        .map(|(vertex, neighbours)| RotationOut {
+                            vertex: vertex.0,
+                            neighbours: neighbours.iter().map(|id| id.0).collect(),
+                        })
+                        .collect(),
+                );
             }
         }
-        Planarity::NonPlanar(k) => {
-            out.kind = Some(k.kind.name());
-            out.branch_vertices = k.branch_vertices.iter().map(|&v| label(v)).collect();
-            out.paths = k
+        PlanarityVerdict::NotPlanar(o) => {
+            out.kind = Some(o.kind);
+            out.branch_vertices = o.branch_regions.iter().map(|id| id.0).collect();
+            out.paths = o
                 .paths
                 .iter()
-                .map(|p| p.iter().map(|&v| label(v)).collect())
+                .map(|p| p.iter().map(|id| id.0).collect())
                 .collect();
-            out.edges = k
-                .edges
+            out.edges = o.edges.iter().map(|p| [p.a().0, p.b().0]).collect();
+            out.regions = o.regions.iter().map(|id| id.0).collect();
+            out.groups = o
+                .groups
                 .iter()
-                .map(|&(a, b)| {
-                    let (x, y) = (label(a), label(b));
-                    [x.min(y), x.max(y)]
+                .map(|(name, members)| {
+                    (name.0.to_string(), members.iter().map(|id| id.0).collect())
                 })
                 .collect();
-            out.edges.sort_unstable();
-            let mut vertices: Vec<Vertex> = k.edges.iter().flat_map(|&(a, b)| [a, b]).collect();
-            vertices.sort_unstable();
-            vertices.dedup();
-            for v in vertices {
-                let members = cg.members(v);
-                out.regions.extend(members.iter().map(|id| id.0));
-                if members.len() > 1 {
-                    out.groups.insert(
-                        label(v).to_string(),
-                        members.iter().map(|id| id.0).collect(),
-                    );
-                }
-            }
-            out.regions.sort_unstable();
         }
+        PlanarityVerdict::Unknown => anyhow::bail!("the planarity test was stopped"),
     }
     Ok(out)
 }
@@ -129,6 +114,7 @@ pub fn write_certificate(certificate: &PlanarityOut, path: &Path) -> anyhow::Res
 pub fn attach(
     report: &Report,
     doc: &Document,
+    analysis: &Analysis,
     json: bool,
     only: Option<Section>,
     with_embedding: bool,
@@ -136,7 +122,7 @@ pub fn attach(
 ) -> anyhow::Result<String> {
     let wanted = matches!(only, None | Some(Section::Planarity)) || certificate_out.is_some();
     let section = if wanted {
-        let mut full = analyse(doc, with_embedding || certificate_out.is_some())?;
+        let mut full = section(analysis, with_embedding || certificate_out.is_some())?;
         if let Some(path) = certificate_out {
             write_certificate(&full, path)?;
         }
@@ -203,14 +189,25 @@ pub fn render_text(p: &PlanarityOut, doc: &Document) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::analysis::Request;
     use crate::doc::graph_formats::read_edge_list;
+
+    fn analyse(doc: &Document, embedding: bool) -> PlanarityOut {
+        let request = Request {
+            planarity: true,
+            embedding,
+            colouring: None,
+        };
+        let analysis = crate::analysis::uncontrolled(|c| Analysis::run(doc, request, c));
+        section(&analysis, embedding).unwrap()
+    }
 
     #[test]
     fn edge_list_labels_come_back_unchanged() {
         // K3,3 on labels 0..6 (Kuratowski 1930: not planar).
         let text = "6 9\n0 3\n0 4\n0 5\n1 3\n1 4\n1 5\n2 3\n2 4\n2 5\n";
         let (doc, _) = read_edge_list(text, "k33").unwrap();
-        let p = analyse(&doc, false).unwrap();
+        let p = analyse(&doc, false);
         assert!(!p.planar);
         assert_eq!(p.kind, Some("K3,3"));
         assert_eq!(p.branch_vertices, vec![0, 1, 2, 3, 4, 5]);
@@ -218,7 +215,7 @@ mod tests {
         assert_eq!(p.regions, vec![0, 1, 2, 3, 4, 5]);
         // K4 is planar; its embedding lists three neighbours per vertex.
         let (doc, _) = read_edge_list("4 6\n0 1\n0 2\n0 3\n1 2\n1 3\n2 3\n", "k4").unwrap();
-        let p = analyse(&doc, true).unwrap();
+        let p = analyse(&doc, true);
         assert!(p.planar && p.kind.is_none());
         let embedding = p.embedding.unwrap();
         assert_eq!(embedding.len(), 4);

@@ -15,14 +15,14 @@ use super::model::{Document, Palette, RegionId, Rgb};
 /// colouring. Borders between two regions of one slot (clashes) are not counted here.
 pub fn slot_border_counts(doc: &Document) -> BTreeMap<(u32, u32), u64> {
     let mut out = BTreeMap::new();
-    for (pair, _) in doc.active_borders() {
-        let (Some(&x), Some(&y)) = (
-            doc.colouring().get(&pair.a()),
-            doc.colouring().get(&pair.b()),
-        ) else {
+    let regions = doc.regions();
+    let index = doc.border_index();
+    for (border, &(a, b)) in doc.borders().values().zip(&index.ends) {
+        let (Some(x), Some(y)) = (regions.colour_at(a as usize), regions.colour_at(b as usize))
+        else {
             continue;
         };
-        if x != y {
+        if x != y && doc.border_is_active_at(border, a, b) {
             *out.entry((x.min(y), x.max(y))).or_insert(0) += 1;
         }
     }

@@ -4,10 +4,8 @@
 use std::path::{Path, PathBuf};
 use std::time::{Duration, Instant};
 
-use crate::doc::{
-    self, ColouringCheck, ConstraintGraph, Document, Edit, GroupId, History, RegionId, RuleConflict,
-};
-use crate::worker::analysis::{self, Analysis};
+use crate::analysis::{self, Analysis, Request, Rules};
+use crate::doc::{self, Document, Edit, GroupId, History, RegionId};
 use crate::worker::{Event, JobKind, Worker};
 
 use super::commands::{Command, ExportFormat, Tool};
@@ -57,40 +55,18 @@ impl Session {
     }
 }
 
-/// What the checks found for one revision of the document.
-pub struct Checks {
+/// The palette's distinctness warnings for the slot pairs neighbours use, for one revision.
+#[derive(Default)]
+pub struct PaletteWarnings {
     pub revision: u64,
-    pub colouring: ColouringCheck,
-    pub conflicts: Vec<RuleConflict>,
-    pub graph_vertices: usize,
-    pub graph_edges: usize,
-    pub land_regions: usize,
-    /// How many regions use each palette slot.
-    pub slot_use: Vec<usize>,
-    /// The palette's distinctness warnings for the slot pairs neighbours use.
-    pub palette_warnings: Vec<String>,
+    pub warnings: Vec<String>,
 }
 
-impl Checks {
-    pub fn of(doc: &Document) -> Checks {
-        let cg = ConstraintGraph::build(doc);
-        Checks {
+impl PaletteWarnings {
+    pub fn of(doc: &Document) -> PaletteWarnings {
+        PaletteWarnings {
             revision: doc.revision(),
-            colouring: doc::check_colouring(doc),
-            conflicts: cg.conflicts,
-            graph_vertices: cg.graph.vertex_count(),
-            graph_edges: cg.graph.edge_count(),
-            land_regions: doc.land_regions().count(),
-            slot_use: {
-                let mut counts = vec![0usize; doc.palette().slots.len()];
-                for s in doc.colouring().values() {
-                    if let Some(c) = counts.get_mut(*s as usize) {
-                        *c += 1;
-                    }
-                }
-                counts
-            },
-            palette_warnings: doc::palette_check::palette_report(
+            warnings: doc::palette_check::palette_report(
                 doc,
                 &crate::colour::Thresholds::default(),
             )
@@ -287,7 +263,9 @@ pub struct App {
     pub session: Session,
     pub view: ViewState,
     pub scene: Scene,
-    pub checks: Checks,
+    /// The rules and the colouring's problems for the current revision.
+    pub rules: Rules,
+    pub palette_warnings: PaletteWarnings,
     pub messages: Vec<Message>,
     pub path_prompt: Option<PathPrompt>,
     /// A command waiting for the user to decide about unsaved changes.
@@ -352,12 +330,14 @@ impl App {
         let worker =
             ctx.and_then(|ctx| Worker::start(Box::new(move || ctx.request_repaint())).ok());
         let (dialog_sender, dialog_results) = std::sync::mpsc::channel();
-        let checks = Checks::of(&doc);
+        let rules = Analysis::rules(&doc).rules;
+        let palette_warnings = PaletteWarnings::of(&doc);
         let mut app = App {
             session: Session::new(doc, None),
             view: ViewState::default(),
             scene: Scene::default(),
-            checks,
+            rules,
+            palette_warnings,
             messages: Vec::new(),
             path_prompt: None,
             confirm_discard: None,
@@ -599,7 +579,8 @@ impl App {
         self.session = session;
         self.notices.clear();
         self.view = ViewState::default();
-        self.checks = Checks::of(&self.session.doc);
+        self.rules = Analysis::rules(&self.session.doc).rules;
+        self.palette_warnings = PaletteWarnings::of(&self.session.doc);
         self.analysis = None;
         self.analysis_requested = None;
         self.seen_revision = u64::MAX;
@@ -808,7 +789,9 @@ impl App {
                 revision,
                 JobKind::Analysis,
                 Box::new(move |ctx| {
-                    JobResult::Analysed(Box::new(analysis::analyse(&snapshot, ctx)))
+                    JobResult::Analysed(Box::new(
+                        ctx.with_control(|c| Analysis::run(&snapshot, Request::everything(), c)),
+                    ))
                 }),
             ),
             None => {
@@ -816,7 +799,8 @@ impl App {
                     cancel: Default::default(),
                     progress: Default::default(),
                 };
-                self.analysis = Some(analysis::analyse(&snapshot, &ctx));
+                self.analysis =
+                    Some(ctx.with_control(|c| Analysis::run(&snapshot, Request::everything(), c)));
             }
         }
     }
@@ -895,8 +879,9 @@ impl App {
         if let Some(path) = dropped.into_iter().next() {
             self.confirm_or_run_open(path);
         }
-        if self.checks.revision != self.session.doc.revision() {
-            self.checks = Checks::of(&self.session.doc);
+        if self.rules.revision != self.session.doc.revision() {
+            self.rules = Analysis::rules(&self.session.doc).rules;
+            self.palette_warnings = PaletteWarnings::of(&self.session.doc);
         }
         let revision = self.session.doc.revision();
         if revision != self.seen_revision {
@@ -1055,14 +1040,16 @@ impl App {
                 let snapshot = crate::worker::snapshot(&self.session.doc);
                 let job = move |ctx: &crate::worker::JobContext| JobResult::Balanced {
                     revision,
-                    verdict: Box::new(analysis::colour(
-                        &snapshot,
-                        ctx,
-                        analysis::ColourOptions {
-                            balance: Some(analysis::BalanceBy::Count),
-                            ..Default::default()
-                        },
-                    )),
+                    verdict: Box::new(ctx.with_control(|c| {
+                        analysis::colour(
+                            &snapshot,
+                            c,
+                            analysis::ColourOptions {
+                                balance: Some(analysis::BalanceBy::Count),
+                                ..Default::default()
+                            },
+                        )
+                    })),
                 };
                 self.run_job(revision, JobKind::Other, Box::new(job));
             }

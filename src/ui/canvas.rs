@@ -10,7 +10,7 @@ use crate::doc::{BorderKind, Document, Edit, Region, RegionChange, RegionId, Reg
 use super::app::{App, Highlight};
 use super::commands::Tool;
 use super::view::{Camera, hit_test};
-use crate::worker::analysis::PlanarityVerdict;
+use crate::analysis::PlanarityVerdict;
 
 /// Colours of the canvas (our own choices: quiet neutrals, with strong colours kept for warnings).
 pub mod style {
@@ -346,7 +346,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
     }
 
     // Clashes are always shown: a red link and red outlines.
-    for clash in &app.checks.colouring.clashes {
+    for clash in &app.rules.colouring.clashes {
         let (Some(a), Some(b)) = (anchor_of(clash.pair.a()), anchor_of(clash.pair.b())) else {
             continue;
         };
@@ -360,7 +360,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
     let colouring = app.analysis.as_ref().and_then(|a| a.colouring.as_ref());
     let evidence = match (
         app.view.highlight,
-        app.analysis.as_ref().map(|a| &a.planarity),
+        app.analysis.as_ref().and_then(|a| a.planarity.as_ref()),
     ) {
         (Some(Highlight::NotPlanar), Some(PlanarityVerdict::NotPlanar(o))) => Some((
             &o.regions,

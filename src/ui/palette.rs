@@ -77,7 +77,7 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
     if editor.pairs.as_ref().is_none_or(|(k, ..)| *k != key) {
         let (checked, pairs, _) = palette_check::checked_pairs(doc, key.1);
         let mut in_use: Vec<bool> = (0..key.1)
-            .map(|i| app.checks.slot_use.get(i).copied().unwrap_or(0) > 0)
+            .map(|i| app.rules.slot_use.get(i).copied().unwrap_or(0) > 0)
             .collect();
         for pin in doc.regions().values().filter_map(|r| r.pin) {
             if let Some(u) = in_use.get_mut(pin as usize) {

@@ -6,10 +6,10 @@ use egui::{Color32, RichText};
 
 use crate::doc::{BorderKind, Document, Edit, GroupId, RegionChange, RegionId, Role};
 
-use super::app::{App, Checks, ExportOptions, Highlight, Level, PathPurpose};
+use super::app::{App, ExportOptions, Highlight, Level, PathPurpose};
 use super::canvas::style;
 use super::commands::{Command, ExportFormat, Menu, Tool, search};
-use crate::worker::analysis::{self, PlanarityVerdict};
+use crate::analysis::{self, PlanarityVerdict, Rules};
 
 /// One line of the verdict panel.
 #[derive(Clone, Debug, PartialEq)]
@@ -59,12 +59,12 @@ fn name(doc: &Document, id: RegionId) -> String {
 const MAX_LISTED: usize = 25;
 
 /// What the verdict panel says about the current colouring and rules. Pure, so it is unit-tested.
-pub fn verdict_lines(doc: &Document, checks: &Checks) -> Vec<VerdictLine> {
+pub fn verdict_lines(doc: &Document, checks: &Rules) -> Vec<VerdictLine> {
     let mut out = Vec::new();
     let c = &checks.colouring;
     out.push(VerdictLine::Note(format!(
         "{} land regions as {} colouring units with {} borders",
-        checks.land_regions, checks.graph_vertices, checks.graph_edges
+        checks.land, checks.graph_vertices, checks.graph_edges
     )));
     for conflict in &checks.conflicts {
         out.push(VerdictLine::Problem {
@@ -451,7 +451,7 @@ pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
 /// The verdict panel: clashes, uncoloured land, contradictions.
 pub fn verdict_ui(app: &mut App, ui: &mut egui::Ui) {
     ui.heading("Verdict");
-    let lines = verdict_lines(&app.session.doc, &app.checks);
+    let lines = verdict_lines(&app.session.doc, &app.rules);
     let mut jump = None;
     for line in lines {
         match line {
@@ -757,7 +757,11 @@ fn planarity_ui(app: &mut App, ui: &mut egui::Ui) {
     }
     let mut toggle = false;
     let mut jump = None;
-    match &analysis.planarity {
+    match analysis
+        .planarity
+        .as_ref()
+        .unwrap_or(&PlanarityVerdict::Unknown)
+    {
         PlanarityVerdict::Planar => {
             marked(ui, true, "Yes: the border graph is planar.".into());
             ui.label("Four colours always suffice unless pinned colours say otherwise.");
@@ -815,8 +819,8 @@ pub fn palette_ui(app: &mut App, ui: &mut egui::Ui) {
     ui.heading("Palette");
     let doc = &app.session.doc;
     ui.label(&doc.palette().name);
-    let counts = &app.checks.slot_use;
-    let warnings = &app.checks.palette_warnings;
+    let counts = &app.rules.slot_use;
+    let warnings = &app.palette_warnings.warnings;
     for (i, slot) in doc.palette().slots.iter().enumerate() {
         let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
         ui.horizontal(|ui| {
@@ -1099,7 +1103,7 @@ mod tests {
     fn verdict_lists_clashes_with_their_regions_and_uncoloured_land() {
         let (mut doc, _) =
             crate::doc::fixtures::clashing_pair_and_one_uncoloured(["Ash", "Birch", "Cedar"]);
-        let lines = verdict_lines(&doc, &Checks::of(&doc));
+        let lines = verdict_lines(&doc, &crate::analysis::Analysis::rules(&doc).rules);
         assert!(lines.contains(&VerdictLine::Problem {
             text: "Ash and Birch both have colour 1".into(),
             regions: vec![RegionId(1), RegionId(2)]
@@ -1115,7 +1119,7 @@ mod tests {
             slot: Some(0),
         })
         .unwrap();
-        let lines = verdict_lines(&doc, &Checks::of(&doc));
+        let lines = verdict_lines(&doc, &crate::analysis::Analysis::rules(&doc).rules);
         assert!(lines.contains(&VerdictLine::Good(
             "The colouring is complete and valid, with 2 colours".into()
         )));

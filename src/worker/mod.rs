@@ -14,8 +14,6 @@ use std::thread::JoinHandle;
 
 use crate::doc::Document;
 
-pub mod analysis;
-
 /// Shared progress of the running job, readable at any time without waiting.
 #[derive(Default)]
 pub struct Progress {
@@ -55,6 +53,15 @@ impl JobContext {
     /// True once the job has been cancelled (by the user, or by a newer job).
     pub fn cancelled(&self) -> bool {
         self.cancel.load(Ordering::Relaxed)
+    }
+
+    /// Runs `f` with an analysis control backed by this job's flag and progress.
+    pub fn with_control<T>(&self, f: impl FnOnce(&crate::analysis::Control) -> T) -> T {
+        let progress = |stage: &str, fraction: f64| self.progress.set(stage, fraction);
+        f(&crate::analysis::Control {
+            cancel: &self.cancel,
+            progress: &progress,
+        })
     }
 }
 

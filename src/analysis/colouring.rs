@@ -1,8 +1,8 @@
-//! The analysis the editor runs in the background after every change: the constraint graph, the
-//! planarity verdict with its certificate, mapped back to regions so the map can highlight them.
+//! The fewest colours, the three-colour verdict, and the parts of the map that rule out fewer
+//! colours, in region terms: the engine's report mapped back to regions, with the arguments in
+//! the regions' names and the proofs beside them.
 
 use std::collections::{BTreeMap, BTreeSet};
-use std::sync::atomic::Ordering;
 use std::time::Duration;
 
 use crate::doc::{ConstraintGraph, Document, RegionId, RegionPair};
@@ -10,31 +10,8 @@ use crate::engine::colouring::{
     BoundEvidence, ColouringError, ColouringProblem, Obstruction, ObstructionKind, SolveOptions,
     Stage, StoppedPart, solve, step_text,
 };
-use crate::engine::planarity::{Phase, Planarity, PlanarityError, planarity};
 
-use super::JobContext;
-
-/// A Kuratowski subdivision in region terms.
-#[derive(Clone, Debug, PartialEq)]
-pub struct Obstacle {
-    /// `"K5"` or `"K3,3"`.
-    pub kind: &'static str,
-    /// One region per branch vertex (for a group, its first member), in the certificate's order.
-    pub branch_regions: Vec<RegionId>,
-    /// Every region the subdivision passes through, groups expanded, ascending.
-    pub regions: Vec<RegionId>,
-    /// The subdivision's edges as pairs of regions (a group is represented by its first member).
-    pub links: Vec<RegionPair>,
-}
-
-/// The planarity part of an analysis.
-#[derive(Clone, Debug, PartialEq)]
-pub enum PlanarityVerdict {
-    Planar,
-    NotPlanar(Obstacle),
-    /// The job was cancelled before a verdict.
-    Unknown,
-}
+use super::{COLOURING_TIME_LIMIT, Control, and_list, bordering_pair};
 
 /// One step of the argument that fewer colours are impossible, in region terms.
 #[derive(Clone, Debug, PartialEq)]
@@ -126,19 +103,6 @@ pub fn proof_texts(v: &ColouringVerdict) -> Vec<(String, String)> {
     files
 }
 
-/// Everything the background analysis found for one revision.
-#[derive(Clone, Debug)]
-pub struct Analysis {
-    pub revision: u64,
-    pub vertices: usize,
-    pub edges: usize,
-    pub planarity: PlanarityVerdict,
-    pub colouring: Option<ColouringVerdict>,
-}
-
-/// How long the background search for the fewest colours may run before it reports what it has.
-pub const COLOURING_TIME_LIMIT: Duration = Duration::from_secs(20);
-
 /// Names an obstruction kind in words.
 fn kind_words(kind: ObstructionKind, colours: u32) -> &'static str {
     match kind {
@@ -149,15 +113,6 @@ fn kind_words(kind: ObstructionKind, colours: u32) -> &'static str {
         ObstructionKind::Grotzsch => "a Grötzsch configuration",
         ObstructionKind::Pinned => "a cluster of regions that their pins leave no way to colour",
         ObstructionKind::Critical => "a tightly knit cluster of regions",
-    }
-}
-
-/// "a", "a and b", "a, b and c".
-fn and_list(items: &[String]) -> String {
-    match items {
-        [] => String::new(),
-        [one] => one.clone(),
-        [init @ .., last] => format!("{} and {last}", init.join(", ")),
     }
 }
 
@@ -248,15 +203,16 @@ impl Default for ColourOptions {
 }
 
 /// Colours the document's constraint graph with the fewest colours, under its pins and groups.
-pub fn colour(doc: &Document, ctx: &JobContext, options: ColourOptions) -> ColouringVerdict {
+pub fn colour(doc: &Document, control: &Control, options: ColourOptions) -> ColouringVerdict {
     let cg = ConstraintGraph::build(doc);
-    colour_graph(doc, &cg, ctx, options)
+    colour_graph(doc, &cg, control, options)
 }
 
-fn colour_graph(
+/// [`colour`] on a constraint graph already built for `doc`.
+pub fn colour_graph(
     doc: &Document,
     cg: &ConstraintGraph,
-    ctx: &JobContext,
+    control: &Control,
     how: ColourOptions,
 ) -> ColouringVerdict {
     let mut verdict = ColouringVerdict {
@@ -322,9 +278,9 @@ fn colour_graph(
             Some(ub) if ub > 0 => p.lower_bound as f64 / ub as f64,
             _ => 0.0,
         };
-        ctx.progress.set(&stage, fraction);
+        (control.progress)(&stage, fraction);
     };
-    let report = match solve(&problem, &options, &ctx.cancel, &mut progress) {
+    let report = match solve(&problem, &options, control.cancel, &mut progress) {
         Ok(r) => r,
         Err(ColouringError::PinnedNeighbours { u, v, slot }) => {
             verdict.impossible = Some(format!(
@@ -400,160 +356,4 @@ fn colour_graph(
         .map_or(0, |&top| (top + 1).saturating_sub(problem.max_colours));
     verdict.changed = report.changed;
     verdict
-}
-
-/// The two regions behind a graph edge that actually border each other. For a same-colour group
-/// this is the member on that border, not just any member, so the map shows the real contact.
-fn bordering_pair(doc: &Document, cg: &ConstraintGraph, u: u32, v: u32) -> Option<RegionPair> {
-    let (us, vs) = (cg.members(u), cg.members(v));
-    us.iter()
-        .flat_map(|a| vs.iter().map(move |b| (*a, *b)))
-        .filter_map(|(a, b)| RegionPair::new(a, b))
-        .find(|pair| {
-            doc.borders()
-                .get(pair)
-                .is_some_and(|border| doc.border_is_active(*pair, border))
-        })
-        .or_else(|| RegionPair::new(us[0], vs[0]))
-}
-
-/// Runs the analysis of `doc`. Stops early (with `Unknown` parts) when the job is cancelled.
-pub fn analyse(doc: &Document, ctx: &JobContext) -> Analysis {
-    ctx.progress.set("Building the border graph", 0.0);
-    let cg = ConstraintGraph::build(doc);
-    let mut report = |p: crate::engine::planarity::Progress| {
-        let stage = match p.phase {
-            Phase::Orientation | Phase::Testing => "Testing planarity",
-            Phase::Embedding => "Embedding the map",
-            Phase::Kuratowski => "Finding the regions that prevent a flat drawing",
-        };
-        ctx.progress.set(
-            stage,
-            if p.total == 0 {
-                0.0
-            } else {
-                p.done as f64 / p.total as f64
-            },
-        );
-    };
-    let planarity = match planarity(&cg.graph, &ctx.cancel, &mut report) {
-        Ok(Planarity::Planar(_)) => PlanarityVerdict::Planar,
-        Ok(Planarity::NonPlanar(k)) => {
-            let first = |v: u32| cg.first_member(v);
-            let mut regions = BTreeSet::new();
-            for &(u, v) in &k.edges {
-                for w in [u, v] {
-                    regions.extend(cg.members(w).iter().copied());
-                }
-            }
-            PlanarityVerdict::NotPlanar(Obstacle {
-                kind: k.kind.name(),
-                branch_regions: k.branch_vertices.iter().map(|&v| first(v)).collect(),
-                regions: regions.into_iter().collect(),
-                links: k
-                    .edges
-                    .iter()
-                    .filter_map(|&(u, v)| bordering_pair(doc, &cg, u, v))
-                    .collect(),
-            })
-        }
-        Err(PlanarityError::Cancelled) | Err(PlanarityError::Graph(_)) => PlanarityVerdict::Unknown,
-    };
-    debug_assert!(planarity != PlanarityVerdict::Unknown || ctx.cancel.load(Ordering::Relaxed));
-    let colouring =
-        (!ctx.cancelled()).then(|| colour_graph(doc, &cg, ctx, ColourOptions::default()));
-    ctx.progress.set("Done", 1.0);
-    Analysis {
-        revision: doc.revision(),
-        vertices: cg.graph.vertex_count(),
-        edges: cg.graph.edge_count(),
-        planarity,
-        colouring,
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-    use crate::worker::Progress;
-    use std::sync::Arc;
-    use std::sync::atomic::AtomicBool;
-
-    #[test]
-    fn the_exclave_sample_is_not_planar_and_its_obstacle_names_both_parts_of_the_group() {
-        let text = std::fs::read_to_string(concat!(
-            env!("CARGO_MANIFEST_DIR"),
-            "/sample-maps/exclave-coast.tinct"
-        ))
-        .unwrap();
-        let doc = crate::doc::file::from_str(&text).unwrap();
-        let ctx = JobContext {
-            cancel: Arc::new(AtomicBool::new(false)),
-            progress: Arc::new(Progress::default()),
-        };
-        let a = analyse(&doc, &ctx);
-        let PlanarityVerdict::NotPlanar(o) = a.planarity else {
-            panic!("expected non-planar")
-        };
-        assert_eq!(o.kind, "K3,3");
-        let aldwyn = doc.region_by_name("Aldwyn").unwrap();
-        let tessary = doc.region_by_name("Port Tessary (Aldwyn exclave)").unwrap();
-        assert!(o.regions.contains(&aldwyn) && o.regions.contains(&tessary));
-    }
-    #[test]
-    fn the_province_needs_four_colours_with_a_proof_and_the_valleys_three() {
-        let ctx = JobContext {
-            cancel: Arc::new(AtomicBool::new(false)),
-            progress: Arc::new(Progress::default()),
-        };
-        let load = |name: &str| {
-            let path = format!("{}/sample-maps/{name}.tinct", env!("CARGO_MANIFEST_DIR"));
-            crate::doc::file::from_str(&std::fs::read_to_string(path).unwrap()).unwrap()
-        };
-        let province = load("vessland-province");
-        let c = analyse(&province, &ctx).colouring.unwrap();
-        assert_eq!(
-            (c.minimum, c.proven, c.three_colourable),
-            (Some(4), true, Some(false))
-        );
-        let why = c.three_impossible.unwrap();
-        assert!(
-            why.steps.as_ref().is_some_and(|s| !s.is_empty()),
-            "a readable argument"
-        );
-        // Regression: Eskelvane's pin was named as the culprit, though its odd wheel fails
-        // three colours with or without it.
-        assert!(
-            province
-                .region_by_name("Eskelvane")
-                .is_some_and(|id| province.regions()[&id].pin.is_some())
-        );
-        assert_eq!(why.code, "odd_wheel");
-        assert!(why.pins.is_empty());
-        for step in why.steps.as_ref().unwrap() {
-            assert!(!step.text.contains("pinned"), "{}", step.text);
-            assert!(!step.text.contains("colour 1"), "{}", step.text);
-        }
-        assert!(
-            !c.lower_bound_reason.contains("pin"),
-            "{}",
-            c.lower_bound_reason
-        );
-        assert!(why.cnf_and_proof.is_some(), "a checkable proof");
-        let colouring = c.colouring.unwrap();
-        let mut coloured = province.clone();
-        coloured
-            .apply(crate::doc::Edit::SetColouring(colouring))
-            .unwrap();
-        assert!(
-            crate::doc::check_colouring(&coloured).is_clean(),
-            "the colouring honours every rule"
-        );
-
-        let valleys = analyse(&load("three-valleys"), &ctx).colouring.unwrap();
-        assert_eq!(
-            (valleys.minimum, valleys.proven, valleys.three_colourable),
-            (Some(3), true, Some(true))
-        );
-    }
 }

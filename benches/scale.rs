@@ -5,6 +5,10 @@
 //! Baselines: parsing the GeoJSON text into a plain JSON value (for the import), and reading and
 //! writing the project file's bytes with no parsing (for saving and loading). Run with
 //! `cargo bench --no-default-features --bench scale` (optionally `-- REGIONS`, default 1,000,000).
+//!
+//! `-- --edits [REGIONS]` (default 100,000) times edits instead: how long until the checks reflect
+//! a recolouring, a pin, a border added by hand, a deleted region and an undo, against rebuilding
+//! the checks from scratch.
 
 use std::path::Path;
 use std::sync::Arc;
@@ -68,10 +72,125 @@ fn load_and_analyse(path: &str) {
     assert_eq!(result.planarity, Some(PlanarityVerdict::Planar));
 }
 
+/// A line of the edit table, in milliseconds.
+fn row_ms(step: &str, took: Duration, baseline: Option<Duration>) {
+    let ratio = baseline.map_or("-".to_string(), |b| {
+        format!("{:.2}x", took.as_secs_f64() / b.as_secs_f64().max(1e-9))
+    });
+    println!(
+        "{step:<34} {:>10.2} ms {ratio:>9}",
+        took.as_secs_f64() * 1000.0
+    );
+}
+
+/// Median of `runs` timings of `f`.
+fn median(runs: usize, mut f: impl FnMut() -> Duration) -> Duration {
+    let mut times: Vec<Duration> = (0..runs).map(|_| f()).collect();
+    times.sort();
+    times[runs / 2]
+}
+
+/// Edits on a map of `regions` regions, as the editor makes them: how long until the checks
+/// (clashes, uncoloured land, pins, groups, rule conflicts, counts) reflect each edit, against
+/// rebuilding them from scratch. Target: at most 50 ms at 100,000 regions.
+fn edit_latency(regions: usize) {
+    use tinct::doc::{Border, ConstraintGraph, RegionChange, RegionPair};
+    use tinct::session::Session;
+    let cols = (regions as f64).sqrt().round().max(1.0) as usize;
+    let rows = regions.div_ceil(cols);
+    let grid = synthetic::jittered_grid(cols, rows, 2, 0.2, 1);
+    let text = synthetic::to_geojson(&grid);
+    let map = import_json(text.as_bytes(), &ImportOptions::default()).unwrap();
+    let mut doc = map.into_document("Edits");
+    let colouring = tinct::analysis::uncontrolled(|c| {
+        tinct::analysis::colour(&doc, c, tinct::analysis::ColourOptions::default())
+    })
+    .colouring
+    .expect("a colouring");
+    doc.apply(Edit::SetColouring(colouring)).unwrap();
+    let mut session = Session::new(doc, None);
+    println!(
+        "Edits on a {} x {} grid ({} regions, {} borders): time until the checks reflect the edit",
+        cols,
+        rows,
+        session.doc().regions().len(),
+        session.doc().borders().len()
+    );
+    let rebuild = median(5, || {
+        let doc = session.doc();
+        timed(|| tinct::analysis::Rules::of(doc, &ConstraintGraph::build(doc))).1
+    });
+    row_ms("baseline: rebuild the checks", rebuild, None);
+    let ids: Vec<_> = session.doc().regions().keys().copied().collect();
+    let mut k = 0usize;
+    let mut next = || {
+        k = (k * 7919 + 104_729) % ids.len();
+        ids[k]
+    };
+    let recolour = median(21, || {
+        let id = next();
+        let slot = session.doc().colouring().get(&id).copied().unwrap_or(0);
+        let edit = Edit::PutColour {
+            id,
+            slot: Some((slot + 1) % 4),
+        };
+        timed(|| session.apply(edit).unwrap()).1
+    });
+    row_ms("recolour one region", recolour, Some(rebuild));
+    let pin = median(21, || {
+        let id = next();
+        let edit = Edit::UpdateRegion {
+            id,
+            change: RegionChange::Pin(Some(1)),
+        };
+        timed(|| session.apply(edit).unwrap()).1
+    });
+    row_ms("pin one region", pin, Some(rebuild));
+    let border = median(21, || {
+        let (a, b) = (next(), next());
+        let Some(pair) = RegionPair::new(a, b) else {
+            return Duration::ZERO;
+        };
+        let edit = Edit::PutBorder {
+            pair,
+            border: Some(Border::manual()),
+        };
+        timed(|| session.apply(edit).unwrap()).1
+    });
+    row_ms("add a border by hand", border, Some(rebuild));
+    let delete = median(11, || {
+        let id = next();
+        if session.doc().regions().get(&id).is_none() {
+            return Duration::ZERO;
+        }
+        let edit = Edit::PutRegion { id, region: None };
+        timed(|| session.apply(edit).unwrap()).1
+    });
+    row_ms("delete a region", delete, Some(rebuild));
+    let undo = median(11, || timed(|| drop(session.undo().unwrap())).1);
+    row_ms("undo", undo, Some(rebuild));
+    let worst = [recolour, pin, border, delete, undo]
+        .into_iter()
+        .max()
+        .unwrap_or_default();
+    println!(
+        "  slowest edit {:.1} ms (target at 100,000 regions: at most 50 ms)",
+        worst.as_secs_f64() * 1000.0
+    );
+}
+
 fn main() {
     let args: Vec<String> = std::env::args().collect();
     if let Some(i) = args.iter().position(|a| a == "--load-and-analyse") {
         load_and_analyse(&args[i + 1]);
+        return;
+    }
+    if let Some(i) = args.iter().position(|a| a == "--edits") {
+        let regions = args
+            .get(i + 1)
+            .and_then(|a| a.parse().ok())
+            .unwrap_or(100_000);
+        edit_latency(regions);
         return;
     }
     let regions: usize = std::env::args()

@@ -4,9 +4,11 @@
 //! [`colour`] (colour science for palettes) <- [`doc`] (the project document, edits, files) <-
 //! [`geo`] (importers), [`analysis`] (rules, planarity and colouring of one revision, in region
 //! terms), [`formats`] (every file kind by extension) and [`export`] (SVG, PNG, GeoJSON, CSV) <-
-//! [`worker`] (background jobs) <- the editor (`ui`) and [`cli`].
+//! [`worker`] (background jobs) and [`session`] (an open project with its history and rules) <- the
+//! editor (`ui`) and [`cli`]; [`atomic`] writes files for all of them.
 
 pub mod analysis;
+pub mod atomic;
 pub mod cli;
 pub mod colour;
 pub mod doc;
@@ -14,6 +16,7 @@ pub mod engine;
 pub mod export;
 pub mod formats;
 pub mod geo;
+pub mod session;
 #[cfg(feature = "gui")]
 pub mod ui;
 pub mod worker;

@@ -56,3 +56,35 @@ proptest! {
         prop_assert_eq!(&doc, &end);
     }
 }
+
+/// The rules as a full rebuild gives them (the reference the incremental update is held to).
+fn rebuilt(doc: &Document) -> tinct::analysis::Rules {
+    tinct::analysis::Rules::of(doc, &tinct::doc::ConstraintGraph::build(doc))
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(300))]
+
+    #[test]
+    fn rules_kept_edit_by_edit_equal_a_rebuild_after_every_step(
+        ops in proptest::collection::vec(arb::op(), 1..60),
+        undo_every in 2usize..7,
+    ) {
+        let mut session = tinct::session::Session::new(Document::new("start"), None);
+        for (i, op) in ops.iter().enumerate() {
+            if let Some(edit) = arb::edit_for(session.doc(), op) {
+                let _ = session.apply(edit);
+                prop_assert_eq!(session.rules(), &rebuilt(session.doc()));
+            }
+            // Undo and redo now and then: they must keep the rules current too.
+            if i % undo_every == 0 {
+                session.undo().expect("undo applies");
+                prop_assert_eq!(session.rules(), &rebuilt(session.doc()));
+                if i % (2 * undo_every) == 0 {
+                    session.redo().expect("redo applies");
+                    prop_assert_eq!(session.rules(), &rebuilt(session.doc()));
+                }
+            }
+        }
+    }
+}

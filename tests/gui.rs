@@ -18,7 +18,7 @@ fn harness(app: App) -> Harness<'static, App> {
 }
 
 fn click_region(h: &mut Harness<'static, App>, id: RegionId) {
-    let anchor = h.state().session.doc.regions()[&id].anchor;
+    let anchor = h.state().session.doc().regions()[&id].anchor;
     let p = screen_of(h.state(), anchor).expect("the canvas has been drawn");
     h.hover_at(p);
     for pressed in [true, false] {
@@ -85,7 +85,7 @@ fn non_neighbours(doc: &doc::Document) -> (RegionId, RegionId) {
 fn the_editor_opens_on_the_invented_sample_map_and_shows_a_verdict() {
     let h = harness(App::new(None, None));
     assert_eq!(
-        h.state().session.doc.title(),
+        h.state().session.doc().title(),
         "Vessland Province, Kingdom of Estmarrow"
     );
     h.get_by_label("Map canvas");
@@ -100,15 +100,15 @@ fn the_editor_opens_on_the_invented_sample_map_and_shows_a_verdict() {
 #[test]
 fn clicking_two_regions_with_the_border_tool_adds_a_border_and_undo_redo_work() {
     let mut h = harness(App::new(None, None));
-    let (a, b) = non_neighbours(&h.state().session.doc);
+    let (a, b) = non_neighbours(h.state().session.doc());
     let pair = RegionPair::new(a, b).unwrap();
-    let edges_before = h.state().rules.graph_edges;
+    let edges_before = h.state().session.rules().graph_edges;
     add_border_by_clicking(&mut h, a, b);
     assert_eq!(
-        h.state().session.doc.borders().get(&pair).map(|b| b.kind),
+        h.state().session.doc().borders().get(&pair).map(|b| b.kind),
         Some(doc::BorderKind::Manual)
     );
-    assert_eq!(h.state().rules.graph_edges, edges_before + 1);
+    assert_eq!(h.state().session.rules().graph_edges, edges_before + 1);
     let text = format!(
         "{} land regions as {} colouring units with {} borders",
         31,
@@ -124,11 +124,11 @@ fn clicking_two_regions_with_the_border_tool_adds_a_border_and_undo_redo_work() 
     h.run_steps(2);
     h.get_by_label_contains("Undo").click();
     h.run_steps(2);
-    assert!(!h.state().session.doc.borders().contains_key(&pair));
+    assert!(!h.state().session.doc().borders().contains_key(&pair));
     let ctx = h.ctx.clone();
     h.state_mut().run(&ctx, tinct::ui::commands::Command::Redo);
     h.run_steps(2);
-    assert!(h.state().session.doc.borders().contains_key(&pair));
+    assert!(h.state().session.doc().borders().contains_key(&pair));
 }
 
 #[test]
@@ -136,17 +136,17 @@ fn save_then_reopen_gives_the_same_document() {
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("vessland.tinct");
     let mut h = harness(App::new(None, None));
-    let (a, b) = non_neighbours(&h.state().session.doc);
+    let (a, b) = non_neighbours(h.state().session.doc());
     add_border_by_clicking(&mut h, a, b);
     assert!(h.state().session.is_dirty());
     h.state_mut().save_to(&path);
     h.run_steps(2);
     assert!(!h.state().session.is_dirty());
-    let saved = h.state().session.doc.clone();
+    let saved = h.state().session.doc().clone();
     let mut again = harness(App::new(None, Some(path.clone())));
     again.run_steps(2);
-    assert_eq!(again.state().session.doc, saved);
-    assert_eq!(again.state().session.path.as_deref(), Some(path.as_path()));
+    assert_eq!(*again.state().session.doc(), saved);
+    assert_eq!(again.state().session.path(), Some(path.as_path()));
 }
 
 #[test]
@@ -156,11 +156,11 @@ fn a_damaged_file_is_refused_with_a_message_and_nothing_is_lost() {
     let text = std::fs::read_to_string(root().join("sample-maps/three-valleys.tinct")).unwrap();
     std::fs::write(&damaged, &text[..text.len() / 2]).unwrap();
     let mut h = harness(App::new(None, None));
-    let before = h.state().session.doc.clone();
+    let before = h.state().session.doc().clone();
     h.state_mut().open_path(damaged.clone());
     h.run_steps(3);
     assert_eq!(
-        h.state().session.doc,
+        *h.state().session.doc(),
         before,
         "the open document is untouched"
     );
@@ -188,7 +188,7 @@ fn every_sample_map_renders_and_the_exclave_map_shows_its_certificate() {
             Some(root().join("sample-maps").join(format!("{name}.tinct"))),
         ));
         h.run_steps(3);
-        assert!(!h.state().session.doc.regions().is_empty(), "{name}");
+        assert!(!h.state().session.doc().regions().is_empty(), "{name}");
         if name == "exclave-coast" {
             assert!(
                 h.query_by_label_contains("form a subdivided K3,3")
@@ -210,10 +210,10 @@ fn unsaved_work_is_offered_back_after_a_crash_and_a_damaged_recovery_file_is_not
     let mut app = App::new_with(None, None, Some(dir.path().to_path_buf()));
     app.autosave_every = std::time::Duration::ZERO;
     let mut h = harness(app);
-    let (a, b) = non_neighbours(&h.state().session.doc);
+    let (a, b) = non_neighbours(h.state().session.doc());
     add_border_by_clicking(&mut h, a, b);
     h.run_steps(2);
-    let unsaved = h.state().session.doc.clone();
+    let unsaved = h.state().session.doc().clone();
     // The window goes away without saving: a crash, as far as the document is concerned.
     drop(h);
 
@@ -221,7 +221,7 @@ fn unsaved_work_is_offered_back_after_a_crash_and_a_damaged_recovery_file_is_not
     assert!(h.query_by_label("Unsaved work found").is_some());
     h.get_by_label("Recover it").click();
     h.run_steps(3);
-    assert_eq!(h.state().session.doc, unsaved);
+    assert_eq!(*h.state().session.doc(), unsaved);
     assert!(
         h.state().session.is_dirty(),
         "recovered work is not saved anywhere yet"
@@ -241,7 +241,7 @@ fn unsaved_work_is_offered_back_after_a_crash_and_a_damaged_recovery_file_is_not
         "{message}"
     );
     assert_eq!(
-        h.state().session.doc.title(),
+        h.state().session.doc().title(),
         "Vessland Province, Kingdom of Estmarrow"
     );
 }
@@ -254,12 +254,12 @@ fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up
     assert!(h.query_by_label_contains("4, proven").is_some());
     h.get_by_label("Colour the map with them").click();
     h.run_steps(3);
-    assert!(tinct::doc::check_colouring(&h.state().session.doc).is_clean());
+    assert!(tinct::doc::check_colouring(h.state().session.doc()).is_clean());
     assert!(h.query_by_label("No neighbours share a colour").is_some());
     assert_eq!(
         h.state()
             .session
-            .doc
+            .doc()
             .colouring()
             .values()
             .collect::<std::collections::BTreeSet<_>>()
@@ -268,7 +268,7 @@ fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up
     );
 
     // Pin a region to the colour of one of its neighbours: the verdict reports it at once.
-    let doc = h.state().session.doc.clone();
+    let doc = h.state().session.doc().clone();
     let (pair, _) = doc.active_borders().next().unwrap();
     let neighbour_colour = doc.colouring()[&pair.b()];
     h.get_by_label("Pin colour").click();
@@ -276,7 +276,7 @@ fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up
     h.state_mut().view.pin_slot = neighbour_colour;
     click_region(&mut h, pair.a());
     assert_eq!(
-        h.state().session.doc.regions()[&pair.a()].pin,
+        h.state().session.doc().regions()[&pair.a()].pin,
         Some(neighbour_colour)
     );
     let name = doc.regions()[&pair.a()].name.clone();
@@ -288,7 +288,7 @@ fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up
     // Colouring again honours the pin, and the problems go away.
     h.get_by_label("Colour the map with them").click();
     h.run_steps(3);
-    let coloured = &h.state().session.doc;
+    let coloured = &h.state().session.doc();
     assert_eq!(coloured.colouring()[&pair.a()], neighbour_colour);
     assert!(tinct::doc::check_colouring(coloured).is_clean());
 }
@@ -327,7 +327,7 @@ fn notes_from_reading_a_file_have_a_place_and_recent_files_are_remembered() {
         Some(dir.path().join("state")),
     ));
     h.run_steps(3);
-    assert_eq!(h.state().session.doc.regions().len(), 5);
+    assert_eq!(h.state().session.doc().regions().len(), 5);
     assert!(
         h.query_by_label_contains("Notes from reading the file (1)")
             .is_some()
@@ -398,7 +398,7 @@ fn the_palette_window_edits_a_colour_warns_about_a_look_alike_and_undo_restores_
     h.state_mut()
         .emit(tinct::ui::commands::Command::ColourFewest);
     h.run_steps(4);
-    let before = h.state().session.doc.palette().clone();
+    let before = h.state().session.doc().palette().clone();
     // The palette section sits at the foot of the inspector: scroll to it first, as a user would.
     h.get_by_label("Edit and check…").scroll_to_me();
     h.run_steps(10);
@@ -418,12 +418,12 @@ fn the_palette_window_edits_a_colour_warns_about_a_look_alike_and_undo_restores_
     assert_eq!(h.query_all_by_label_contains("look alike").count(), 5);
     h.get_by_label("Apply to the project").click();
     h.run_steps(2);
-    let after = &h.state().session.doc.palette();
+    let after = &h.state().session.doc().palette();
     assert_eq!(after.slots[1].colour, before.slots[0].colour);
     assert!(!h.state().palette_warnings.warnings.is_empty());
     h.state_mut().emit(tinct::ui::commands::Command::Undo);
     h.run_steps(2);
-    assert_eq!(*h.state().session.doc.palette(), before);
+    assert_eq!(*h.state().session.doc().palette(), before);
 }
 
 /// Exports through the Export menu and the path window, as a user does; returns the message.
@@ -466,7 +466,7 @@ fn every_export_is_reachable_from_the_export_menu_and_written_where_asked() {
     let csv = std::fs::read_to_string(dir.path().join("regions.csv")).unwrap();
     assert_eq!(
         csv.lines().count(),
-        h.state().session.doc.regions().len() + 1,
+        h.state().session.doc().regions().len() + 1,
         "a header and one row per region"
     );
     // The invented sample map lies on a plane, not on the globe: GeoJSON is refused, saying why.
@@ -488,7 +488,7 @@ fn every_export_is_reachable_from_the_export_menu_and_written_where_asked() {
     let json: serde_json::Value =
         serde_json::from_str(&std::fs::read_to_string(&out).unwrap()).unwrap();
     let features = json["features"].as_array().unwrap();
-    assert_eq!(features.len(), h.state().session.doc.regions().len());
+    assert_eq!(features.len(), h.state().session.doc().regions().len());
     assert!(
         features
             .iter()
@@ -517,7 +517,7 @@ fn a_palette_too_small_is_said_and_the_missing_slots_are_added_in_one_undoable_s
         .flat_map(|a| (a + 1..8).map(move |b| (a, b)))
         .collect();
     let mut h = open_edges(dir.path(), 8, &k8);
-    assert_eq!(h.state().session.doc.palette().slots.len(), 6);
+    assert_eq!(h.state().session.doc().palette().slots.len(), 6);
     assert!(
         h.query_by_label_contains("this colouring needs 2 more")
             .is_some()
@@ -525,13 +525,13 @@ fn a_palette_too_small_is_said_and_the_missing_slots_are_added_in_one_undoable_s
     h.get_by_label("Add the missing palette slots and colour")
         .click();
     h.run_steps(3);
-    let doc = &h.state().session.doc;
+    let doc = &h.state().session.doc();
     assert_eq!(doc.palette().slots.len(), 8);
     assert!(tinct::doc::check_colouring(doc).is_clean());
     assert_eq!(doc.colouring().len(), 8);
     h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::Z);
     h.run_steps(3);
-    let doc = &h.state().session.doc;
+    let doc = &h.state().session.doc();
     assert_eq!(doc.palette().slots.len(), 6, "one undo takes back both");
     assert!(doc.colouring().is_empty());
 }
@@ -567,5 +567,35 @@ fn the_part_that_rules_out_one_colour_fewer_is_shown_on_the_map() {
     assert_eq!(
         h.state().view.highlight,
         Some(tinct::ui::app::Highlight::NotFewerColourable)
+    );
+}
+
+#[test]
+fn discarding_for_open_then_cancelling_the_path_prompt_loses_nothing() {
+    // Regression: "Discard them" marked the edited document saved before Open ran, so cancelling
+    // the path prompt left edited work marked clean (no recovery file, no question at quit).
+    let mut h = harness(App::new(None, None));
+    let id = *h.state().session.doc().regions().keys().next().unwrap();
+    h.state_mut().edit(tinct::doc::Edit::UpdateRegion {
+        id,
+        change: tinct::doc::RegionChange::Name("Renamed by hand".into()),
+    });
+    h.run_steps(2);
+    assert!(h.state().session.is_dirty());
+    h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::O);
+    h.run_steps(2);
+    h.get_by_label("Discard them").click();
+    h.run_steps(3);
+    assert!(h.state().path_prompt.is_some(), "the Open prompt follows");
+    h.get_all_by_label("Cancel").last().unwrap().click();
+    h.run_steps(3);
+    assert!(h.state().path_prompt.is_none());
+    assert!(
+        h.state().session.is_dirty(),
+        "the edited work is still unsaved"
+    );
+    assert_eq!(
+        h.state().session.doc().regions()[&id].name,
+        "Renamed by hand"
     );
 }

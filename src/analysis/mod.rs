@@ -21,7 +21,7 @@ pub use colouring::{
     BalanceBy, ColourOptions, ColouringVerdict, Impossibility, Step, colour, proof_texts,
 };
 pub use planarity::{Obstacle, PlanarityVerdict, RegionEmbedding, planarity_of};
-pub use rules::{BorderCounts, Rules};
+pub use rules::{BorderCounts, LiveRules, Rules};
 
 /// How long the search for the fewest colours may run before it reports what it has.
 pub const COLOURING_TIME_LIMIT: Duration = Duration::from_secs(20);

@@ -89,7 +89,7 @@ fn write_proofs(dir: &Path, v: &ColouringVerdict) -> anyhow::Result<()> {
     }
     std::fs::create_dir_all(dir).with_context(|| format!("cannot create {}", dir.display()))?;
     for (name, text) in files {
-        crate::doc::file::write_atomically(&dir.join(&name), text.as_bytes())
+        crate::atomic::write_atomically(&dir.join(&name), text.as_bytes())
             .map_err(|e| anyhow::anyhow!("{e}"))?;
     }
     Ok(())

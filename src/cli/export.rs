@@ -68,7 +68,7 @@ pub struct ExportArgs {
 }
 
 fn write(path: &Path, bytes: &[u8]) -> anyhow::Result<()> {
-    std::fs::write(path, bytes).map_err(|e| anyhow!("cannot write {}: {e}", path.display()))
+    crate::atomic::write_atomically(path, bytes).map_err(|e| anyhow!("{e}"))
 }
 
 /// Runs `tinct export`.

@@ -105,7 +105,7 @@ pub fn section(analysis: &Analysis, with_embedding: bool) -> anyhow::Result<Plan
 /// Writes the certificate (with the embedding when planar) as pretty JSON to `path`.
 pub fn write_certificate(certificate: &PlanarityOut, path: &Path) -> anyhow::Result<()> {
     let text = serde_json::to_string_pretty(certificate)? + "\n";
-    std::fs::write(path, text).with_context(|| format!("{}: cannot write", path.display()))
+    crate::atomic::write_atomically(path, text.as_bytes()).map_err(|e| anyhow::anyhow!("{e}"))
 }
 
 /// The text `tinct analyse` prints: the report with the planarity section added (JSON key

@@ -80,6 +80,38 @@ pub enum EditError {
     NotFinite(RegionId),
 }
 
+/// What an edit changed, for updating derived data without a rebuild.
+#[derive(Clone, Debug, Default, PartialEq, Eq)]
+pub struct Touched {
+    /// Something that affects every region or border (settings, palette).
+    pub everything: bool,
+    /// Regions whose fields, colour or existence may have changed.
+    pub regions: std::collections::BTreeSet<RegionId>,
+    /// Borders that may have been added, changed or removed.
+    pub pairs: std::collections::BTreeSet<RegionPair>,
+}
+
+impl Touched {
+    /// Adds what `edit` names. Call it with an edit and with its inverse: between them they name
+    /// everything before and after (a deleted region's borders appear only in the inverse).
+    pub fn add(&mut self, edit: &Edit) {
+        match edit {
+            Edit::PutRegion { id, .. }
+            | Edit::UpdateRegion { id, .. }
+            | Edit::PutColour { id, .. } => {
+                self.regions.insert(*id);
+            }
+            Edit::PutBorder { pair, .. } => {
+                self.pairs.insert(*pair);
+            }
+            Edit::SetColouring(colouring) => self.regions.extend(colouring.keys().copied()),
+            Edit::PutGroup { .. } | Edit::SetTitle(_) => {}
+            Edit::SetPalette(_) | Edit::SetSettings(_) => self.everything = true,
+            Edit::Batch { edits, .. } => edits.iter().for_each(|e| self.add(e)),
+        }
+    }
+}
+
 impl Edit {
     /// A short description for undo and redo menus.
     pub fn label(&self) -> String {
@@ -119,7 +151,6 @@ impl Document {
     pub fn apply(&mut self, edit: Edit) -> Result<Edit, EditError> {
         let inverse = self.apply_inner(edit)?;
         self.revision += 1;
-        self.index = std::sync::OnceLock::new();
         Ok(inverse)
     }
 
@@ -141,6 +172,9 @@ impl Document {
                 }
                 self.next_region_id = self.next_region_id.max(id.0 + 1);
                 let old = self.regions.insert(id, region);
+                if old.is_none() {
+                    self.structure_changed();
+                }
                 Edit::PutRegion { id, region: old }
             }
             Edit::PutRegion { id, region: None } => {
@@ -148,6 +182,7 @@ impl Document {
                     .regions
                     .remove(&id)
                     .ok_or(EditError::NoSuchRegion(id))?;
+                self.structure_changed();
                 let mut restore = vec![Edit::PutRegion {
                     id,
                     region: Some(region),
@@ -222,10 +257,14 @@ impl Document {
                         return Err(EditError::NoSuchRegion(id));
                     }
                 }
+                let added = border.is_some();
                 let old = match border {
                     Some(b) => self.borders.insert(pair, b),
                     None => self.borders.remove(&pair),
                 };
+                if added != old.is_some() {
+                    self.structure_changed();
+                }
                 Edit::PutBorder { pair, border: old }
             }
             Edit::PutColour { id, slot } => {
@@ -305,6 +344,12 @@ impl Document {
                 }
             }
         })
+    }
+
+    /// Regions or borders were added or removed: the border index must be derived again. (Other
+    /// edits, colours and fields included, leave it as it is.)
+    fn structure_changed(&mut self) {
+        self.index = std::sync::OnceLock::new();
     }
 
     /// An edit that adds a new region with a fresh id; returns the id it will get.

@@ -105,6 +105,26 @@ impl History {
         self.redo.last().map(|s| s.label.as_str())
     }
 
+    /// The edit [`History::undo`] would apply (the inverse of the newest change).
+    pub fn next_undo(&self) -> Option<&Edit> {
+        self.undo.last().map(|s| &s.edit)
+    }
+
+    /// The edit [`History::redo`] would apply.
+    pub fn next_redo(&self) -> Option<&Edit> {
+        self.redo.last().map(|s| &s.edit)
+    }
+
+    /// Number of steps that can be undone.
+    pub fn undo_count(&self) -> usize {
+        self.undo.len()
+    }
+
+    /// Number of steps that can be redone.
+    pub fn redo_count(&self) -> usize {
+        self.redo.len()
+    }
+
     /// Forgets every step (after loading another document).
     pub fn clear(&mut self) {
         self.undo.clear();

@@ -21,7 +21,7 @@ pub mod store;
 pub use builder::{BuildError, DocumentBuilder};
 pub use checks::{ColouringCheck, check_colouring};
 pub use constraint::{ConstraintGraph, RuleConflict};
-pub use edit::{Edit, EditError, RegionChange};
+pub use edit::{Edit, EditError, RegionChange, Touched};
 pub use history::History;
 pub use model::{
     AttrValue, Border, BorderKind, Document, Geometry, Group, GroupId, Palette, Point, Polygon,

@@ -4,8 +4,9 @@
 use std::path::{Path, PathBuf};
 use std::time::{Duration, Instant};
 
-use crate::analysis::{self, Analysis, Request, Rules};
-use crate::doc::{self, Document, Edit, GroupId, History, RegionId};
+use crate::analysis::{self, Analysis, Request};
+use crate::doc::{self, Document, Edit, GroupId, RegionId};
+use crate::session::Session;
 use crate::worker::{Event, JobKind, Worker};
 
 use super::commands::{Command, ExportFormat, Tool};
@@ -14,46 +15,6 @@ use super::view::Camera;
 
 /// The invented map the editor opens with.
 pub const DEFAULT_MAP: &str = include_str!("../../sample-maps/vessland-province.tinct");
-
-/// The open document with its undo history and where it lives on disk.
-pub struct Session {
-    pub doc: Document,
-    pub history: History,
-    pub path: Option<PathBuf>,
-    /// The revision that was last saved or loaded; the document is "changed" when it differs.
-    pub saved_revision: u64,
-}
-
-impl Session {
-    pub fn new(doc: Document, path: Option<PathBuf>) -> Session {
-        let saved_revision = doc.revision();
-        Session {
-            doc,
-            history: History::default(),
-            path,
-            saved_revision,
-        }
-    }
-
-    pub fn is_dirty(&self) -> bool {
-        self.doc.revision() != self.saved_revision
-    }
-
-    /// The window title: file name, and a mark when there are unsaved changes.
-    pub fn title(&self) -> String {
-        let name = self
-            .path
-            .as_ref()
-            .and_then(|p| p.file_name())
-            .map(|n| n.to_string_lossy().into_owned())
-            .unwrap_or_else(|| format!("{} (not saved)", self.doc.title()));
-        format!(
-            "{}{} — Tinct",
-            if self.is_dirty() { "• " } else { "" },
-            name
-        )
-    }
-}
 
 /// The palette's distinctness warnings for the slot pairs neighbours use, for one revision.
 #[derive(Default)]
@@ -263,13 +224,13 @@ pub struct App {
     pub session: Session,
     pub view: ViewState,
     pub scene: Scene,
-    /// The rules and the colouring's problems for the current revision.
-    pub rules: Rules,
     pub palette_warnings: PaletteWarnings,
     pub messages: Vec<Message>,
     pub path_prompt: Option<PathPrompt>,
     /// A command waiting for the user to decide about unsaved changes.
     pub confirm_discard: Option<Command>,
+    /// The user agreed to discard unsaved changes for this command.
+    pub discard_agreed: Option<Command>,
     pub command_search: Option<String>,
     /// The step of the argument on show, while walking through why fewer colours fail.
     pub argument_step: Option<usize>,
@@ -330,17 +291,16 @@ impl App {
         let worker =
             ctx.and_then(|ctx| Worker::start(Box::new(move || ctx.request_repaint())).ok());
         let (dialog_sender, dialog_results) = std::sync::mpsc::channel();
-        let rules = Analysis::rules(&doc).rules;
         let palette_warnings = PaletteWarnings::of(&doc);
         let mut app = App {
             session: Session::new(doc, None),
             view: ViewState::default(),
             scene: Scene::default(),
-            rules,
             palette_warnings,
             messages: Vec::new(),
             path_prompt: None,
             confirm_discard: None,
+            discard_agreed: None,
             command_search: None,
             argument_step: None,
             argument_for: Highlight::NotThreeColourable,
@@ -395,7 +355,7 @@ impl App {
             // Do not overwrite work the user has not yet decided about.
             return;
         }
-        let revision = self.session.doc.revision();
+        let revision = self.session.doc().revision();
         if !self.session.is_dirty() {
             if self.autosaved_revision.take().is_some() {
                 doc::recovery::clear(&dir);
@@ -406,7 +366,7 @@ impl App {
             && self.autosaved_at.elapsed() >= self.autosave_every
         {
             self.autosaved_at = Instant::now();
-            match doc::recovery::write(&dir, &self.session.doc, self.session.path.as_deref()) {
+            match doc::recovery::write(&dir, self.session.doc(), self.session.path()) {
                 Ok(()) => self.autosaved_revision = Some(revision),
                 Err(e) => self.say(
                     Level::Warning,
@@ -426,10 +386,8 @@ impl App {
     /// Takes back the unsaved work of an earlier session (as unsaved work again).
     pub fn recover(&mut self) {
         if let Some(r) = self.recovery_offer.take() {
-            let mut session = Session::new(r.doc, r.original);
-            // It is not saved anywhere yet: mark it changed so it is saved (and written aside) again.
-            session.saved_revision = u64::MAX;
-            self.replace_session(session);
+            // It is not saved anywhere yet: unsaved, so it is saved (and written aside) again.
+            self.replace_session(Session::unsaved(r.doc, r.original));
             self.say(
                 Level::Info,
                 "Unsaved work from the earlier session is back; save it to keep it",
@@ -463,7 +421,7 @@ impl App {
 
     /// Applies an edit through the undo history; refusals become messages.
     pub fn edit(&mut self, edit: Edit) {
-        if let Err(e) = self.session.history.apply(&mut self.session.doc, edit) {
+        if let Err(e) = self.session.apply(edit) {
             self.say(Level::Warning, format!("Not changed: {e}"));
         }
     }
@@ -552,7 +510,7 @@ impl App {
                 }
             }
             JobResult::Balanced { revision, verdict } => {
-                if revision != self.session.doc.revision() {
+                if revision != self.session.doc().revision() {
                     self.say(
                         Level::Warning,
                         "The map changed while colours were being evened out; try again",
@@ -579,8 +537,7 @@ impl App {
         self.session = session;
         self.notices.clear();
         self.view = ViewState::default();
-        self.rules = Analysis::rules(&self.session.doc).rules;
-        self.palette_warnings = PaletteWarnings::of(&self.session.doc);
+        self.palette_warnings = PaletteWarnings::of(self.session.doc());
         self.analysis = None;
         self.analysis_requested = None;
         self.seen_revision = u64::MAX;
@@ -625,17 +582,17 @@ impl App {
                 format!(
                     "This map needs {} colours but the palette has {}: use \"{}\" or add slots in the palette window",
                     verdict.minimum.unwrap_or(0),
-                    self.session.doc.palette().slots.len(),
+                    self.session.doc().palette().slots.len(),
                     Command::ColourAddingSlots.label()
                 ),
             ),
-            Some(colouring) if colouring == self.session.doc.colouring() && extra == 0 => {
+            Some(colouring) if colouring == self.session.doc().colouring() && extra == 0 => {
                 self.say(Level::Info, "The map already has this colouring");
             }
             Some(colouring) => {
                 let mut edits = Vec::new();
                 if extra > 0 {
-                    edits.push(doc::palette_edit::grow_palette(&self.session.doc, extra));
+                    edits.push(doc::palette_edit::grow_palette(self.session.doc(), extra));
                 }
                 edits.push(Edit::SetColouring(colouring));
                 self.edit(Edit::Batch {
@@ -698,14 +655,14 @@ impl App {
     /// Writes an export on the worker (a picture of a large map takes a while); the result
     /// arrives as a message.
     pub fn export_to(&mut self, format: ExportFormat, path: PathBuf) {
-        let snapshot = crate::worker::snapshot(&self.session.doc);
+        let snapshot = crate::worker::snapshot(self.session.doc());
         let options = self.export_options;
-        let revision = self.session.doc.revision();
+        let revision = self.session.doc().revision();
         let job = move |_: &crate::worker::JobContext| {
             let result = export_bytes(&snapshot, format, options)
                 .map_err(|e| e.to_string())
                 .and_then(|bytes| {
-                    doc::file::write_atomically(&path, &bytes)
+                    crate::atomic::write_atomically(&path, &bytes)
                         .map(|()| bytes.len())
                         .map_err(|e| format!("cannot write {}: {e}", path.display()))
                 });
@@ -738,7 +695,7 @@ impl App {
             .map_err(|e| e.to_string())
             .and_then(|_| {
                 for (name, text) in &files {
-                    doc::file::write_atomically(&folder.join(name), text.as_bytes())
+                    crate::atomic::write_atomically(&folder.join(name), text.as_bytes())
                         .map_err(|e| e.to_string())?;
                 }
                 Ok(())
@@ -757,7 +714,7 @@ impl App {
     pub fn analysis_is_stale(&self) -> bool {
         self.analysis
             .as_ref()
-            .is_none_or(|a| a.revision != self.session.doc.revision())
+            .is_none_or(|a| a.revision != self.session.doc().revision())
     }
 
     /// The running analysis, if any: its stage and fraction done.
@@ -781,9 +738,9 @@ impl App {
 
     /// Starts an analysis of the current revision (on the worker, or here when there is none).
     pub fn start_analysis(&mut self) {
-        let revision = self.session.doc.revision();
+        let revision = self.session.doc().revision();
         self.analysis_requested = Some(revision);
-        let snapshot = crate::worker::snapshot(&self.session.doc);
+        let snapshot = crate::worker::snapshot(self.session.doc());
         match &mut self.worker {
             Some(w) => w.submit(
                 revision,
@@ -812,12 +769,12 @@ impl App {
         } else {
             path.to_path_buf()
         };
-        match crate::formats::save(&self.session.doc, &path) {
+        match crate::formats::save(self.session.doc(), &path) {
             Ok(()) => {
                 let is_project = path.extension().is_some_and(|e| e == doc::file::EXTENSION);
                 if is_project {
-                    self.session.path = Some(path.clone());
-                    self.session.saved_revision = self.session.doc.revision();
+                    let revision = self.session.doc().revision();
+                    self.session.saved(path.clone(), revision);
                     self.remember(&path);
                 }
                 self.say(Level::Info, format!("Saved {}", path.display()));
@@ -879,15 +836,14 @@ impl App {
         if let Some(path) = dropped.into_iter().next() {
             self.confirm_or_run_open(path);
         }
-        if self.rules.revision != self.session.doc.revision() {
-            self.rules = Analysis::rules(&self.session.doc).rules;
-            self.palette_warnings = PaletteWarnings::of(&self.session.doc);
+        if self.palette_warnings.revision != self.session.doc().revision() {
+            self.palette_warnings = PaletteWarnings::of(self.session.doc());
         }
-        let revision = self.session.doc.revision();
+        let revision = self.session.doc().revision();
         if revision != self.seen_revision {
             self.seen_revision = revision;
             self.changed_at = Instant::now();
-            self.scene.sync(&self.session.doc);
+            self.scene.sync(self.session.doc());
         }
         if self.analysis_requested != Some(revision) {
             let rest = self.changed_at.elapsed();
@@ -961,10 +917,13 @@ impl App {
     /// Runs one command now.
     pub fn run(&mut self, ctx: &egui::Context, command: Command) {
         let discards = matches!(command, Command::New | Command::Open | Command::Quit);
-        if discards && self.session.is_dirty() && self.confirm_discard != Some(command) {
+        if discards && self.session.is_dirty() && self.discard_agreed != Some(command) {
             self.confirm_discard = Some(command);
             return;
         }
+        // Agreeing to discard covers this one command; the work stays unsaved (not marked saved)
+        // until something replaces it, so a cancelled Open loses nothing.
+        self.discard_agreed = None;
         self.confirm_discard = None;
         match command {
             Command::New => self.replace_session(Session::new(Document::new("Untitled"), None)),
@@ -974,15 +933,14 @@ impl App {
                     text: String::new(),
                 })
             }
-            Command::Save => match self.session.path.clone() {
+            Command::Save => match self.session.path().map(Path::to_path_buf) {
                 Some(path) => self.save_to(&path),
                 None => self.run(ctx, Command::SaveAs),
             },
             Command::SaveAs => {
                 let text = self
                     .session
-                    .path
-                    .as_ref()
+                    .path()
                     .map(|p| p.display().to_string())
                     .unwrap_or_default();
                 self.path_prompt = Some(PathPrompt {
@@ -994,12 +952,12 @@ impl App {
                 self.quit_confirmed = true;
                 ctx.send_viewport_cmd(egui::ViewportCommand::Close);
             }
-            Command::Undo => match self.session.history.undo(&mut self.session.doc) {
+            Command::Undo => match self.session.undo() {
                 Ok(Some(label)) => self.say(Level::Info, format!("Undone: {label}")),
                 Ok(None) => self.say(Level::Info, "Nothing to undo"),
                 Err(e) => self.say(Level::Error, format!("Cannot undo: {e}")),
             },
-            Command::Redo => match self.session.history.redo(&mut self.session.doc) {
+            Command::Redo => match self.session.redo() {
                 Ok(Some(label)) => self.say(Level::Info, format!("Redone: {label}")),
                 Ok(None) => self.say(Level::Info, "Nothing to redo"),
                 Err(e) => self.say(Level::Error, format!("Cannot redo: {e}")),
@@ -1036,8 +994,8 @@ impl App {
             }
             Command::ColourAddingSlots => self.apply_fewest(true),
             Command::BalanceColours => {
-                let revision = self.session.doc.revision();
-                let snapshot = crate::worker::snapshot(&self.session.doc);
+                let revision = self.session.doc().revision();
+                let snapshot = crate::worker::snapshot(self.session.doc());
                 let job = move |ctx: &crate::worker::JobContext| JobResult::Balanced {
                     revision,
                     verdict: Box::new(ctx.with_control(|c| {
@@ -1060,20 +1018,20 @@ impl App {
                 })
             }
             Command::ClearColours => {
-                if !self.session.doc.colouring().is_empty() {
+                if !self.session.doc().colouring().is_empty() {
                     self.edit(Edit::SetColouring(Default::default()));
                 }
             }
             Command::PaletteWindow => {
                 if self.palette_editor.is_none() {
                     self.palette_editor = Some(super::palette::PaletteEditor::new(
-                        self.session.doc.palette(),
+                        self.session.doc().palette(),
                     ));
                 }
             }
             Command::AssignSlots => {
                 let thresholds = crate::colour::Thresholds::default();
-                match doc::palette_check::slot_assignment_edit(&self.session.doc, &thresholds) {
+                match doc::palette_check::slot_assignment_edit(self.session.doc(), &thresholds) {
                     Ok(Some(edit)) => {
                         self.edit(edit);
                         self.say(
@@ -1091,7 +1049,7 @@ impl App {
             Command::Export(format) => {
                 let text = self
                     .session
-                    .path
+                    .path()
                     .as_ref()
                     .and_then(|p| p.parent())
                     .map(|dir| dir.join(format.default_file_name()).display().to_string())

@@ -83,7 +83,7 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
     let centre = [rect.center().x, rect.center().y];
 
     if app.view.fit_pending && rect.width() > 10.0 {
-        if let Some(bounds) = app.session.doc.bounds() {
+        if let Some(bounds) = app.session.doc().bounds() {
             app.view.camera = Camera::fit(bounds, [rect.width(), rect.height()]);
         }
         app.view.fit_pending = false;
@@ -105,7 +105,7 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
         .map(|p| camera.to_world(centre, [p.x, p.y]));
     app.view.hover = pointer_world.and_then(|w| {
         hit_test(
-            &app.session.doc,
+            app.session.doc(),
             app.scene.hit_boxes(),
             w,
             marker_radius_world,
@@ -118,7 +118,7 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
         && let Some(id) = app.view.hover
         && app
             .session
-            .doc
+            .doc()
             .regions()
             .get(&id)
             .is_some_and(|r| r.geometry.is_none())
@@ -137,7 +137,7 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
     }
     if response.drag_stopped()
         && let Some((id, offset)) = app.view.dragging.take()
-        && let Some(region) = app.session.doc.regions().get(&id)
+        && let Some(region) = app.session.doc().regions().get(&id)
     {
         let to = [region.anchor[0] + offset[0], region.anchor[1] + offset[1]];
         app.edit(Edit::UpdateRegion {
@@ -155,15 +155,15 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
     draw(app, &painter, centre, rect);
 
     if let Some(id) = app.view.hover
-        && let Some(r) = app.session.doc.regions().get(&id)
+        && let Some(r) = app.session.doc().regions().get(&id)
     {
-        let text = match (r.role, app.session.doc.colouring().get(&id)) {
+        let text = match (r.role, app.session.doc().colouring().get(&id)) {
             (Role::Water, _) => format!("{} (water)", r.name),
             (_, Some(s)) => format!(
                 "{} — colour {}",
                 r.name,
                 app.session
-                    .doc
+                    .doc()
                     .palette()
                     .slots
                     .get(*s as usize)
@@ -177,7 +177,7 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
 
 /// What a click does with the current tool.
 fn click(app: &mut App, hit: Option<RegionId>, world: [f64; 2]) {
-    let doc = &app.session.doc;
+    let doc = app.session.doc();
     match app.view.tool {
         Tool::Select => app.view.selection = hit,
         Tool::Place => {
@@ -278,7 +278,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
         let uv = egui::Rect::from_min_max(Pos2::ZERO, Pos2::new(1.0, 1.0));
         painter.image(texture, at, uv, Color32::WHITE);
     }
-    let doc = &app.session.doc;
+    let doc = app.session.doc();
     let camera = app.view.camera;
     let to_screen = |p: [f64; 2]| pos(camera.to_screen(centre, p));
     let anchor_of = |id: RegionId| -> Option<[f64; 2]> {
@@ -346,7 +346,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
     }
 
     // Clashes are always shown: a red link and red outlines.
-    for clash in &app.rules.colouring.clashes {
+    for clash in &app.session.rules().colouring.clashes {
         let (Some(a), Some(b)) = (anchor_of(clash.pair.a()), anchor_of(clash.pair.b())) else {
             continue;
         };
@@ -637,7 +637,7 @@ fn draw_base(
     covers: [[f64; 2]; 2],
     capacity: (usize, usize),
 ) -> (Mesh, Option<(egui::ColorImage, egui::Rect)>) {
-    let doc = &app.session.doc;
+    let doc = app.session.doc();
     let to_screen = |p: [f64; 2]| pos(camera.to_screen(centre, p));
     let visible = |b: &[[f64; 2]; 2]| {
         b[1][0] >= covers[0][0]

@@ -73,11 +73,11 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
         return;
     };
     let key = (app.scene.generation, editor.draft.slots.len());
-    let doc = &app.session.doc;
+    let doc = app.session.doc();
     if editor.pairs.as_ref().is_none_or(|(k, ..)| *k != key) {
         let (checked, pairs, _) = palette_check::checked_pairs(doc, key.1);
         let mut in_use: Vec<bool> = (0..key.1)
-            .map(|i| app.rules.slot_use.get(i).copied().unwrap_or(0) > 0)
+            .map(|i| app.session.rules().slot_use.get(i).copied().unwrap_or(0) > 0)
             .collect();
         for pin in doc.regions().values().filter_map(|r| r.pin) {
             if let Some(u) = in_use.get_mut(pin as usize) {

@@ -148,8 +148,8 @@ pub fn menu_ui(app: &mut App, ui: &mut egui::Ui) {
                         button = button.shortcut_text(ui.ctx().format_shortcut(&s));
                     }
                     let enabled = match command {
-                        Command::Undo => app.session.history.undo_label().is_some(),
-                        Command::Redo => app.session.history.redo_label().is_some(),
+                        Command::Undo => app.session.history().undo_label().is_some(),
+                        Command::Redo => app.session.history().redo_label().is_some(),
                         Command::DeleteRegion => app.view.selection.is_some(),
                         _ => true,
                     };
@@ -206,7 +206,7 @@ pub fn toolbar_ui(app: &mut App, ui: &mut egui::Ui) {
         ui.separator();
         if app.view.tool == Tool::Pin {
             ui.label("Pin to:");
-            let slots = app.session.doc.palette().slots.clone();
+            let slots = app.session.doc().palette().slots.clone();
             for (i, slot) in slots.iter().enumerate() {
                 let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
                 swatch(ui, c, 12.0);
@@ -221,7 +221,7 @@ pub fn toolbar_ui(app: &mut App, ui: &mut egui::Ui) {
         if app.view.tool == Tool::Group {
             let groups: Vec<(GroupId, String)> = app
                 .session
-                .doc
+                .doc()
                 .groups()
                 .iter()
                 .map(|(id, g)| (*id, g.name.clone()))
@@ -263,7 +263,7 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
         let filter = app.view.region_filter.to_lowercase();
         let ids: Vec<RegionId> = app
             .session
-            .doc
+            .doc()
             .regions()
             .iter()
             .filter(|(_, r)| filter.is_empty() || r.name.to_lowercase().contains(&filter))
@@ -275,7 +275,7 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
         Some((_, ids)) => ids,
         None => Vec::new(),
     };
-    let doc = &app.session.doc;
+    let doc = app.session.doc();
     ui.label(format!("{} shown of {}", rows.len(), doc.regions().len()));
     let row_height = ui.text_style_height(&egui::TextStyle::Body) + 4.0;
     egui::ScrollArea::vertical()
@@ -313,12 +313,12 @@ pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
     let Some(id) = app
         .view
         .selection
-        .filter(|id| app.session.doc.regions().contains_key(id))
+        .filter(|id| app.session.doc().regions().contains_key(id))
     else {
         ui.label("Click a region on the map or in the list.");
         return;
     };
-    let region = app.session.doc.regions()[&id].clone();
+    let region = app.session.doc().regions()[&id].clone();
     let mut edits: Vec<Edit> = Vec::new();
 
     // Name: typed into a draft, committed on Enter or when the field loses focus. While the field
@@ -359,7 +359,7 @@ pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
         });
     }
 
-    let doc = &app.session.doc;
+    let doc = app.session.doc();
     let slot_name = |s: Option<u32>| match s {
         None => "none".to_string(),
         Some(s) => doc
@@ -451,7 +451,7 @@ pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
 /// The verdict panel: clashes, uncoloured land, contradictions.
 pub fn verdict_ui(app: &mut App, ui: &mut egui::Ui) {
     ui.heading("Verdict");
-    let lines = verdict_lines(&app.session.doc, &app.rules);
+    let lines = verdict_lines(app.session.doc(), app.session.rules());
     let mut jump = None;
     for line in lines {
         match line {
@@ -466,7 +466,7 @@ pub fn verdict_ui(app: &mut App, ui: &mut egui::Ui) {
                 ui.horizontal_wrapped(|ui| {
                     for id in regions {
                         if ui
-                            .link(name(&app.session.doc, id))
+                            .link(name(app.session.doc(), id))
                             .on_hover_text("Select this region")
                             .clicked()
                         {
@@ -579,7 +579,7 @@ fn colouring_verdict_ui(
             false,
             format!(
                 "The palette has {} slots; this colouring needs {n} more.",
-                app.session.doc.palette().slots.len()
+                app.session.doc().palette().slots.len()
             ),
         );
         if ui
@@ -779,7 +779,7 @@ fn planarity_ui(app: &mut App, ui: &mut egui::Ui) {
             ui.label("Its corner regions:");
             ui.horizontal_wrapped(|ui| {
                 for id in &o.branch_regions {
-                    if ui.link(name(&app.session.doc, *id)).clicked() {
+                    if ui.link(name(app.session.doc(), *id)).clicked() {
                         jump = Some(*id);
                     }
                 }
@@ -817,9 +817,9 @@ fn planarity_ui(app: &mut App, ui: &mut egui::Ui) {
 /// The palette: slot swatches and names.
 pub fn palette_ui(app: &mut App, ui: &mut egui::Ui) {
     ui.heading("Palette");
-    let doc = &app.session.doc;
+    let doc = app.session.doc();
     ui.label(&doc.palette().name);
-    let counts = &app.rules.slot_use;
+    let counts = &app.session.rules().slot_use;
     let warnings = &app.palette_warnings.warnings;
     for (i, slot) in doc.palette().slots.iter().enumerate() {
         let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
@@ -878,7 +878,7 @@ pub fn status_ui(app: &mut App, ui: &mut egui::Ui) {
             ui.label(
                 RichText::new(format!(
                     "— border from {}: click the second region",
-                    name(&app.session.doc, first)
+                    name(app.session.doc(), first)
                 ))
                 .strong(),
             );
@@ -987,8 +987,8 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
                 app.emit(Command::Save);
             }
             Some(1) => {
-                // Mark as agreed and run it again.
-                app.session.saved_revision = app.session.doc.revision();
+                // Agreed for this command only: the work is not marked saved.
+                app.discard_agreed = Some(command);
                 app.confirm_discard = None;
                 app.emit(command);
             }

@@ -88,7 +88,45 @@ fn median(mut values: Vec<f64>) -> f64 {
     }
 }
 
+/// `--write-delaunay DIR N`: writes the whole-process bench's input files for `N` points.
+fn write_delaunay(dir: &std::path::Path, n: usize) {
+    let edges = delaunay_edges(n, 7 + n as u64);
+    let mut text = format!("{n} {}\n", edges.len());
+    let mut adjacency: Vec<Vec<u32>> = vec![Vec::new(); n];
+    for &(a, b) in &edges {
+        text.push_str(&format!("{a} {b}\n"));
+        adjacency[a as usize].push(b);
+        adjacency[b as usize].push(a);
+    }
+    std::fs::write(dir.join(format!("delaunay-{n}.edges")), text).expect("temporary file");
+    // The C suite's adjacency-list format: N=n, then "v: neighbours -1".
+    let mut adj = format!("N={n}\n");
+    for (v, list) in adjacency.iter().enumerate() {
+        adj.push_str(&format!("{v}:"));
+        for w in list {
+            adj.push_str(&format!(" {w}"));
+        }
+        adj.push_str(" -1\n");
+    }
+    std::fs::write(dir.join(format!("delaunay-{n}.adj")), adj).expect("temporary file");
+}
+
 fn main() {
+    let args: Vec<String> = std::env::args().collect();
+    if let Some(i) = args.iter().position(|a| a == "--write-delaunay") {
+        let n = args.get(i + 2).and_then(|a| a.parse().ok()).unwrap_or(1000);
+        write_delaunay(std::path::Path::new(&args[i + 1]), n);
+        return;
+    }
+    // `-- process` runs only the whole-process comparison (it writes large files and runs other
+    // programs), `-- engine` only the engine tables.
+    let only: Option<String> = std::env::args().skip(1).find(|a| !a.starts_with("--"));
+    if only.as_deref() != Some("engine") {
+        process_section();
+        if only.as_deref() == Some("process") {
+            return;
+        }
+    }
     let never = AtomicBool::new(false);
     println!(
         "{:>9} {:>9} | {:>8} {:>9} {:>9} {:>8} | {:>9} {:>9} {:>7} {:>7} | {:>8} {:>8}",
@@ -282,4 +320,133 @@ fn ring_section(never: &AtomicBool) {
         );
         previous = Some((k, ms(test), ms(with_kuratowski)));
     }
+}
+
+/// A Delaunay triangulation of `n` random points in the unit square (seeded): planar, about 3n
+/// edges, the kind of graph map adjacency resembles. Vertex labels follow the points.
+fn delaunay_edges(n: usize, seed: u64) -> Vec<(u32, u32)> {
+    let mut rng = Rng::new(seed);
+    let unit = |rng: &mut Rng| (rng.next_u64() >> 11) as f64 / (1u64 << 53) as f64;
+    let points: Vec<delaunator::Point> = (0..n)
+        .map(|_| delaunator::Point {
+            x: unit(&mut rng),
+            y: unit(&mut rng),
+        })
+        .collect();
+    let t = delaunator::triangulate(&points);
+    let mut edges: Vec<(u32, u32)> = Vec::with_capacity(3 * n);
+    for tri in t.triangles.chunks_exact(3) {
+        for (a, b) in [(tri[0], tri[1]), (tri[1], tri[2]), (tri[2], tri[0])] {
+            let (a, b) = (a as u32, b as u32);
+            edges.push((a.min(b), a.max(b)));
+        }
+    }
+    edges.sort_unstable();
+    edges.dedup();
+    edges
+}
+
+/// Runs a program to the end and returns its wall time and its own peak resident memory (MiB),
+/// from `wait4`'s resource usage of that child alone.
+fn run_process(program: &str, args: &[&str]) -> Option<(Duration, f64, i32)> {
+    use std::os::unix::process::ExitStatusExt;
+    let start = Instant::now();
+    let child = std::process::Command::new(program)
+        .args(args)
+        .stdout(std::process::Stdio::null())
+        .stderr(std::process::Stdio::null())
+        .spawn()
+        .ok()?;
+    let pid = child.id() as libc::pid_t;
+    let mut status = 0;
+    // SAFETY: waits for our own child; `usage` is a plain struct the call fills in.
+    let mut usage: libc::rusage = unsafe { std::mem::zeroed() };
+    let waited = unsafe { libc::wait4(pid, &mut status, 0, &mut usage) };
+    let took = start.elapsed();
+    if waited != pid {
+        return None;
+    }
+    let code = std::process::ExitStatus::from_raw(status)
+        .code()
+        .unwrap_or(-1);
+    Some((took, usage.ru_maxrss as f64 / 1024.0, code))
+}
+
+/// Best of `runs` runs of a program: (time, peak memory, exit code).
+fn best_of(runs: usize, program: &str, args: &[&str]) -> Option<(Duration, f64, i32)> {
+    (0..runs)
+        .filter_map(|_| run_process(program, args))
+        .min_by_key(|(t, _, _)| *t)
+}
+
+/// The whole `tinct analyse` process on Delaunay triangulations of 10^5 and 10^6 points,
+/// against the edge-addition planarity suite in C (John Boyer's reference implementation,
+/// Debian package `planarity`: `apt-get install planarity` to include it) on the same graph, and
+/// against a plain read of the file by `cat`. Targets: `--only planarity` at most 1.0x the C
+/// suite at 10^6; `--only colouring` at most 2.0x the C suite's planarity run.
+fn process_section() {
+    let tinct = env!("CARGO_BIN_EXE_tinct");
+    let dir = std::env::temp_dir().join(format!("tinct-process-bench-{}", std::process::id()));
+    let _ = std::fs::create_dir_all(&dir);
+    let have_c = std::process::Command::new("planarity")
+        .arg("-h")
+        .stdout(std::process::Stdio::null())
+        .stderr(std::process::Stdio::null())
+        .status()
+        .is_ok();
+    println!(
+        "Whole process on Delaunay triangulations: best of 3 runs; ratios against the C planarity \
+         suite's planarity run (-s -p){}",
+        if have_c {
+            ""
+        } else {
+            " (the C suite is not installed: apt-get install planarity)"
+        }
+    );
+    println!(
+        "{:>9} {:<40} {:>10} {:>10} {:>8}",
+        "n", "work", "time ms", "peak MiB", "ratio"
+    );
+    for n in [100_000usize, 1_000_000] {
+        // The files are written by a child process, so that this one stays small: a child's
+        // peak memory as `wait4` reports it includes what its parent had mapped when it forked.
+        let edge_file = dir.join(format!("delaunay-{n}.edges"));
+        let adjacency_file = dir.join(format!("delaunay-{n}.adj"));
+        let written = std::process::Command::new(std::env::current_exe().expect("own path"))
+            .args(["--write-delaunay", &dir.to_string_lossy(), &n.to_string()])
+            .status()
+            .is_ok_and(|s| s.success());
+        assert!(written, "the graph files could not be written");
+        let edge_path = edge_file.to_string_lossy().into_owned();
+        let out_path = dir.join("embedding.out").to_string_lossy().into_owned();
+        let adj_path = adjacency_file.to_string_lossy().into_owned();
+        let c_suite = have_c
+            .then(|| best_of(3, "planarity", &["-s", "-q", "-p", &adj_path, &out_path]))
+            .flatten();
+        let reference = c_suite.map(|(t, _, _)| t);
+        let line = |work: &str, result: Option<(Duration, f64, i32)>| match result {
+            Some((t, mem, _)) => println!(
+                "{n:>9} {work:<40} {:>10.0} {mem:>10.0} {:>8}",
+                ms(t),
+                reference.map_or("-".to_string(), |r| format!(
+                    "{:.2}x",
+                    t.as_secs_f64() / r.as_secs_f64()
+                ))
+            ),
+            None => println!("{n:>9} {work:<40} {:>10} {:>10} {:>8}", "-", "-", "-"),
+        };
+        line("C suite: planarity -s -p", c_suite);
+        line("cat (a plain read)", best_of(3, "cat", &[&edge_path]));
+        for (work, only) in [
+            ("tinct analyse --json --only planarity", "planarity"),
+            ("tinct analyse --json --only rules", "rules"),
+            ("tinct analyse --json --only colouring", "colouring"),
+        ] {
+            line(
+                work,
+                best_of(3, tinct, &["analyse", &edge_path, "--json", "--only", only]),
+            );
+        }
+    }
+    let _ = std::fs::remove_dir_all(&dir);
 }

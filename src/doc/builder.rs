@@ -36,8 +36,12 @@ pub struct DocumentBuilder {
     settings: Settings,
     palette: Palette,
     groups: Vec<(GroupId, Group)>,
-    regions: Vec<(RegionId, Region)>,
-    borders: Vec<(RegionPair, Border)>,
+    // Ids and regions side by side, as the document keeps them, so that regions given in id
+    // order (as files and importers give them) move into the document without a copy.
+    region_ids: Vec<RegionId>,
+    regions: Vec<Region>,
+    border_pairs: Vec<RegionPair>,
+    borders: Vec<Border>,
     colours: Vec<(RegionId, u32)>,
     next_region_id: u64,
     next_group_id: u64,
@@ -63,7 +67,9 @@ impl DocumentBuilder {
     }
     /// Room for this many regions and borders.
     pub fn reserve(&mut self, regions: usize, borders: usize) -> &mut Self {
+        self.region_ids.reserve(regions);
         self.regions.reserve(regions);
+        self.border_pairs.reserve(borders);
         self.borders.reserve(borders);
         self
     }
@@ -72,11 +78,13 @@ impl DocumentBuilder {
         self
     }
     pub fn region(&mut self, id: RegionId, region: Region) -> &mut Self {
-        self.regions.push((id, region));
+        self.region_ids.push(id);
+        self.regions.push(region);
         self
     }
     pub fn border(&mut self, pair: RegionPair, border: Border) -> &mut Self {
-        self.borders.push((pair, border));
+        self.border_pairs.push(pair);
+        self.borders.push(border);
         self
     }
     pub fn colour(&mut self, id: RegionId, slot: u32) -> &mut Self {
@@ -103,12 +111,11 @@ impl DocumentBuilder {
         }
         let groups: BTreeMap<GroupId, Group> = groups.into_iter().collect();
 
-        let mut regions = self.regions;
-        sort_by_id(&mut regions, |(id, _)| *id);
-        if let Some(w) = regions.windows(2).find(|w| w[0].0 == w[1].0) {
-            return Err(BuildError::DuplicateRegion(w[0].0));
+        let (region_ids, regions) = sorted_together(self.region_ids, self.regions);
+        if let Some(w) = region_ids.windows(2).find(|w| w[0] == w[1]) {
+            return Err(BuildError::DuplicateRegion(w[0]));
         }
-        for (id, region) in &regions {
+        for (id, region) in region_ids.iter().zip(&regions) {
             if let Some(g) = region.group
                 && !groups.contains_key(&g)
             {
@@ -125,37 +132,27 @@ impl DocumentBuilder {
             return Err(BuildError::DuplicateColour(w[0].0));
         }
         // Regions and colours are both in id order: merge them.
-        let mut entries = Vec::with_capacity(regions.len());
-        let mut colour_iter = colours.into_iter().peekable();
-        for (id, region) in regions {
-            if let Some(&(cid, _)) = colour_iter.peek()
-                && cid < id
-            {
-                return Err(BuildError::ColourOfMissingRegion(cid));
+        let mut slots = vec![None; region_ids.len()];
+        let mut s = 0;
+        for (id, slot) in colours {
+            while s < region_ids.len() && region_ids[s] < id {
+                s += 1;
             }
-            let colour = match colour_iter.peek() {
-                Some(&(cid, slot)) if cid == id => {
-                    colour_iter.next();
-                    Some(slot)
-                }
-                _ => None,
-            };
-            entries.push((id, region, colour));
+            if s == region_ids.len() || region_ids[s] != id {
+                return Err(BuildError::ColourOfMissingRegion(id));
+            }
+            slots[s] = Some(slot);
         }
-        if let Some((cid, _)) = colour_iter.next() {
-            return Err(BuildError::ColourOfMissingRegion(cid));
-        }
-        let regions = Regions::from_sorted(entries);
+        let regions = Regions::from_parts(region_ids, regions, slots);
 
-        let mut borders = self.borders;
-        sort_by_id(&mut borders, |(pair, _)| *pair);
-        if let Some(w) = borders.windows(2).find(|w| w[0].0 == w[1].0) {
-            return Err(BuildError::DuplicateBorder(w[0].0));
+        let (border_pairs, borders) = sorted_together(self.border_pairs, self.borders);
+        if let Some(w) = border_pairs.windows(2).find(|w| w[0] == w[1]) {
+            return Err(BuildError::DuplicateBorder(w[0]));
         }
         // Check every border's regions and note their slots: the border index comes for free.
         let lookup = SlotLookup::new(regions.ids());
-        let mut ends = Vec::with_capacity(borders.len());
-        for (pair, _) in &borders {
+        let mut ends = Vec::with_capacity(border_pairs.len());
+        for pair in &border_pairs {
             let slot = |end: RegionId| {
                 lookup
                     .slot(end)
@@ -166,7 +163,7 @@ impl DocumentBuilder {
         }
         let index = OnceLock::new();
         let _ = index.set(Arc::new(BorderIndex::from_ends(regions.len(), ends)));
-        let borders = Borders::from_sorted(borders);
+        let borders = Borders::from_parts(border_pairs, borders);
 
         let next_region_id = self
             .next_region_id
@@ -187,6 +184,20 @@ impl DocumentBuilder {
             index,
         })
     }
+}
+
+/// Keys and values sorted by key together; when the keys are already in order (files written by
+/// Tinct, importers) both vectors come back as they are, without a copy.
+fn sorted_together<K: Ord + Copy, V>(keys: Vec<K>, values: Vec<V>) -> (Vec<K>, Vec<V>) {
+    if keys.is_sorted() {
+        return (keys, values);
+    }
+    let mut order: Vec<usize> = (0..keys.len()).collect();
+    order.sort_by_key(|&i| keys[i]);
+    let mut slots: Vec<Option<V>> = values.into_iter().map(Some).collect();
+    let values = order.iter().filter_map(|&i| slots[i].take()).collect();
+    let keys = order.iter().map(|&i| keys[i]).collect();
+    (keys, values)
 }
 
 /// Sorts by key unless already sorted (files written by Tinct are): equal keys are refused

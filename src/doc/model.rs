@@ -177,6 +177,74 @@ pub enum AttrValue {
     Text(String),
 }
 
+/// A region's attributes: names to values, in name order. A sorted vector rather than a tree:
+/// most regions carry a handful, and a million of them cost a million small vectors, not a
+/// million tree nodes.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Attributes(Vec<(String, AttrValue)>);
+
+impl Attributes {
+    /// No attributes.
+    pub fn new() -> Attributes {
+        Attributes(Vec::new())
+    }
+    /// Sets `name` to `value`; returns the value it replaces.
+    pub fn insert(&mut self, name: String, value: AttrValue) -> Option<AttrValue> {
+        match self.0.binary_search_by(|(k, _)| k.as_str().cmp(&name)) {
+            Ok(i) => Some(std::mem::replace(&mut self.0[i].1, value)),
+            Err(i) => {
+                self.0.insert(i, (name, value));
+                None
+            }
+        }
+    }
+    /// The value of `name`.
+    pub fn get(&self, name: &str) -> Option<&AttrValue> {
+        self.0
+            .binary_search_by(|(k, _)| k.as_str().cmp(name))
+            .ok()
+            .map(|i| &self.0[i].1)
+    }
+    /// `(name, value)` in name order.
+    pub fn iter(&self) -> impl ExactSizeIterator<Item = (&String, &AttrValue)> {
+        self.0.iter().map(|(k, v)| (k, v))
+    }
+    pub fn len(&self) -> usize {
+        self.0.len()
+    }
+    pub fn is_empty(&self) -> bool {
+        self.0.is_empty()
+    }
+}
+
+impl FromIterator<(String, AttrValue)> for Attributes {
+    /// Later values win for a name given twice, as inserting one by one would.
+    fn from_iter<I: IntoIterator<Item = (String, AttrValue)>>(iter: I) -> Attributes {
+        let mut items: Vec<(String, AttrValue)> = iter.into_iter().collect();
+        if !items.is_sorted_by(|a, b| a.0 < b.0) {
+            // Stable: among equal names the last given comes last and is kept below.
+            items.sort_by(|a, b| a.0.cmp(&b.0));
+            let mut kept: Vec<(String, AttrValue)> = Vec::with_capacity(items.len());
+            for item in items {
+                match kept.last_mut() {
+                    Some(last) if last.0 == item.0 => *last = item,
+                    _ => kept.push(item),
+                }
+            }
+            items = kept;
+        }
+        Attributes(items)
+    }
+}
+
+impl IntoIterator for Attributes {
+    type Item = (String, AttrValue);
+    type IntoIter = std::vec::IntoIter<(String, AttrValue)>;
+    fn into_iter(self) -> Self::IntoIter {
+        self.0.into_iter()
+    }
+}
+
 /// One region of the map.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Region {
@@ -195,7 +263,7 @@ pub struct Region {
     /// The 0-based position of the feature in the file it was imported from.
     pub source_index: Option<u64>,
     /// Attributes carried over from the imported feature.
-    pub attributes: BTreeMap<String, AttrValue>,
+    pub attributes: Attributes,
 }
 
 impl Region {
@@ -209,7 +277,7 @@ impl Region {
             pin: None,
             group: None,
             source_index: None,
-            attributes: BTreeMap::new(),
+            attributes: Attributes::new(),
         }
     }
 }

@@ -135,22 +135,22 @@ impl Regions {
         self.coloured = colouring.len();
         old
     }
-    /// Builds from regions and colours sorted by id with no id twice (checked by the builder).
-    pub(super) fn from_sorted(entries: Vec<(RegionId, Region, Option<u32>)>) -> Regions {
-        let mut out = Regions {
-            ids: Vec::with_capacity(entries.len()),
-            items: Vec::with_capacity(entries.len()),
-            colours: Vec::with_capacity(entries.len()),
-            coloured: 0,
-        };
-        for (id, region, colour) in entries {
-            debug_assert!(out.ids.last().is_none_or(|last| *last < id));
-            out.ids.push(id);
-            out.items.push(region);
-            out.coloured += usize::from(colour.is_some());
-            out.colours.push(colour);
+    /// Builds from ids in ascending order with no id twice (checked by the builder), the
+    /// regions and the colours in the same order.
+    pub(super) fn from_parts(
+        ids: Vec<RegionId>,
+        items: Vec<Region>,
+        colours: Vec<Option<u32>>,
+    ) -> Regions {
+        debug_assert!(ids.windows(2).all(|w| w[0] < w[1]));
+        debug_assert!(ids.len() == items.len() && ids.len() == colours.len());
+        let coloured = colours.iter().filter(|c| c.is_some()).count();
+        Regions {
+            ids,
+            items,
+            colours,
+            coloured,
         }
-        out
     }
 }
 
@@ -330,10 +330,10 @@ impl Borders {
         self.items.truncate(keep);
         removed
     }
-    /// Builds from pairs sorted with none twice (checked by the builder).
-    pub(super) fn from_sorted(entries: Vec<(RegionPair, Border)>) -> Borders {
-        debug_assert!(entries.windows(2).all(|w| w[0].0 < w[1].0));
-        let (pairs, items) = entries.into_iter().unzip();
+    /// Builds from pairs in ascending order with none twice (checked by the builder) and the
+    /// borders in the same order.
+    pub(super) fn from_parts(pairs: Vec<RegionPair>, items: Vec<Border>) -> Borders {
+        debug_assert!(pairs.windows(2).all(|w| w[0] < w[1]));
         Borders { pairs, items }
     }
 }

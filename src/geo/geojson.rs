@@ -2,14 +2,182 @@
 //!
 //! Other geometry types (Point, LineString, ...) are skipped with a diagnostic; a feature without
 //! geometry is kept as an empty region. Only a document that is not GeoJSON at all is an error.
+//!
+//! A FeatureCollection is read one feature at a time ([`read_streaming`]): each feature becomes
+//! a small JSON tree, is turned into coordinates and dropped, so a large file never exists as one
+//! tree (which costs about ten times the file's size).
 
-use std::collections::BTreeMap;
+use std::fmt;
 
+use serde::de::{DeserializeSeed, Deserializer, MapAccess, SeqAccess, Visitor};
 use serde_json::Value;
 
 use super::{
-    Diagnostic, DiagnosticKind, ImportError, MultiPolygon, Point, Polygon, RawFeature, RawMap,
+    Diagnostic, DiagnosticKind, ImportError, MultiPolygon, Point, Polygon, Properties, RawFeature,
+    RawMap,
 };
+
+/// What a streamed document turned out to be.
+pub(super) enum Streamed {
+    /// A GeoJSON FeatureCollection, already read feature by feature.
+    Features(RawMap),
+    /// Anything else (a single Feature or geometry, TopoJSON): the whole tree, to be read as before.
+    Whole(Value),
+}
+
+/// Reads a JSON document from `bytes`, streaming the members of a FeatureCollection's `features`
+/// one at a time. Errors in the JSON itself come back as serde_json errors, with their line and
+/// column.
+pub(super) fn read_streaming(bytes: &[u8]) -> Result<Streamed, serde_json::Error> {
+    let mut de = serde_json::Deserializer::from_slice(bytes);
+    let streamed = TopLevel.deserialize(&mut de)?;
+    de.end()?;
+    Ok(streamed)
+}
+
+/// The top-level object: members in any order; `features` read element by element.
+struct TopLevel;
+
+impl<'de> DeserializeSeed<'de> for TopLevel {
+    type Value = Streamed;
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Streamed, D::Error> {
+        d.deserialize_any(self)
+    }
+}
+
+impl<'de> Visitor<'de> for TopLevel {
+    type Value = Streamed;
+
+    fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+        f.write_str("a JSON document")
+    }
+
+    fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<Streamed, A::Error> {
+        let mut others = serde_json::Map::new();
+        let mut raw = RawMap::default();
+        let mut streamed = false;
+        while let Some(key) = map.next_key::<String>()? {
+            if key == "features" {
+                streamed = true;
+                map.next_value_seed(Features { raw: &mut raw })?;
+            } else {
+                let value: Value = map.next_value()?;
+                others.insert(key, value);
+            }
+        }
+        let is_collection = others.get("type").and_then(Value::as_str) == Some("FeatureCollection");
+        if streamed && is_collection {
+            if others.contains_key("crs") {
+                raw.diagnostics.insert(0, crs_note());
+            }
+            Ok(Streamed::Features(raw))
+        } else {
+            // Not a FeatureCollection (or one without features): read as a whole, as before.
+            // A "features" member of anything else carries no meaning here and was dropped.
+            Ok(Streamed::Whole(Value::Object(others)))
+        }
+    }
+
+    // Any other JSON value: kept whole, so the reader says why it is not GeoJSON.
+    fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> Result<Streamed, A::Error> {
+        let mut items = Vec::new();
+        while let Some(v) = seq.next_element::<Value>()? {
+            items.push(v);
+        }
+        Ok(Streamed::Whole(Value::Array(items)))
+    }
+    fn visit_str<E>(self, v: &str) -> Result<Streamed, E> {
+        Ok(Streamed::Whole(Value::String(v.to_string())))
+    }
+    fn visit_bool<E>(self, v: bool) -> Result<Streamed, E> {
+        Ok(Streamed::Whole(Value::Bool(v)))
+    }
+    fn visit_i64<E>(self, v: i64) -> Result<Streamed, E> {
+        Ok(Streamed::Whole(Value::from(v)))
+    }
+    fn visit_u64<E>(self, v: u64) -> Result<Streamed, E> {
+        Ok(Streamed::Whole(Value::from(v)))
+    }
+    fn visit_f64<E>(self, v: f64) -> Result<Streamed, E> {
+        Ok(Streamed::Whole(Value::from(v)))
+    }
+    fn visit_unit<E>(self) -> Result<Streamed, E> {
+        Ok(Streamed::Whole(Value::Null))
+    }
+}
+
+/// The `features` array: each element read as a small tree, turned into a feature, dropped.
+struct Features<'a> {
+    raw: &'a mut RawMap,
+}
+
+impl<'de> DeserializeSeed<'de> for Features<'_> {
+    type Value = ();
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<(), D::Error> {
+        d.deserialize_any(self)
+    }
+}
+
+impl<'de> Visitor<'de> for Features<'_> {
+    type Value = ();
+
+    fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+        f.write_str("an array of features")
+    }
+
+    fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> Result<(), A::Error> {
+        let mut index = 0;
+        while let Some(feature) = seq.next_element::<Value>()? {
+            read_feature(&feature, index, self.raw);
+            index += 1;
+        }
+        Ok(())
+    }
+
+    // Not an array: the reader reports it as it always did.
+    fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
+        while map
+            .next_entry::<serde::de::IgnoredAny, serde::de::IgnoredAny>()?
+            .is_some()
+        {}
+        self.raw.not_an_array = true;
+        Ok(())
+    }
+    fn visit_str<E>(self, _: &str) -> Result<(), E> {
+        self.raw.not_an_array = true;
+        Ok(())
+    }
+    fn visit_bool<E>(self, _: bool) -> Result<(), E> {
+        self.raw.not_an_array = true;
+        Ok(())
+    }
+    fn visit_i64<E>(self, _: i64) -> Result<(), E> {
+        self.raw.not_an_array = true;
+        Ok(())
+    }
+    fn visit_u64<E>(self, _: u64) -> Result<(), E> {
+        self.raw.not_an_array = true;
+        Ok(())
+    }
+    fn visit_f64<E>(self, _: f64) -> Result<(), E> {
+        self.raw.not_an_array = true;
+        Ok(())
+    }
+    fn visit_unit<E>(self) -> Result<(), E> {
+        self.raw.not_an_array = true;
+        Ok(())
+    }
+}
+
+fn crs_note() -> Diagnostic {
+    Diagnostic {
+        kind: DiagnosticKind::File,
+        regions: vec![],
+        message: "the \"crs\" member is not part of RFC 7946 and was ignored; coordinates \
+                  are read as longitude/latitude only if they lie in that range"
+            .to_string(),
+    }
+}
 
 pub(super) fn read_value(value: &Value) -> Result<RawMap, ImportError> {
     let mut raw = RawMap::default();
@@ -26,13 +194,7 @@ pub(super) fn read_value(value: &Value) -> Result<RawMap, ImportError> {
                 reason: "the top-level object has no \"type\" member".to_string(),
             })?;
     if object.contains_key("crs") {
-        raw.diagnostics.push(Diagnostic {
-            kind: DiagnosticKind::File,
-            regions: vec![],
-            message: "the \"crs\" member is not part of RFC 7946 and was ignored; coordinates \
-                      are read as longitude/latitude only if they lie in that range"
-                .to_string(),
-        });
+        raw.diagnostics.push(crs_note());
     }
     match kind {
         "FeatureCollection" => {
@@ -179,10 +341,10 @@ fn read_geometry(
     }
 }
 
-fn feature_label(index: usize, properties: &BTreeMap<String, Value>) -> String {
+fn feature_label(index: usize, properties: &Properties) -> String {
     let name = ["name", "NAME", "Name"]
         .iter()
-        .find_map(|k| properties.get(*k).and_then(Value::as_str));
+        .find_map(|k| properties.get(k).and_then(Value::as_str));
     match name {
         Some(n) => format!("feature {index} ({n:?})"),
         None => format!("feature {index}"),

@@ -92,7 +92,57 @@ pub struct ImportedRegion {
     /// feature had no usable geometry (an [`DiagnosticKind::EmptyGeometry`] says so).
     pub parts: MultiPolygon,
     /// The feature's properties (Shapefile: the .dbf record), for display and export.
-    pub properties: BTreeMap<String, serde_json::Value>,
+    pub properties: Properties,
+}
+
+/// A feature's properties, names to JSON values in name order. A sorted vector rather than a
+/// tree: a million features with a handful of properties each would otherwise cost a million
+/// tree nodes of several hundred bytes.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Properties(Vec<(String, serde_json::Value)>);
+
+impl Properties {
+    pub fn new() -> Properties {
+        Properties(Vec::new())
+    }
+    /// Sets `name` to `value` (a name given twice keeps its last value, as JSON readers do).
+    pub fn insert(&mut self, name: String, value: serde_json::Value) {
+        match self.0.binary_search_by(|(k, _)| k.as_str().cmp(&name)) {
+            Ok(i) => self.0[i].1 = value,
+            Err(i) => self.0.insert(i, (name, value)),
+        }
+    }
+    pub fn get(&self, name: &str) -> Option<&serde_json::Value> {
+        self.0
+            .binary_search_by(|(k, _)| k.as_str().cmp(name))
+            .ok()
+            .map(|i| &self.0[i].1)
+    }
+    pub fn contains_key(&self, name: &str) -> bool {
+        self.get(name).is_some()
+    }
+    pub fn keys(&self) -> impl Iterator<Item = &String> {
+        self.0.iter().map(|(k, _)| k)
+    }
+    pub fn iter(&self) -> impl Iterator<Item = (&String, &serde_json::Value)> {
+        self.0.iter().map(|(k, v)| (k, v))
+    }
+    pub fn len(&self) -> usize {
+        self.0.len()
+    }
+    pub fn is_empty(&self) -> bool {
+        self.0.is_empty()
+    }
+}
+
+impl FromIterator<(String, serde_json::Value)> for Properties {
+    fn from_iter<I: IntoIterator<Item = (String, serde_json::Value)>>(iter: I) -> Properties {
+        let mut out = Properties::new();
+        for (k, v) in iter {
+            out.insert(k, v);
+        }
+        out
+    }
 }
 
 /// How two regions touch.
@@ -291,7 +341,7 @@ struct RawFeature {
     source_index: usize,
     /// Feature id (GeoJSON `id`, TopoJSON geometry `id`), used when no name field exists.
     id: Option<String>,
-    properties: BTreeMap<String, serde_json::Value>,
+    properties: Properties,
     parts: MultiPolygon,
     /// TopoJSON only: per part, the arc indices (non-negative) its rings use.
     part_arcs: Vec<Vec<usize>>,
@@ -310,6 +360,8 @@ struct RawMap {
     lon_lat_hint: Option<bool>,
     /// TopoJSON: the decoded arcs in input coordinates.
     arcs: Option<Vec<Vec<Point>>>,
+    /// A streamed FeatureCollection whose `features` member was not an array.
+    not_an_array: bool,
 }
 
 /// Reads and imports a boundary file; the format comes from the extension (and, for `.json`,
@@ -328,14 +380,14 @@ pub fn import_path(path: &Path, options: &ImportOptions) -> Result<ImportedMap, 
         "geojson" | "json" | "topojson" => {
             // The file's bytes go as soon as they are parsed: on a large map they are a good
             // part of the peak memory.
-            let value = {
+            let streamed = {
                 let bytes = std::fs::read(path).map_err(|source| ImportError::Io {
                     path: path.to_path_buf(),
                     source,
                 })?;
-                parse_json(&bytes)?
+                parse_streaming(&bytes)?
             };
-            import_value(value, options)
+            import_streamed(streamed, options)
         }
         _ => Err(ImportError::UnknownFormat {
             path: path.to_path_buf(),
@@ -345,24 +397,40 @@ pub fn import_path(path: &Path, options: &ImportOptions) -> Result<ImportedMap, 
 
 /// Imports a GeoJSON or TopoJSON document held in memory (the `type` member decides).
 pub fn import_json(bytes: &[u8], options: &ImportOptions) -> Result<ImportedMap, ImportError> {
-    import_value(parse_json(bytes)?, options)
+    import_streamed(parse_streaming(bytes)?, options)
 }
 
-fn parse_json(bytes: &[u8]) -> Result<serde_json::Value, ImportError> {
-    serde_json::from_slice(bytes).map_err(|e| {
-        // serde_json's text ends with " at line L column C"; the error says where already.
-        let text = e.to_string();
-        let message = match text.rsplit_once(" at line ") {
-            Some((head, _)) => head.to_string(),
-            None => text,
-        };
-        ImportError::Json {
-            line: e.line(),
-            // serde_json counts a position just after a line break as column 0.
-            column: e.column().max(1),
-            message,
-        }
-    })
+/// Reads JSON, streaming a FeatureCollection's features (see [`geojson::read_streaming`]).
+fn parse_streaming(bytes: &[u8]) -> Result<geojson::Streamed, ImportError> {
+    geojson::read_streaming(bytes).map_err(json_error)
+}
+
+fn import_streamed(
+    streamed: geojson::Streamed,
+    options: &ImportOptions,
+) -> Result<ImportedMap, ImportError> {
+    match streamed {
+        geojson::Streamed::Features(raw) if raw.not_an_array => Err(ImportError::NotGeoJson {
+            reason: "a FeatureCollection needs a \"features\" array".to_string(),
+        }),
+        geojson::Streamed::Features(raw) => finish(raw, options),
+        geojson::Streamed::Whole(value) => import_value(value, options),
+    }
+}
+
+fn json_error(e: serde_json::Error) -> ImportError {
+    // serde_json's text ends with " at line L column C"; the error says where already.
+    let text = e.to_string();
+    let message = match text.rsplit_once(" at line ") {
+        Some((head, _)) => head.to_string(),
+        None => text,
+    };
+    ImportError::Json {
+        line: e.line(),
+        // serde_json counts a position just after a line break as column 0.
+        column: e.column().max(1),
+        message,
+    }
 }
 
 fn import_value(
@@ -478,7 +546,9 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
     let mut region_arcs: Vec<Vec<usize>> = Vec::new();
     let mut ring_problems: Vec<(usize, rings::RingProblem)> = Vec::new();
     let mut empty: Vec<usize> = Vec::new();
-    for ((feature, name), (parts, arcs, problems)) in raw.features.iter().zip(names).zip(cleaned) {
+    for ((feature, name), (parts, arcs, problems)) in
+        raw.features.iter_mut().zip(names).zip(cleaned)
+    {
         let first_region = regions.len();
         if options.split_parts && parts.len() > 1 {
             for (k, (polygon, arcs)) in parts.into_iter().zip(arcs_or_empty(arcs)).enumerate() {
@@ -499,7 +569,7 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
                 source_index: feature.source_index,
                 name,
                 parts,
-                properties: feature.properties.clone(),
+                properties: std::mem::take(&mut feature.properties),
             });
             region_arcs.push(all_arcs);
         }

@@ -122,7 +122,7 @@ pub fn jittered_grid(
                     exterior: ring,
                     holes: vec![],
                 }],
-                properties: BTreeMap::new(),
+                properties: super::Properties::new(),
             });
         }
     }

@@ -22,6 +22,15 @@ pub struct WriteError {
 /// cut. A save that is killed part-way leaves the old file untouched and at most one temporary
 /// file, which the next successful save of the same file removes.
 pub fn write_atomically(path: &Path, bytes: &[u8]) -> Result<(), WriteError> {
+    write_atomically_with(path, |out| out.write_all(bytes))
+}
+
+/// [`write_atomically`] for content written piece by piece by `write` (into a buffered writer),
+/// so that a large file never has to exist in memory as a whole.
+pub fn write_atomically_with(
+    path: &Path,
+    write: impl FnOnce(&mut dyn Write) -> std::io::Result<()>,
+) -> Result<(), WriteError> {
     let err = |source| WriteError {
         path: path.to_path_buf(),
         source,
@@ -40,8 +49,10 @@ pub fn write_atomically(path: &Path, bytes: &[u8]) -> Result<(), WriteError> {
     let n = SAVES.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
     let temp = folder.join(format!(".{file_name}.{}-{n}.saving", std::process::id()));
     let result = (|| {
-        let mut file = std::fs::File::create(&temp)?;
-        file.write_all(bytes)?;
+        let mut out = std::io::BufWriter::with_capacity(1 << 20, std::fs::File::create(&temp)?);
+        write(&mut out)?;
+        let mut file = out.into_inner().map_err(|e| e.into_error())?;
+        file.flush()?;
         if let Ok(meta) = std::fs::metadata(path) {
             // Best effort: a project that was read-only to others stays so.
             let _ = file.set_permissions(meta.permissions());

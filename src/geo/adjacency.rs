@@ -330,18 +330,17 @@ impl Geometry {
         // Runs are shortened by the tolerance at both ends (see the module notes); with no
         // tolerance, edges meeting at a point give point runs, so there is nothing to remove.
         let erosion = if exact { 0.0 } else { tolerance };
-        let boxes: Vec<[f64; 4]> = self
-            .segments
-            .iter()
-            .map(|s| {
-                [
-                    s.p[0].min(s.q[0]) - grow,
-                    s.p[1].min(s.q[1]) - grow,
-                    s.p[0].max(s.q[0]) + grow,
-                    s.p[1].max(s.q[1]) + grow,
-                ]
-            })
-            .collect();
+        // Each segment's box grown by half the band, computed when needed rather than stored
+        // (a stored copy is a quarter of a gigabyte on a million-region map).
+        let box_of = |k: usize| {
+            let s = &self.segments[k];
+            [
+                s.p[0].min(s.q[0]) - grow,
+                s.p[1].min(s.q[1]) - grow,
+                s.p[0].max(s.q[0]) + grow,
+                s.p[1].max(s.q[1]) + grow,
+            ]
+        };
         let mut chains: Vec<Boxed> = Vec::with_capacity(self.segments.len() / CHAIN + 1);
         let mut k = 0;
         while k < self.segments.len() {
@@ -350,8 +349,8 @@ impl Geometry {
             while end < self.segments.len() && end - k < CHAIN && self.segments[end].ring == ring {
                 end += 1;
             }
-            let mut b = boxes[k];
-            for x in &boxes[k + 1..end] {
+            let mut b = box_of(k);
+            for x in (k + 1..end).map(box_of) {
                 b = [
                     b[0].min(x[0]),
                     b[1].min(x[1]),
@@ -435,24 +434,31 @@ impl Geometry {
                 } else {
                     None
                 };
+                // Every vertex of a ring starts exactly one of its edges (zero-length edges are
+                // skipped, so the next edge starts there), so the pair of edges that both start
+                // at a shared point records a point contact once; the other pairs meeting there
+                // would only repeat it (four times as many runs at every corner of a map).
+                let first_pair = s.p == t.p;
                 if let Some((at_s, at_t, ds, dt)) = shared {
                     // Only edges leaving the point in the same direction run along each other.
                     let along = cross(ds, dt).abs()
                         <= 1e-12 * dot(ds, ds).sqrt() * dot(dt, dt).sqrt()
                         && dot(ds, dt) > 0.0;
                     if !along {
-                        runs.push(Run {
-                            ring: s.ring,
-                            other: t.region,
-                            start: at_s,
-                            end: at_s,
-                        });
-                        runs.push(Run {
-                            ring: t.ring,
-                            other: s.region,
-                            start: at_t,
-                            end: at_t,
-                        });
+                        if first_pair {
+                            runs.push(Run {
+                                ring: s.ring,
+                                other: t.region,
+                                start: at_s,
+                                end: at_s,
+                            });
+                            runs.push(Run {
+                                ring: t.ring,
+                                other: s.region,
+                                start: at_t,
+                                end: at_t,
+                            });
+                        }
                         return;
                     }
                 }
@@ -496,9 +502,9 @@ impl Geometry {
         let mut found = |a: &Boxed, b: &Boxed| {
             examined += 1;
             for i in a.first..a.first + a.count {
-                let bi = &boxes[i as usize];
+                let bi = box_of(i as usize);
                 for j in b.first..b.first + b.count {
-                    if overlap(bi, &boxes[j as usize]) {
+                    if overlap(&bi, &box_of(j as usize)) {
                         examined += 1;
                         visit(i, j);
                     }
@@ -524,7 +530,7 @@ impl Geometry {
         for chain in tree.iter() {
             for i in chain.first..chain.first + chain.count {
                 for j in i + 2..chain.first + chain.count {
-                    if overlap(&boxes[i as usize], &boxes[j as usize]) {
+                    if overlap(&box_of(i as usize), &box_of(j as usize)) {
                         visit(i, j);
                     }
                 }
@@ -540,12 +546,9 @@ impl Geometry {
         for k in 1..first.len() {
             first[k] += first[k - 1];
         }
-        let mut bucketed = runs.clone();
-        let mut next = first.clone();
-        for run in runs {
-            bucketed[next[run.ring as usize]] = run;
-            next[run.ring as usize] += 1;
-        }
+        // In place (no second copy of what can be tens of millions of runs).
+        runs.sort_unstable_by_key(|r| r.ring);
+        let mut bucketed = runs;
         let eps = 1e-9 * self.diagonal;
         let mut side: Vec<((u32, u32), f64)> = Vec::new();
         let mut merged: Vec<(f64, f64)> = Vec::new();

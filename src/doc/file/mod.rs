@@ -56,7 +56,7 @@ mod fast;
 
 // ---- The version 1 records. Field order here is the order in the file. ----
 
-#[derive(Serialize, Deserialize)]
+#[derive(Deserialize)]
 #[serde(deny_unknown_fields)]
 struct ProjectV1 {
     format_version: u32,
@@ -116,7 +116,7 @@ enum RoleV1 {
     Water,
 }
 
-#[derive(Serialize, Deserialize)]
+#[derive(Deserialize)]
 enum AttrV1 {
     Null,
     Bool(bool),
@@ -124,7 +124,7 @@ enum AttrV1 {
     Text(String),
 }
 
-#[derive(Serialize, Deserialize)]
+#[derive(Deserialize)]
 #[serde(deny_unknown_fields)]
 struct RegionV1 {
     id: u64,
@@ -137,7 +137,7 @@ struct RegionV1 {
     group: Option<u64>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     source_index: Option<u64>,
-    #[serde(default, skip_serializing_if = "AttrsV1::is_empty")]
+    #[serde(default)]
     attributes: AttrsV1,
     /// Each polygon is a list of rings: the exterior first, then the holes.
     #[serde(default, skip_serializing_if = "Option::is_none")]
@@ -148,23 +148,6 @@ struct RegionV1 {
 /// order the file gives (Tinct writes them sorted by name).
 #[derive(Default)]
 struct AttrsV1(Vec<(String, AttrV1)>);
-
-impl AttrsV1 {
-    fn is_empty(&self) -> bool {
-        self.0.is_empty()
-    }
-}
-
-impl Serialize for AttrsV1 {
-    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
-        use serde::ser::SerializeMap;
-        let mut map = serializer.serialize_map(Some(self.0.len()))?;
-        for (k, v) in &self.0 {
-            map.serialize_entry(k, v)?;
-        }
-        map.end()
-    }
-}
 
 impl<'de> Deserialize<'de> for AttrsV1 {
     fn deserialize<D: serde::Deserializer<'de>>(deserializer: D) -> Result<AttrsV1, D::Error> {
@@ -232,14 +215,153 @@ fn declared_version(text: &str) -> Option<u32> {
 
 // ---- Writing ----
 
-fn ring_out(ring: &[[f64; 2]]) -> Vec<[f64; 2]> {
-    ring.to_vec()
+/// The project as written: the version 1 layout, field for field, borrowing the document's
+/// regions, borders and colours instead of copying them (a million-region project is written
+/// straight from the document to the file).
+#[derive(Serialize)]
+struct ProjectOut<'a> {
+    format_version: u32,
+    title: &'a str,
+    settings: SettingsV1,
+    palette_name: &'a str,
+    palette: Vec<SlotV1>,
+    groups: Vec<GroupV1>,
+    regions: RegionsOut<'a>,
+    borders: BordersOut<'a>,
+    colouring: ColouringOut<'a>,
+    next_region_id: u64,
+    next_group_id: u64,
 }
 
-fn to_records(doc: &Document) -> ProjectV1 {
-    ProjectV1 {
+/// One region as written (see [`RegionV1`]).
+#[derive(Serialize)]
+struct RegionOut<'a> {
+    id: u64,
+    name: &'a str,
+    role: RoleV1,
+    anchor: (f64, f64),
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pin: Option<u32>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    group: Option<u64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    source_index: Option<u64>,
+    #[serde(skip_serializing_if = "AttrsOut::is_empty")]
+    attributes: AttrsOut<'a>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    geometry: Option<GeometryOut<'a>>,
+}
+
+struct RegionsOut<'a>(&'a Document);
+struct BordersOut<'a>(&'a Document);
+struct ColouringOut<'a>(&'a Document);
+struct AttrsOut<'a>(&'a super::model::Attributes);
+struct GeometryOut<'a>(&'a Geometry);
+struct PolygonOut<'a>(&'a Polygon);
+
+/// An attribute value as written (see [`AttrV1`]).
+#[derive(Serialize)]
+enum AttrOut<'a> {
+    Null,
+    Bool(bool),
+    Number(f64),
+    Text(&'a str),
+}
+
+impl AttrsOut<'_> {
+    fn is_empty(&self) -> bool {
+        self.0.is_empty()
+    }
+}
+
+impl Serialize for RegionsOut<'_> {
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        use serde::ser::SerializeSeq;
+        let regions = self.0.regions();
+        let mut seq = serializer.serialize_seq(Some(regions.len()))?;
+        for (id, r) in regions {
+            seq.serialize_element(&RegionOut {
+                id: id.0,
+                name: &r.name,
+                role: match r.role {
+                    Role::Land => RoleV1::Land,
+                    Role::Water => RoleV1::Water,
+                },
+                anchor: (r.anchor[0], r.anchor[1]),
+                pin: r.pin,
+                group: r.group.map(|g| g.0),
+                source_index: r.source_index,
+                attributes: AttrsOut(&r.attributes),
+                geometry: r.geometry.as_deref().map(GeometryOut),
+            })?;
+        }
+        seq.end()
+    }
+}
+
+impl Serialize for AttrsOut<'_> {
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        use serde::ser::SerializeMap;
+        let mut map = serializer.serialize_map(Some(self.0.len()))?;
+        for (k, v) in self.0.iter() {
+            let v = match v {
+                AttrValue::Null => AttrOut::Null,
+                AttrValue::Bool(b) => AttrOut::Bool(*b),
+                AttrValue::Number(n) => AttrOut::Number(*n),
+                AttrValue::Text(t) => AttrOut::Text(t),
+            };
+            map.serialize_entry(k, &v)?;
+        }
+        map.end()
+    }
+}
+
+impl Serialize for GeometryOut<'_> {
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        serializer.collect_seq(self.0.polygons.iter().map(PolygonOut))
+    }
+}
+
+impl Serialize for PolygonOut<'_> {
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        // The exterior first, then the holes; a point `[x, y]` is written as the pair `(x, y)`.
+        serializer.collect_seq(std::iter::once(&self.0.exterior).chain(&self.0.holes))
+    }
+}
+
+impl Serialize for BordersOut<'_> {
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        serializer.collect_seq(self.0.borders().iter().map(|(pair, b)| BorderV1 {
+            a: pair.a().0,
+            b: pair.b().0,
+            kind: match b.kind {
+                BorderKind::Shared => KindV1::Shared,
+                BorderKind::Corner => KindV1::Corner,
+                BorderKind::Manual => KindV1::Manual,
+            },
+            length: b.length,
+            suppressed: b.suppressed,
+        }))
+    }
+}
+
+impl Serialize for ColouringOut<'_> {
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        use serde::ser::SerializeMap;
+        // The exact length up front: an empty colouring is written `{}`, as it always was.
+        let colouring = self.0.colouring();
+        let mut map = serializer.serialize_map(Some(colouring.len()))?;
+        for (id, slot) in colouring.iter() {
+            map.serialize_entry(&id.0, slot)?;
+        }
+        map.end()
+    }
+}
+
+fn to_records(doc: &Document) -> ProjectOut<'_> {
+    ProjectOut {
         format_version: FORMAT_VERSION,
-        title: doc.title.clone(),
+        title: &doc.title,
         settings: SettingsV1 {
             corners_count: doc.settings.corners_count,
             min_border_length: doc.settings.min_border_length,
@@ -250,7 +372,7 @@ fn to_records(doc: &Document) -> ProjectV1 {
             },
             projection_origin: doc.settings.projection_origin.map(|[x, y]| (x, y)),
         },
-        palette_name: doc.palette.name.clone(),
+        palette_name: &doc.palette.name,
         palette: doc
             .palette
             .slots
@@ -268,75 +390,26 @@ fn to_records(doc: &Document) -> ProjectV1 {
                 name: g.name.clone(),
             })
             .collect(),
-        regions: doc
-            .regions
-            .iter()
-            .map(|(id, r)| RegionV1 {
-                id: id.0,
-                name: r.name.clone(),
-                role: match r.role {
-                    Role::Land => RoleV1::Land,
-                    Role::Water => RoleV1::Water,
-                },
-                anchor: (r.anchor[0], r.anchor[1]),
-                pin: r.pin,
-                group: r.group.map(|g| g.0),
-                source_index: r.source_index,
-                attributes: AttrsV1(
-                    r.attributes
-                        .iter()
-                        .map(|(k, v)| {
-                            let v = match v {
-                                AttrValue::Null => AttrV1::Null,
-                                AttrValue::Bool(b) => AttrV1::Bool(*b),
-                                AttrValue::Number(n) => AttrV1::Number(*n),
-                                AttrValue::Text(t) => AttrV1::Text(t.clone()),
-                            };
-                            (k.clone(), v)
-                        })
-                        .collect(),
-                ),
-                geometry: r.geometry.as_ref().map(|g| {
-                    g.polygons
-                        .iter()
-                        .map(|p| {
-                            std::iter::once(ring_out(&p.exterior))
-                                .chain(p.holes.iter().map(|h| ring_out(h)))
-                                .collect()
-                        })
-                        .collect()
-                }),
-            })
-            .collect(),
-        borders: doc
-            .borders
-            .iter()
-            .map(|(pair, b)| BorderV1 {
-                a: pair.a().0,
-                b: pair.b().0,
-                kind: match b.kind {
-                    BorderKind::Shared => KindV1::Shared,
-                    BorderKind::Corner => KindV1::Corner,
-                    BorderKind::Manual => KindV1::Manual,
-                },
-                length: b.length,
-                suppressed: b.suppressed,
-            })
-            .collect(),
-        colouring: doc.colouring().iter().map(|(id, s)| (id.0, *s)).collect(),
+        regions: RegionsOut(doc),
+        borders: BordersOut(doc),
+        colouring: ColouringOut(doc),
         next_region_id: doc.peek_region_id().0,
         next_group_id: doc.peek_group_id().0,
     }
 }
 
-/// The project as `.tinct` text.
-pub fn to_string(doc: &Document) -> String {
-    // Depth 2 puts each region, border, slot and group on one line of its own: a change touches only its line.
-    let config = ron::ser::PrettyConfig::new()
+/// How project files are laid out: depth 2 puts each region, border, slot and group on one line
+/// of its own, so a change touches only its line.
+fn pretty() -> ron::ser::PrettyConfig {
+    ron::ser::PrettyConfig::new()
         .depth_limit(2)
         .indentor("  ")
-        .separate_tuple_members(false);
-    match ron::ser::to_string_pretty(&to_records(doc), config) {
+        .separate_tuple_members(false)
+}
+
+/// The project as `.tinct` text.
+pub fn to_string(doc: &Document) -> String {
+    match ron::ser::to_string_pretty(&to_records(doc), pretty()) {
         Ok(mut text) => {
             text.push('\n');
             text
@@ -346,9 +419,19 @@ pub fn to_string(doc: &Document) -> String {
     }
 }
 
-/// Saves `doc` to `path` atomically (temporary file in the same folder, flushed, then renamed).
+/// Saves `doc` to `path` atomically (temporary file in the same folder, flushed, then renamed),
+/// writing straight from the document to the file: no copy of the project's text in memory.
 pub fn save(doc: &Document, path: &Path) -> Result<(), FileError> {
-    write_atomically(path, to_string(doc).as_bytes())
+    crate::atomic::write_atomically_with(path, |out| {
+        ron::Options::default()
+            .to_io_writer_pretty(&mut *out, &to_records(doc), pretty())
+            .map_err(std::io::Error::other)?;
+        out.write_all(b"\n")
+    })
+    .map_err(|e| FileError::Write {
+        path: e.path,
+        source: e.source,
+    })
 }
 
 /// Writes `bytes` to `path` atomically (see [`crate::atomic::write_atomically`]).
@@ -615,6 +698,28 @@ mod tests {
         let fast: ProjectV1 = fast::from_str(text).expect("the fast reader reads Tinct's files");
         let general: ProjectV1 = ron::de::from_str(text).unwrap();
         assert_eq!(from_records(fast).unwrap(), from_records(general).unwrap());
+    }
+
+    #[test]
+    fn tinct_files_are_written_back_byte_for_byte_and_saving_streams_the_same_text() {
+        // Regression: the streamed writer wrote an empty colouring as "{\n  }" instead of "{}".
+        for text in [
+            include_str!("../../../sample-maps/vessland-province.tinct"),
+            include_str!("../../../sample-maps/three-valleys.tinct"),
+            include_str!("../../../tests/golden/v1/full.tinct"),
+        ] {
+            let doc = from_str(text).unwrap();
+            let written = to_string(&doc);
+            if text.starts_with("(\n  format_version") {
+                assert_eq!(written, text, "a file Tinct wrote comes back unchanged");
+            }
+            let dir = std::env::temp_dir().join(format!("tinct-save-{}", std::process::id()));
+            std::fs::create_dir_all(&dir).unwrap();
+            let path = dir.join("saved.tinct");
+            save(&doc, &path).unwrap();
+            assert_eq!(std::fs::read_to_string(&path).unwrap(), written);
+            let _ = std::fs::remove_dir_all(&dir);
+        }
     }
 
     #[test]

@@ -60,7 +60,8 @@ fn timed<T>(f: impl FnOnce() -> T) -> (T, Duration) {
 /// In a fresh process: load the project at `path` and analyse it, printing times and this
 /// process's own peak memory (what `tinct analyse` on the file needs, without the import's).
 fn load_and_analyse(path: &str) {
-    let (loaded, took) = timed(|| tinct::formats::load(Path::new(path)).unwrap());
+    let (loaded, took) =
+        timed(|| tinct::formats::load(Path::new(path), &Default::default()).unwrap());
     row("  fresh process: load", took, None);
     let ctx = JobContext {
         cancel: Arc::new(AtomicBool::new(false)),
@@ -257,7 +258,8 @@ fn main() {
         .unwrap();
     print!("{}", String::from_utf8_lossy(&child.stdout));
     drop(doc);
-    let (loaded, took) = timed(|| tinct::formats::load(Path::new(&path)).unwrap());
+    let (loaded, took) =
+        timed(|| tinct::formats::load(Path::new(&path), &Default::default()).unwrap());
     row("load the project", took, Some(copy));
     doc = loaded.doc;
 

@@ -136,17 +136,8 @@ impl Session {
         self.saved_revision = None;
     }
 
-    /// Saves to the session's path now, in the format its extension names.
-    pub fn save(&mut self) -> anyhow::Result<()> {
-        let path = self
-            .path
-            .clone()
-            .ok_or_else(|| anyhow::anyhow!("the project has no file yet: choose one to save as"))?;
-        self.save_as(path)
-    }
-
-    /// Saves to `path` now and makes it the session's file.
-    pub fn save_as(&mut self, path: PathBuf) -> anyhow::Result<()> {
+    /// Saves to `path` now, in the format its extension names, and makes it the session's file.
+    pub fn save_as(&mut self, path: PathBuf) -> Result<(), crate::formats::FormatError> {
         crate::formats::save(&self.doc, &path)?;
         let revision = self.doc.revision();
         self.saved(path, revision);

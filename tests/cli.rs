@@ -378,3 +378,52 @@ fn a_bound_no_clique_shows_gets_its_own_obstruction_proof_and_files() {
     tinct::engine::colouring::check_drat(&cnf, &drat).expect("the written proof checks");
     assert!(proof.join("three-colours.cnf").exists());
 }
+
+#[test]
+fn a_failed_write_is_exit_3_whatever_the_command() {
+    // Regression: `tinct colour` reported a project it could not write as bad input (exit 2).
+    let out = tinct_path(
+        &["colour"],
+        &sample("three-valleys"),
+        &["--out", "/nonexistent-folder/coloured.tinct"],
+    );
+    assert_eq!(out.status.code(), Some(3), "{}", stderr(&out));
+    assert!(stderr(&out).contains("cannot"), "{}", stderr(&out));
+    let out = tinct_path(
+        &["convert"],
+        &sample("three-valleys"),
+        &["/nonexistent-folder/graph.col"],
+    );
+    assert_eq!(out.status.code(), Some(3), "{}", stderr(&out));
+    // A wrong extension is the user's input, not a failed write.
+    let dir = tempfile::tempdir().unwrap();
+    let out = tinct_path(
+        &["convert"],
+        &sample("three-valleys"),
+        &[dir.path().join("graph.txt").to_str().unwrap()],
+    );
+    assert_bad_input(&out, "cannot write files with extension");
+}
+
+#[test]
+fn analyse_imports_a_boundary_file_with_the_rule_it_is_given() {
+    // The sample's GeoJSON read with the queen rule counts corner contacts as borders, so its
+    // constraint graph has at least as many edges as with the rook rule (common practice).
+    let edges = |rule: &str| {
+        let out = tinct_path(
+            &["analyse"],
+            &root().join("sample-maps/vessland-province.geojson"),
+            &["--json", "--only", "rules", "--rule", rule],
+        );
+        assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+        let json: Value = serde_json::from_str(&stdout(&out)).unwrap();
+        (
+            json["summary"]["graph_edges"].as_u64().unwrap(),
+            json["borders"]["corner"].as_u64().unwrap(),
+        )
+    };
+    let (rook, corners) = edges("rook");
+    let (queen, _) = edges("queen");
+    assert!(queen >= rook);
+    assert_eq!(queen > rook, corners > 0);
+}

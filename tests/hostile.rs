@@ -693,14 +693,20 @@ fn graph_files_that_are_not_utf8_are_refused_naming_the_line() {
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("broken.col");
     std::fs::write(&path, b"c ok\np edge 2 1\ne 1 \xff2\n").unwrap();
-    let e = tinct::formats::load(&path).err().unwrap().to_string();
+    let e = tinct::formats::load(&path, &Default::default())
+        .err()
+        .unwrap()
+        .to_string();
     assert!(
         e.contains("broken.col") && e.contains("line 3") && e.contains("UTF-8"),
         "{e}"
     );
     let path = dir.path().join("broken.tinct");
     std::fs::write(&path, b"(\n  format_version: 1,\n  title: \"\xc3\x28\",\n").unwrap();
-    let e = tinct::formats::load(&path).err().unwrap().to_string();
+    let e = tinct::formats::load(&path, &Default::default())
+        .err()
+        .unwrap()
+        .to_string();
     assert!(e.contains("line 3") && e.contains("UTF-8"), "{e}");
 }
 

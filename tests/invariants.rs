@@ -224,6 +224,29 @@ fn analysis_looks_only_down_and_the_command_line_does_not_use_the_worker() {
 }
 
 #[test]
+fn anyhow_is_only_for_the_front_ends() {
+    // Library errors are typed enums that carry their evidence; `anyhow` only where they are
+    // turned into messages for people (house style, "Errors").
+    let mut found = Vec::new();
+    for folder in [
+        "engine", "colour", "doc", "geo", "export", "analysis", "worker",
+    ] {
+        found.extend(offences(folder, &["anyhow"], &[]));
+    }
+    for file in ["formats.rs", "session.rs", "atomic.rs", "lib.rs"] {
+        let text = std::fs::read_to_string(root().join("src").join(file)).unwrap();
+        if code_lines(&text).iter().any(|(_, l)| names(l, "anyhow")) {
+            found.push(format!("src/{file} names anyhow"));
+        }
+    }
+    assert!(
+        found.is_empty(),
+        "anyhow belongs in src/cli and src/ui only:\n{}",
+        found.join("\n")
+    );
+}
+
+#[test]
 fn only_the_project_file_module_knows_ron() {
     let mut found = Vec::new();
     for folder in [

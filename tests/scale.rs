@@ -30,7 +30,7 @@ fn a_map_of_forty_thousand_regions_imports_saves_loads_and_analyses_correctly() 
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("large.tinct");
     tinct::formats::save(&doc, &path).unwrap();
-    let loaded = tinct::formats::load(&path).unwrap();
+    let loaded = tinct::formats::load(&path, &Default::default()).unwrap();
     assert_eq!(loaded.doc, doc);
     assert!(loaded.notices.is_empty());
 

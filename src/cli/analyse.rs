@@ -4,11 +4,80 @@
 //! rename or remove them.
 
 use std::fmt::Write as _;
+use std::path::PathBuf;
+use std::time::Duration;
 
 use serde::Serialize;
 
-use crate::analysis::Rules;
+use super::{CommandResult, OrFail, Outcome, Section, colouring, import, planarity};
+use crate::analysis::{Analysis, ColourOptions, Request, Rules};
 use crate::doc::{self, Document};
+
+/// What `tinct analyse` was asked.
+pub struct AnalyseArgs {
+    pub file: PathBuf,
+    pub json: bool,
+    pub strict: bool,
+    pub only: Option<Section>,
+    pub embedding: bool,
+    pub certificate_out: Option<PathBuf>,
+    pub time_limit: Duration,
+    pub proof_out: Option<PathBuf>,
+    pub geo: import::GeoArgs,
+}
+
+/// `tinct analyse`: one analysis (the constraint graph once, then the parts asked for), printed
+/// as text or JSON, with the certificate and proof files written when asked.
+pub fn run_analyse(a: &AnalyseArgs) -> CommandResult {
+    let loaded = super::load(&a.file, &a.geo)?;
+    let request = Request {
+        planarity: matches!(a.only, None | Some(Section::Planarity)) || a.certificate_out.is_some(),
+        embedding: a.embedding || a.certificate_out.is_some(),
+        colouring: matches!(a.only, None | Some(Section::Colouring)).then_some(ColourOptions {
+            keep_current: false,
+            balance: None,
+            time_limit: a.time_limit,
+        }),
+    };
+    let analysis = crate::analysis::uncontrolled(|c| Analysis::run(&loaded.doc, request, c));
+    let report = report(
+        &a.file.display().to_string(),
+        &loaded.doc,
+        &analysis.rules,
+        &loaded.notices,
+    );
+    // The planarity section lives in planarity.rs, the colouring one in colouring.rs.
+    let text = if a.only == Some(Section::Colouring) {
+        if a.json {
+            serde_json::json!({ "schema": report.schema, "file": report.file }).to_string()
+        } else {
+            format!("{} ({})\n", report.title, report.file)
+        }
+    } else {
+        planarity::attach(
+            &report,
+            &loaded.doc,
+            &analysis,
+            a.json,
+            a.only,
+            a.embedding,
+            a.certificate_out.as_deref(),
+        )
+        .cannot_write()?
+    };
+    let text = match &analysis.colouring {
+        Some(verdict) => {
+            let section = colouring::section(verdict, a.proof_out.as_deref()).cannot_write()?;
+            colouring::append(text, a.json, &section).cannot_write()?
+        }
+        None => text,
+    };
+    Ok(Outcome {
+        stdout: text,
+        notes: Vec::new(),
+        problems: a.strict && !report.ok,
+    })
+}
 
 /// The analysis report (`--json` prints exactly this).
 #[derive(Serialize)]

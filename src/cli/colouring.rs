@@ -18,12 +18,13 @@
 //!   what else it cut short; `impossible`: why no colouring can exist.
 
 use std::collections::BTreeMap;
-use std::path::Path;
+use std::path::{Path, PathBuf};
 use std::time::Duration;
 
 use anyhow::Context as _;
 use serde::Serialize;
 
+use super::{CommandResult, Failure, OrFail, Outcome};
 use crate::analysis::{self, BalanceBy, ColourOptions, ColouringVerdict, Impossibility};
 use crate::engine::colouring::check_drat;
 
@@ -245,40 +246,49 @@ pub fn append(rendered: String, json: bool, section: &ColouringOut) -> anyhow::R
     }
 }
 
+/// What `tinct colour` was asked.
+pub struct ColourArgs {
+    pub file: PathBuf,
+    pub out: PathBuf,
+    /// Keep the current colours where possible.
+    pub keep: bool,
+    pub balance: Option<BalanceBy>,
+    pub time_limit: Duration,
+    /// Add the palette slots the map lacks instead of refusing.
+    pub add_slots: bool,
+    pub geo: super::import::GeoArgs,
+}
+
 /// `tinct colour FILE --out OUT`: colours the map with the fewest colours and writes the project.
 /// When the palette has too few slots, `add_slots` adds them (as distinct as possible from the
 /// palette's colours); without it the command refuses and says how many are missing.
-pub fn run_colour(
-    file: &Path,
-    out: &Path,
-    keep: bool,
-    balance: Option<BalanceBy>,
-    time_limit: Duration,
-    add_slots: bool,
-) -> anyhow::Result<String> {
-    let loaded = crate::formats::load(file)?;
+pub fn run_colour(a: &ColourArgs) -> CommandResult {
+    let loaded = super::load(&a.file, &a.geo)?;
     let mut doc = loaded.doc;
     let options = ColourOptions {
-        keep_current: keep,
-        balance,
-        time_limit,
+        keep_current: a.keep,
+        balance: a.balance,
+        time_limit: a.time_limit,
     };
     let verdict = analysis::uncontrolled(|c| analysis::colour(&doc, c, options));
     if let Some(why) = &verdict.impossible {
-        anyhow::bail!("no colouring can satisfy this map: {why}");
+        return Err(Failure::BadInput(anyhow::anyhow!(
+            "no colouring can satisfy this map: {why}"
+        )));
     }
     let colouring = verdict
         .colouring
         .clone()
-        .context("no colouring was found within the time limit")?;
+        .context("no colouring was found within the time limit")
+        .bad_input()?;
     let extra = verdict.extra_slots_needed;
-    if extra > 0 && !add_slots {
-        anyhow::bail!(
+    if extra > 0 && !a.add_slots {
+        return Err(Failure::BadInput(anyhow::anyhow!(
             "this map needs {} colours but the palette has only {}: run again with --add-slots to add {}",
             verdict.minimum.unwrap_or(0),
             doc.palette().slots.len(),
             slots(extra)
-        );
+        )));
     }
     let mut edits = Vec::new();
     if extra > 0 {
@@ -289,11 +299,11 @@ pub fn run_colour(
         label: "Colour with the fewest colours".into(),
         edits,
     })
-    .map_err(|e| anyhow::anyhow!("{e}"))?;
-    crate::formats::save(&doc, out)?;
+    .bad_input()?;
+    super::save(&doc, &a.out)?;
     let mut summary = format!(
         "coloured {} with {} colours{}",
-        file.display(),
+        a.file.display(),
         verdict.minimum.map_or("?".into(), |m| m.to_string()),
         if verdict.proven {
             " (proven fewest)"
@@ -304,8 +314,8 @@ pub fn run_colour(
     if extra > 0 {
         summary.push_str(&format!("; added {} to the palette", slots(extra)));
     }
-    if let Some(changed) = verdict.changed.filter(|_| keep) {
+    if let Some(changed) = verdict.changed.filter(|_| a.keep) {
         summary.push_str(&format!("; {changed} regions changed colour"));
     }
-    Ok(summary)
+    Ok(Outcome::notes(vec![summary]))
 }

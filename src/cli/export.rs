@@ -13,13 +13,12 @@
 
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
-use std::process::ExitCode;
 
 use anyhow::anyhow;
 use clap::Args;
 use serde_json::json;
 
-use super::{error, exit};
+use super::{CommandResult, Failure, OrFail, Outcome};
 use crate::colour::{self, Thresholds, Vision};
 use crate::doc::palette_check::{
     PairsChecked, palette_report, simulated_palettes, slot_assignment_edit,
@@ -72,11 +71,8 @@ fn write(path: &Path, bytes: &[u8]) -> anyhow::Result<()> {
 }
 
 /// Runs `tinct export`.
-pub fn run_export(file: &Path, args: &ExportArgs) -> ExitCode {
-    let loaded = match crate::formats::load(file) {
-        Ok(l) => l,
-        Err(e) => return error(exit::BAD_INPUT, &e),
-    };
+pub fn run_export(file: &Path, args: &ExportArgs, geo: &super::import::GeoArgs) -> CommandResult {
+    let loaded = super::load(file, geo)?;
     let doc = &loaded.doc;
     let options = SvgOptions {
         width_mm: args.width_mm,
@@ -92,30 +88,26 @@ pub fn run_export(file: &Path, args: &ExportArgs) -> ExitCode {
     // Make every requested output first, so bad input writes nothing.
     let mut files: Vec<(&PathBuf, Vec<u8>)> = Vec::new();
     let o = &args.outputs;
-    let made: Result<(), export::ExportError> = (|| {
-        let wanted = [
-            (&o.svg, ExportFormat::Svg),
-            (&o.png, ExportFormat::Png(size)),
-            (&o.geojson, ExportFormat::GeoJson),
-            (&o.csv, ExportFormat::Csv),
-        ];
-        for (path, format) in wanted {
-            if let Some(path) = path {
-                files.push((path, export::export_bytes(doc, format, &options)?));
-            }
+    let wanted = [
+        (&o.svg, ExportFormat::Svg),
+        (&o.png, ExportFormat::Png(size)),
+        (&o.geojson, ExportFormat::GeoJson),
+        (&o.csv, ExportFormat::Csv),
+    ];
+    for (path, format) in wanted {
+        if let Some(path) = path {
+            let bytes = export::export_bytes(doc, format, &options)
+                .map_err(|e| anyhow!("{}: {e}", file.display()))
+                .bad_input()?;
+            files.push((path, bytes));
         }
-        Ok(())
-    })();
-    if let Err(e) = made {
-        return error(exit::BAD_INPUT, &anyhow!("{}: {e}", file.display()));
     }
+    let mut notes = Vec::new();
     for (path, bytes) in files {
-        if let Err(e) = write(path, &bytes) {
-            return error(exit::CANNOT_WRITE, &e);
-        }
-        eprintln!("tinct: wrote {}", path.display());
+        write(path, &bytes).cannot_write()?;
+        notes.push(format!("wrote {}", path.display()));
     }
-    ExitCode::from(exit::OK)
+    Ok(Outcome::notes(notes))
 }
 
 /// Options of `tinct palette`.
@@ -271,56 +263,43 @@ pub fn report_text(doc: &Document, thresholds: &Thresholds) -> String {
 }
 
 /// Runs `tinct palette`.
-pub fn run_palette(file: &Path, args: &PaletteArgs) -> ExitCode {
-    let loaded = match crate::formats::load(file) {
-        Ok(l) => l,
-        Err(e) => return error(exit::BAD_INPUT, &e),
-    };
+pub fn run_palette(file: &Path, args: &PaletteArgs) -> CommandResult {
+    let loaded = crate::formats::load(file, &crate::geo::ImportOptions::default()).bad_input()?;
     let mut doc = loaded.doc;
     let thresholds = Thresholds::default();
     let changes = args.default_palette.is_some() || args.assign;
     if changes != args.out.is_some() {
-        return error(
-            exit::BAD_INPUT,
-            &anyhow!(
-                "--default-palette and --assign change the project: name the result with --out"
-            ),
-        );
+        return Err(Failure::BadInput(anyhow!(
+            "--default-palette and --assign change the project: name the result with --out"
+        )));
     }
+    let mut notes = Vec::new();
     if let Some(colours) = args.default_palette {
         let Some(index) = colour::DEFAULT_PALETTES
             .iter()
             .position(|p| p.slots.len() == colours)
         else {
-            return error(
-                exit::BAD_INPUT,
-                &anyhow!("there are default palettes for 3 to 8 colours, not {colours}"),
-            );
+            return Err(Failure::BadInput(anyhow!(
+                "there are default palettes for 3 to 8 colours, not {colours}"
+            )));
         };
-        let edit = match palette_edit::use_default_palette(&doc, index) {
-            Ok(e) => e,
-            Err(e) => return error(exit::BAD_INPUT, &e.into()),
-        };
-        if let Err(e) = doc.apply(edit) {
-            return error(exit::BAD_INPUT, &e.into());
-        }
+        let edit = palette_edit::use_default_palette(&doc, index).bad_input()?;
+        doc.apply(edit).bad_input()?;
     }
     if args.assign {
-        match slot_assignment_edit(&doc, &thresholds) {
-            Ok(Some(edit)) => {
-                if let Err(e) = doc.apply(edit) {
-                    return error(exit::BAD_INPUT, &e.into());
-                }
-                eprintln!("tinct: moved colours to the slots that suit their borders best");
+        match slot_assignment_edit(&doc, &thresholds)
+            .map_err(|e| anyhow!("{}: {e}", file.display()))
+            .bad_input()?
+        {
+            Some(edit) => {
+                doc.apply(edit).bad_input()?;
+                notes.push("moved colours to the slots that suit their borders best".into());
             }
-            Ok(None) => eprintln!("tinct: the colours already sit on the best slots"),
-            Err(e) => return error(exit::BAD_INPUT, &anyhow!("{}: {e}", file.display())),
+            None => notes.push("the colours already sit on the best slots".into()),
         }
     }
-    if let Some(out) = &args.out
-        && let Err(e) = crate::formats::save(&doc, out)
-    {
-        return error(exit::CANNOT_WRITE, &e);
+    if let Some(out) = &args.out {
+        super::save(&doc, out)?;
     }
     let text = if args.json {
         let mut t = report_json(&doc, &thresholds).to_string();
@@ -329,5 +308,9 @@ pub fn run_palette(file: &Path, args: &PaletteArgs) -> ExitCode {
     } else {
         report_text(&doc, &thresholds)
     };
-    super::print_out(&text)
+    Ok(Outcome {
+        stdout: text,
+        notes,
+        problems: false,
+    })
 }

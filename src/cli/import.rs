@@ -6,13 +6,12 @@
 //! import order); `source_index` is the 0-based position of the feature in the input file.
 
 use std::path::Path;
-use std::process::ExitCode;
 
 use anyhow::anyhow;
 use clap::{Args, ValueEnum};
 use serde::Serialize;
 
-use super::{error, exit};
+use super::{CommandResult, OrFail, Outcome};
 use crate::geo::{self, BorderKind, ImportOptions, ImportedMap, Rule, Units};
 
 /// Contiguity rule on the command line.
@@ -104,24 +103,21 @@ fn title_of(path: &Path) -> String {
 }
 
 /// `tinct import FILE --out PROJECT.tinct`.
-pub fn run_import(file: &Path, out: &Path, args: &GeoArgs) -> ExitCode {
-    let map = match import(file, &args.options()) {
-        Ok(m) => m,
-        Err(e) => return error(exit::BAD_INPUT, &e),
-    };
-    for d in &map.diagnostics {
-        eprintln!("tinct: note: {}", d.message);
-    }
+pub fn run_import(file: &Path, out: &Path, args: &GeoArgs) -> CommandResult {
+    let map = import(file, &args.options()).bad_input()?;
+    let mut notes: Vec<String> = map
+        .diagnostics
+        .iter()
+        .map(|d| format!("note: {}", d.message))
+        .collect();
     let (regions, borders) = (map.regions.len(), map.borders.len());
     let document = map.into_document(title_of(file));
-    if let Err(e) = crate::formats::save(&document, out) {
-        return error(exit::CANNOT_WRITE, &e);
-    }
-    eprintln!(
-        "tinct: imported {regions} regions and {borders} borders into {}",
+    super::save(&document, out)?;
+    notes.push(format!(
+        "imported {regions} regions and {borders} borders into {}",
         out.display()
-    );
-    ExitCode::from(exit::OK)
+    ));
+    Ok(Outcome::notes(notes))
 }
 
 /// The adjacency report (`tinct adjacency --json` prints exactly this).
@@ -280,19 +276,13 @@ pub fn render_text(report: &AdjacencyReport) -> String {
 }
 
 /// `tinct adjacency FILE [--json]`.
-pub fn run_adjacency(file: &Path, json: bool, args: &GeoArgs) -> ExitCode {
-    let map = match import(file, &args.options()) {
-        Ok(m) => m,
-        Err(e) => return error(exit::BAD_INPUT, &e),
-    };
+pub fn run_adjacency(file: &Path, json: bool, args: &GeoArgs) -> CommandResult {
+    let map = import(file, &args.options()).bad_input()?;
     let report = report(&file.display().to_string(), &map);
     let text = if json {
-        match serde_json::to_string_pretty(&report) {
-            Ok(t) => t + "\n",
-            Err(e) => return error(exit::CANNOT_WRITE, &e.into()),
-        }
+        serde_json::to_string_pretty(&report).cannot_write()? + "\n"
     } else {
         render_text(&report)
     };
-    super::print_out(&text)
+    Ok(Outcome::text(text))
 }

@@ -74,6 +74,9 @@ pub enum Command {
         /// N-colours.cnf and .drat for one colour fewer than the minimum (N = minimum - 1).
         #[arg(long, value_name = "DIR")]
         proof_out: Option<PathBuf>,
+        /// How a boundary file is imported (ignored for projects and graph files).
+        #[command(flatten)]
+        geo: import::GeoArgs,
     },
     /// Colour a map with the fewest colours (honouring pins and groups) and write the coloured project.
     Colour {
@@ -95,6 +98,9 @@ pub enum Command {
         /// distinct as possible from the palette's colours) instead of refusing.
         #[arg(long)]
         add_slots: bool,
+        /// How a boundary file is imported (ignored for projects and graph files).
+        #[command(flatten)]
+        geo: import::GeoArgs,
     },
     /// Import a boundary file (.geojson, .json, .topojson, .shp) into a project file.
     Import {
@@ -122,6 +128,9 @@ pub enum Command {
         file: PathBuf,
         #[command(flatten)]
         args: export::ExportArgs,
+        /// How a boundary file is imported (ignored for projects and graph files).
+        #[command(flatten)]
+        geo: import::GeoArgs,
     },
     /// Check that the palette's colours can be told apart where neighbours meet (normal vision,
     /// simulated colour-vision deficiencies, greyscale), and optionally reassign slots.
@@ -133,10 +142,13 @@ pub enum Command {
     },
     /// Convert between project and graph formats, chosen by the files' extensions.
     Convert {
-        /// The file to read (.tinct, .col, .dimacs, .edges).
+        /// The file to read (.tinct, .col, .dimacs, .edges, or a boundary file to import).
         input: PathBuf,
         /// The file to write (.tinct, .col, .dimacs, .edges); graph formats receive the constraint graph.
         output: PathBuf,
+        /// How a boundary file is imported (ignored for projects and graph files).
+        #[command(flatten)]
+        geo: import::GeoArgs,
     },
 }
 
@@ -149,36 +161,119 @@ pub mod exit {
 }
 
 /// A time limit in seconds, if it is a positive finite number.
-fn seconds(value: f64) -> Option<std::time::Duration> {
-    (value.is_finite() && value > 0.0).then(|| std::time::Duration::from_secs_f64(value.min(1e9)))
-}
-
-/// Writes `text` to standard output: exit 0, or 3 when it cannot be written (a closed pipe).
-fn print_out(text: &str) -> ExitCode {
-    use std::io::Write as _;
-    let mut stdout = std::io::stdout().lock();
-    match stdout
-        .write_all(text.as_bytes())
-        .and_then(|_| stdout.flush())
-    {
-        Ok(()) => ExitCode::from(exit::OK),
-        Err(e) => error(exit::CANNOT_WRITE, &e.into()),
+fn seconds(value: f64) -> Result<std::time::Duration, Failure> {
+    if value.is_finite() && value > 0.0 {
+        Ok(std::time::Duration::from_secs_f64(value.min(1e9)))
+    } else {
+        Err(Failure::BadInput(anyhow::anyhow!(
+            "--time-limit must be a positive number of seconds"
+        )))
     }
 }
 
-fn error(code: u8, e: &anyhow::Error) -> ExitCode {
-    eprintln!("tinct: {e:#}");
+/// What a command produced: text for standard output, lines for standard error (each printed
+/// after `tinct: `), and whether the analysis found problems (for `--strict`).
+#[derive(Debug, Default)]
+pub struct Outcome {
+    pub stdout: String,
+    pub notes: Vec<String>,
+    pub problems: bool,
+}
+
+impl Outcome {
+    /// Only text for standard output.
+    pub fn text(stdout: String) -> Outcome {
+        Outcome {
+            stdout,
+            ..Outcome::default()
+        }
+    }
+    /// Only lines for standard error.
+    pub fn notes(notes: Vec<String>) -> Outcome {
+        Outcome {
+            notes,
+            ..Outcome::default()
+        }
+    }
+}
+
+/// Why a command failed. [`run`] turns it into an exit status, in one place.
+#[derive(Debug)]
+pub enum Failure {
+    /// The input cannot be used (exit status 2).
+    BadInput(anyhow::Error),
+    /// The output cannot be written (exit status 3).
+    CannotWrite(anyhow::Error),
+}
+
+/// What every command returns.
+pub type CommandResult = Result<Outcome, Failure>;
+
+/// Marks an error as bad input or as a failed write.
+pub trait OrFail<T> {
+    fn bad_input(self) -> Result<T, Failure>;
+    fn cannot_write(self) -> Result<T, Failure>;
+}
+
+impl<T, E: Into<anyhow::Error>> OrFail<T> for Result<T, E> {
+    fn bad_input(self) -> Result<T, Failure> {
+        self.map_err(|e| Failure::BadInput(e.into()))
+    }
+    fn cannot_write(self) -> Result<T, Failure> {
+        self.map_err(|e| Failure::CannotWrite(e.into()))
+    }
+}
+
+/// Loads any file a command reads (boundary files with the import options given).
+fn load(file: &std::path::Path, geo: &import::GeoArgs) -> Result<crate::formats::Loaded, Failure> {
+    crate::formats::load(file, &geo.options()).bad_input()
+}
+
+/// Saves in the format the extension names: a wrong extension is bad input, a failed write is not.
+fn save(doc: &crate::doc::Document, path: &std::path::Path) -> Result<(), Failure> {
+    crate::formats::save(doc, path).map_err(|e| {
+        if e.is_write() {
+            Failure::CannotWrite(e.into())
+        } else {
+            Failure::BadInput(e.into())
+        }
+    })
+}
+
+/// Runs a headless command: prints what it produced and maps failures to exit statuses
+/// (0 success; 1 problems found, with `--strict`; 2 bad input; 3 output not written).
+pub fn run(command: Command) -> ExitCode {
+    let (code, failure) = match execute(command) {
+        Ok(outcome) => {
+            for note in &outcome.notes {
+                eprintln!("tinct: {note}");
+            }
+            let mut stdout = std::io::stdout().lock();
+            match stdout
+                .write_all(outcome.stdout.as_bytes())
+                .and_then(|_| stdout.flush())
+            {
+                Err(e) => (exit::CANNOT_WRITE, Some(anyhow::Error::from(e))),
+                Ok(()) if outcome.problems => (exit::PROBLEMS, None),
+                Ok(()) => (exit::OK, None),
+            }
+        }
+        Err(Failure::BadInput(e)) => (exit::BAD_INPUT, Some(e)),
+        Err(Failure::CannotWrite(e)) => (exit::CANNOT_WRITE, Some(e)),
+    };
+    if let Some(e) = failure {
+        eprintln!("tinct: {e:#}");
+    }
     ExitCode::from(code)
 }
 
-/// Runs a headless command.
-pub fn run(command: Command) -> ExitCode {
+/// Runs a command and returns what it produced.
+pub fn execute(command: Command) -> CommandResult {
     match command {
-        Command::Open { .. } => {
-            // Opening a window is the binary's job (it owns the GUI); a headless caller gets a clear no.
-            eprintln!("tinct: `open` needs the editor window; run it as `tinct open FILE`");
-            ExitCode::from(exit::BAD_INPUT)
-        }
+        // Opening a window is the binary's job (it owns the GUI); a headless caller gets a clear no.
+        Command::Open { .. } => Err(Failure::BadInput(anyhow::anyhow!(
+            "`open` needs the editor window; run it as `tinct open FILE`"
+        ))),
         Command::Analyse {
             file,
             json,
@@ -188,80 +283,18 @@ pub fn run(command: Command) -> ExitCode {
             certificate_out,
             time_limit,
             proof_out,
-        } => {
-            let loaded = match crate::formats::load(&file) {
-                Ok(l) => l,
-                Err(e) => return error(exit::BAD_INPUT, &e),
-            };
-            let Some(limit) = seconds(time_limit) else {
-                return error(
-                    exit::BAD_INPUT,
-                    &anyhow::anyhow!("--time-limit must be a positive number of seconds"),
-                );
-            };
-            // One analysis: the constraint graph once, then the parts asked for.
-            let request = crate::analysis::Request {
-                planarity: matches!(only, None | Some(Section::Planarity))
-                    || certificate_out.is_some(),
-                embedding: embedding || certificate_out.is_some(),
-                colouring: matches!(only, None | Some(Section::Colouring)).then_some(
-                    crate::analysis::ColourOptions {
-                        keep_current: false,
-                        balance: None,
-                        time_limit: limit,
-                    },
-                ),
-            };
-            let analysis = crate::analysis::uncontrolled(|c| {
-                crate::analysis::Analysis::run(&loaded.doc, request, c)
-            });
-            let report = analyse::report(
-                &file.display().to_string(),
-                &loaded.doc,
-                &analysis.rules,
-                &loaded.notices,
-            );
-            // The planarity section lives in src/cli/planarity.rs, the colouring one in colouring.rs.
-            let text = if only == Some(Section::Colouring) {
-                let head = if json {
-                    serde_json::json!({ "schema": report.schema, "file": report.file }).to_string()
-                } else {
-                    format!("{} ({})\n", report.title, report.file)
-                };
-                Ok(head)
-            } else {
-                planarity::attach(
-                    &report,
-                    &loaded.doc,
-                    &analysis,
-                    json,
-                    only,
-                    embedding,
-                    certificate_out.as_deref(),
-                )
-            };
-            let text = match (text, &analysis.colouring) {
-                (Ok(t), Some(verdict)) => colouring::section(verdict, proof_out.as_deref())
-                    .and_then(|c| colouring::append(t, json, &c)),
-                (other, _) => other,
-            };
-            let text = match text {
-                Ok(t) => t,
-                Err(e) => return error(exit::CANNOT_WRITE, &e),
-            };
-            let mut stdout = std::io::stdout().lock();
-            if let Err(e) = stdout
-                .write_all(text.as_bytes())
-                .and_then(|_| stdout.flush())
-            {
-                return error(exit::CANNOT_WRITE, &e.into());
-            }
-            if strict && !report.ok {
-                ExitCode::from(exit::PROBLEMS)
-            } else {
-                ExitCode::from(exit::OK)
-            }
-        }
+            geo,
+        } => analyse::run_analyse(&analyse::AnalyseArgs {
+            file,
+            json,
+            strict,
+            only,
+            embedding,
+            certificate_out,
+            time_limit: seconds(time_limit)?,
+            proof_out,
+            geo,
+        }),
         Command::Colour {
             file,
             out,
@@ -269,44 +302,40 @@ pub fn run(command: Command) -> ExitCode {
             balance,
             time_limit,
             add_slots,
+            geo,
         } => {
-            let Some(limit) = seconds(time_limit) else {
-                return error(
-                    exit::BAD_INPUT,
-                    &anyhow::anyhow!("--time-limit must be a positive number of seconds"),
-                );
-            };
             let balance = balance.map(|b| match b {
                 BalanceArg::Count => crate::analysis::BalanceBy::Count,
                 BalanceArg::Area => crate::analysis::BalanceBy::Area,
             });
-            match colouring::run_colour(&file, &out, keep_colours, balance, limit, add_slots) {
-                Ok(summary) => {
-                    eprintln!("tinct: {summary}");
-                    ExitCode::from(exit::OK)
-                }
-                Err(e) => error(exit::BAD_INPUT, &e),
-            }
+            colouring::run_colour(&colouring::ColourArgs {
+                file,
+                out,
+                keep: keep_colours,
+                balance,
+                time_limit: seconds(time_limit)?,
+                add_slots,
+                geo,
+            })
         }
         Command::Import { file, out, geo } => import::run_import(&file, &out, &geo),
         Command::Adjacency { file, json, geo } => import::run_adjacency(&file, json, &geo),
-        Command::Export { file, args } => export::run_export(&file, &args),
+        Command::Export { file, args, geo } => export::run_export(&file, &args, &geo),
         Command::Palette { file, args } => export::run_palette(&file, &args),
         Command::Convert {
             input: from,
             output,
+            geo,
         } => {
-            let loaded = match crate::formats::load(&from) {
-                Ok(l) => l,
-                Err(e) => return error(exit::BAD_INPUT, &e),
-            };
-            for n in &loaded.notices {
-                eprintln!("tinct: note: {}", n.message);
-            }
-            match crate::formats::save(&loaded.doc, &output) {
-                Ok(()) => ExitCode::from(exit::OK),
-                Err(e) => error(exit::CANNOT_WRITE, &e),
-            }
+            let loaded = load(&from, &geo)?;
+            save(&loaded.doc, &output)?;
+            Ok(Outcome::notes(
+                loaded
+                    .notices
+                    .iter()
+                    .map(|n| format!("note: {}", n.message))
+                    .collect(),
+            ))
         }
     }
 }

@@ -430,7 +430,7 @@ impl App {
     pub fn open_path(&mut self, path: PathBuf) {
         let job_path = path.clone();
         let job = move || {
-            let result = crate::formats::load(&job_path)
+            let result = crate::formats::load(&job_path, &crate::geo::ImportOptions::default())
                 .map(|l| Box::new((l.doc, l.notices.into_iter().map(|n| n.message).collect())))
                 .map_err(|e| format!("{e:#}"));
             JobResult::Loaded {

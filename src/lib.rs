@@ -5,7 +5,7 @@
 //! [`geo`] (importers), [`analysis`] (rules, planarity and colouring of one revision, in region
 //! terms), [`formats`] (every file kind by extension) and [`export`] (SVG, PNG, GeoJSON, CSV) <-
 //! [`worker`] (background jobs) and [`session`] (an open project with its history and rules) <- the
-//! editor (`ui`) and [`cli`]; [`atomic`] writes files for all of them.
+//! editor (`ui`) and [`cli`]; [`atomic`] writes files for all of them; [`geometry`] holds the plane geometry they share.
 
 pub mod analysis;
 pub mod atomic;
@@ -16,6 +16,7 @@ pub mod engine;
 pub mod export;
 pub mod formats;
 pub mod geo;
+pub mod geometry;
 pub mod session;
 #[cfg(feature = "gui")]
 pub mod ui;

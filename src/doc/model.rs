@@ -133,20 +133,8 @@ impl Geometry {
     }
 }
 
-/// Signed area of a ring (positive when counter-clockwise).
-pub fn ring_area(ring: &[Point]) -> f64 {
-    let n = ring.len();
-    if n < 3 {
-        return 0.0;
-    }
-    let mut twice = 0.0;
-    for i in 0..n {
-        let a = ring[i];
-        let b = ring[(i + 1) % n];
-        twice += a[0] * b[1] - b[0] * a[1];
-    }
-    twice / 2.0
-}
+/// Signed area of a ring (positive when counter-clockwise); see [`crate::geometry::signed_area`].
+pub use crate::geometry::signed_area as ring_area;
 
 /// Whether a region takes a fill colour.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash, Default)]

@@ -44,6 +44,7 @@ use super::{
     BorderKind, Diagnostic, DiagnosticKind, ImportedBorder, ImportedRegion,
     LambertAzimuthalEqualArea, Point, Rule,
 };
+use crate::geometry::{segments_cross, segments_intersect};
 
 /// Settings for [`derive_borders`].
 #[derive(Clone, Debug, PartialEq)]
@@ -265,8 +266,8 @@ impl Geometry {
                     let ring_id = rings.len() as u32;
                     let first = segments.len();
                     let mut offset = 0.0;
-                    for w in ring.windows(2) {
-                        let (p, q) = (w[0], w[1]);
+                    // Open or closed, every edge once (a closing repeat is a zero-length edge).
+                    for (p, q) in crate::geometry::edges(ring) {
                         let planar = (q[0] - p[0]).hypot(q[1] - p[1]);
                         if planar.is_nan() || planar <= 0.0 {
                             continue;
@@ -857,10 +858,6 @@ fn cross(a: Point, b: Point) -> f64 {
     a[0] * b[1] - a[1] * b[0]
 }
 
-fn orientation(a: Point, b: Point, c: Point) -> f64 {
-    cross(sub(b, a), sub(c, a))
-}
-
 pub(super) fn point_segment_distance(p: Point, a: Point, b: Point) -> f64 {
     let d = sub(b, a);
     let len2 = dot(d, d);
@@ -871,43 +868,6 @@ pub(super) fn point_segment_distance(p: Point, a: Point, b: Point) -> f64 {
     };
     let c = [a[0] + u * d[0], a[1] + u * d[1]];
     (p[0] - c[0]).hypot(p[1] - c[1])
-}
-
-fn on_segment(a: Point, b: Point, p: Point) -> bool {
-    p[0] >= a[0].min(b[0])
-        && p[0] <= a[0].max(b[0])
-        && p[1] >= a[1].min(b[1])
-        && p[1] <= a[1].max(b[1])
-}
-
-/// True when the closed segments share a point (crossing, touching or overlapping).
-pub(super) fn segments_intersect(a: Point, b: Point, c: Point, d: Point) -> bool {
-    let (o1, o2, o3, o4) = (
-        orientation(a, b, c),
-        orientation(a, b, d),
-        orientation(c, d, a),
-        orientation(c, d, b),
-    );
-    if ((o1 > 0.0 && o2 < 0.0) || (o1 < 0.0 && o2 > 0.0))
-        && ((o3 > 0.0 && o4 < 0.0) || (o3 < 0.0 && o4 > 0.0))
-    {
-        return true;
-    }
-    (o1 == 0.0 && on_segment(a, b, c))
-        || (o2 == 0.0 && on_segment(a, b, d))
-        || (o3 == 0.0 && on_segment(c, d, a))
-        || (o4 == 0.0 && on_segment(c, d, b))
-}
-
-/// True when the segments cross at a point interior to both (each separates the other's ends).
-fn segments_cross(a: Point, b: Point, c: Point, d: Point) -> bool {
-    let (o1, o2, o3, o4) = (
-        orientation(a, b, c),
-        orientation(a, b, d),
-        orientation(c, d, a),
-        orientation(c, d, b),
-    );
-    o1 * o2 < 0.0 && o3 * o4 < 0.0
 }
 
 pub(super) fn segment_distance(a: Point, b: Point, c: Point, d: Point) -> f64 {

@@ -12,6 +12,8 @@ use std::sync::Arc;
 
 use serde_json::Value;
 
+use crate::geometry::{edges, point_in_rings, signed_area};
+
 use super::{BorderKind as GeoBorderKind, ImportedMap, Point, Polygon as GeoPolygon, Rule, Units};
 use crate::doc::{
     self, AttrValue, Border, Document, DocumentBuilder, Geometry, Group, GroupId, Region, RegionId,
@@ -136,18 +138,15 @@ impl ImportedMap {
     }
 }
 
-/// The document stores rings without repeating the first point.
+/// Cleaned rings are open, as the document keeps them.
 fn to_doc_polygon(polygon: &GeoPolygon) -> doc::Polygon {
-    let open = |ring: &Vec<Point>| {
-        let mut ring = ring.clone();
-        if ring.len() > 1 && ring.first() == ring.last() {
-            ring.pop();
-        }
-        ring
-    };
+    debug_assert!(
+        polygon.exterior.len() < 2 || polygon.exterior.first() != polygon.exterior.last(),
+        "rings are opened when they are cleaned"
+    );
     doc::Polygon {
-        exterior: open(&polygon.exterior),
-        holes: polygon.holes.iter().map(open).collect(),
+        exterior: polygon.exterior.clone(),
+        holes: polygon.holes.clone(),
     }
 }
 
@@ -159,13 +158,6 @@ fn attr_value(value: &Value) -> AttrValue {
         Value::String(s) => AttrValue::Text(s.clone()),
         other => AttrValue::Text(other.to_string()),
     }
-}
-
-fn signed_area(ring: &[Point]) -> f64 {
-    ring.windows(2)
-        .map(|w| w[0][0] * w[1][1] - w[1][0] * w[0][1])
-        .sum::<f64>()
-        / 2.0
 }
 
 /// A label point inside the largest part: its centroid when that lies inside, otherwise the
@@ -182,38 +174,23 @@ pub fn anchor_of(parts: &[GeoPolygon]) -> Point {
     let area = signed_area(ring);
     let centroid = if area.abs() > 0.0 {
         let (mut cx, mut cy) = (0.0, 0.0);
-        for w in ring.windows(2) {
-            let f = w[0][0] * w[1][1] - w[1][0] * w[0][1];
-            cx += (w[0][0] + w[1][0]) * f;
-            cy += (w[0][1] + w[1][1]) * f;
+        for (a, b) in edges(ring) {
+            let f = a[0] * b[1] - b[0] * a[1];
+            cx += (a[0] + b[0]) * f;
+            cy += (a[1] + b[1]) * f;
         }
         [cx / (6.0 * area), cy / (6.0 * area)]
     } else {
         ring.first().copied().unwrap_or([0.0, 0.0])
     };
     let rings: Vec<&Vec<Point>> = std::iter::once(ring).chain(&largest.holes).collect();
-    let inside = |p: Point| {
-        let mut inside = false;
-        for r in &rings {
-            for w in r.windows(2) {
-                let (a, b) = (w[0], w[1]);
-                if (a[1] > p[1]) != (b[1] > p[1])
-                    && p[0] < a[0] + (p[1] - a[1]) / (b[1] - a[1]) * (b[0] - a[0])
-                {
-                    inside = !inside;
-                }
-            }
-        }
-        inside
-    };
-    if inside(centroid) {
+    if point_in_rings(rings.iter().map(|r| r.as_slice()), centroid) {
         return centroid;
     }
     let y = centroid[1];
     let mut xs: Vec<f64> = Vec::new();
     for r in &rings {
-        for w in r.windows(2) {
-            let (a, b) = (w[0], w[1]);
+        for (a, b) in edges(r) {
             if (a[1] > y) != (b[1] > y) {
                 xs.push(a[0] + (y - a[1]) / (b[1] - a[1]) * (b[0] - a[0]));
             }

@@ -68,10 +68,11 @@ pub use project::LambertAzimuthalEqualArea;
 /// A position in world units (`[x, y]`), or `[longitude, latitude]` in degrees before projection.
 pub type Point = [f64; 2];
 
-/// A closed ring: the first position equals the last one.
+/// A ring. As read from a file it may repeat its first position at the end; once cleaned (in
+/// every [`ImportedMap`]) it is open, as everywhere in Tinct (see [`crate::geometry`]).
 pub type Ring = Vec<Point>;
 
-/// A polygon with one exterior ring and any number of holes. Rings are stored closed.
+/// A polygon with one exterior ring and any number of holes.
 #[derive(Clone, Debug, PartialEq, Default)]
 pub struct Polygon {
     pub exterior: Ring,

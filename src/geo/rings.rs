@@ -1,6 +1,8 @@
-//! Ring cleaning: closes unclosed rings, drops repeated positions and degenerate rings.
+//! Ring cleaning: opens rings (files repeat the first position at the end; Tinct's rings do not,
+//! see [`crate::geometry`]), reports rings that were not closed in the file, drops repeated
+//! positions and degenerate rings.
 //!
-//! Runs before projection and adjacency so that later stages can rely on closed rings with at
+//! Runs before projection and adjacency so that later stages can rely on open rings with at
 //! least three distinct positions and no zero-length edges. Everything it changes is reported.
 
 use super::{Diagnostic, DiagnosticKind, MultiPolygon, Point, Polygon, Ring};
@@ -101,13 +103,16 @@ fn clean_ring(
             out.push(p);
         }
     }
-    if out.len() >= 2 && out.first() != out.last() {
+    if out.len() >= 2 && out.first() == out.last() {
+        // Closed, as the file formats write rings: open it.
+        out.pop();
+    } else if out.len() >= 2 {
+        // The file left it open, which its format does not allow: say so (it is used as if
+        // closed, which is what an open ring means here).
         problems.push(RingProblem::Unclosed { part, hole });
-        let first = out[0];
-        out.push(first);
     }
-    // A closed ring needs three distinct positions plus the closing one.
-    if out.len() < 4 {
+    // A ring needs three distinct positions.
+    if out.len() < 3 {
         problems.push(RingProblem::Degenerate { part, hole });
         return None;
     }
@@ -119,14 +124,21 @@ mod tests {
     use super::*;
 
     #[test]
-    fn closes_unclosed_ring_and_reports_it() {
+    fn opens_closed_rings_and_reports_one_the_file_left_open() {
+        // A closed ring, as files write them, comes out open and without a note.
+        let closed = vec![Polygon {
+            exterior: vec![[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 0.0]],
+            holes: vec![],
+        }];
+        let (kept, _, problems) = clean_parts(closed, vec![]);
+        assert_eq!(kept[0].exterior, vec![[0.0, 0.0], [1.0, 0.0], [1.0, 1.0]]);
+        assert!(problems.is_empty());
         let parts = vec![Polygon {
             exterior: vec![[0.0, 0.0], [1.0, 0.0], [1.0, 1.0]],
             holes: vec![],
         }];
         let (kept, _, problems) = clean_parts(parts, vec![]);
-        assert_eq!(kept[0].exterior.len(), 4);
-        assert_eq!(kept[0].exterior[3], [0.0, 0.0]);
+        assert_eq!(kept[0].exterior.len(), 3);
         assert_eq!(
             problems,
             vec![RingProblem::Unclosed {

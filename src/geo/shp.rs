@@ -370,27 +370,12 @@ fn assemble(rings: Vec<(bool, Vec<Point>)>) -> Vec<Polygon> {
             .and_then(|p| {
                 polygons
                     .iter()
-                    .position(|poly| contains(&poly.exterior, *p))
+                    .position(|poly| crate::geometry::point_in_ring(&poly.exterior, *p))
             })
             .unwrap_or(fallback);
         polygons[owner].holes.push(hole);
     }
     polygons
-}
-
-/// Even-odd point-in-ring test (crossing number).
-fn contains(ring: &[Point], p: Point) -> bool {
-    let mut inside = false;
-    for w in ring.windows(2) {
-        let (a, b) = (w[0], w[1]);
-        if (a[1] > p[1]) != (b[1] > p[1]) {
-            let x = a[0] + (p[1] - a[1]) / (b[1] - a[1]) * (b[0] - a[0]);
-            if p[0] < x {
-                inside = !inside;
-            }
-        }
-    }
-    inside
 }
 
 fn field_value(value: dbase::FieldValue) -> Value {

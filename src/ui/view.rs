@@ -69,22 +69,14 @@ impl Camera {
 
 /// True when `p` lies inside the geometry (even-odd rule over all rings, so holes are outside).
 pub fn contains(geometry: &Geometry, p: Point) -> bool {
-    let mut inside = false;
-    for polygon in &geometry.polygons {
-        for ring in std::iter::once(&polygon.exterior).chain(polygon.holes.iter()) {
-            let n = ring.len();
-            for i in 0..n {
-                let a = ring[i];
-                let b = ring[(i + 1) % n];
-                if (a[1] > p[1]) != (b[1] > p[1])
-                    && p[0] < a[0] + (p[1] - a[1]) / (b[1] - a[1]) * (b[0] - a[0])
-                {
-                    inside = !inside;
-                }
-            }
-        }
-    }
-    inside
+    crate::geometry::point_in_rings(
+        geometry
+            .polygons
+            .iter()
+            .flat_map(|polygon| std::iter::once(&polygon.exterior).chain(&polygon.holes))
+            .map(|ring| ring.as_slice()),
+        p,
+    )
 }
 
 /// The region under world point `p`: the smallest-area outline containing it, or failing that the

@@ -10,6 +10,7 @@ pub mod certify;
 pub mod colouring;
 pub mod components;
 pub mod graph;
+pub mod petgraph;
 pub mod planarity;
 
 pub use biconnected::{Biconnected, biconnected_components};

@@ -8,10 +8,17 @@
 //! Targets (issue 5): ~3,000 regions / ~70,000 vertices under 50 ms; 100,000 regions under 2 s.
 //! Run: `cargo bench --no-default-features --bench adjacency [-- FILTER]`.
 
+// Calls into the C library (resource usage, signals, a counting allocator) need `unsafe`.
+#![allow(unsafe_code)]
+
+#[path = "../tests/support/generators.rs"]
+mod generators;
+use generators as synthetic;
+
 use std::hint::black_box;
 use std::time::{Duration, Instant};
 
-use tinct::geo::{self, AdjacencyOptions, ImportOptions, Rule, synthetic};
+use tinct::geo::{self, AdjacencyOptions, ImportOptions, Rule};
 
 /// CPU time of this thread in nanoseconds (`CLOCK_THREAD_CPUTIME_ID`), so that other processes
 /// on a busy machine do not count against us.

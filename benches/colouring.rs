@@ -2,20 +2,19 @@
 //! map-like graph with pins and groups, against a plain SAT encoding on the same solver (batsat)
 //! in the same run. Prints a table; run with `cargo bench --no-default-features --bench colouring`.
 
-#[path = "../tests/support/triangulation.rs"]
-#[allow(dead_code)]
-mod triangulation;
+#[path = "../tests/support/generators.rs"]
+mod generators;
 
 use std::sync::atomic::AtomicBool;
 use std::time::{Duration, Instant};
 
+use generators::{Rng, triangulation as random_triangulation};
 use tinct::engine::Graph;
 use tinct::engine::colouring::sat::{Sat, SatAnswer};
 use tinct::engine::colouring::{
     ColouringProblem, SolveOptions, Symmetry, check_colouring, check_refutation, colouring_cnf,
     find_clique, solve,
 };
-use triangulation::{Rng, random_triangulation};
 
 fn graph(n: usize, edges: &[(u32, u32)]) -> Graph {
     Graph::from_edges(n, edges)
@@ -95,10 +94,10 @@ fn triangulation_row(n: usize, seed: u64, cap: Duration) {
 /// 20 pins on three slots.
 fn map_row(seed: u64, cap: Duration) {
     let n0 = 3150;
-    let mut rng = Rng(seed);
+    let mut rng = Rng::new(seed);
     let edges: Vec<(u32, u32)> = random_triangulation(n0, 2 * n0, seed)
         .into_iter()
-        .filter(|_| rng.below(100) < 85)
+        .filter(|_| rng.index(100) < 85)
         .collect();
     let g0 = graph(n0, &edges);
     // Merge 150 groups: map each grouped vertex onto a representative.
@@ -107,8 +106,8 @@ fn map_row(seed: u64, cap: Duration) {
     let mut grouped = vec![false; n0];
     let mut merged = 0;
     while merged < 150 {
-        let a = rng.below(n0) as u32;
-        let b = rng.below(n0) as u32;
+        let a = rng.index(n0) as u32;
+        let b = rng.index(n0) as u32;
         if a != b && !grouped[a as usize] && !grouped[b as usize] && !g0.has_edge(a, b) {
             rep[b as usize] = a;
             grouped[a as usize] = true;
@@ -138,9 +137,9 @@ fn map_row(seed: u64, cap: Duration) {
     let mut pins = vec![None; n as usize];
     let mut placed = 0;
     while placed < 20 {
-        let v = rng.below(n as usize);
+        let v = rng.index(n as usize);
         // Three pinned slots: the pins alone do not decide the minimum.
-        let slot = rng.below(3) as u32;
+        let slot = rng.index(3) as u32;
         if pins[v].is_none()
             && g.neighbours(v as u32)
                 .iter()

@@ -5,11 +5,15 @@
 //!
 //! Run: `cargo bench --bench frame`. Target (issue: the editor): under 8 ms per frame at 3,000 regions.
 
+#[path = "../tests/support/generators.rs"]
+mod generators;
+use generators as synthetic;
+
 use std::time::{Duration, Instant};
 
 use tinct::analysis;
 use tinct::doc::{Document, Edit};
-use tinct::geo::{ImportOptions, import_json, synthetic};
+use tinct::geo::{ImportOptions, import_json};
 use tinct::ui::App;
 use tinct::worker::JobContext;
 

@@ -6,8 +6,11 @@
 //! Run with `cargo bench --no-default-features --bench planarity`. Prints one table; the ratios
 //! are the numbers to quote.
 
-#[path = "../tests/planar_gen.rs"]
-mod planar_gen;
+// Calls into the C library (resource usage, signals, a counting allocator) need `unsafe`.
+#![allow(unsafe_code)]
+
+#[path = "../tests/support/generators.rs"]
+mod generators;
 
 use std::hint::black_box;
 use std::sync::atomic::AtomicBool;
@@ -17,7 +20,7 @@ use tinct::engine::Graph;
 use tinct::engine::certify::{check_embedding, check_kuratowski};
 use tinct::engine::planarity::{Planarity, is_planar, planarity};
 
-use planar_gen::{
+use generators::{
     Rng, crossing_chord_ring, move_one_edge, permutation, random_triangulation, relabel,
 };
 

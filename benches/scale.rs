@@ -10,6 +10,13 @@
 //! a recolouring, a pin, a border added by hand, a deleted region and an undo, against rebuilding
 //! the checks from scratch.
 
+// Calls into the C library (resource usage, signals, a counting allocator) need `unsafe`.
+#![allow(unsafe_code)]
+
+#[path = "../tests/support/generators.rs"]
+mod generators;
+use generators as synthetic;
+
 use std::path::Path;
 use std::sync::Arc;
 use std::sync::atomic::AtomicBool;
@@ -17,7 +24,7 @@ use std::time::{Duration, Instant};
 
 use tinct::analysis::{Analysis, PlanarityVerdict, Request};
 use tinct::doc::{Edit, check_colouring};
-use tinct::geo::{ImportOptions, import_json, synthetic};
+use tinct::geo::{ImportOptions, import_json};
 use tinct::worker::{JobContext, Progress};
 
 /// Peak and current resident memory in MiB, from /proc/self/status (Linux), else getrusage.

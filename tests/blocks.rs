@@ -8,7 +8,7 @@ use rustworkx_core::petgraph::graph::{NodeIndex, UnGraph};
 use tinct::engine::certify::{OddCycleRejection, check_odd_cycle, check_two_colouring};
 use tinct::engine::{Bipartite, Graph, biconnected_components, two_colouring};
 
-use crate::planar_gen::Rng;
+use crate::support::generators::Rng;
 
 fn reference_graph(n: usize, edges: &[(u32, u32)]) -> UnGraph<(), ()> {
     let mut simple: Vec<(u32, u32)> = edges

@@ -1,11 +1,9 @@
 //! Colouring engine against published chromatic numbers, theorems as property tests, a brute-force
 //! oracle, and the independent checkers (colourings, bounds, refutations, arguments).
 
-#[path = "support/triangulation.rs"]
-mod triangulation;
-
 use std::sync::atomic::AtomicBool;
 
+use super::support::generators::{Rng, even_triangulation, triangulation as random_triangulation};
 use proptest::prelude::*;
 use tinct::engine::Graph;
 use tinct::engine::colouring::{
@@ -14,7 +12,6 @@ use tinct::engine::colouring::{
     check_bound, check_colouring, check_drat, check_refutation, colour_count, replay_argument,
     solve,
 };
-use triangulation::{Rng, even_triangulation, random_triangulation};
 
 fn graph(n: usize, edges: &[(u32, u32)]) -> Graph {
     Graph::from_edges(n, edges).unwrap().0
@@ -506,19 +503,19 @@ fn large_triangulation_gets_four_colours_and_a_proof_against_three() {
 fn stable_recolouring_changes_few_and_matches_brute_force() {
     // After an edit, the fewest changes among colourings with the same slots, checked against
     // brute force over all colourings (common practice: exhaustive search as the oracle).
-    let mut rng = Rng(11);
+    let mut rng = Rng::new(11);
     for _ in 0..30 {
-        let n = 4 + rng.below(4);
+        let n = 4 + rng.index(4);
         let mut edges = Vec::new();
         for a in 0..n as u32 {
             for b in (a + 1)..n as u32 {
-                if rng.below(100) < 45 {
+                if rng.index(100) < 45 {
                     edges.push((a, b));
                 }
             }
         }
         let g = graph(n, &edges);
-        let previous: Vec<Option<u32>> = (0..n).map(|_| Some(rng.below(3) as u32)).collect();
+        let previous: Vec<Option<u32>> = (0..n).map(|_| Some(rng.index(3) as u32)).collect();
         let p = ColouringProblem {
             graph: g.clone(),
             pins: Vec::new(),
@@ -657,11 +654,11 @@ proptest! {
         seed in any::<u64>(),
         pin_count in 0usize..4,
     ) {
-        let mut rng = Rng(seed);
+        let mut rng = Rng::new(seed);
         let mut edges = Vec::new();
         for a in 0..n as u32 {
             for b in (a + 1)..n as u32 {
-                if (rng.below(100) as u32) < density {
+                if (rng.index(100) as u32) < density {
                     edges.push((a, b));
                 }
             }
@@ -669,8 +666,8 @@ proptest! {
         let palette = 7;
         let mut pins = vec![None; n];
         for _ in 0..pin_count {
-            let v = rng.below(n);
-            pins[v] = Some(rng.below(palette as usize) as u32);
+            let v = rng.index(n);
+            pins[v] = Some(rng.index(palette as usize) as u32);
         }
         let g = graph(n, &edges);
         let clash = edges.iter().any(|&(a, b)| pins[a as usize].is_some() && pins[a as usize] == pins[b as usize]);
@@ -731,10 +728,10 @@ proptest! {
     ) {
         // Four colour theorem (Appel and Haken 1977) and Grötzsch's theorem (1959): subgraphs of
         // triangulations are planar; deleting an edge of every triangle makes them triangle-free.
-        let mut rng = Rng(seed ^ 0x5eed);
+        let mut rng = Rng::new(seed ^ 0x5eed);
         let edges: Vec<(u32, u32)> = random_triangulation(n, 2 * n, seed)
             .into_iter()
-            .filter(|_| (rng.below(100) as u32) < keep)
+            .filter(|_| (rng.index(100) as u32) < keep)
             .collect();
         let p = ColouringProblem::new(graph(n, &edges), 8);
         let r = run(&p, &SolveOptions::default());
@@ -758,11 +755,11 @@ proptest! {
     #[test]
     fn brooks_bound_holds(n in 2usize..24, density in 5u32..45, seed in any::<u64>()) {
         // Brooks 1941: chi <= max degree, except complete graphs and odd cycles (max degree + 1).
-        let mut rng = Rng(seed);
+        let mut rng = Rng::new(seed);
         let mut edges = Vec::new();
         for a in 0..n as u32 {
             for b in (a + 1)..n as u32 {
-                if (rng.below(100) as u32) < density {
+                if (rng.index(100) as u32) < density {
                     edges.push((a, b));
                 }
             }

@@ -665,7 +665,7 @@ fn split_parts_makes_one_region_per_part() {
 #[test]
 fn synthetic_grid_rook_and_queen_are_grid_neighbours() {
     let (cols, rows) = (7, 5);
-    let regions = geo::synthetic::jittered_grid(cols, rows, 4, 0.2, 11);
+    let regions = super::support::generators::jittered_grid(cols, rows, 4, 0.2, 11);
     let (rook, diagnostics) = geo::derive_borders(&regions, &AdjacencyOptions::default());
     assert!(diagnostics.is_empty(), "{diagnostics:?}");
     let mut expected_rook = Vec::new();
@@ -780,7 +780,7 @@ proptest! {
     fn jittered_grids_give_the_grid_graph(
         cols in 1usize..6, rows in 1usize..6, steps in 1usize..5, jitter in 0.0f64..0.2, seed in 0u64..1000,
     ) {
-        let regions = geo::synthetic::jittered_grid(cols, rows, steps, jitter, seed);
+        let regions = super::support::generators::jittered_grid(cols, rows, steps, jitter, seed);
         let (borders, _) = geo::derive_borders(&regions, &AdjacencyOptions::default());
         let expected = (rows * (cols - 1)) + (cols * (rows - 1));
         prop_assert_eq!(borders.len(), expected);
@@ -1029,7 +1029,7 @@ fn us_atlas_with_independently_jittered_vertices_needs_the_tolerance() {
     // the two copies of each border cross back and forth: only the stretches near crossings
     // count (a small part of the length) and the overlaps are reported.
     let map = geo::import_path(&data("us_states_subset.geojson"), &options(Rule::Rook)).unwrap();
-    let mut rng = geo::synthetic::XorShift::new(5);
+    let mut rng = super::support::generators::Rng::new(5);
     let mut regions = map.regions.clone();
     for region in &mut regions {
         for polygon in &mut region.parts {
@@ -1183,7 +1183,7 @@ proptest! {
     /// Cut or corrupted files give a value or an error, never a panic (house rule: no panics
     /// on user input).
     #[test]
-    fn damaged_files_never_panic(cut in 0.0f64..1.0, flips in prop::collection::vec((0.0f64..1.0, any::<u8>()), 0..8)) {
+    fn damaged_files_never_panic_and_what_comes_back_makes_sense(cut in 0.0f64..1.0, flips in prop::collection::vec((0.0f64..1.0, any::<u8>()), 0..8)) {
         let damage = |mut bytes: Vec<u8>| {
             let keep = ((bytes.len() as f64) * cut) as usize;
             for (at, value) in &flips {
@@ -1195,15 +1195,47 @@ proptest! {
             bytes.truncate(keep.max(1));
             bytes
         };
+        // What comes back must make sense: an import whose coordinates are all finite numbers,
+        // or an error that says something; a JSON text cut short with nothing else changed is
+        // never valid JSON, so it must be refused with the line where it stops.
+        let sane = |result: Result<geo::ImportedMap, geo::ImportError>| -> Option<geo::ImportError> {
+            match result {
+                Ok(map) => {
+                    let finite = map.regions.iter().flat_map(|r| &r.parts).all(|p| {
+                        std::iter::once(&p.exterior)
+                            .chain(&p.holes)
+                            .flatten()
+                            .all(|q| q[0].is_finite() && q[1].is_finite())
+                    });
+                    assert!(finite, "an import with a coordinate that is not a number");
+                    None
+                }
+                Err(e) => {
+                    assert!(!e.to_string().trim().is_empty(), "an error without words");
+                    Some(e)
+                }
+            }
+        };
+        let truncated_only = flips.is_empty() && cut < 0.99;
         for file in ["world_subset.topojson", "us_states_subset.geojson"] {
             let bytes = damage(std::fs::read(data(file)).unwrap());
-            let _ = geo::import_json(&bytes, &ImportOptions::default());
+            let error = sane(geo::import_json(&bytes, &ImportOptions::default()));
+            if truncated_only {
+                prop_assert!(
+                    matches!(error, Some(geo::ImportError::Json { line, .. }) if line >= 1),
+                    "{file} cut at {cut}: {error:?}"
+                );
+            }
         }
         let dir = tempfile::tempdir().unwrap();
         let shp = damage(std::fs::read(data("columbus.shp")).unwrap());
         std::fs::write(dir.path().join("d.shp"), shp).unwrap();
         std::fs::copy(data("columbus.dbf"), dir.path().join("d.dbf")).unwrap();
-        let _ = geo::import_path(&dir.path().join("d.shp"), &ImportOptions::default());
+        let error = sane(geo::import_path(&dir.path().join("d.shp"), &ImportOptions::default()));
+        if truncated_only {
+            // The header says how long the file is: a shorter file is refused.
+            prop_assert!(error.is_some(), "columbus.shp cut at {cut} was accepted");
+        }
     }
 }
 
@@ -1227,4 +1259,21 @@ fn real_data_quirks_are_reported() {
     assert_eq!(degenerate.len(), 1);
     assert_eq!(degenerate[0].regions, vec![nk]);
     assert_eq!(map.regions[nk].parts.len(), 1);
+}
+
+#[test]
+fn the_synthetic_grid_has_shared_corners_and_the_expected_size() {
+    // (The generator in tests/support/generators.rs is ours; this checks its construction.)
+    let regions = super::support::generators::jittered_grid(3, 2, 4, 0.1, 7);
+    assert_eq!(regions.len(), 6);
+    for region in &regions {
+        assert_eq!(region.parts[0].exterior.len(), 4 * 4 + 1);
+    }
+    // Cell 0,0 and cell 1,0 share their common edge in reverse order.
+    let a = &regions[0].parts[0].exterior;
+    let b = &regions[1].parts[0].exterior;
+    assert_eq!(
+        a[4..=8].iter().rev().collect::<Vec<_>>(),
+        b[12..=16].iter().collect::<Vec<_>>()
+    );
 }

@@ -346,8 +346,8 @@ fn a_large_map_seen_whole_is_drawn_coarsely_and_in_full_once_zoomed_in() {
     // 90,000 synthetic regions: seen whole, each is under three pixels wide, so they are
     // painted as an image and none is triangulated; zoomed in 40 times, the few near the view
     // are triangulated and drawn with their outlines.
-    let regions = tinct::geo::synthetic::jittered_grid(300, 300, 2, 0.2, 11);
-    let json = tinct::geo::synthetic::to_geojson(&regions);
+    let regions = super::support::generators::jittered_grid(300, 300, 2, 0.2, 11);
+    let json = super::support::generators::to_geojson(&regions);
     let options = tinct::geo::ImportOptions {
         coordinates: tinct::geo::CoordinateMode::Planar,
         ..tinct::geo::ImportOptions::default()

@@ -8,6 +8,9 @@
 //! (set `TINCT_HOSTILE_SEED` to try others) and bounded so the module stays fast in CI; the
 //! cargo-fuzz targets in `fuzz/` run the same readers for as long as one likes.
 
+// Calls into the C library (resource usage, signals, a counting allocator) need `unsafe`.
+#![allow(unsafe_code)]
+
 use std::alloc::{GlobalAlloc, Layout, System};
 use std::cell::Cell;
 use std::path::PathBuf;

@@ -3,13 +3,17 @@
 //! disk must be the old project or the new one, byte for byte and loadable, and what the killed
 //! saves leave behind (their temporary files) must be removed by the next successful save.
 
+// Calls into the C library (resource usage, signals, a counting allocator) need `unsafe`.
+#![allow(unsafe_code)]
+
 use std::path::Path;
 use std::process::{Command, Stdio};
 use std::time::Instant;
 
+use super::support::generators as synthetic;
 use tinct::doc::Document;
 use tinct::doc::file;
-use tinct::geo::{ImportOptions, import_json, synthetic};
+use tinct::geo::{ImportOptions, import_json};
 
 /// A project of a few megabytes: a jittered grid with its geometry and borders.
 fn large_project() -> Document {
@@ -51,7 +55,7 @@ fn a_save_killed_at_any_moment_leaves_the_old_project_or_the_new_one_whole() {
     let whole = start.elapsed();
     assert_eq!(std::fs::read(&calibrate).unwrap(), new_bytes);
 
-    let mut rng = synthetic::XorShift::new(0x5AFE);
+    let mut rng = synthetic::Rng::new(0x5AFE);
     let (mut saw_old, mut saw_new, mut left_temporaries) = (0, 0, 0);
     let mut killed = Vec::new();
     for _ in 0..40 {

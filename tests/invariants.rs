@@ -227,6 +227,67 @@ fn analysis_looks_only_down_and_the_command_line_does_not_use_the_worker() {
     );
 }
 
+/// The text of one file under `src/`, as (line, code) pairs without comments.
+fn file_offences(file: &str, needles: &[&str]) -> Vec<String> {
+    let text = std::fs::read_to_string(root().join("src").join(file)).unwrap_or_default();
+    let mut found = Vec::new();
+    for (n, line) in code_lines(&text) {
+        for needle in needles {
+            if line.contains(needle) {
+                found.push(format!(
+                    "src/{file}:{n}: contains `{needle}`: {}",
+                    line.trim()
+                ));
+            }
+        }
+    }
+    found
+}
+
+#[test]
+fn importers_worker_formats_and_session_look_only_down() {
+    // geo builds documents from files: it knows the document and the geometry, nothing above.
+    let mut found = offences(
+        "geo",
+        &["egui", "eframe", "rfd", "println", "eprintln"],
+        &[],
+    );
+    found.extend(offences_text(
+        "geo",
+        &[
+            "crate::ui",
+            "crate::cli",
+            "crate::worker",
+            "crate::analysis",
+            "crate::export",
+            "crate::formats",
+            "crate::session",
+            "std::thread",
+        ],
+    ));
+    // The worker runs jobs; it knows no GUI and no command line.
+    found.extend(offences("worker", &["egui", "eframe", "rfd"], &[]));
+    found.extend(offences_text("worker", &["crate::ui", "crate::cli"]));
+    // formats.rs and session.rs serve both front ends, so they name neither (nor the worker).
+    for file in ["formats.rs", "session.rs"] {
+        found.extend(file_offences(
+            file,
+            &[
+                "crate::ui",
+                "crate::cli",
+                "crate::worker",
+                "egui",
+                "std::thread",
+            ],
+        ));
+    }
+    // Leaves: the geometry and the atomic writer use nothing else in the crate.
+    for file in ["geometry.rs", "atomic.rs"] {
+        found.extend(file_offences(file, &["crate::"]));
+    }
+    assert!(found.is_empty(), "a layer looks up:\n{}", found.join("\n"));
+}
+
 #[test]
 fn anyhow_is_only_for_the_front_ends() {
     // Library errors are typed enums that carry their evidence; `anyhow` only where they are
@@ -237,11 +298,14 @@ fn anyhow_is_only_for_the_front_ends() {
     ] {
         found.extend(offences(folder, &["anyhow"], &[]));
     }
-    for file in ["formats.rs", "session.rs", "atomic.rs", "lib.rs"] {
-        let text = std::fs::read_to_string(root().join("src").join(file)).unwrap();
-        if code_lines(&text).iter().any(|(_, l)| names(l, "anyhow")) {
-            found.push(format!("src/{file} names anyhow"));
-        }
+    for file in [
+        "formats.rs",
+        "session.rs",
+        "atomic.rs",
+        "geometry.rs",
+        "lib.rs",
+    ] {
+        found.extend(file_offences(file, &["anyhow"]));
     }
     assert!(
         found.is_empty(),

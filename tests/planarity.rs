@@ -14,7 +14,7 @@ use tinct::engine::planarity::{
     planarity_of_edges,
 };
 
-use crate::planar_gen::{
+use crate::support::generators::{
     Rng, crossing_chord_ring, move_one_edge, permutation, random_non_edge, random_triangulation,
     relabel, subdivide,
 };

@@ -7,14 +7,17 @@
 //! test binary started again with `TINCT_RECOVERY_CHILD` set, editing and autosaving on the same
 //! schedule (with a shorter interval) until it is killed with SIGKILL.
 
+// Calls into the C library (resource usage, signals, a counting allocator) need `unsafe`.
+#![allow(unsafe_code)]
+
 use std::io::{BufRead, BufReader};
 use std::path::{Path, PathBuf};
 use std::process::{Command, Stdio};
 use std::time::{Duration, Instant};
 
+use super::support::generators::Rng as XorShift;
 use tinct::doc::file::{self, FileError};
 use tinct::doc::{Document, Edit, RegionId, recovery};
-use tinct::geo::synthetic::XorShift;
 
 const TEST_NAME: &str =
     "recovery::autosaved_work_comes_back_after_a_kill_losing_at_most_one_interval";

@@ -6,11 +6,12 @@
 use std::sync::Arc;
 use std::sync::atomic::AtomicBool;
 
+use super::support::generators as synthetic;
 use tinct::analysis::{Analysis, PlanarityVerdict, Request};
 use tinct::doc::{ConstraintGraph, Edit, check_colouring, file};
 use tinct::engine::certify::check_embedding;
 use tinct::engine::planarity::{Planarity, planarity};
-use tinct::geo::{ImportOptions, import_json, synthetic};
+use tinct::geo::{ImportOptions, import_json};
 use tinct::worker::{JobContext, Progress};
 
 #[test]
@@ -21,7 +22,7 @@ fn a_map_of_forty_thousand_regions_imports_saves_loads_and_analyses_correctly() 
     drop(grid);
     let map = import_json(text.as_bytes(), &ImportOptions::default()).unwrap();
     drop(text);
-    // Rook neighbours of a grid are the four lattice neighbours (synthetic.rs; checked on small
+    // Rook neighbours of a grid are the four lattice neighbours (tests/support/generators.rs; checked on small
     // grids against the definition in tests/geo.rs): cols(rows-1) + rows(cols-1) borders.
     assert_eq!(map.regions.len(), cols * rows);
     assert_eq!(map.borders.len(), cols * (rows - 1) + rows * (cols - 1));

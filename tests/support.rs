@@ -56,6 +56,9 @@ pub fn rust_files(dir: &Path) -> Vec<PathBuf> {
     out
 }
 
+/// Seeded generators (graphs, triangulations, synthetic maps), shared with the benchmarks.
+pub mod generators;
+
 pub mod arb {
     //! Random documents and edits for property tests, built only through edits.
 

@@ -13,7 +13,6 @@ mod gui;
 mod hostile;
 mod interrupted_saves;
 mod invariants;
-mod planar_gen;
 mod planarity;
 mod project_file;
 mod recovery;

@@ -56,7 +56,6 @@ mod geojson;
 pub mod project;
 mod rings;
 mod shp;
-pub mod synthetic;
 mod topojson;
 
 use std::collections::BTreeMap;

@@ -21,7 +21,7 @@
 //!   planar graph is planar), so one pass of a constant number of constant-size tests suffices.
 //!
 //! The certificate can still be Θ(n) edges long (its paths may be long), but the work is not:
-//! on the rings of crossing chords of `tests/planar_gen.rs`, where every certificate needs all
+//! on the rings of crossing chords of `tests/support/generators.rs`, where every certificate needs all
 //! chords, the oracle is called 11 times whatever the ring's size (unit test below), and the
 //! benchmark prints the growth of the running time.
 //!

@@ -8,7 +8,7 @@ mod generators;
 use std::sync::atomic::AtomicBool;
 use std::time::{Duration, Instant};
 
-use generators::{Rng, triangulation as random_triangulation};
+use generators::{Rng, mycielski, queen, triangulation as random_triangulation};
 use tinct::engine::Graph;
 use tinct::engine::colouring::sat::{Sat, SatAnswer};
 use tinct::engine::colouring::{
@@ -220,36 +220,6 @@ fn benchmark_row(name: &str, chi: u32, n: usize, edges: &[(u32, u32)], cap: Dura
     );
 }
 
-/// The n x n queen graph: squares joined when a queen moves between them.
-fn queen(side: u32) -> (usize, Vec<(u32, u32)>) {
-    let edges = (0..side * side)
-        .flat_map(|a| ((a + 1)..side * side).map(move |b| (a, b)))
-        .filter(|&(a, b)| {
-            let (r1, c1, r2, c2) = (a / side, a % side, b / side, b % side);
-            r1 == r2 || c1 == c2 || r1 + c2 == r2 + c1 || r1 + c1 == r2 + c2
-        })
-        .collect();
-    ((side * side) as usize, edges)
-}
-
-/// The Mycielski graph with `vertices` vertices (11, 23, 47, 95, ...), built from K2.
-fn mycielski(vertices: usize) -> (usize, Vec<(u32, u32)>) {
-    let mut m = (2usize, vec![(0u32, 1u32)]);
-    while m.0 < vertices {
-        let n32 = m.0 as u32;
-        let mut out = m.1.clone();
-        for &(a, b) in &m.1 {
-            out.push((a, n32 + b));
-            out.push((b, n32 + a));
-        }
-        for i in 0..n32 {
-            out.push((n32 + i, 2 * n32));
-        }
-        m = (2 * m.0 + 1, out);
-    }
-    m
-}
-
 fn main() {
     // `cargo bench --bench colouring -- WORD` runs only the rows whose name contains WORD.
     let filter: Option<String> = std::env::args().skip(1).find(|a| !a.starts_with("--"));
@@ -269,14 +239,14 @@ fn main() {
     // the DIMACS instances): the Mycielski graphs myciel3 to myciel6 (Mycielski 1955: 4, 5, 6, 7;
     // no triangles, so no clique shows the bound) and the queen graphs queen5_5 to queen8_8
     // (5, 7, 7, 9). "ratio" is plain time over ours: above 1 means ours is faster.
-    for (name, vertices, chi) in [
-        ("myciel3 (11 vertices)", 11, 4),
-        ("myciel4 (23 vertices)", 23, 5),
-        ("myciel5 (47 vertices)", 47, 6),
-        ("myciel6 (95 vertices)", 95, 7),
+    for (name, order, chi) in [
+        ("myciel3 (11 vertices)", 4, 4),
+        ("myciel4 (23 vertices)", 5, 5),
+        ("myciel5 (47 vertices)", 6, 6),
+        ("myciel6 (95 vertices)", 7, 7),
     ] {
         if wanted(name) {
-            let (n, edges) = mycielski(vertices);
+            let (n, edges) = mycielski(order);
             benchmark_row(name, chi, n, &edges, cap);
         }
     }

@@ -287,9 +287,7 @@ fn a_map_needing_more_colours_than_the_palette_gets_a_colouring_and_an_offer_of_
     // Regression: K8 (needs 8 colours, common practice) loaded with the six-slot palette gave
     // "minimum": 8 with an empty assignment.
     let dir = tempfile::tempdir().unwrap();
-    let k8: Vec<(u32, u32)> = (0..8)
-        .flat_map(|a| (a + 1..8).map(move |b| (a, b)))
-        .collect();
+    let k8 = super::support::generators::complete(8);
     let file = edge_file(dir.path(), "k8.edges", 8, &k8);
     let out = tinct_path(&["analyse"], &file, &["--json", "--only", "colouring"]);
     assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
@@ -332,18 +330,8 @@ fn a_bound_no_clique_shows_gets_its_own_obstruction_proof_and_files() {
     // Regression: a map needing five colours without five mutual neighbours said only "an
     // exhaustive search ruled out 4 colours". The 23-vertex Mycielski graph (DIMACS myciel4:
     // chromatic number 5, no triangle; Mycielski 1955) needs 5.
-    let mut n = 2u32;
-    let mut edges = vec![(0u32, 1u32)];
-    for _ in 0..3 {
-        let mut next = edges.clone();
-        for &(a, b) in &edges {
-            next.push((a, n + b));
-            next.push((b, n + a));
-        }
-        next.extend((0..n).map(|i| (n + i, 2 * n)));
-        edges = next;
-        n = 2 * n + 1;
-    }
+    let (n, edges) = super::support::generators::mycielski(5);
+    let n = n as u32;
     assert_eq!(n, 23);
     let dir = tempfile::tempdir().unwrap();
     let file = edge_file(dir.path(), "myciel4.edges", n, &edges);

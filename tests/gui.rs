@@ -513,9 +513,7 @@ fn open_edges(dir: &std::path::Path, n: u32, edges: &[(u32, u32)]) -> Harness<'s
 fn a_palette_too_small_is_said_and_the_missing_slots_are_added_in_one_undoable_step() {
     // K8 needs 8 colours (common practice); a graph file opens with six palette slots.
     let dir = tempfile::tempdir().unwrap();
-    let k8: Vec<(u32, u32)> = (0..8)
-        .flat_map(|a| (a + 1..8).map(move |b| (a, b)))
-        .collect();
+    let k8 = super::support::generators::complete(8);
     let mut h = open_edges(dir.path(), 8, &k8);
     assert_eq!(h.state().session.doc().palette().slots.len(), 6);
     assert!(
@@ -539,18 +537,8 @@ fn a_palette_too_small_is_said_and_the_missing_slots_are_added_in_one_undoable_s
 #[test]
 fn the_part_that_rules_out_one_colour_fewer_is_shown_on_the_map() {
     // The 23-vertex Mycielski graph needs 5 colours without a triangle (Mycielski 1955).
-    let mut n = 2u32;
-    let mut edges = vec![(0u32, 1u32)];
-    for _ in 0..3 {
-        let mut next = edges.clone();
-        for &(a, b) in &edges {
-            next.push((a, n + b));
-            next.push((b, n + a));
-        }
-        next.extend((0..n).map(|i| (n + i, 2 * n)));
-        edges = next;
-        n = 2 * n + 1;
-    }
+    let (n, edges) = super::support::generators::mycielski(5);
+    let n = n as u32;
     let dir = tempfile::tempdir().unwrap();
     let mut h = open_edges(dir.path(), n, &edges);
     assert!(h.query_by_label_contains("5, proven").is_some());

@@ -62,18 +62,28 @@ fn offences(folder: &str, words: &[&str], except: &[&str]) -> Vec<String> {
 
 /// Every (file, line, text) under `src/<folder>` that contains one of `needles` as text.
 fn offences_text(folder: &str, needles: &[&str]) -> Vec<String> {
+    rust_files(&root().join("src").join(folder))
+        .iter()
+        .flat_map(|path| path_offences(path, needles))
+        .collect()
+}
+
+/// The same for one file, `src/<file>`.
+fn file_offences(file: &str, needles: &[&str]) -> Vec<String> {
+    path_offences(&root().join("src").join(file), needles)
+}
+
+fn path_offences(path: &std::path::Path, needles: &[&str]) -> Vec<String> {
+    let text = std::fs::read_to_string(path).unwrap_or_default();
     let mut found = Vec::new();
-    for path in rust_files(&root().join("src").join(folder)) {
-        let text = std::fs::read_to_string(&path).unwrap_or_default();
-        for (n, line) in code_lines(&text) {
-            for needle in needles {
-                if line.contains(needle) {
-                    found.push(format!(
-                        "{}:{n}: contains `{needle}`: {}",
-                        path.display(),
-                        line.trim()
-                    ));
-                }
+    for (n, line) in code_lines(&text) {
+        for needle in needles {
+            if line.contains(needle) {
+                found.push(format!(
+                    "{}:{n}: contains `{needle}`: {}",
+                    path.display(),
+                    line.trim()
+                ));
             }
         }
     }
@@ -225,23 +235,6 @@ fn analysis_looks_only_down_and_the_command_line_does_not_use_the_worker() {
         "src/analysis must only use the layers below it, and src/cli not the worker:\n{}",
         found.join("\n")
     );
-}
-
-/// The text of one file under `src/`, as (line, code) pairs without comments.
-fn file_offences(file: &str, needles: &[&str]) -> Vec<String> {
-    let text = std::fs::read_to_string(root().join("src").join(file)).unwrap_or_default();
-    let mut found = Vec::new();
-    for (n, line) in code_lines(&text) {
-        for needle in needles {
-            if line.contains(needle) {
-                found.push(format!(
-                    "src/{file}:{n}: contains `{needle}`: {}",
-                    line.trim()
-                ));
-            }
-        }
-    }
-    found
 }
 
 #[test]

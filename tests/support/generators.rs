@@ -397,3 +397,59 @@ pub fn to_geojson(regions: &[ImportedRegion]) -> String {
     out.push_str("\n]}\n");
     out
 }
+
+/// The complete graph on `n` vertices.
+pub fn complete(n: u32) -> Vec<(u32, u32)> {
+    (0..n)
+        .flat_map(|i| ((i + 1)..n).map(move |j| (i, j)))
+        .collect()
+}
+
+/// The wheel: hub 0 joined to every vertex of a cycle 1..=rim.
+pub fn wheel(rim: u32) -> Vec<(u32, u32)> {
+    (1..=rim)
+        .flat_map(|i| [(0, i), (i, if i == rim { 1 } else { i + 1 })])
+        .collect()
+}
+
+/// The Mycielskian (Mycielski 1955): vertices v_i, shadows u_i, and a root w; u_i is joined to
+/// the neighbours of v_i and to w. It keeps the graph triangle-free and adds one colour.
+/// The Mycielskian of a graph (Mycielski 1955): doubles the vertices and adds one.
+pub fn mycielskian(n: usize, edges: &[(u32, u32)]) -> (usize, Vec<(u32, u32)>) {
+    let n32 = n as u32;
+    let mut out = edges.to_vec();
+    for &(a, b) in edges {
+        out.push((a, n32 + b));
+        out.push((b, n32 + a));
+    }
+    for i in 0..n32 {
+        out.push((n32 + i, 2 * n32));
+    }
+    (2 * n + 1, out)
+}
+
+/// The Mycielski graph M_order: M2 = K2, M3 = C5 (5 vertices), M4 = Grötzsch (11), M5 (23),
+/// M6 (47), M7 (95); M_k is triangle-free and needs k colours (Mycielski 1955). The DIMACS
+/// benchmark files number them one lower (myciel3 has 11 vertices).
+pub fn mycielski(order: u32) -> (usize, Vec<(u32, u32)>) {
+    // M2 = K2; M3 = C5 (5 vertices), M4 = Grötzsch (11), M5 (23), M6 (47).
+    let mut g = (2usize, vec![(0u32, 1u32)]);
+    for _ in 2..order {
+        g = mycielskian(g.0, &g.1);
+    }
+    g
+}
+
+/// The queen graph of an n x n board: squares joined when a queen moves between them.
+pub fn queen(n: u32) -> (usize, Vec<(u32, u32)>) {
+    let mut edges = Vec::new();
+    for a in 0..n * n {
+        for b in (a + 1)..n * n {
+            let (r1, c1, r2, c2) = (a / n, a % n, b / n, b % n);
+            if r1 == r2 || c1 == c2 || r1 + c2 == r2 + c1 || r1 + c1 == r2 + c2 {
+                edges.push((a, b));
+            }
+        }
+    }
+    ((n * n) as usize, edges)
+}

@@ -1277,3 +1277,33 @@ fn the_synthetic_grid_has_shared_corners_and_the_expected_size() {
         b[12..=16].iter().collect::<Vec<_>>()
     );
 }
+
+#[test]
+fn enclaves_of_each_other_are_not_the_same_outline() {
+    // Regression: world-atlas 2.0.2 countries-50m (Natural Earth 1:50m, PROVENANCE.md): Azerbaijan
+    // and Armenia each hold small enclaves of the other, so each has an outer ring lying wholly
+    // along the other's boundary. They were reported as "the same outline: one covers the
+    // other", though they share a border of about 684 km and have different shapes.
+    let map = geo::import_path(&data("world50m_caucasus.topojson"), &options(Rule::Rook)).unwrap();
+    assert!(
+        map.diagnostics_of(DiagnosticKind::Overlap).next().is_none(),
+        "{:?}",
+        map.diagnostics
+    );
+    let (a, b) = (
+        map.region_named("Azerbaijan").unwrap(),
+        map.region_named("Armenia").unwrap(),
+    );
+    let border = map
+        .borders
+        .iter()
+        .find(|x| (x.a, x.b) == (a.min(b), a.max(b)))
+        .expect("they border each other");
+    // About 684 km along the 1:50m generalisation (the real border is longer, roughly 1,000 km
+    // from memory: generalisation straightens wiggles), checked loosely.
+    assert!(
+        (600_000.0..800_000.0).contains(&border.length()),
+        "{}",
+        border.length()
+    );
+}

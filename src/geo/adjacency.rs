@@ -554,7 +554,9 @@ impl Geometry {
         let mut side: Vec<((u32, u32), f64)> = Vec::new();
         let mut merged: Vec<(f64, f64)> = Vec::new();
         // (region, other): an exterior ring of `region` lies wholly along `other`'s boundary.
-        let mut outline_covered: Vec<(u32, u32)> = Vec::new();
+        // (region, other, the ring's perimeter): an exterior ring of `region` lies wholly along
+        // `other`'s boundary.
+        let mut outline_covered: Vec<(u32, u32, f64)> = Vec::new();
         for ring in 0..self.rings.len() {
             let runs = &mut bucketed[first[ring]..first[ring + 1]];
             if runs.is_empty() {
@@ -593,7 +595,7 @@ impl Geometry {
                 if self.ring_is_exterior[ring]
                     && merged.iter().any(|&(a, b)| b - a >= perimeter - eps)
                 {
-                    outline_covered.push((region, other));
+                    outline_covered.push((region, other, perimeter));
                 }
                 side.push(((region.min(other), region.max(other)), measured));
             }
@@ -635,10 +637,19 @@ impl Geometry {
 
         // Two exterior outlines lying wholly along each other: the same area twice (a duplicate
         // feature), not an enclave (whose outline lies along a hole of its neighbour).
-        outline_covered.sort_unstable();
-        outline_covered.dedup();
-        for &(a, b) in &outline_covered {
-            if a < b && outline_covered.binary_search(&(b, a)).is_ok() {
+        // Both ways, and by rings of the same length: an enclave of each inside the other (their
+        // outlines lie along holes of the neighbour) is not the same outline, however often it
+        // happens (Azerbaijan and Armenia each hold enclaves of the other in Natural Earth).
+        outline_covered
+            .sort_unstable_by(|x, y| (x.0, x.1).cmp(&(y.0, y.1)).then(x.2.total_cmp(&y.2)));
+        let same_length = |p: f64, q: f64| (p - q).abs() <= 2.0 * tolerance + 1e-6 * p.max(q);
+        let mut reported: Vec<(u32, u32)> = Vec::new();
+        for &(a, b, perimeter) in &outline_covered {
+            let twin = outline_covered
+                .iter()
+                .any(|&(x, y, q)| x == b && y == a && same_length(perimeter, q));
+            if a < b && twin && !reported.contains(&(a, b)) {
+                reported.push((a, b));
                 let (a, b) = (a as usize, b as usize);
                 diagnostics.push(Diagnostic {
                     kind: DiagnosticKind::Overlap,

@@ -11,6 +11,10 @@ Outputs (all in tests/data/geo/):
   us_states_subset.geojson   the same 14 states decoded to longitude/latitude GeoJSON.
   world_subset.topojson      Russia, its land neighbours, and Fiji from world-atlas
                              countries-110m.json.
+  world50m_caucasus.topojson Azerbaijan, Armenia, Georgia, Turkey and Iran from world-atlas
+                             countries-50m.json (each of the first two holds enclaves of the
+                             other). `python3 make_fixtures.py caucasus` writes only this file and
+                             needs nothing but the unpacked world-atlas package.
   columbus.shp/.shx/.dbf/.gal  copied unchanged from libpysal's bundled example.
   reference_edges.txt        rook and queen edges computed by libpysal (a general-purpose
                              spatial-weights library) for each fixture: "<fixture> <rule> <a>|<b>".
@@ -18,11 +22,7 @@ Outputs (all in tests/data/geo/):
 import json
 import os
 import shutil
-
-import geopandas as gpd
-import libpysal
-from libpysal.weights import Queen, Rook
-from shapely.geometry import MultiPolygon, Polygon
+import sys
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 
@@ -53,6 +53,8 @@ def ring_coords(ring, arcs):
 
 
 def geometry_to_shapely(g, arcs):
+    from shapely.geometry import MultiPolygon, Polygon
+
     polys = []
     if g["type"] == "Polygon":
         parts = [g["arcs"]]
@@ -94,6 +96,9 @@ def subset_topology(topology, object_name, keep):
 
 
 def reference_edges(label, names, shapes):
+    import geopandas as gpd
+    from libpysal.weights import Queen, Rook
+
     gdf = gpd.GeoDataFrame({"name": names}, geometry=shapes)
     lines = []
     for rule, cls in (("rook", Rook), ("queen", Queen)):
@@ -103,8 +108,20 @@ def reference_edges(label, names, shapes):
     return lines
 
 
+def caucasus():
+    world = json.load(open(os.path.join(os.environ["WORLD_ATLAS"], "countries-50m.json")))
+    keep = ["Azerbaijan", "Armenia", "Georgia", "Turkey", "Iran"]
+    sub = subset_topology(world, "countries", keep)
+    with open(os.path.join(HERE, "world50m_caucasus.topojson"), "w") as f:
+        json.dump(sub, f, separators=(",", ":"))
+
+
 def main():
+    import geopandas as gpd
+    import libpysal
+
     lines = []
+    caucasus()
 
     us = json.load(open(os.path.join(os.environ["US_ATLAS"], "states-10m.json")))
     keep = ["Utah", "Colorado", "Arizona", "New Mexico", "Nevada", "California", "Oregon", "Idaho",
@@ -147,4 +164,7 @@ def main():
 
 
 if __name__ == "__main__":
-    main()
+    if sys.argv[1:] == ["caucasus"]:
+        caucasus()
+    else:
+        main()

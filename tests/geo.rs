@@ -84,6 +84,7 @@ fn region(name: &str, ring: Vec<[f64; 2]>) -> ImportedRegion {
             holes: vec![],
         }],
         properties: Default::default(),
+        position: None,
     }
 }
 
@@ -1306,4 +1307,78 @@ fn enclaves_of_each_other_are_not_the_same_outline() {
         "{}",
         border.length()
     );
+}
+
+#[test]
+fn regions_of_the_same_name_are_told_apart_by_a_second_field() {
+    // Invented data: two counties called Shelby in different states, and one that is unique.
+    let text = r#"{"type":"FeatureCollection","features":[
+      {"type":"Feature","properties":{"name":"Shelby","STATE":"Tennessee"},"geometry":{"type":"Polygon","coordinates":[[[0,0],[1,0],[1,1],[0,1],[0,0]]]}},
+      {"type":"Feature","properties":{"name":"Shelby","STATE":"Texas"},"geometry":{"type":"Polygon","coordinates":[[[5,0],[6,0],[6,1],[5,1],[5,0]]]}},
+      {"type":"Feature","properties":{"name":"Marrow","STATE":"Texas"},"geometry":{"type":"Polygon","coordinates":[[[1,0],[2,0],[2,1],[1,1],[1,0]]]}}]}"#;
+    // Without the field the note says which field would tell them apart.
+    let map = import_text(text, &planar(Rule::Rook));
+    let note = map
+        .diagnostics_of(DiagnosticKind::DuplicateName)
+        .next()
+        .expect("a duplicate-name note");
+    assert!(
+        note.message.contains("--qualify-field STATE"),
+        "{}",
+        note.message
+    );
+    // With it, only the names that collide gain the state.
+    let options = ImportOptions {
+        qualify_field: Some("STATE".into()),
+        ..planar(Rule::Rook)
+    };
+    let map = geo::import_json(text.as_bytes(), &options).unwrap();
+    let names: Vec<&str> = map.regions.iter().map(|r| r.name.as_str()).collect();
+    assert_eq!(names, ["Shelby (Tennessee)", "Shelby (Texas)", "Marrow"]);
+    assert!(
+        map.diagnostics_of(DiagnosticKind::DuplicateName)
+            .next()
+            .is_none()
+    );
+    // A field the file does not have is refused, naming the fields it has.
+    let options = ImportOptions {
+        qualify_field: Some("COUNTY".into()),
+        ..planar(Rule::Rook)
+    };
+    let error = geo::import_json(text.as_bytes(), &options)
+        .unwrap_err()
+        .to_string();
+    assert!(
+        error.contains("COUNTY") && error.contains("STATE"),
+        "{error}"
+    );
+}
+
+#[test]
+fn a_region_whose_outline_is_degenerate_stands_where_its_positions_are() {
+    // Regression: us-atlas 3.0.1 counties-10m gives Falls Church, Virginia, an outline of two
+    // distinct positions; it was kept as a marker at the projection centre (in the Pacific).
+    // Invented data in the same shape: a proper square, one far away (so the projection's
+    // centre lies between them, away from both), and a feature whose ring degenerates.
+    let text = r#"{"type":"FeatureCollection","features":[
+      {"type":"Feature","properties":{"name":"Square"},"geometry":{"type":"Polygon","coordinates":[[[-77.3,38.8],[-77.1,38.8],[-77.1,39.0],[-77.3,39.0],[-77.3,38.8]]]}},
+      {"type":"Feature","properties":{"name":"Far away"},"geometry":{"type":"Polygon","coordinates":[[[-60.3,38.8],[-60.1,38.8],[-60.1,39.0],[-60.3,39.0],[-60.3,38.8]]]}},
+      {"type":"Feature","properties":{"name":"Sliver"},"geometry":{"type":"Polygon","coordinates":[[[-77.18,38.88],[-77.17,38.89],[-77.18,38.88]]]}}]}"#;
+    let map = import_text(text, &options(Rule::Rook));
+    let sliver = map.region_named("Sliver").unwrap();
+    assert!(map.regions[sliver].parts.is_empty());
+    let at = map.regions[sliver]
+        .position
+        .expect("placed by its own positions");
+    // Inside the square's projected box, not at the origin of the projection.
+    let square = &map.regions[map.region_named("Square").unwrap()].parts[0].exterior;
+    let (xs, ys): (Vec<f64>, Vec<f64>) = square.iter().map(|p| (p[0], p[1])).unzip();
+    let within = |v: f64, vs: &[f64]| {
+        vs.iter().copied().fold(f64::INFINITY, f64::min) < v
+            && v < vs.iter().copied().fold(f64::NEG_INFINITY, f64::max)
+    };
+    assert!(within(at[0], &xs) && within(at[1], &ys), "{at:?}");
+    let doc = map.into_document("t");
+    let region = doc.regions().values().find(|r| r.name == "Sliver").unwrap();
+    assert_eq!(region.anchor, at);
 }

@@ -42,6 +42,10 @@ pub struct GeoArgs {
     /// One region per polygon part instead of one per feature (parts share a colour group).
     #[arg(long = "split-parts")]
     pub split_parts: bool,
+    /// A second property that tells regions of the same name apart: names given to more than
+    /// one region get its value in brackets, as "Shelby (Tennessee)" ("id" means the feature id).
+    #[arg(long = "qualify-field", value_name = "FIELD")]
+    pub qualify_field: Option<String>,
     /// The TopoJSON object to import (default: the one with the most polygons).
     #[arg(long)]
     pub layer: Option<String>,
@@ -71,6 +75,7 @@ impl GeoArgs {
             name_field: self.name_field.clone(),
             split_parts: self.split_parts,
             layer: self.layer.clone(),
+            qualify_field: self.qualify_field.clone(),
             coordinates: match self.coordinates {
                 CoordinatesArg::Auto => geo::CoordinateMode::Auto,
                 CoordinatesArg::LonLat => geo::CoordinateMode::LonLat,

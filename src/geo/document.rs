@@ -83,7 +83,9 @@ impl ImportedMap {
                 .get("pin")
                 .and_then(Value::as_u64)
                 .and_then(|p| u32::try_from(p).ok());
-            let anchor = anchor_of(&imported.parts);
+            let anchor = imported
+                .position
+                .unwrap_or_else(|| anchor_of(&imported.parts));
             let geometry = (!imported.parts.is_empty()).then(|| {
                 Arc::new(Geometry {
                     polygons: imported.parts.iter().map(to_doc_polygon).collect(),

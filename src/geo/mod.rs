@@ -93,6 +93,10 @@ pub struct ImportedRegion {
     pub parts: MultiPolygon,
     /// The feature's properties (Shapefile: the .dbf record), for display and export.
     pub properties: Properties,
+    /// Where a region without usable geometry stands: the mean of the positions the file gave it
+    /// (projected like the rest), when its rings were all degenerate. `None` otherwise (a region
+    /// with parts is placed inside its largest part).
+    pub position: Option<Point>,
 }
 
 /// A feature's properties, names to JSON values in name order. A sorted vector rather than a
@@ -275,6 +279,10 @@ pub struct ImportOptions {
     /// Regions closer than this but not within the tolerance get a [`DiagnosticKind::Gap`];
     /// default (`None`): three times the tolerance, at least 1e-4 of the map's diagonal.
     pub gap_width: Option<f64>,
+    /// A second property that tells regions of the same name apart: names given to more than
+    /// one region get its value in brackets ("Shelby (Tennessee)"). `"id"` falls back to the
+    /// feature id when no property has that name.
+    pub qualify_field: Option<String>,
 }
 
 impl Default for ImportOptions {
@@ -288,6 +296,7 @@ impl Default for ImportOptions {
             layer: None,
             coordinates: CoordinateMode::Auto,
             gap_width: None,
+            qualify_field: None,
         }
     }
 }
@@ -317,6 +326,11 @@ pub enum ImportError {
     Shapefile { reason: String },
     #[error("no property {field:?} names the regions; available fields: {}", available.join(", "))]
     MissingNameField {
+        field: String,
+        available: Vec<String>,
+    },
+    #[error("no property {field:?} is there to tell regions of the same name apart; available fields: {}", available.join(", "))]
+    MissingQualifyField {
         field: String,
         available: Vec<String>,
     },
@@ -489,8 +503,32 @@ pub fn format_of(path: &Path, bytes: Option<&[u8]>) -> Option<Format> {
 
 /// Names, ring cleaning, projection, part splitting, borders and diagnostics.
 fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, ImportError> {
-    let names = choose_names(&raw, options.name_field.as_deref())?;
+    let mut names = choose_names(&raw, options.name_field.as_deref())?;
+    if let Some(field) = options.qualify_field.as_deref() {
+        qualify_names(&raw, &mut names, field)?;
+    }
     let mut diagnostics = std::mem::take(&mut raw.diagnostics);
+
+    // Where each feature's positions lie on average, for a feature whose rings are all dropped:
+    // it is placed there rather than at the map's origin.
+    let mut raw_points: Vec<Option<Point>> = raw
+        .features
+        .iter()
+        .map(|feature| {
+            let (mut sum, mut n) = ([0.0, 0.0], 0usize);
+            for p in feature
+                .parts
+                .iter()
+                .flat_map(|p| std::iter::once(&p.exterior).chain(&p.holes))
+                .flatten()
+                .filter(|p| p[0].is_finite() && p[1].is_finite())
+            {
+                sum = [sum[0] + p[0], sum[1] + p[1]];
+                n += 1;
+            }
+            (n > 0).then(|| [sum[0] / n as f64, sum[1] / n as f64])
+        })
+        .collect();
 
     // Clean rings first, in input coordinates, so that the projection sees valid rings.
     let mut cleaned: Vec<(MultiPolygon, Vec<Vec<usize>>, Vec<rings::RingProblem>)> = Vec::new();
@@ -534,6 +572,9 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
                 proj.project_ring(arc);
             }
         }
+        for point in raw_points.iter_mut().flatten() {
+            *point = proj.project(*point);
+        }
     }
     let units = if projection.is_some() {
         Units::Metres
@@ -541,13 +582,24 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
         Units::MapUnits
     };
 
+    // A field that would tell apart the features that share a name, for the duplicate-name note.
+    let separating = if options.qualify_field.is_none() {
+        separating_field(&raw, &names)
+    } else {
+        None
+    };
+
     // Build regions (splitting parts if asked), remembering each region's arcs.
     let mut regions = Vec::new();
     let mut region_arcs: Vec<Vec<usize>> = Vec::new();
     let mut ring_problems: Vec<(usize, rings::RingProblem)> = Vec::new();
     let mut empty: Vec<usize> = Vec::new();
-    for ((feature, name), (parts, arcs, problems)) in
-        raw.features.iter_mut().zip(names).zip(cleaned)
+    for (((feature, name), (parts, arcs, problems)), raw_point) in raw
+        .features
+        .iter_mut()
+        .zip(names)
+        .zip(cleaned)
+        .zip(raw_points)
     {
         let first_region = regions.len();
         if options.split_parts && parts.len() > 1 {
@@ -557,6 +609,7 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
                     name: format!("{name} ({})", k + 1),
                     parts: vec![polygon],
                     properties: feature.properties.clone(),
+                    position: None,
                 });
                 region_arcs.push(arcs);
             }
@@ -565,11 +618,13 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
             if parts.is_empty() {
                 empty.push(first_region);
             }
+            let position = if parts.is_empty() { raw_point } else { None };
             regions.push(ImportedRegion {
                 source_index: feature.source_index,
                 name,
                 parts,
                 properties: std::mem::take(&mut feature.properties),
+                position,
             });
             region_arcs.push(all_arcs);
         }
@@ -586,12 +641,18 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
             kind: DiagnosticKind::EmptyGeometry,
             regions: vec![region],
             message: format!(
-                "region {:?} (feature {}) has no polygon geometry; it is kept without a shape",
-                regions[region].name, regions[region].source_index
+                "region {:?} (feature {}) has no polygon geometry; it is kept without a shape{}",
+                regions[region].name,
+                regions[region].source_index,
+                if regions[region].position.is_some() {
+                    ", as a marker where its positions lie"
+                } else {
+                    ""
+                }
             ),
         });
     }
-    diagnostics.extend(duplicate_names(&regions));
+    diagnostics.extend(duplicate_names(&regions, &separating));
 
     let adjacency = AdjacencyOptions {
         rule: options.rule,
@@ -688,20 +749,104 @@ fn value_as_name(value: &serde_json::Value) -> Option<String> {
     }
 }
 
-fn duplicate_names(regions: &[ImportedRegion]) -> Vec<Diagnostic> {
+fn duplicate_names(regions: &[ImportedRegion], separating: &Option<String>) -> Vec<Diagnostic> {
     let mut by_name: BTreeMap<&str, Vec<usize>> = BTreeMap::new();
     for (i, region) in regions.iter().enumerate() {
         by_name.entry(region.name.as_str()).or_default().push(i);
     }
+    let hint = match separating {
+        Some(field) => {
+            format!("; the field {field:?} tells them apart (import with --qualify-field {field})")
+        }
+        None => String::new(),
+    };
     by_name
         .into_iter()
         .filter(|(_, ids)| ids.len() > 1)
         .map(|(name, ids)| Diagnostic {
             kind: DiagnosticKind::DuplicateName,
-            message: format!("{} regions are named {name:?}", ids.len()),
+            message: format!("{} regions are named {name:?}{hint}", ids.len()),
             regions: ids,
         })
         .collect()
+}
+
+/// The value of `field` for a feature, as a name: the property, or for `"id"` the feature id
+/// when no property has that name.
+fn field_value(feature: &RawFeature, field: &str) -> Option<String> {
+    feature
+        .properties
+        .get(field)
+        .and_then(value_as_name)
+        .or_else(|| (field == "id").then(|| feature.id.clone()).flatten())
+}
+
+/// Appends the value of `field` to every name that more than one feature has.
+fn qualify_names(raw: &RawMap, names: &mut [String], field: &str) -> Result<(), ImportError> {
+    let known = raw.features.iter().any(|f| field_value(f, field).is_some());
+    if !known {
+        let mut available = raw.field_names.clone();
+        for feature in &raw.features {
+            for key in feature.properties.keys() {
+                if !available.contains(key) {
+                    available.push(key.clone());
+                }
+            }
+        }
+        if raw.features.iter().any(|x| x.id.is_some()) {
+            available.push("id (the feature id)".to_string());
+        }
+        return Err(ImportError::MissingQualifyField {
+            field: field.to_string(),
+            available,
+        });
+    }
+    let mut count: BTreeMap<String, usize> = BTreeMap::new();
+    for name in names.iter() {
+        *count.entry(name.clone()).or_insert(0) += 1;
+    }
+    for (feature, name) in raw.features.iter().zip(names.iter_mut()) {
+        if count.get(name.as_str()).is_some_and(|&n| n > 1)
+            && let Some(value) = field_value(feature, field)
+        {
+            *name = format!("{name} ({value})");
+        }
+    }
+    Ok(())
+}
+
+/// The first field (in the file's order, then the feature id) whose values tell apart, within
+/// every group of features sharing a name, all the features of the group.
+fn separating_field(raw: &RawMap, names: &[String]) -> Option<String> {
+    let mut groups: BTreeMap<&str, Vec<usize>> = BTreeMap::new();
+    for (i, name) in names.iter().enumerate() {
+        groups.entry(name.as_str()).or_default().push(i);
+    }
+    let groups: Vec<Vec<usize>> = groups.into_values().filter(|g| g.len() > 1).collect();
+    if groups.is_empty() {
+        return None;
+    }
+    let mut candidates = raw.field_names.clone();
+    for feature in &raw.features {
+        for key in feature.properties.keys() {
+            if !candidates.contains(key) {
+                candidates.push(key.clone());
+            }
+        }
+    }
+    candidates.push("id".to_string());
+    candidates.into_iter().find(|field| {
+        groups.iter().all(|group| {
+            let mut values: Vec<String> = Vec::with_capacity(group.len());
+            for &i in group {
+                match field_value(&raw.features[i], field) {
+                    Some(v) if !values.contains(&v) => values.push(v),
+                    _ => return false,
+                }
+            }
+            true
+        })
+    })
 }
 
 fn sort_diagnostics(diagnostics: &mut [Diagnostic]) {

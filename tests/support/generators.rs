@@ -357,6 +357,7 @@ pub fn jittered_grid(
                     holes: vec![],
                 }],
                 properties: tinct::geo::Properties::new(),
+                position: None,
             });
         }
     }

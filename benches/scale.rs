@@ -16,6 +16,8 @@
 #[path = "../tests/support/generators.rs"]
 mod generators;
 use generators as synthetic;
+#[path = "support/process.rs"]
+mod process;
 
 use std::path::Path;
 use std::sync::Arc;
@@ -227,6 +229,36 @@ fn main() {
         None,
     );
 
+    // The whole `tinct import` process on the file: its own peak memory against the target of
+    // twice the file's size plus 100 MB.
+    let dir = tempfile::tempdir().unwrap();
+    let geojson = dir.path().join("million.geojson");
+    std::fs::write(&geojson, &text).unwrap();
+    let imported = dir.path().join("imported.tinct");
+    let (took, peak, code) = process::run_process(
+        env!("CARGO_BIN_EXE_tinct"),
+        &[
+            "import",
+            &geojson.to_string_lossy(),
+            "--out",
+            &imported.to_string_lossy(),
+        ],
+    )
+    .expect("tinct import runs");
+    assert_eq!(code, 0, "tinct import failed");
+    let file_mib = text.len() as f64 / (1024.0 * 1024.0);
+    println!(
+        "{:<34} {:>10.2} s {:>9} {peak:>10.0} MiB   (peak {:.2}x the file; target {:.0} MiB, \
+         twice the file plus 100 MB)",
+        "whole `tinct import` process",
+        took.as_secs_f64(),
+        "-",
+        peak / file_mib,
+        2.0 * file_mib + 100.0 / 1.048_576,
+    );
+    let _ = std::fs::remove_file(&geojson);
+    let _ = std::fs::remove_file(&imported);
+
     let (value, parse) = timed(|| serde_json::from_str::<serde_json::Value>(&text).unwrap());
     drop(value);
     row("baseline: parse the JSON only", parse, None);
@@ -241,7 +273,6 @@ fn main() {
         doc.borders().len()
     );
 
-    let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("million.tinct");
     let ((), save) = timed(|| tinct::formats::save(&doc, &path).unwrap());
     let bytes = std::fs::metadata(&path).map(|m| m.len()).unwrap_or(0);

@@ -34,6 +34,7 @@
 //! other; a region inside another without touching it, found with an R-tree of region boxes),
 //! and gaps (regions that come within the gap band but not within the tolerance).
 
+use std::borrow::Cow;
 use std::collections::BTreeMap;
 
 use rstar::{
@@ -75,12 +76,26 @@ impl Default for AdjacencyOptions {
     }
 }
 
-/// A contact between two regions before the rule is applied; `length == 0` is a corner.
-#[derive(Clone, Copy, Debug, Default, PartialEq)]
-pub(super) struct Contact {
-    pub length: f64,
+/// The contacts between regions before the rule is applied: region pairs `(a, b)` with
+/// `a < b`, sorted, each with its shared length (`0` for a corner contact). A sorted vector costs
+/// 16 bytes a contact; a map of them cost three times that on a million-region map.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub(super) struct Contacts(Vec<((u32, u32), f64)>);
+
+impl Contacts {
+    /// From contacts already sorted by pair, each pair once.
+    pub(super) fn from_sorted(list: Vec<((u32, u32), f64)>) -> Contacts {
+        debug_assert!(list.windows(2).all(|w| w[0].0 < w[1].0));
+        Contacts(list)
+    }
+    pub(super) fn contains(&self, a: usize, b: usize) -> bool {
+        let key = (a.min(b) as u32, a.max(b) as u32);
+        self.0.binary_search_by_key(&key, |c| c.0).is_ok()
+    }
 }
 
+/// One ring edge, assembled on demand from the [`Geometry`] arrays (a stored copy costs 64 bytes
+/// per edge: half a gigabyte on a million-region map).
 #[derive(Clone, Copy, Debug)]
 struct Segment {
     p: Point,
@@ -237,89 +252,155 @@ pub fn derive_contacts(regions: &[ImportedRegion], options: &AdjacencyOptions) -
     derived
 }
 
-struct Geometry {
-    segments: Vec<Segment>,
-    /// Per ring: its region and perimeter.
-    rings: Vec<(u32, f64)>,
-    /// Per ring: true for an exterior ring, false for a hole.
-    ring_is_exterior: Vec<bool>,
-    /// Segments of region `r` are `region_segments[r]..region_segments[r + 1]`.
-    region_segments: Vec<usize>,
+/// The rings' edges, numbered ring by ring: edge `k` runs from the `k - first`-th position of its
+/// ring to the next one (wrapping round). The positions stay where the regions hold them (rings
+/// cleaned by the importer have no repeated consecutive positions); only a ring that is not clean
+/// is copied. An edge costs 12 bytes (its ring and offset) beside its position.
+struct Geometry<'a> {
+    /// Per edge: the distance along its ring from the ring's first position to the edge's start.
+    offsets: Vec<f64>,
+    /// Per edge: its ring.
+    edge_ring: Vec<u32>,
+    rings: Vec<RingInfo<'a>>,
+    /// Edges of region `r` are `region_edges[r]..region_edges[r + 1]`.
+    region_edges: Vec<u32>,
     diagonal: f64,
 }
 
-impl Geometry {
-    fn build(regions: &[ImportedRegion], sphere: Option<&LambertAzimuthalEqualArea>) -> Self {
-        let mut segments = Vec::new();
+struct RingInfo<'a> {
+    points: Cow<'a, [Point]>,
+    region: u32,
+    /// Its first edge.
+    first: u32,
+    perimeter: f64,
+    exterior: bool,
+}
+
+/// The ring as the edges need it: finite positions, no position repeating the one before it
+/// (nor the last repeating the first), at least two; borrowed when it already is.
+fn edge_ready(ring: &[Point]) -> Option<Cow<'_, [Point]>> {
+    let finite = |v: &Point| v[0].is_finite() && v[1].is_finite();
+    let clean = ring.len() >= 2
+        && ring.iter().all(finite)
+        && ring.windows(2).all(|w| w[0] != w[1])
+        && ring.first() != ring.last();
+    if clean {
+        return Some(Cow::Borrowed(ring));
+    }
+    let mut out: Vec<Point> = ring.iter().copied().filter(finite).collect();
+    out.dedup();
+    while out.len() > 1 && out.last() == out.first() {
+        out.pop();
+    }
+    (out.len() >= 2).then_some(Cow::Owned(out))
+}
+
+impl<'a> Geometry<'a> {
+    fn build(regions: &'a [ImportedRegion], sphere: Option<&LambertAzimuthalEqualArea>) -> Self {
+        let total: usize = regions
+            .iter()
+            .flat_map(|r| &r.parts)
+            .map(|p| p.exterior.len() + p.holes.iter().map(Vec::len).sum::<usize>())
+            .sum();
+        let mut offsets = Vec::with_capacity(total);
+        let mut edge_ring = Vec::with_capacity(total);
         let mut rings = Vec::new();
-        let mut ring_is_exterior = Vec::new();
-        let mut region_segments = Vec::with_capacity(regions.len() + 1);
+        let mut region_edges = Vec::with_capacity(regions.len() + 1);
         let (mut min, mut max) = ([f64::INFINITY; 2], [f64::NEG_INFINITY; 2]);
         for (r, region) in regions.iter().enumerate() {
-            region_segments.push(segments.len());
+            region_edges.push(offsets.len() as u32);
             for polygon in &region.parts {
                 for (k, ring) in std::iter::once(&polygon.exterior)
                     .chain(&polygon.holes)
                     .enumerate()
                 {
-                    ring_is_exterior.push(k == 0);
+                    let Some(points) = edge_ready(ring) else {
+                        continue;
+                    };
                     let ring_id = rings.len() as u32;
-                    let first = segments.len();
+                    let first = offsets.len() as u32;
                     let mut offset = 0.0;
-                    // Open or closed, every edge once (a closing repeat is a zero-length edge).
-                    for (p, q) in crate::geometry::edges(ring) {
-                        let planar = (q[0] - p[0]).hypot(q[1] - p[1]);
-                        if planar.is_nan() || planar <= 0.0 {
-                            continue;
-                        }
-                        let length = sphere.map_or(planar, |s| s.distance_m(p, q));
-                        for v in [p, q] {
-                            min = [min[0].min(v[0]), min[1].min(v[1])];
-                            max = [max[0].max(v[0]), max[1].max(v[1])];
-                        }
-                        segments.push(Segment {
-                            p,
-                            q,
-                            region: r as u32,
-                            ring: ring_id,
-                            index: (segments.len() - first) as u32,
-                            ring_edges: 0,
-                            offset,
-                            length,
-                        });
-                        offset += length;
+                    for (p, q) in crate::geometry::edges(&points) {
+                        min = [min[0].min(p[0]), min[1].min(p[1])];
+                        max = [max[0].max(p[0]), max[1].max(p[1])];
+                        offsets.push(offset);
+                        edge_ring.push(ring_id);
+                        offset += sphere.map_or_else(
+                            || (q[0] - p[0]).hypot(q[1] - p[1]),
+                            |s| s.distance_m(p, q),
+                        );
                     }
-                    let count = (segments.len() - first) as u32;
-                    for s in &mut segments[first..] {
-                        s.ring_edges = count;
-                    }
-                    rings.push((r as u32, offset));
+                    rings.push(RingInfo {
+                        points,
+                        region: r as u32,
+                        first,
+                        perimeter: offset,
+                        exterior: k == 0,
+                    });
                 }
             }
         }
-        region_segments.push(segments.len());
-        let diagonal = if segments.is_empty() {
+        region_edges.push(offsets.len() as u32);
+        let diagonal = if offsets.is_empty() {
             0.0
         } else {
             (max[0] - min[0]).hypot(max[1] - min[1])
         };
         Self {
-            segments,
+            offsets,
+            edge_ring,
             rings,
-            ring_is_exterior,
-            region_segments,
+            region_edges,
             diagonal,
         }
+    }
+
+    fn edge_count(&self) -> usize {
+        self.offsets.len()
+    }
+
+    /// Where ring `ring`'s edges end.
+    fn ring_end(&self, ring: usize) -> usize {
+        let info = &self.rings[ring];
+        info.first as usize + info.points.len()
+    }
+
+    fn segment(&self, k: usize) -> Segment {
+        let ring = self.edge_ring[k] as usize;
+        let info = &self.rings[ring];
+        let i = k - info.first as usize;
+        let n = info.points.len();
+        let offset = self.offsets[k];
+        let (next, to) = if i + 1 < n {
+            (i + 1, self.offsets[k + 1])
+        } else {
+            (0, info.perimeter)
+        };
+        Segment {
+            p: info.points[i],
+            q: info.points[next],
+            region: info.region,
+            ring: ring as u32,
+            index: i as u32,
+            ring_edges: n as u32,
+            offset,
+            length: to - offset,
+        }
+    }
+
+    /// The edges of region `r`.
+    fn region_segments(&self, r: usize) -> impl Iterator<Item = Segment> + '_ {
+        (self.region_edges[r] as usize..self.region_edges[r + 1] as usize).map(|k| self.segment(k))
     }
 
     fn contacts(
         &self,
         regions: &[ImportedRegion],
         options: &AdjacencyOptions,
-    ) -> (BTreeMap<(usize, usize), Contact>, Vec<Diagnostic>) {
+    ) -> (Contacts, Vec<Diagnostic>) {
         let mut diagnostics = Vec::new();
-        if self.segments.is_empty() {
-            return (BTreeMap::new(), diagnostics);
+        if self.offsets.is_empty() {
+            return (Contacts::default(), diagnostics);
         }
         let tolerance = options.tolerance.max(0.0).max(1e-9 * self.diagonal);
         let band = options
@@ -334,7 +415,7 @@ impl Geometry {
         // Each segment's box grown by half the band, computed when needed rather than stored
         // (a stored copy is a quarter of a gigabyte on a million-region map).
         let box_of = |k: usize| {
-            let s = &self.segments[k];
+            let s = self.segment(k);
             [
                 s.p[0].min(s.q[0]) - grow,
                 s.p[1].min(s.q[1]) - grow,
@@ -342,12 +423,12 @@ impl Geometry {
                 s.p[1].max(s.q[1]) + grow,
             ]
         };
-        let mut chains: Vec<Boxed> = Vec::with_capacity(self.segments.len() / CHAIN + 1);
+        let mut chains: Vec<Boxed> = Vec::with_capacity(self.edge_count() / CHAIN + 1);
         let mut k = 0;
-        while k < self.segments.len() {
-            let ring = self.segments[k].ring;
+        while k < self.edge_count() {
+            let ring = self.edge_ring[k];
             let mut end = k + 1;
-            while end < self.segments.len() && end - k < CHAIN && self.segments[end].ring == ring {
+            while end < self.edge_count() && end - k < CHAIN && self.edge_ring[end] == ring {
                 end += 1;
             }
             let mut b = box_of(k);
@@ -371,13 +452,20 @@ impl Geometry {
         };
         let tree: RTree<Boxed, WideNodes> = RTree::bulk_load_with_params(chains);
 
+        // Runs come in three sizes: a whole edge shared with another region's edge (the common
+        // case: the edge and the neighbour, 8 bytes), a point contact (exact mode; only the pair
+        // of regions matters, 8 bytes) and a partial stretch (24 bytes). On a clean
+        // million-region map the first two are tens of millions.
         let mut runs: Vec<Run> = Vec::new();
+        let mut edge_runs: Vec<(u32, u32)> = Vec::new();
+        let mut touches: Vec<(u32, u32)> = Vec::new();
+        let mut recent_touches = vec![(u32::MAX, u32::MAX); 1 << 12];
         let mut self_crossing_rings: Vec<u32> = Vec::new();
         let mut near: BTreeMap<(u32, u32), f64> = BTreeMap::new();
         let mut crossings: BTreeMap<(u32, u32), Vec<(u32, u32)>> = BTreeMap::new();
         let mut visit = |i: u32, j: u32| {
             let (i, j) = (i.min(j), i.max(j));
-            let (s, t) = (&self.segments[i as usize], &self.segments[j as usize]);
+            let (s, t) = (self.segment(i as usize), self.segment(j as usize));
             if s.ring == t.ring {
                 let gap = s.index.abs_diff(t.index);
                 let adjacent = gap == 1 || gap + 1 == s.ring_edges;
@@ -393,72 +481,40 @@ impl Geometry {
             // The common case in clean data: the same edge in both regions (usually reversed).
             // Each lies wholly within the other's capsule, and they cannot cross.
             if (s.p == t.q && s.q == t.p) || (s.p == t.p && s.q == t.q) {
-                runs.push(Run {
-                    ring: s.ring,
-                    other: t.region,
-                    start: s.offset,
-                    end: s.offset + s.length,
-                });
-                runs.push(Run {
-                    ring: t.ring,
-                    other: s.region,
-                    start: t.offset,
-                    end: t.offset + t.length,
-                });
+                edge_runs.push((i, t.region));
+                edge_runs.push((j, s.region));
                 return;
             }
             // Edges meeting only at a common end point (not along a line): with the tolerance at
             // its rounding floor the part within reach is that point, so record it as such.
             if exact {
-                // (position along s, along t, direction of s away from the point, of t)
-                let at = |sv: bool, tv: bool| {
-                    let (s_pos, s_dir) = if sv {
-                        (s.offset, sub(s.q, s.p))
-                    } else {
-                        (s.offset + s.length, sub(s.p, s.q))
-                    };
-                    let (t_pos, t_dir) = if tv {
-                        (t.offset, sub(t.q, t.p))
-                    } else {
-                        (t.offset + t.length, sub(t.p, t.q))
-                    };
-                    (s_pos, t_pos, s_dir, t_dir)
-                };
-                let shared = if s.p == t.p {
-                    Some(at(true, true))
-                } else if s.p == t.q {
-                    Some(at(true, false))
-                } else if s.q == t.p {
-                    Some(at(false, true))
-                } else if s.q == t.q {
-                    Some(at(false, false))
-                } else {
-                    None
-                };
+                // The directions of s and of t away from the shared point.
+                let away =
+                    |from_p: bool, a: Point, b: Point| if from_p { sub(b, a) } else { sub(a, b) };
+                let shared = [(true, true), (true, false), (false, true), (false, false)]
+                    .into_iter()
+                    .find(|&(sv, tv)| (if sv { s.p } else { s.q }) == (if tv { t.p } else { t.q }))
+                    .map(|(sv, tv)| (away(sv, s.p, s.q), away(tv, t.p, t.q)));
                 // Every vertex of a ring starts exactly one of its edges (zero-length edges are
                 // skipped, so the next edge starts there), so the pair of edges that both start
                 // at a shared point records a point contact once; the other pairs meeting there
                 // would only repeat it (four times as many runs at every corner of a map).
                 let first_pair = s.p == t.p;
-                if let Some((at_s, at_t, ds, dt)) = shared {
+                if let Some((ds, dt)) = shared {
                     // Only edges leaving the point in the same direction run along each other.
                     let along = cross(ds, dt).abs()
                         <= 1e-12 * dot(ds, ds).sqrt() * dot(dt, dt).sqrt()
                         && dot(ds, dt) > 0.0;
                     if !along {
                         if first_pair {
-                            runs.push(Run {
-                                ring: s.ring,
-                                other: t.region,
-                                start: at_s,
-                                end: at_s,
-                            });
-                            runs.push(Run {
-                                ring: t.ring,
-                                other: s.region,
-                                start: at_t,
-                                end: at_t,
-                            });
+                            // A point adds no length; the contact alone is recorded, once per
+                            // pair as far as a small cache of recent pairs can tell (the
+                            // neighbouring vertices of a border repeat it).
+                            let slot = &mut recent_touches[touch_slot(key)];
+                            if *slot != key {
+                                *slot = key;
+                                touches.push(key);
+                            }
                         }
                         return;
                     }
@@ -498,7 +554,7 @@ impl Geometry {
                 }
             }
         };
-        let limit = candidate_pair_limit(self.segments.len());
+        let limit = candidate_pair_limit(self.edge_count());
         let mut examined = 0usize;
         let mut found = |a: &Boxed, b: &Boxed| {
             examined += 1;
@@ -538,18 +594,14 @@ impl Geometry {
             }
         }
 
-        // Bucket the runs by ring (counting sort: rings are numbered in order), then merge them
-        // along each ring per neighbouring region and measure them.
-        let mut first = vec![0usize; self.rings.len() + 1];
-        for run in &runs {
-            first[run.ring as usize + 1] += 1;
-        }
-        for k in 1..first.len() {
-            first[k] += first[k - 1];
-        }
-        // In place (no second copy of what can be tens of millions of runs).
+        drop(tree);
+        // Group the runs by ring (edges are numbered ring by ring, so sorting whole-edge runs by
+        // edge groups them too; in place, no second copy), then merge them along each ring per
+        // neighbouring region and measure them.
         runs.sort_unstable_by_key(|r| r.ring);
-        let mut bucketed = runs;
+        edge_runs.sort_unstable();
+        let (mut next_run, mut next_edge_run) = (0, 0);
+        let mut ring_runs: Vec<Run> = Vec::new();
         let eps = 1e-9 * self.diagonal;
         let mut side: Vec<((u32, u32), f64)> = Vec::new();
         let mut merged: Vec<(f64, f64)> = Vec::new();
@@ -558,12 +610,28 @@ impl Geometry {
         // `other`'s boundary.
         let mut outline_covered: Vec<(u32, u32, f64)> = Vec::new();
         for ring in 0..self.rings.len() {
-            let runs = &mut bucketed[first[ring]..first[ring + 1]];
+            ring_runs.clear();
+            while let Some(&run) = runs.get(next_run).filter(|r| r.ring as usize == ring) {
+                ring_runs.push(run);
+                next_run += 1;
+            }
+            let end = self.ring_end(ring) as u32;
+            while let Some(&(edge, other)) = edge_runs.get(next_edge_run).filter(|e| e.0 < end) {
+                let s = self.segment(edge as usize);
+                ring_runs.push(Run {
+                    ring: ring as u32,
+                    other,
+                    start: s.offset,
+                    end: s.offset + s.length,
+                });
+                next_edge_run += 1;
+            }
+            let runs = &mut ring_runs;
             if runs.is_empty() {
                 continue;
             }
             runs.sort_unstable_by(|a, b| a.other.cmp(&b.other).then(a.start.total_cmp(&b.start)));
-            let (region, perimeter) = self.rings[ring];
+            let (region, perimeter) = (self.rings[ring].region, self.rings[ring].perimeter);
             for group in runs.chunk_by(|a, b| a.other == b.other) {
                 merged.clear();
                 for run in group {
@@ -592,7 +660,7 @@ impl Geometry {
                     })
                     .sum();
                 let other = group[0].other;
-                if self.ring_is_exterior[ring]
+                if self.rings[ring].exterior
                     && merged.iter().any(|&(a, b)| b - a >= perimeter - eps)
                 {
                     outline_covered.push((region, other, perimeter));
@@ -600,31 +668,43 @@ impl Geometry {
                 side.push(((region.min(other), region.max(other)), measured));
             }
         }
+        drop((runs, edge_runs, ring_runs));
+        // Both sides of a shared border measure it: the contact's length is half their sum. A
+        // point contact adds nothing to a pair that shares a border, and is the pair's only
+        // record otherwise. The pairs are gathered, sorted and folded in the one vector.
+        touches.sort_unstable();
+        touches.dedup();
+        side.extend(touches.into_iter().map(|pair| (pair, 0.0)));
         side.sort_unstable_by_key(|a| a.0);
-        let mut contacts: BTreeMap<(usize, usize), Contact> = side
-            .chunk_by(|a, b| a.0 == b.0)
-            .map(|group| {
-                let ((a, b), _) = group[0];
-                let length = group.iter().map(|g| g.1).sum::<f64>() / 2.0;
-                ((a as usize, b as usize), Contact { length })
-            })
-            .collect();
         // Near a point contact a boundary stays within the tolerance for about `r / sin(angle)`
         // beside the point, where `angle` is the angle between the two boundaries there; the
         // erosion removes `r` of it. A contact measuring less than twice the user's tolerance
         // (plus a millionth of the map's diagonal, for rounding and thin angles when the
         // tolerance is zero) is therefore taken as a point contact.
         let floor = 2.0 * options.tolerance.max(0.0) + 1e-6 * self.diagonal;
-        for contact in contacts.values_mut() {
-            if contact.length <= floor {
-                contact.length = 0.0;
+        let mut kept = 0;
+        let mut start = 0;
+        while start < side.len() {
+            let pair = side[start].0;
+            let mut end = start;
+            let mut sum = 0.0;
+            while end < side.len() && side[end].0 == pair {
+                sum += side[end].1;
+                end += 1;
             }
+            let length = sum / 2.0;
+            side[kept] = (pair, if length <= floor { 0.0 } else { length });
+            kept += 1;
+            start = end;
         }
+        side.truncate(kept);
+        side.shrink_to_fit();
+        let contacts = Contacts::from_sorted(side);
 
         self_crossing_rings.sort_unstable();
         self_crossing_rings.dedup();
         for ring in self_crossing_rings {
-            let region = self.rings[ring as usize].0 as usize;
+            let region = self.rings[ring as usize].region as usize;
             diagnostics.push(Diagnostic {
                 kind: DiagnosticKind::SelfIntersection,
                 regions: vec![region],
@@ -666,7 +746,7 @@ impl Geometry {
         for (&(a, b), list) in &crossings {
             let mut depth: f64 = 0.0;
             for &(i, j) in list {
-                let (s, t) = (&self.segments[i as usize], &self.segments[j as usize]);
+                let (s, t) = (self.segment(i as usize), self.segment(j as usize));
                 for (p, other) in [
                     (s.p, t.region),
                     (s.q, t.region),
@@ -697,7 +777,7 @@ impl Geometry {
 
         for (&(a, b), &d) in &near {
             let (a, b) = (a as usize, b as usize);
-            if contacts.contains_key(&(a, b)) {
+            if contacts.contains(a, b) {
                 continue;
             }
             diagnostics.push(Diagnostic {
@@ -722,22 +802,20 @@ impl Geometry {
     fn nested_without_contact(
         &self,
         regions: &[ImportedRegion],
-        contacts: &BTreeMap<(usize, usize), Contact>,
+        contacts: &Contacts,
         tolerance: f64,
         diagnostics: &mut Vec<Diagnostic>,
     ) {
         let mut boxes = Vec::new();
         for r in 0..regions.len() {
-            let segments = &self.segments[self.region_segments[r]..self.region_segments[r + 1]];
-            let Some(first) = segments.first() else {
+            let mut points = self.region_segments(r).map(|s| s.p).peekable();
+            let Some(&first) = points.peek() else {
                 continue;
             };
-            let (mut lo, mut hi) = (first.p, first.p);
-            for s in segments {
-                for v in [s.p, s.q] {
-                    lo = [lo[0].min(v[0]), lo[1].min(v[1])];
-                    hi = [hi[0].max(v[0]), hi[1].max(v[1])];
-                }
+            let (mut lo, mut hi) = (first, first);
+            for v in points {
+                lo = [lo[0].min(v[0]), lo[1].min(v[1])];
+                hi = [hi[0].max(v[0]), hi[1].max(v[1])];
             }
             boxes.push(Boxed {
                 envelope: AABB::from_corners(lo, hi),
@@ -749,12 +827,12 @@ impl Geometry {
         let mut found = Vec::new();
         for inner in tree.iter() {
             let b = inner.first as usize;
-            let p = self.segments[self.region_segments[b]].p;
+            let p = self.segment(self.region_edges[b] as usize).p;
             for outer in tree.locate_in_envelope_intersecting(inner.envelope) {
                 let a = outer.first as usize;
                 if a == b
                     || !outer.envelope.contains_envelope(&inner.envelope)
-                    || contacts.contains_key(&(a.min(b), a.max(b)))
+                    || contacts.contains(a, b)
                 {
                     continue;
                 }
@@ -778,10 +856,9 @@ impl Geometry {
 
     /// How far `p` lies inside region `r` (distance to its boundary), or `None` if outside.
     fn depth_inside(&self, r: usize, p: Point) -> Option<f64> {
-        let segments = &self.segments[self.region_segments[r]..self.region_segments[r + 1]];
         let mut inside = false;
         let mut best = f64::INFINITY;
-        for s in segments {
+        for s in self.region_segments(r) {
             let (a, b) = (s.p, s.q);
             if (a[1] > p[1]) != (b[1] > p[1]) {
                 let x = a[0] + (p[1] - a[1]) / (b[1] - a[1]) * (b[0] - a[0]);
@@ -798,45 +875,41 @@ impl Geometry {
 /// Applies the rook or queen rule to contacts; shared length `0` means a corner contact.
 pub(super) fn apply_rule(
     regions: &[ImportedRegion],
-    contacts: BTreeMap<(usize, usize), Contact>,
+    contacts: Contacts,
     options: &AdjacencyOptions,
 ) -> Derived {
+    let kept = |length: f64| match options.rule {
+        Rule::Queen => true,
+        Rule::Rook => length > 0.0 && length >= options.min_border_length,
+    };
+    let borders = contacts.0.iter().filter(|c| kept(c.1)).count();
     let mut derived = Derived {
-        borders: Vec::new(),
-        excluded: Vec::new(),
+        borders: Vec::with_capacity(borders),
+        excluded: Vec::with_capacity(contacts.0.len() - borders),
         diagnostics: Vec::new(),
     };
-    for ((a, b), contact) in contacts {
-        let kind = if contact.length > 0.0 {
-            BorderKind::Shared {
-                length: contact.length,
-            }
+    for ((a, b), length) in contacts.0 {
+        let (a, b) = (a as usize, b as usize);
+        let kind = if length > 0.0 {
+            BorderKind::Shared { length }
         } else {
             BorderKind::Corner
         };
-        let keep = match (options.rule, kind) {
-            (Rule::Queen, _) => true,
-            (Rule::Rook, BorderKind::Corner) => false,
-            (Rule::Rook, BorderKind::Shared { length }) => {
-                if length < options.min_border_length {
-                    derived.diagnostics.push(Diagnostic {
-                        kind: DiagnosticKind::ShortBorder,
-                        regions: vec![a, b],
-                        message: format!(
-                            "the border between {:?} and {:?} is {} long, shorter than the \
-                             minimum {}; left out",
-                            regions[a].name,
-                            regions[b].name,
-                            fmt_length(length),
-                            fmt_length(options.min_border_length)
-                        ),
-                    });
-                    false
-                } else {
-                    true
-                }
-            }
-        };
+        let keep = kept(length);
+        if !keep && matches!(kind, BorderKind::Shared { .. }) {
+            derived.diagnostics.push(Diagnostic {
+                kind: DiagnosticKind::ShortBorder,
+                regions: vec![a, b],
+                message: format!(
+                    "the border between {:?} and {:?} is {} long, shorter than the minimum {}; \
+                     left out",
+                    regions[a].name,
+                    regions[b].name,
+                    fmt_length(length),
+                    fmt_length(options.min_border_length)
+                ),
+            });
+        }
         let border = ImportedBorder { a, b, kind };
         if keep {
             derived.borders.push(border);
@@ -845,6 +918,12 @@ pub(super) fn apply_rule(
         }
     }
     derived
+}
+
+/// Where a pair of regions goes in the cache of recent point contacts.
+fn touch_slot((a, b): (u32, u32)) -> usize {
+    let h = (u64::from(a) << 32 | u64::from(b)).wrapping_mul(0x9E37_79B9_7F4A_7C15);
+    (h >> 52) as usize
 }
 
 fn fmt_length(x: f64) -> String {

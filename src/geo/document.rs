@@ -20,6 +20,9 @@ use crate::doc::{
     RegionPair, Role, Settings,
 };
 
+/// Imported regions are numbered from here, in import order.
+const FIRST_ID: u64 = 1;
+
 impl ImportedMap {
     /// Builds a fresh document titled `title`: one region per imported region (ids from 1 in
     /// import order), every contact as a border, settings from the import options.
@@ -37,10 +40,53 @@ impl ImportedMap {
         });
         document.reserve(self.regions.len(), self.borders.len() + self.excluded.len());
 
+        // A contact recorded twice keeps its last record, as inserting into a map would. Both
+        // lists come sorted from the importers; they are merged as they are consumed, without a
+        // combined copy (two million borders on a million-region map), and before the regions,
+        // so that their memory is free again when the regions move into the document.
+        let key = |b: &super::ImportedBorder| (b.a.min(b.b), b.a.max(b.b));
+        let (mut kept, mut excluded) = (self.borders, self.excluded);
+        for list in [&mut kept, &mut excluded] {
+            if !list.is_sorted_by_key(key) {
+                list.sort_by_key(key);
+            }
+        }
+        let (mut kept, mut excluded) =
+            (kept.into_iter().peekable(), excluded.into_iter().peekable());
+        let mut pending: Option<(RegionPair, Border)> = None;
+        loop {
+            let next = match (kept.peek(), excluded.peek()) {
+                (Some(x), Some(y)) if key(y) < key(x) => excluded.next(),
+                (Some(_), _) => kept.next(),
+                (None, _) => excluded.next(),
+            };
+            let Some(border) = next else { break };
+            let pair = RegionPair::new(
+                RegionId(FIRST_ID + border.a as u64),
+                RegionId(FIRST_ID + border.b as u64),
+            );
+            let Some(pair) = pair else { continue };
+            let value = match border.kind {
+                GeoBorderKind::Shared { length } => Border::shared(length),
+                GeoBorderKind::Corner => Border::corner(),
+            };
+            if let Some((previous, previous_value)) = pending.replace((pair, value))
+                && previous != pair
+            {
+                document.border(previous, previous_value);
+            }
+        }
+        if let Some((pair, value)) = pending {
+            document.border(pair, value);
+        }
+        drop((kept, excluded));
+
         // Same-colour groups: named in the properties, or the parts of one split feature.
-        let mut per_feature: BTreeMap<usize, usize> = BTreeMap::new();
+        // Source indices are feature positions in the file: count parts per feature densely.
+        let features = self.regions.iter().map(|r| r.source_index + 1).max();
+        let mut per_feature = vec![0u32; features.unwrap_or(0)];
         for region in &self.regions {
-            *per_feature.entry(region.source_index).or_default() += 1;
+            per_feature[region.source_index] += 1;
         }
         let mut group_ids: BTreeMap<String, GroupId> = BTreeMap::new();
         let mut group_of = |name: String, document: &mut DocumentBuilder| {
@@ -53,7 +99,6 @@ impl ImportedMap {
             next
         };
 
-        let first_id = 1;
         let region_count = self.regions.len() as u64;
         for (i, imported) in self.regions.into_iter().enumerate() {
             let properties = &imported.properties;
@@ -65,12 +110,7 @@ impl ImportedMap {
                 Some(Value::String(name)) if !name.trim().is_empty() => {
                     Some(group_of(name.trim().to_string(), &mut document))
                 }
-                _ if per_feature
-                    .get(&imported.source_index)
-                    .copied()
-                    .unwrap_or(0)
-                    > 1 =>
-                {
+                _ if per_feature[imported.source_index] > 1 => {
                     let base = imported
                         .name
                         .rsplit_once(" (")
@@ -88,12 +128,13 @@ impl ImportedMap {
                 .unwrap_or_else(|| anchor_of(&imported.parts));
             let geometry = (!imported.parts.is_empty()).then(|| {
                 Arc::new(Geometry {
-                    polygons: imported.parts.iter().map(to_doc_polygon).collect(),
+                    polygons: imported.parts.into_iter().map(to_doc_polygon).collect(),
                 })
             });
-            let attributes = properties
-                .iter()
-                .map(|(k, v)| (k.clone(), attr_value(v)))
+            let attributes = imported
+                .properties
+                .into_iter()
+                .map(|(k, v)| (k, attr_value(v)))
                 .collect();
             let region = Region {
                 name: imported.name,
@@ -105,30 +146,10 @@ impl ImportedMap {
                 source_index: Some(imported.source_index as u64),
                 attributes,
             };
-            document.region(RegionId(first_id + i as u64), region);
+            document.region(RegionId(FIRST_ID + i as u64), region);
         }
-        document.next_ids(first_id + region_count, group_ids.len() as u64 + 1);
+        document.next_ids(FIRST_ID + region_count, group_ids.len() as u64 + 1);
 
-        // A contact recorded twice keeps its last record, as inserting into a map would.
-        let mut borders: Vec<(RegionPair, Border)> = Vec::new();
-        for border in self.borders.iter().chain(&self.excluded) {
-            let pair = RegionPair::new(
-                RegionId(first_id + border.a as u64),
-                RegionId(first_id + border.b as u64),
-            );
-            let Some(pair) = pair else { continue };
-            let value = match border.kind {
-                GeoBorderKind::Shared { length } => Border::shared(length),
-                GeoBorderKind::Corner => Border::corner(),
-            };
-            borders.push((pair, value));
-        }
-        borders.reverse();
-        borders.sort_by_key(|(pair, _)| *pair);
-        borders.dedup_by_key(|(pair, _)| *pair);
-        for (pair, border) in borders {
-            document.border(pair, border);
-        }
         match document.build() {
             Ok(doc) => doc,
             Err(e) => {
@@ -140,24 +161,24 @@ impl ImportedMap {
     }
 }
 
-/// Cleaned rings are open, as the document keeps them.
-fn to_doc_polygon(polygon: &GeoPolygon) -> doc::Polygon {
+/// Cleaned rings are open, as the document keeps them; they move into the document uncopied.
+fn to_doc_polygon(polygon: GeoPolygon) -> doc::Polygon {
     debug_assert!(
         polygon.exterior.len() < 2 || polygon.exterior.first() != polygon.exterior.last(),
         "rings are opened when they are cleaned"
     );
     doc::Polygon {
-        exterior: polygon.exterior.clone(),
-        holes: polygon.holes.clone(),
+        exterior: polygon.exterior,
+        holes: polygon.holes,
     }
 }
 
-fn attr_value(value: &Value) -> AttrValue {
+fn attr_value(value: Value) -> AttrValue {
     match value {
         Value::Null => AttrValue::Null,
-        Value::Bool(b) => AttrValue::Bool(*b),
+        Value::Bool(b) => AttrValue::Bool(b),
         Value::Number(n) => n.as_f64().map_or(AttrValue::Null, AttrValue::Number),
-        Value::String(s) => AttrValue::Text(s.clone()),
+        Value::String(s) => AttrValue::Text(s),
         other => AttrValue::Text(other.to_string()),
     }
 }

@@ -29,7 +29,20 @@ pub(super) enum Streamed {
 /// one at a time. Errors in the JSON itself come back as serde_json errors, with their line and
 /// column.
 pub(super) fn read_streaming(bytes: &[u8]) -> Result<Streamed, serde_json::Error> {
-    let mut de = serde_json::Deserializer::from_slice(bytes);
+    read_from(serde_json::Deserializer::from_slice(bytes))
+}
+
+/// Like [`read_streaming`], from a reader: the file's text is never held whole (on a large map
+/// it would be as much memory again as everything read from it).
+pub(super) fn read_streaming_from(
+    reader: impl std::io::Read,
+) -> Result<Streamed, serde_json::Error> {
+    read_from(serde_json::Deserializer::from_reader(reader))
+}
+
+fn read_from<'de, R: serde_json::de::Read<'de>>(
+    mut de: serde_json::Deserializer<R>,
+) -> Result<Streamed, serde_json::Error> {
     let streamed = TopLevel.deserialize(&mut de)?;
     de.end()?;
     Ok(streamed)
@@ -243,6 +256,7 @@ fn read_feature(value: &Value, index: usize, raw: &mut RawMap) {
         _ => None,
     };
     if let Some(Value::Object(properties)) = value.get("properties") {
+        feature.properties.0.reserve_exact(properties.len());
         for (key, v) in properties {
             if !raw.field_names.contains(key) {
                 raw.field_names.push(key.clone());
@@ -258,6 +272,7 @@ fn read_feature(value: &Value, index: usize, raw: &mut RawMap) {
             }
         }
     }
+    feature.parts.shrink_to_fit();
     raw.features.push(feature);
 }
 
@@ -360,19 +375,40 @@ fn position(value: &Value) -> Option<Point> {
     Some([array[0].as_f64()?, array[1].as_f64()?])
 }
 
+// The collections below are sized from the JSON arrays: collected through `Option` they would
+// grow by doubling (a ring of nine positions would keep room for sixteen), which on a
+// million-feature file is hundreds of megabytes of slack.
+
 fn ring(value: &Value) -> Option<Vec<Point>> {
-    value.as_array()?.iter().map(position).collect()
+    let array = value.as_array()?;
+    let mut out = Vec::with_capacity(array.len());
+    for v in array {
+        out.push(position(v)?);
+    }
+    Some(out)
 }
 
 fn polygon(value: &Value) -> Option<Polygon> {
-    let rings: Vec<Vec<Point>> = value.as_array()?.iter().map(ring).collect::<Option<_>>()?;
-    let mut rings = rings.into_iter();
-    Some(Polygon {
-        exterior: rings.next().unwrap_or_default(),
-        holes: rings.collect(),
-    })
+    let array = value.as_array()?;
+    let (exterior, holes) = match array.split_first() {
+        Some((exterior, holes)) => (ring(exterior)?, holes),
+        None => (Vec::new(), &[][..]),
+    };
+    let mut out = Polygon {
+        exterior,
+        holes: Vec::with_capacity(holes.len()),
+    };
+    for hole in holes {
+        out.holes.push(ring(hole)?);
+    }
+    Some(out)
 }
 
 fn multi_polygon(value: &Value) -> Option<MultiPolygon> {
-    value.as_array()?.iter().map(polygon).collect()
+    let array = value.as_array()?;
+    let mut out = Vec::with_capacity(array.len());
+    for v in array {
+        out.push(polygon(v)?);
+    }
+    Some(out)
 }

@@ -139,6 +139,15 @@ impl Properties {
     }
 }
 
+impl IntoIterator for Properties {
+    type Item = (String, serde_json::Value);
+    type IntoIter = std::vec::IntoIter<(String, serde_json::Value)>;
+    /// The properties by name, consumed.
+    fn into_iter(self) -> Self::IntoIter {
+        self.0.into_iter()
+    }
+}
+
 impl FromIterator<(String, serde_json::Value)> for Properties {
     fn from_iter<I: IntoIterator<Item = (String, serde_json::Value)>>(iter: I) -> Properties {
         let mut out = Properties::new();
@@ -392,15 +401,23 @@ pub fn import_path(path: &Path, options: &ImportOptions) -> Result<ImportedMap, 
             finish(raw, options)
         }
         "geojson" | "json" | "topojson" => {
-            // The file's bytes go as soon as they are parsed: on a large map they are a good
-            // part of the peak memory.
-            let streamed = {
-                let bytes = std::fs::read(path).map_err(|source| ImportError::Io {
-                    path: path.to_path_buf(),
-                    source,
-                })?;
-                parse_streaming(&bytes)?
-            };
+            // Read through a buffer, never whole: on a large map the file's text would be a
+            // good part of the peak memory.
+            let file = std::fs::File::open(path).map_err(|source| ImportError::Io {
+                path: path.to_path_buf(),
+                source,
+            })?;
+            let reader = std::io::BufReader::with_capacity(1 << 20, file);
+            let streamed = geojson::read_streaming_from(reader).map_err(|e| {
+                if e.is_io() {
+                    ImportError::Io {
+                        path: path.to_path_buf(),
+                        source: e.into(),
+                    }
+                } else {
+                    json_error(e)
+                }
+            })?;
             import_streamed(streamed, options)
         }
         _ => Err(ImportError::UnknownFormat {
@@ -590,17 +607,18 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
     };
 
     // Build regions (splitting parts if asked), remembering each region's arcs.
-    let mut regions = Vec::new();
+    // The features are consumed as the regions are built, so the two never both hold a
+    // million property lists; the lists are trimmed to their length (a vector grown one
+    // property at a time keeps room for four).
+    let features = std::mem::take(&mut raw.features);
+    let mut regions = Vec::with_capacity(features.len());
     let mut region_arcs: Vec<Vec<usize>> = Vec::new();
     let mut ring_problems: Vec<(usize, rings::RingProblem)> = Vec::new();
     let mut empty: Vec<usize> = Vec::new();
-    for (((feature, name), (parts, arcs, problems)), raw_point) in raw
-        .features
-        .iter_mut()
-        .zip(names)
-        .zip(cleaned)
-        .zip(raw_points)
+    for (((mut feature, name), (parts, arcs, problems)), raw_point) in
+        features.into_iter().zip(names).zip(cleaned).zip(raw_points)
     {
+        feature.properties.0.shrink_to_fit();
         let first_region = regions.len();
         if options.split_parts && parts.len() > 1 {
             for (k, (polygon, arcs)) in parts.into_iter().zip(arcs_or_empty(arcs)).enumerate() {
@@ -611,7 +629,9 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
                     properties: feature.properties.clone(),
                     position: None,
                 });
-                region_arcs.push(arcs);
+                if raw.arcs.is_some() {
+                    region_arcs.push(arcs);
+                }
             }
         } else {
             let all_arcs: Vec<usize> = arcs.into_iter().flatten().collect();
@@ -626,7 +646,9 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
                 properties: std::mem::take(&mut feature.properties),
                 position,
             });
-            region_arcs.push(all_arcs);
+            if raw.arcs.is_some() {
+                region_arcs.push(all_arcs);
+            }
         }
         for problem in problems {
             ring_problems.push((first_region, problem));

@@ -5,7 +5,7 @@
 //! Runs before projection and adjacency so that later stages can rely on open rings with at
 //! least three distinct positions and no zero-length edges. Everything it changes is reported.
 
-use super::{Diagnostic, DiagnosticKind, MultiPolygon, Point, Polygon, Ring};
+use super::{Diagnostic, DiagnosticKind, MultiPolygon, Polygon, Ring};
 
 /// Something the cleaner fixed or dropped in one ring.
 #[derive(Clone, Debug, PartialEq)]
@@ -97,12 +97,9 @@ fn clean_ring(
     hole: Option<usize>,
     problems: &mut Vec<RingProblem>,
 ) -> Option<Ring> {
-    let mut out: Vec<Point> = Vec::with_capacity(ring.len() + 1);
-    for p in ring {
-        if out.last() != Some(&p) {
-            out.push(p);
-        }
-    }
+    // In place: a million rings must not each be copied.
+    let mut out = ring;
+    out.dedup();
     if out.len() >= 2 && out.first() == out.last() {
         // Closed, as the file formats write rings: open it.
         out.pop();
@@ -116,6 +113,7 @@ fn clean_ring(
         problems.push(RingProblem::Degenerate { part, hole });
         return None;
     }
+    out.shrink_to_fit();
     Some(out)
 }
 

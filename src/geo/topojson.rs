@@ -11,7 +11,7 @@ use std::collections::{BTreeMap, BTreeSet};
 
 use serde_json::Value;
 
-use super::adjacency::{self, AdjacencyOptions, Contact};
+use super::adjacency::{self, AdjacencyOptions, Contacts};
 use super::{
     Diagnostic, DiagnosticKind, ImportError, ImportedRegion, Point, Polygon, RawFeature, RawMap,
 };
@@ -330,7 +330,7 @@ pub(super) fn borders_from_arcs(
             }
         }
     }
-    let mut contacts: BTreeMap<(usize, usize), Contact> = BTreeMap::new();
+    let mut contacts: BTreeMap<(u32, u32), f64> = BTreeMap::new();
     let mut diagnostics = Vec::new();
     let mut nodes: BTreeMap<(u64, u64), BTreeSet<usize>> = BTreeMap::new();
     for (arc, u) in users.iter_mut().enumerate() {
@@ -361,7 +361,7 @@ pub(super) fn borders_from_arcs(
         }
         for (i, &a) in u.iter().enumerate() {
             for &b in &u[i + 1..] {
-                contacts.entry((a, b)).or_default().length += length;
+                *contacts.entry((a as u32, b as u32)).or_default() += length;
             }
         }
         for end in [points.first(), points.last()].into_iter().flatten() {
@@ -373,10 +373,11 @@ pub(super) fn borders_from_arcs(
         let members: Vec<usize> = members.iter().copied().collect();
         for (i, &a) in members.iter().enumerate() {
             for &b in &members[i + 1..] {
-                contacts.entry((a, b)).or_default();
+                contacts.entry((a as u32, b as u32)).or_default();
             }
         }
     }
+    let contacts = Contacts::from_sorted(contacts.into_iter().collect());
 
     // Ring validity, overlaps and gaps from the geometric pass; its borders are not used.
     let geometric = adjacency::derive_contacts(regions, options);

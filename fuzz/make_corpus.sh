@@ -4,11 +4,13 @@
 set -euo pipefail
 cd "$(dirname "$0")/.."
 c=fuzz/corpus
-mkdir -p "$c"/{project_file,geojson,topojson,shapefile,dbf,dimacs,edge_list}
+mkdir -p "$c"/{project_file,geojson,topojson,shapefile,dbf,dimacs,edge_list,geopackage,flatgeobuf}
 cp tests/golden/v1/*.tinct sample-maps/*.tinct "$c/project_file/"
 cp sample-maps/*.geojson tests/data/geo/*.geojson "$c/geojson/"
 cp tests/data/geo/*.topojson "$c/topojson/"
 cp tests/data/geo/*.dbf "$c/dbf/"
+cp tests/data/geo/*.gpkg "$c/geopackage/"
+cp tests/data/geo/*.fgb "$c/flatgeobuf/"
 # Shapefile inputs: a 4-byte little-endian .shp length, the .shp, then the .dbf (see shapefile.rs).
 python3 - "$c/shapefile" <<'PY'
 import struct, sys, pathlib
@@ -25,7 +27,7 @@ for f in sample-maps/*.tinct tests/golden/v1/*.tinct; do
   cargo run -q --no-default-features -- convert "$f" "$c/edge_list/$b.edges"
 done
 if [ -d tests/data/fuzz-regressions ]; then
-  for t in project_file geojson topojson shapefile dbf dimacs edge_list; do
+  for t in project_file geojson topojson shapefile dbf dimacs edge_list geopackage flatgeobuf; do
     cp tests/data/fuzz-regressions/"$t"-* "$c/$t/" 2>/dev/null || true
   done
 fi

@@ -58,7 +58,7 @@ pub struct Loaded {
 
 /// The kinds of input Tinct reads, by extension.
 pub const READABLE: &str = ".tinct (project), .col or .dimacs (DIMACS graph), .edges (edge list), \
-                             .geojson, .json, .topojson or .shp (boundaries)";
+                             .geojson, .json, .topojson, .shp, .gpkg or .fgb (boundaries)";
 
 fn title_of(path: &Path) -> String {
     path.file_stem()
@@ -87,12 +87,7 @@ fn read_text(path: &Path) -> Result<String, FormatError> {
 }
 
 /// True for the extensions of boundary files (imported with [`ImportOptions`]).
-pub fn is_boundary_file(path: &Path) -> bool {
-    matches!(
-        extension(path).as_str(),
-        "geojson" | "json" | "topojson" | "shp"
-    )
-}
+pub use crate::geo::is_boundary_file;
 
 /// Reads `path` as a project, graph or boundary file; boundary files are imported with
 /// `import` (rule, tolerance, name field, ...). Errors name the file and, where there is one,
@@ -125,7 +120,7 @@ pub fn load(path: &Path, import: &ImportOptions) -> Result<Loaded, FormatError> 
                 doc::graph_formats::read_edge_list(&text, &title_of(path)).map_err(graph)?;
             Ok(Loaded { doc, notices })
         }
-        "geojson" | "json" | "topojson" | "shp" => {
+        _ if is_boundary_file(path) => {
             let map =
                 crate::geo::import_path(path, import).map_err(|source| FormatError::Import {
                     path: path.to_path_buf(),

@@ -415,3 +415,43 @@ fn analyse_imports_a_boundary_file_with_the_rule_it_is_given() {
     assert!(queen >= rook);
     assert_eq!(queen > rook, corners > 0);
 }
+
+#[test]
+fn geopackage_and_flatgeobuf_files_import_from_the_command_line() {
+    // GDAL-written copies of the 14-state extract (tests/data/geo/PROVENANCE.md): the same regions
+    // and borders whichever format carries them.
+    let geo = root().join("tests/data/geo");
+    let dir = tempfile::tempdir().unwrap();
+    let mut borders = Vec::new();
+    for file in [
+        "us_states_subset.geojson",
+        "us_states_subset.gpkg",
+        "us_states_subset.fgb",
+    ] {
+        let out = dir.path().join(format!("{file}.tinct"));
+        let run = tinct(&[
+            "import",
+            geo.join(file).to_str().unwrap(),
+            "--out",
+            out.to_str().unwrap(),
+        ]);
+        assert_eq!(run.status.code(), Some(0), "{file}: {}", stderr(&run));
+        let said = stderr(&run);
+        let line = said
+            .lines()
+            .find(|l| l.contains("imported"))
+            .unwrap()
+            .to_string();
+        borders.push(line.split(" into ").next().unwrap().to_string());
+    }
+    assert_eq!(borders[0], "tinct: imported 14 regions and 25 borders");
+    assert!(borders.iter().all(|b| *b == borders[0]), "{borders:?}");
+    // A layer that is not there: exit 2, naming the layers the file has.
+    let out = tinct(&[
+        "analyse",
+        geo.join("us_states_subset.gpkg").to_str().unwrap(),
+        "--layer",
+        "counties",
+    ]);
+    assert_bad_input(&out, "states (MULTIPOLYGON, 14 features)");
+}

@@ -435,6 +435,151 @@ fn columbus_shapefile_rook_matches_libpysal() {
 }
 
 // ---------------------------------------------------------------------------------------------
+// GeoPackage files written by GDAL (ogr2ogr, see PROVENANCE.md) against the same references
+
+#[test]
+fn geopackages_written_by_gdal_give_the_adjacency_of_their_sources() {
+    // columbus.gpkg: ogr2ogr from columbus.shp (no coordinate system: GDAL records the
+    // undefined one). Rook and queen equal libpysal's and the published columbus.gal.
+    for (rule, name) in [(Rule::Rook, "rook"), (Rule::Queen, "queen")] {
+        let map = geo::import_path(
+            &data("columbus.gpkg"),
+            &ImportOptions {
+                rule,
+                name_field: Some("POLYID".into()),
+                coordinates: CoordinateMode::Planar,
+                ..ImportOptions::default()
+            },
+        )
+        .unwrap();
+        assert_eq!(map.regions.len(), 49);
+        assert_eq!(
+            named_edges(&map),
+            reference("columbus", name),
+            "columbus {name}"
+        );
+        assert_eq!(map.crs, None);
+    }
+    // us_states_subset.gpkg: ogr2ogr from the GeoJSON, EPSG:4326, MULTIPOLYGON layer.
+    for (rule, name) in [(Rule::Rook, "rook"), (Rule::Queen, "queen")] {
+        let map = geo::import_path(&data("us_states_subset.gpkg"), &options(rule)).unwrap();
+        assert_eq!(map.regions.len(), 14);
+        assert_eq!(
+            map.units,
+            Units::Metres,
+            "EPSG:4326 is read as longitude/latitude"
+        );
+        assert_eq!(
+            named_edges(&map),
+            reference("us_states", name),
+            "us states {name}"
+        );
+    }
+}
+
+#[test]
+fn flatgeobuf_files_written_by_gdal_give_the_adjacency_of_their_sources() {
+    // columbus.fgb and us_states_subset.fgb: ogr2ogr -f FlatGeobuf from the shapefile and the
+    // GeoJSON (PROVENANCE.md); the same libpysal references as the sources.
+    for (rule, name) in [(Rule::Rook, "rook"), (Rule::Queen, "queen")] {
+        let map = geo::import_path(
+            &data("columbus.fgb"),
+            &ImportOptions {
+                rule,
+                name_field: Some("POLYID".into()),
+                coordinates: CoordinateMode::Planar,
+                ..ImportOptions::default()
+            },
+        )
+        .unwrap();
+        assert_eq!(map.regions.len(), 49);
+        assert_eq!(
+            named_edges(&map),
+            reference("columbus", name),
+            "columbus {name}"
+        );
+        let map = geo::import_path(&data("us_states_subset.fgb"), &options(rule)).unwrap();
+        assert_eq!(map.regions.len(), 14);
+        assert_eq!(
+            map.units,
+            Units::Metres,
+            "EPSG:4326 is read as longitude/latitude"
+        );
+        assert_eq!(
+            named_edges(&map),
+            reference("us_states", name),
+            "us states {name}"
+        );
+    }
+    // Attributes come through with their types: POLYID is an integer column in the .dbf.
+    let map = geo::import_path(&data("columbus.fgb"), &planar(Rule::Rook)).unwrap();
+    let first = &map.regions[0].properties;
+    assert!(
+        first.get("POLYID").is_some_and(|v| v.is_number()),
+        "{first:?}"
+    );
+}
+
+#[test]
+fn a_projected_geopackage_keeps_its_units_and_records_its_coordinate_system() {
+    // us_states_albers.gpkg: the same 14 states reprojected by ogr2ogr to EPSG:5070 (NAD83 /
+    // Conus Albers). Shared vertices stay shared, so the adjacency is libpysal's again.
+    for (rule, name) in [(Rule::Rook, "rook"), (Rule::Queen, "queen")] {
+        let map = geo::import_path(&data("us_states_albers.gpkg"), &options(rule)).unwrap();
+        assert_eq!(map.units, Units::MapUnits);
+        let crs = map.crs.as_ref().expect("the layer's coordinate system");
+        assert_eq!(crs.epsg, Some(5070));
+        assert_eq!(crs.name, "NAD83 / Conus Albers");
+        assert!(crs.wkt.as_deref().unwrap_or("").starts_with("PROJCS"));
+        assert_eq!(named_edges(&map), reference("us_states", name), "{name}");
+    }
+}
+
+#[test]
+fn a_geopackage_with_several_polygon_layers_asks_which() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("two.gpkg");
+    std::fs::copy(data("columbus.gpkg"), &path).unwrap();
+    {
+        let db = rusqlite::Connection::open(&path).unwrap();
+        db.execute_batch(
+            "CREATE TABLE copy AS SELECT * FROM columbus WHERE fid <= 10;
+             INSERT INTO gpkg_contents (table_name, data_type, identifier, srs_id)
+               VALUES ('copy', 'features', 'copy', 0);
+             INSERT INTO gpkg_geometry_columns VALUES ('copy', 'geom', 'POLYGON', 0, 0, 0);",
+        )
+        .unwrap();
+    }
+    let e = geo::import_path(&path, &planar(Rule::Rook)).unwrap_err();
+    let text = e.to_string();
+    assert!(text.contains("2 polygon layers"), "{text}");
+    assert!(text.contains("columbus (POLYGON, 49 features)"), "{text}");
+    assert!(text.contains("copy (POLYGON, 10 features)"), "{text}");
+    assert!(text.contains("--layer"), "{text}");
+    let pick = |layer: &str| ImportOptions {
+        layer: Some(layer.into()),
+        ..planar(Rule::Rook)
+    };
+    assert_eq!(
+        geo::import_path(&path, &pick("copy"))
+            .unwrap()
+            .regions
+            .len(),
+        10
+    );
+    assert_eq!(
+        geo::import_path(&path, &pick("columbus"))
+            .unwrap()
+            .regions
+            .len(),
+        49
+    );
+    let e = geo::import_path(&path, &pick("roads")).unwrap_err();
+    assert!(matches!(e, ImportError::MissingLayer { .. }), "{e}");
+    assert!(e.to_string().contains("copy (POLYGON, 10 features)"), "{e}");
+}
+
+// ---------------------------------------------------------------------------------------------
 // Synthetic maps: rules, tolerance and diagnostics
 
 #[test]

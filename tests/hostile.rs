@@ -104,11 +104,16 @@ enum Format {
     Dbf,
     Dimacs,
     EdgeList,
+    GeoPackage,
+    FlatGeobuf,
 }
 
 impl Format {
     fn is_text(self) -> bool {
-        !matches!(self, Format::Shapefile | Format::Dbf)
+        !matches!(
+            self,
+            Format::Shapefile | Format::Dbf | Format::GeoPackage | Format::FlatGeobuf
+        )
     }
 }
 
@@ -145,6 +150,15 @@ fn seeds(format: Format) -> Vec<Vec<u8>> {
         ],
         Format::Shapefile => vec![columbus_shp()],
         Format::Dbf => vec![columbus_dbf()],
+        // Written by GDAL's ogr2ogr (tests/data/geo/PROVENANCE.md).
+        Format::GeoPackage => vec![
+            data("tests/data/geo/columbus.gpkg"),
+            data("tests/data/geo/us_states_subset.gpkg"),
+        ],
+        Format::FlatGeobuf => vec![
+            data("tests/data/geo/columbus.fgb"),
+            data("tests/data/geo/us_states_subset.fgb"),
+        ],
         Format::Dimacs | Format::EdgeList => [
             "tests/golden/v1/full.tinct",
             "sample-maps/three-valleys.tinct",
@@ -212,6 +226,22 @@ fn read(format: Format, bytes: &[u8]) -> Result<usize, String> {
                 }
             }
         }
+        Format::GeoPackage => match geo::import_geopackage_bytes(bytes, &options) {
+            Ok(map) => Ok(map.regions.len()),
+            Err(e) => {
+                let text = e.to_string();
+                assert!(text.starts_with("invalid GeoPackage"), "{text}");
+                Err(text)
+            }
+        },
+        Format::FlatGeobuf => match geo::import_flatgeobuf_bytes(bytes, &options) {
+            Ok(map) => Ok(map.regions.len()),
+            Err(e) => {
+                let text = e.to_string();
+                assert!(text.starts_with("invalid FlatGeobuf"), "{text}");
+                Err(text)
+            }
+        },
         Format::Dimacs | Format::EdgeList => {
             // Graph files are text; the loader refuses other bytes before parsing (its own test
             // below), so a mutation that breaks UTF-8 checks only that refusal.
@@ -330,6 +360,11 @@ fn count_fields(format: Format) -> &'static [usize] {
     match format {
         Format::Shapefile => &[24, 104, 144, 148, 32, 112],
         Format::Dbf => &[4, 8, 10],
+        // SQLite's header: page size, change counter, page count, first freelist page, schema
+        // cookie (big-endian).
+        Format::GeoPackage => &[16, 24, 28, 32, 40],
+        // FlatGeobuf: the header's size prefix.
+        Format::FlatGeobuf => &[8],
         _ => &[],
     }
 }
@@ -462,6 +497,8 @@ fn seeds_load_and_stay_within_the_allocation_bound() {
         Format::Dbf,
         Format::Dimacs,
         Format::EdgeList,
+        Format::GeoPackage,
+        Format::FlatGeobuf,
     ] {
         for (i, bytes) in seeds(format).iter().enumerate() {
             let (regions, peak) = peak_bytes(|| read(format, bytes));
@@ -504,6 +541,122 @@ fn mutated_shapefiles_are_refused_clearly() {
 #[test]
 fn mutated_dbf_tables_are_refused_clearly() {
     hostile(Format::Dbf, 500);
+}
+
+#[test]
+fn mutated_geopackages_are_refused_clearly() {
+    hostile(Format::GeoPackage, 300);
+}
+
+#[test]
+fn mutated_flatgeobuf_files_are_refused_clearly() {
+    hostile(Format::FlatGeobuf, 600);
+}
+
+/// The GeoPackage seeds with one feature's geometry blob replaced by `damage(blob)`, through
+/// SQLite, so that the database stays sound and only the blob is hostile.
+fn damaged_blob(seed: &[u8], fid: i64, damage: impl Fn(&mut Vec<u8>)) -> Vec<u8> {
+    let mut db = rusqlite::Connection::open_in_memory().unwrap();
+    db.deserialize_read_exact(rusqlite::MAIN_DB, seed, seed.len(), false)
+        .unwrap();
+    let table: String = db
+        .query_row("SELECT table_name FROM gpkg_geometry_columns", [], |r| {
+            r.get(0)
+        })
+        .unwrap();
+    let mut blob: Vec<u8> = db
+        .query_row(
+            &format!("SELECT geom FROM \"{table}\" WHERE fid = ?1"),
+            [fid],
+            |r| r.get(0),
+        )
+        .unwrap();
+    damage(&mut blob);
+    // The spatial index's triggers call GeoPackage SQL functions that plain SQLite lacks.
+    let triggers: Vec<String> = db
+        .prepare("SELECT name FROM sqlite_master WHERE type = 'trigger'")
+        .unwrap()
+        .query_map([], |r| r.get(0))
+        .unwrap()
+        .collect::<Result<_, _>>()
+        .unwrap();
+    for trigger in triggers {
+        db.execute(&format!("DROP TRIGGER \"{trigger}\""), [])
+            .unwrap();
+    }
+    db.execute(
+        &format!("UPDATE \"{table}\" SET geom = ?1 WHERE fid = ?2"),
+        rusqlite::params![blob, fid],
+    )
+    .unwrap();
+    db.serialize(rusqlite::MAIN_DB).unwrap().to_vec()
+}
+
+#[test]
+fn geopackage_blobs_cut_short_or_declaring_huge_counts_are_refused_naming_the_feature() {
+    // GeoPackage Encoding Standard (OGC 12-128r18) clause 2.1.3: "GP", version, flags (envelope
+    // code in bits 1-3, 5 to 7 invalid), SRS id, envelope, then WKB (OGC 06-103r4).
+    let seed = data("tests/data/geo/columbus.gpkg");
+    type Damage = Box<dyn Fn(&mut Vec<u8>)>;
+    let cases: Vec<(&str, Damage, &str)> = vec![
+        (
+            "shorter than its header",
+            Box::new(|b| b.truncate(5)),
+            "fewer than the 8",
+        ),
+        (
+            "cut inside the WKB",
+            Box::new(|b| b.truncate(b.len() / 2)),
+            "bytes are left",
+        ),
+        (
+            "envelope code 7",
+            Box::new(|b| b[3] = (b[3] & !0b1110) | 0b1110),
+            "envelope code 7",
+        ),
+        ("not GP", Box::new(|b| b[0] = b'X'), "does not start"),
+        (
+            "four billion rings",
+            Box::new(|b| {
+                let start = 8 + 32 + 5; // header, xy envelope, WKB byte order and type
+                b[start..start + 4].copy_from_slice(&u32::MAX.to_le_bytes());
+            }),
+            "declares 4294967295 rings",
+        ),
+    ];
+    for (what, damage, expected) in cases {
+        let bytes = damaged_blob(&seed, 7, damage);
+        let (result, peak) = peak_bytes(|| read(Format::GeoPackage, &bytes));
+        let message = result.expect_err(what);
+        assert!(message.contains("feature 7"), "{what}: {message}");
+        assert!(message.contains(expected), "{what}: {message}");
+        assert!(
+            peak <= allocation_bound(bytes.len()),
+            "{what}: {peak} bytes"
+        );
+    }
+}
+
+#[test]
+fn files_that_are_not_geopackages_are_refused_saying_what_they_are() {
+    let refused = |bytes: &[u8], expected: &str| {
+        let e = geo::import_geopackage_bytes(bytes, &ImportOptions::default()).unwrap_err();
+        assert!(e.to_string().contains(expected), "{e}");
+    };
+    refused(b"", "not an SQLite database");
+    refused(
+        &data("tests/data/geo/columbus.shp"),
+        "not an SQLite database",
+    );
+    // A sound SQLite database without the GeoPackage tables.
+    let mut db = rusqlite::Connection::open_in_memory().unwrap();
+    db.execute("CREATE TABLE t (x)", []).unwrap();
+    let plain = db.serialize(rusqlite::MAIN_DB).unwrap().to_vec();
+    refused(&plain, "no gpkg_contents");
+    // The first pages only, as an interrupted copy leaves it.
+    let seed = data("tests/data/geo/columbus.gpkg");
+    let e = geo::import_geopackage_bytes(&seed[..8192], &ImportOptions::default()).unwrap_err();
+    assert!(e.to_string().starts_with("invalid GeoPackage"), "{e}");
 }
 
 #[test]

@@ -46,7 +46,8 @@ pub struct GeoArgs {
     /// one region get its value in brackets, as "Shelby (Tennessee)" ("id" means the feature id).
     #[arg(long = "qualify-field", value_name = "FIELD")]
     pub qualify_field: Option<String>,
-    /// The TopoJSON object to import (default: the one with the most polygons).
+    /// The layer to import: a TopoJSON object (default: the one with the most polygons) or a
+    /// GeoPackage feature table (needed when the file has several polygon layers).
     #[arg(long)]
     pub layer: Option<String>,
     /// How to read coordinates: auto (longitude/latitude when the file says so or the values
@@ -87,14 +88,7 @@ impl GeoArgs {
 }
 
 /// True for the extensions the geometry importers read.
-pub fn is_boundary_file(path: &Path) -> bool {
-    matches!(
-        path.extension()
-            .map(|e| e.to_string_lossy().to_ascii_lowercase())
-            .as_deref(),
-        Some("geojson" | "json" | "topojson" | "shp")
-    )
-}
+pub use crate::geo::is_boundary_file;
 
 /// Imports a boundary file, naming the file in the error.
 pub fn import(path: &Path, options: &ImportOptions) -> anyhow::Result<ImportedMap> {

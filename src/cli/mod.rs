@@ -45,12 +45,12 @@ pub enum BalanceArg {
 pub enum Command {
     /// Open a project or graph file in the editor window.
     Open {
-        /// The file to open (.tinct, .col, .edges; boundary files .geojson, .topojson, .shp are imported).
+        /// The file to open (.tinct, .col, .edges; boundary files .geojson, .topojson, .shp, .gpkg, .fgb are imported).
         file: PathBuf,
     },
     /// Report on a map: regions, borders, rules, clashes and uncoloured regions.
     Analyse {
-        /// The file to analyse (.tinct, .col, .edges, or a boundary file: .geojson, .json, .topojson, .shp).
+        /// The file to analyse (.tinct, .col, .edges, or a boundary file: .geojson, .json, .topojson, .shp, .gpkg, .fgb).
         file: PathBuf,
         /// Print machine-readable JSON on standard output (shape documented in the README).
         #[arg(long)]
@@ -102,7 +102,7 @@ pub enum Command {
         #[command(flatten)]
         geo: import::GeoArgs,
     },
-    /// Import a boundary file (.geojson, .json, .topojson, .shp) into a project file.
+    /// Import a boundary file (.geojson, .json, .topojson, .shp, .gpkg, .fgb) into a project file.
     Import {
         /// The boundary file to read.
         file: PathBuf,
@@ -114,7 +114,7 @@ pub enum Command {
     },
     /// Derive which regions of a boundary file border each other, with diagnostics.
     Adjacency {
-        /// The boundary file to read (.geojson, .json, .topojson, .shp).
+        /// The boundary file to read (.geojson, .json, .topojson, .shp, .gpkg, .fgb).
         file: PathBuf,
         /// Print machine-readable JSON on standard output.
         #[arg(long)]

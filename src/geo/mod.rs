@@ -52,7 +52,9 @@
 
 pub mod adjacency;
 pub mod document;
+mod fgb;
 mod geojson;
+mod gpkg;
 pub mod project;
 mod rings;
 mod shp;
@@ -246,6 +248,20 @@ pub struct ImportedMap {
     pub units: Units,
     /// The projection used for longitude/latitude input (`None` for planar data).
     pub projection: Option<LambertAzimuthalEqualArea>,
+    /// The coordinate system of planar data, when the file names one (a GeoPackage layer's
+    /// spatial reference, a shapefile's `.prj`); exports write it back.
+    pub crs: Option<Crs>,
+}
+
+/// A coordinate reference system as a file names it.
+#[derive(Clone, Debug, PartialEq, Default)]
+pub struct Crs {
+    /// Its name (for example "NAD83 / Conus Albers"); may be empty.
+    pub name: String,
+    /// Its EPSG code, when the file gives one.
+    pub epsg: Option<u32>,
+    /// Its definition as well-known text, when the file has one.
+    pub wkt: Option<String>,
 }
 
 /// Which contacts count as borders.
@@ -282,7 +298,8 @@ pub struct ImportOptions {
     pub name_field: Option<String>,
     /// One region per polygon part instead of one per feature.
     pub split_parts: bool,
-    /// TopoJSON object to import; default: the one with the most polygon geometries.
+    /// The layer to import: a TopoJSON object (default: the one with the most polygon
+    /// geometries) or a GeoPackage feature table (default: the only polygon layer).
     pub layer: Option<String>,
     pub coordinates: CoordinateMode,
     /// Regions closer than this but not within the tolerance get a [`DiagnosticKind::Gap`];
@@ -319,7 +336,9 @@ pub enum ImportError {
         #[source]
         source: std::io::Error,
     },
-    #[error("cannot tell the format of {path}: expected .geojson, .json, .topojson or .shp")]
+    #[error(
+        "cannot tell the format of {path}: expected .geojson, .json, .topojson, .shp, .gpkg or .fgb"
+    )]
     UnknownFormat { path: PathBuf },
     #[error("not valid JSON at line {line}, column {column}: {message}")]
     Json {
@@ -333,6 +352,10 @@ pub enum ImportError {
     Topology { reason: String },
     #[error("invalid Shapefile: {reason}")]
     Shapefile { reason: String },
+    #[error("invalid GeoPackage: {reason}")]
+    GeoPackage { reason: String },
+    #[error("invalid FlatGeobuf: {reason}")]
+    FlatGeobuf { reason: String },
     #[error("no property {field:?} names the regions; available fields: {}", available.join(", "))]
     MissingNameField {
         field: String,
@@ -343,7 +366,7 @@ pub enum ImportError {
         field: String,
         available: Vec<String>,
     },
-    #[error("TopoJSON object {layer:?} not found; available objects: {}", available.join(", "))]
+    #[error("layer {layer:?} not found; the file's layers: {}", available.join(", "))]
     MissingLayer {
         layer: String,
         available: Vec<String>,
@@ -356,6 +379,8 @@ pub enum Format {
     GeoJson,
     TopoJson,
     Shapefile,
+    GeoPackage,
+    FlatGeobuf,
 }
 
 /// A feature as read, before names, projection and adjacency.
@@ -385,6 +410,18 @@ struct RawMap {
     arcs: Option<Vec<Vec<Point>>>,
     /// A streamed FeatureCollection whose `features` member was not an array.
     not_an_array: bool,
+    /// The coordinate system of planar data, when the file names one.
+    crs: Option<Crs>,
+}
+
+/// The extensions of the boundary files Tinct imports (lower case, without the dot).
+pub const BOUNDARY_EXTENSIONS: [&str; 6] = ["geojson", "json", "topojson", "shp", "gpkg", "fgb"];
+
+/// True when `path` has one of [`BOUNDARY_EXTENSIONS`] (in any case).
+pub fn is_boundary_file(path: &Path) -> bool {
+    path.extension()
+        .map(|e| e.to_string_lossy().to_ascii_lowercase())
+        .is_some_and(|e| BOUNDARY_EXTENSIONS.contains(&e.as_str()))
 }
 
 /// Reads and imports a boundary file; the format comes from the extension (and, for `.json`,
@@ -398,6 +435,14 @@ pub fn import_path(path: &Path, options: &ImportOptions) -> Result<ImportedMap, 
     match ext.as_str() {
         "shp" => {
             let raw = shp::read_path(path, options.coordinates)?;
+            finish(raw, options)
+        }
+        "gpkg" => {
+            let raw = gpkg::read_path(path, options.layer.as_deref(), options.coordinates)?;
+            finish(raw, options)
+        }
+        "fgb" => {
+            let raw = fgb::read_path(path, options.coordinates)?;
             finish(raw, options)
         }
         "geojson" | "json" | "topojson" => {
@@ -500,11 +545,31 @@ pub fn import_shapefile_bytes(
     finish(raw, options)
 }
 
+/// Imports one layer of a GeoPackage held in memory (`options.layer` picks it when there are
+/// several polygon layers).
+pub fn import_geopackage_bytes(
+    bytes: &[u8],
+    options: &ImportOptions,
+) -> Result<ImportedMap, ImportError> {
+    let raw = gpkg::read_bytes(bytes, options.layer.as_deref(), options.coordinates)?;
+    finish(raw, options)
+}
+
+/// Imports a FlatGeobuf file held in memory.
+pub fn import_flatgeobuf_bytes(
+    bytes: &[u8],
+    options: &ImportOptions,
+) -> Result<ImportedMap, ImportError> {
+    finish(fgb::read_bytes(bytes, options.coordinates)?, options)
+}
+
 /// Detects the format of an in-memory document or file name (for callers that need to say which).
 pub fn format_of(path: &Path, bytes: Option<&[u8]>) -> Option<Format> {
     let ext = path.extension()?.to_str()?.to_ascii_lowercase();
     match ext.as_str() {
         "shp" => Some(Format::Shapefile),
+        "gpkg" => Some(Format::GeoPackage),
+        "fgb" => Some(Format::FlatGeobuf),
         "topojson" => Some(Format::TopoJson),
         "geojson" => Some(Format::GeoJson),
         "json" => {
@@ -700,6 +765,7 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
         diagnostics,
         units,
         projection,
+        crs: if projection.is_none() { raw.crs } else { None },
     })
 }
 

@@ -265,16 +265,27 @@ pub(super) fn read_files(files: &Files, mode: CoordinateMode) -> Result<RawMap, 
         });
     }
 
-    if mode == CoordinateMode::Auto
-        && let Some(prj) = files.prj
-    {
-        let text = String::from_utf8_lossy(prj)
-            .trim_start()
-            .to_ascii_uppercase();
-        if text.starts_with("GEOGCS") {
-            raw.lon_lat_hint = Some(true);
-        } else if text.starts_with("PROJCS") {
-            raw.lon_lat_hint = Some(false);
+    if let Some(prj) = files.prj {
+        let wkt = String::from_utf8_lossy(prj).trim().to_string();
+        let upper = wkt.to_ascii_uppercase();
+        let geographic = if upper.starts_with("GEOGCS") {
+            Some(true)
+        } else if upper.starts_with("PROJCS") {
+            Some(false)
+        } else {
+            None
+        };
+        if mode == CoordinateMode::Auto {
+            raw.lon_lat_hint = geographic;
+        }
+        if geographic == Some(false) {
+            // The name is the first quoted string: PROJCS["NAD_1983_Albers", ...].
+            let name = wkt.split('"').nth(1).unwrap_or_default().to_string();
+            raw.crs = Some(super::Crs {
+                name,
+                epsg: None,
+                wkt: Some(wkt),
+            });
         }
     }
 

@@ -891,8 +891,8 @@ impl App {
                     .add_filter("Tinct project", &["tinct"])
                     .add_filter("Graph (DIMACS, edge list)", &["col", "dimacs", "edges"])
                     .add_filter(
-                        "Boundary data (GeoJSON, TopoJSON, Shapefile)",
-                        &["geojson", "json", "topojson", "shp"],
+                        "Boundary data (GeoJSON, TopoJSON, Shapefile, GeoPackage, FlatGeobuf)",
+                        &crate::geo::BOUNDARY_EXTENSIONS,
                     );
                 let picked = match purpose {
                     PathPurpose::ExportProof => rfd::FileDialog::new().pick_folder(),

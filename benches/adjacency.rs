@@ -6,7 +6,12 @@
 //! this thread's CPU time (the machine is shared, so wall-clock times include waiting); the
 //! ratios are of CPU times against the parse time.
 //! Targets (issue 5): ~3,000 regions / ~70,000 vertices under 50 ms; 100,000 regions under 2 s.
-//! Run: `cargo bench --no-default-features --bench adjacency [-- FILTER]`.
+//!
+//! A last section times the whole import of the same 3,000-region map from a GeoPackage and a
+//! FlatGeobuf file against the GeoJSON file (target: at most 1.5x). The GeoPackage is Tinct's own
+//! export; both are also made by GDAL's `ogr2ogr` when it is installed (Debian `gdal-bin`).
+//! Run: `cargo bench --no-default-features --bench adjacency [-- FILTER]` (`formats` for that
+//! section alone).
 
 // Calls into the C library (resource usage, signals, a counting allocator) need `unsafe`.
 #![allow(unsafe_code)]
@@ -106,6 +111,9 @@ fn main() {
     if "us-atlas".contains(filter.as_str()) {
         real_map();
     }
+    if "formats".contains(filter.as_str()) {
+        formats();
+    }
     // (label, cols, rows, steps per cell edge, runs)
     let cases = [
         ("grid 60x50, 6 steps/edge", 60, 50, 6, 10),
@@ -193,4 +201,76 @@ fn real_map() {
             best_of(runs, || geo::derive_borders(&map.regions, &queen).0.len()),
         ],
     );
+}
+
+/// The whole import of one 3,000-region map from each boundary format, against its GeoJSON.
+fn formats() {
+    let regions = synthetic::jittered_grid(60, 50, 6, 0.2, 42);
+    let dir = tempfile::tempdir().expect("a temporary folder");
+    let geojson = dir.path().join("grid.geojson");
+    std::fs::write(&geojson, synthetic::to_geojson(&regions)).expect("write GeoJSON");
+    let options = ImportOptions {
+        coordinates: geo::CoordinateMode::Planar,
+        ..ImportOptions::default()
+    };
+    let doc = geo::import_path(&geojson, &options)
+        .expect("GeoJSON imports")
+        .into_document("grid");
+    let own = dir.path().join("grid-tinct.gpkg");
+    std::fs::write(
+        &own,
+        tinct::export::to_geopackage(&doc, "grid").expect("GeoPackage export"),
+    )
+    .expect("write GeoPackage");
+    let mut files = vec![("GeoPackage (Tinct's export)", own)];
+    for (label, driver, name) in [
+        ("GeoPackage (ogr2ogr)", "GPKG", "grid-gdal.gpkg"),
+        ("FlatGeobuf (ogr2ogr)", "FlatGeobuf", "grid.fgb"),
+    ] {
+        let out = dir.path().join(name);
+        let made = std::process::Command::new("ogr2ogr")
+            .args(["-f", driver])
+            .arg(&out)
+            .arg(&geojson)
+            .status()
+            .is_ok_and(|s| s.success());
+        if made {
+            files.push((label, out));
+        } else {
+            println!("{label}: ogr2ogr is not installed (apt install gdal-bin); row skipped");
+        }
+    }
+    let runs = 10;
+    let time = |path: &std::path::Path| {
+        best_of(runs, || {
+            geo::import_path(path, &options)
+                .map(|m| m.borders.len())
+                .expect("imports")
+        })
+    };
+    let (base_wall, base_cpu) = time(&geojson);
+    println!();
+    println!(
+        "Whole import of a 3,000-region grid by format (best of {runs}; target at most 1.5x GeoJSON)"
+    );
+    println!(
+        "{:<28} {:>10} {:>10} {:>10}",
+        "format", "wall ms", "CPU ms", "CPU ratio"
+    );
+    println!(
+        "{:<28} {:>10.1} {:>10.1} {:>10}",
+        "GeoJSON",
+        ms(base_wall),
+        ms(base_cpu),
+        "1.00x"
+    );
+    for (label, path) in files {
+        let (wall, cpu) = time(&path);
+        println!(
+            "{label:<28} {:>10.1} {:>10.1} {:>9.2}x",
+            ms(wall),
+            ms(cpu),
+            cpu.as_secs_f64() / base_cpu.as_secs_f64().max(1e-9)
+        );
+    }
 }

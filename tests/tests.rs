@@ -7,6 +7,7 @@ mod colouring;
 mod edits;
 mod export;
 mod geo;
+mod gis_export;
 mod graph_formats;
 #[cfg(feature = "gui")]
 mod gui;

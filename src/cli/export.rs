@@ -39,6 +39,14 @@ pub struct Outputs {
     /// Write GeoJSON (RFC 7946, longitude/latitude) with the colours as properties.
     #[arg(long, value_name = "OUT")]
     pub geojson: Option<PathBuf>,
+    /// Write a GeoPackage (one layer named after the file, with an R-tree index) with the source
+    /// attributes and the colouring columns.
+    #[arg(long, value_name = "OUT")]
+    pub gpkg: Option<PathBuf>,
+    /// Write a Shapefile (OUT.shp with its .shx, .dbf, .cpg and .prj); the colouring fields are
+    /// tinct_col (slot) and tinct_fill (#rrggbb).
+    #[arg(long, value_name = "OUT")]
+    pub shp: Option<PathBuf>,
     /// Write a CSV table: id, name, colour, fill, group, pinned, role.
     #[arg(long, value_name = "OUT")]
     pub csv: Option<PathBuf>,
@@ -86,25 +94,27 @@ pub fn run_export(file: &Path, args: &ExportArgs, geo: &super::import::GeoArgs) 
         (None, None) => PngSize::Dpi(150.0),
     };
     // Make every requested output first, so bad input writes nothing.
-    let mut files: Vec<(&PathBuf, Vec<u8>)> = Vec::new();
+    let mut files: Vec<(PathBuf, Vec<u8>)> = Vec::new();
     let o = &args.outputs;
     let wanted = [
         (&o.svg, ExportFormat::Svg),
         (&o.png, ExportFormat::Png(size)),
         (&o.geojson, ExportFormat::GeoJson),
+        (&o.gpkg, ExportFormat::GeoPackage),
+        (&o.shp, ExportFormat::Shapefile),
         (&o.csv, ExportFormat::Csv),
     ];
     for (path, format) in wanted {
         if let Some(path) = path {
-            let bytes = export::export_bytes(doc, format, &options)
+            let made = export::export_files(doc, format, &options, path)
                 .map_err(|e| anyhow!("{}: {e}", file.display()))
                 .bad_input()?;
-            files.push((path, bytes));
+            files.extend(made);
         }
     }
     let mut notes = Vec::new();
     for (path, bytes) in files {
-        write(path, &bytes).cannot_write()?;
+        write(&path, &bytes).cannot_write()?;
         notes.push(format!("wrote {}", path.display()));
     }
     Ok(Outcome::notes(notes))

@@ -6,7 +6,7 @@ use std::collections::BTreeMap;
 use std::sync::{Arc, OnceLock};
 
 use super::model::{
-    Border, Document, Group, GroupId, Palette, Region, RegionId, RegionPair, Settings,
+    Border, Crs, Document, Group, GroupId, Palette, Region, RegionId, RegionPair, Settings,
 };
 use super::store::{BorderIndex, Borders, Regions, SlotLookup};
 
@@ -45,6 +45,7 @@ pub struct DocumentBuilder {
     colours: Vec<(RegionId, u32)>,
     next_region_id: u64,
     next_group_id: u64,
+    crs: Option<Crs>,
 }
 
 impl DocumentBuilder {
@@ -59,6 +60,11 @@ impl DocumentBuilder {
     }
     pub fn settings(&mut self, settings: Settings) -> &mut Self {
         self.settings = settings;
+        self
+    }
+    /// The coordinate system of the world units (see [`Document::crs`]).
+    pub fn crs(&mut self, crs: Option<Crs>) -> &mut Self {
+        self.crs = crs;
         self
     }
     pub fn palette(&mut self, palette: Palette) -> &mut Self {
@@ -182,6 +188,7 @@ impl DocumentBuilder {
             next_group_id,
             revision: 0,
             index,
+            crs: self.crs,
         })
     }
 }

@@ -453,6 +453,18 @@ impl Units {
     }
 }
 
+/// A coordinate reference system as a source file named it: the system of a planar map's world
+/// units, written back by the GIS exports.
+#[derive(Clone, Debug, PartialEq, Default)]
+pub struct Crs {
+    /// Its name (for example "NAD83 / Conus Albers"); may be empty.
+    pub name: String,
+    /// Its EPSG code, when the file gave one.
+    pub epsg: Option<u32>,
+    /// Its definition as well-known text, when the file had one.
+    pub wkt: Option<String>,
+}
+
 /// Project settings that decide which recorded borders constrain the colouring.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Settings {
@@ -498,6 +510,9 @@ pub struct Document {
     pub(super) next_group_id: u64,
     /// Increases on every change; not saved. Analysis results carry the revision they were made for.
     pub(super) revision: u64,
+    /// The coordinate system of a planar map imported from a file that named one; set when the
+    /// document is built, never edited.
+    pub(super) crs: Option<Crs>,
     /// Derived from regions and borders when first asked for after a change.
     pub(super) index: OnceLock<Arc<BorderIndex>>,
 }
@@ -512,6 +527,7 @@ impl PartialEq for Document {
             && self.groups == other.groups
             && self.regions == other.regions
             && self.borders == other.borders
+            && self.crs == other.crs
     }
 }
 
@@ -533,6 +549,11 @@ impl Document {
     /// Which recorded borders constrain the colouring, and what world units mean.
     pub fn settings(&self) -> &Settings {
         &self.settings
+    }
+    /// The coordinate system of the world units of a planar map imported from a file that named
+    /// one (a projected GeoPackage layer, a Shapefile's `.prj`); `None` otherwise.
+    pub fn crs(&self) -> Option<&Crs> {
+        self.crs.as_ref()
     }
     /// The fill colours.
     pub fn palette(&self) -> &Palette {

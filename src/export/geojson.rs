@@ -81,9 +81,17 @@ fn clip_at_180(ring: &[Point], west: bool) -> Vec<Point> {
     out
 }
 
-/// One polygon in longitude/latitude, as one or two GeoJSON polygons: a polygon that crosses the
-/// 180-degree meridian is cut there, as RFC 7946 section 3.1.9 asks.
-fn polygons_lon_lat(projection: &LambertAzimuthalEqualArea, polygon: &Polygon) -> Vec<Value> {
+/// A polygon ready for a GIS format: its exterior ring (counter-clockwise) and holes
+/// (clockwise), open (the first position is not repeated), in output coordinates.
+pub(super) type OutputPolygon = (Vec<Point>, Vec<Vec<Point>>);
+
+/// One polygon in longitude/latitude, as one or two polygons: a polygon that crosses the
+/// 180-degree meridian is cut there, as RFC 7946 section 3.1.9 asks (and as GIS formats in
+/// longitude/latitude expect). Positions are rounded to 7 decimals (about 1 cm).
+pub(super) fn polygons_lon_lat(
+    projection: &LambertAzimuthalEqualArea,
+    polygon: &Polygon,
+) -> Vec<OutputPolygon> {
     let mut exterior: Vec<Point> = polygon
         .exterior
         .iter()
@@ -127,30 +135,51 @@ fn polygons_lon_lat(projection: &LambertAzimuthalEqualArea, polygon: &Polygon) -
     } else {
         vec![(exterior, holes, 0.0)]
     };
-    let close = |ring: Vec<Point>, offset: f64| -> Value {
-        let mut out: Vec<Value> = ring
-            .iter()
-            .map(|p| json!([round7(p[0] + offset), round7(p[1])]))
-            .collect();
-        if let Some(first) = out.first().cloned() {
-            out.push(first);
-        }
-        Value::Array(out)
+    let finish = |ring: Vec<Point>, offset: f64| -> Vec<Point> {
+        ring.iter()
+            .map(|p| [round7(p[0] + offset), round7(p[1])])
+            .collect()
     };
     pieces
         .into_iter()
         .filter(|(ext, _, _)| ext.len() >= 3 && ring_area(ext).abs() > 0.0)
         .map(|(ext, holes, offset)| {
-            let mut rings = vec![close(oriented(ext, true), offset)];
-            rings.extend(
-                holes
-                    .into_iter()
-                    .filter(|h| h.len() >= 3 && ring_area(h).abs() > 0.0)
-                    .map(|h| close(oriented(h, false), offset)),
-            );
-            Value::Array(rings)
+            let holes = holes
+                .into_iter()
+                .filter(|h| h.len() >= 3 && ring_area(h).abs() > 0.0)
+                .map(|h| finish(oriented(h, false), offset))
+                .collect();
+            (finish(oriented(ext, true), offset), holes)
         })
         .collect()
+}
+
+/// A polygon in the map's own planar units, oriented as [`OutputPolygon`] says.
+pub(super) fn polygon_planar(polygon: &Polygon) -> Option<OutputPolygon> {
+    (polygon.exterior.len() >= 3 && ring_area(&polygon.exterior).abs() > 0.0).then(|| {
+        let holes = polygon
+            .holes
+            .iter()
+            .filter(|h| h.len() >= 3 && ring_area(h).abs() > 0.0)
+            .map(|h| oriented(h.clone(), false))
+            .collect();
+        (oriented(polygon.exterior.clone(), true), holes)
+    })
+}
+
+/// A ring as GeoJSON coordinates, closed.
+fn closed(ring: &[Point]) -> Value {
+    let mut out: Vec<Value> = ring.iter().map(|p| json!([p[0], p[1]])).collect();
+    if let Some(first) = out.first().cloned() {
+        out.push(first);
+    }
+    Value::Array(out)
+}
+
+fn polygon_value((exterior, holes): &OutputPolygon) -> Value {
+    let mut rings = vec![closed(exterior)];
+    rings.extend(holes.iter().map(|h| closed(h)));
+    Value::Array(rings)
 }
 
 fn attr(value: &AttrValue) -> Value {
@@ -220,6 +249,7 @@ pub fn to_geojson(doc: &Document) -> Result<String, ExportError> {
                     .polygons
                     .iter()
                     .flat_map(|p| polygons_lon_lat(&projection, p))
+                    .map(|p| polygon_value(&p))
                     .collect();
                 if polygons.len() == 1 {
                     json!({ "type": "Polygon", "coordinates": polygons[0] })

@@ -1,4 +1,5 @@
-//! Export: SVG and PNG pictures for print, GeoJSON for GIS, CSV for spreadsheets.
+//! Export: SVG and PNG pictures for print, GeoJSON, GeoPackage and Shapefile for GIS, CSV for
+//! spreadsheets.
 //!
 //! Pure functions over a [`Document`](crate::doc::Document) that return text or bytes; the
 //! command line and the editor write them where the user asked. Beside `formats` in the layering:
@@ -6,12 +7,17 @@
 
 pub mod csv;
 pub mod geojson;
+pub mod gis;
+pub mod gpkg;
 pub mod png;
+pub mod shp;
 pub mod svg;
 
 pub use csv::to_csv;
 pub use geojson::to_geojson;
+pub use gpkg::to_geopackage;
 pub use png::{PngSize, to_png};
+pub use shp::to_shapefile;
 pub use svg::{MapFrame, SvgOptions, to_svg};
 
 /// Why an export could not be made.
@@ -35,6 +41,8 @@ pub enum ExportFormat {
     Svg,
     Png(PngSize),
     GeoJson,
+    GeoPackage,
+    Shapefile,
     Csv,
 }
 
@@ -45,6 +53,8 @@ impl ExportFormat {
             ExportFormat::Svg => "svg",
             ExportFormat::Png(_) => "png",
             ExportFormat::GeoJson => "geojson",
+            ExportFormat::GeoPackage => "gpkg",
+            ExportFormat::Shapefile => "shp",
             ExportFormat::Csv => "csv",
         }
     }
@@ -55,21 +65,40 @@ impl ExportFormat {
             ExportFormat::Svg => "SVG picture",
             ExportFormat::Png(_) => "PNG picture",
             ExportFormat::GeoJson => "GeoJSON for GIS",
+            ExportFormat::GeoPackage => "GeoPackage for GIS",
+            ExportFormat::Shapefile => "Shapefile for GIS",
             ExportFormat::Csv => "CSV table",
         }
     }
 }
 
-/// The bytes of one export; `options` matter only to SVG and PNG.
-pub fn export_bytes(
+/// The files of one export to `path`: one file, except for a shapefile, which is the `.shp`
+/// at `path` with its `.shx`, `.dbf`, `.cpg` and (when the coordinate system is known) `.prj`
+/// beside it. `options` matter only to SVG and PNG. Nothing is written here.
+pub fn export_files(
     doc: &crate::doc::Document,
     format: ExportFormat,
     options: &SvgOptions,
-) -> Result<Vec<u8>, ExportError> {
+    path: &std::path::Path,
+) -> Result<Vec<(std::path::PathBuf, Vec<u8>)>, ExportError> {
     Ok(match format {
-        ExportFormat::Svg => to_svg(doc, options)?.into_bytes(),
-        ExportFormat::Png(size) => to_png(doc, options, size)?,
-        ExportFormat::GeoJson => to_geojson(doc)?.into_bytes(),
-        ExportFormat::Csv => to_csv(doc).into_bytes(),
+        ExportFormat::Svg => vec![(path.to_path_buf(), to_svg(doc, options)?.into_bytes())],
+        ExportFormat::Png(size) => vec![(path.to_path_buf(), to_png(doc, options, size)?)],
+        ExportFormat::GeoJson => vec![(path.to_path_buf(), to_geojson(doc)?.into_bytes())],
+        ExportFormat::Csv => vec![(path.to_path_buf(), to_csv(doc).into_bytes())],
+        ExportFormat::GeoPackage => {
+            let stem = path
+                .file_stem()
+                .map(|s| s.to_string_lossy().into_owned())
+                .unwrap_or_default();
+            vec![(
+                path.to_path_buf(),
+                to_geopackage(doc, &gpkg::layer_name(&stem))?,
+            )]
+        }
+        ExportFormat::Shapefile => to_shapefile(doc)?
+            .into_iter()
+            .map(|(extension, bytes)| (path.with_extension(extension), bytes))
+            .collect(),
     })
 }

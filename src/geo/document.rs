@@ -39,6 +39,7 @@ impl ImportedMap {
             projection_origin: self.projection.map(|p| [p.lon0_deg, p.lat0_deg]),
         });
         document.reserve(self.regions.len(), self.borders.len() + self.excluded.len());
+        document.crs(self.crs);
 
         // A contact recorded twice keeps its last record, as inserting into a map would. Both
         // lists come sorted from the importers; they are merged as they are consumed, without a

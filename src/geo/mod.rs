@@ -253,16 +253,8 @@ pub struct ImportedMap {
     pub crs: Option<Crs>,
 }
 
-/// A coordinate reference system as a file names it.
-#[derive(Clone, Debug, PartialEq, Default)]
-pub struct Crs {
-    /// Its name (for example "NAD83 / Conus Albers"); may be empty.
-    pub name: String,
-    /// Its EPSG code, when the file gives one.
-    pub epsg: Option<u32>,
-    /// Its definition as well-known text, when the file has one.
-    pub wkt: Option<String>,
-}
+/// A coordinate reference system as a file names it (the document keeps it).
+pub use crate::doc::Crs;
 
 /// Which contacts count as borders.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]

@@ -92,12 +92,14 @@ impl Default for ExportOptions {
     }
 }
 
-/// Makes the bytes of an export (run on the worker: a PNG of a large map takes a while).
-pub fn export_bytes(
+/// Makes the files of an export to `path` (run on the worker: a PNG of a large map takes a
+/// while); a shapefile is several files beside `path`.
+pub fn export_files(
     doc: &Document,
     format: ExportFormat,
     options: ExportOptions,
-) -> Result<Vec<u8>, crate::export::ExportError> {
+    path: &Path,
+) -> Result<Vec<(PathBuf, Vec<u8>)>, crate::export::ExportError> {
     let svg = crate::export::SvgOptions {
         width_mm: options.width_mm,
         labels: options.labels,
@@ -110,9 +112,11 @@ pub fn export_bytes(
             crate::export::ExportFormat::Png(crate::export::PngSize::Dpi(options.dpi as f64))
         }
         ExportFormat::GeoJson => crate::export::ExportFormat::GeoJson,
+        ExportFormat::GeoPackage => crate::export::ExportFormat::GeoPackage,
+        ExportFormat::Shapefile => crate::export::ExportFormat::Shapefile,
         ExportFormat::Csv => crate::export::ExportFormat::Csv,
     };
-    crate::export::export_bytes(doc, format, &svg)
+    crate::export::export_files(doc, format, &svg, path)
 }
 
 /// Which certificate the map highlights.
@@ -659,12 +663,16 @@ impl App {
         let options = self.export_options;
         let revision = self.session.doc().revision();
         let job = move |_: &crate::worker::JobContext| {
-            let result = export_bytes(&snapshot, format, options)
+            let result = export_files(&snapshot, format, options, &path)
                 .map_err(|e| e.to_string())
-                .and_then(|bytes| {
-                    crate::atomic::write_atomically(&path, &bytes)
-                        .map(|()| bytes.len())
-                        .map_err(|e| format!("cannot write {}: {e}", path.display()))
+                .and_then(|files| {
+                    let mut total = 0;
+                    for (file, bytes) in &files {
+                        crate::atomic::write_atomically(file, bytes)
+                            .map_err(|e| format!("cannot write {}: {e}", file.display()))?;
+                        total += bytes.len();
+                    }
+                    Ok(total)
                 });
             JobResult::Exported {
                 format,

@@ -73,15 +73,21 @@ pub enum ExportFormat {
     Png,
     /// The regions with their colours, for a GIS.
     GeoJson,
+    /// The same as a GeoPackage layer.
+    GeoPackage,
+    /// The same as a Shapefile (several files).
+    Shapefile,
     /// A table of regions and colours.
     Csv,
 }
 
 impl ExportFormat {
-    pub const ALL: [ExportFormat; 4] = [
+    pub const ALL: [ExportFormat; 6] = [
         ExportFormat::Svg,
         ExportFormat::Png,
         ExportFormat::GeoJson,
+        ExportFormat::GeoPackage,
+        ExportFormat::Shapefile,
         ExportFormat::Csv,
     ];
 
@@ -91,6 +97,8 @@ impl ExportFormat {
             ExportFormat::Svg => "map.svg",
             ExportFormat::Png => "map.png",
             ExportFormat::GeoJson => "map.geojson",
+            ExportFormat::GeoPackage => "map.gpkg",
+            ExportFormat::Shapefile => "map.shp",
             ExportFormat::Csv => "regions.csv",
         }
     }
@@ -101,6 +109,8 @@ impl ExportFormat {
             ExportFormat::Svg => "SVG picture",
             ExportFormat::Png => "PNG picture",
             ExportFormat::GeoJson => "GeoJSON",
+            ExportFormat::GeoPackage => "GeoPackage",
+            ExportFormat::Shapefile => "Shapefile",
             ExportFormat::Csv => "CSV table",
         }
     }
@@ -250,6 +260,8 @@ impl Command {
             Command::Export(ExportFormat::Svg) => "Picture for print (SVG)…".into(),
             Command::Export(ExportFormat::Png) => "Picture (PNG)…".into(),
             Command::Export(ExportFormat::GeoJson) => "Regions for GIS (GeoJSON)…".into(),
+            Command::Export(ExportFormat::GeoPackage) => "Regions for GIS (GeoPackage)…".into(),
+            Command::Export(ExportFormat::Shapefile) => "Regions for GIS (Shapefile)…".into(),
             Command::Export(ExportFormat::Csv) => "Table of regions (CSV)…".into(),
         }
     }
@@ -299,6 +311,12 @@ impl Command {
             }
             Command::Export(ExportFormat::GeoJson) => {
                 "Write the regions with their colour number and fill as GeoJSON (longitude and latitude) for a GIS"
+            }
+            Command::Export(ExportFormat::GeoPackage) => {
+                "Write the regions with their attributes, colour number and fill as a GeoPackage layer (longitude and latitude, or the source's own coordinate system) for a GIS"
+            }
+            Command::Export(ExportFormat::Shapefile) => {
+                "Write the regions with their attributes as a Shapefile (.shp, .shx, .dbf, .prj); the colour number is tinct_col and the fill tinct_fill"
             }
             Command::Export(ExportFormat::Csv) => {
                 "Write one row per region: id, name, colour number, fill, group and pin"

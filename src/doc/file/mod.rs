@@ -88,6 +88,20 @@ struct SettingsV1 {
     /// Added within version 1 (optional): the projection centre `(longitude, latitude)`.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     projection_origin: Option<(f64, f64)>,
+    /// Added within version 1 (optional): the coordinate system of a planar map's units, as the
+    /// imported file named it.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    coordinate_system: Option<CrsV1>,
+}
+
+#[derive(Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct CrsV1 {
+    name: String,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    epsg: Option<u32>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    wkt: Option<String>,
 }
 
 #[derive(Serialize, Deserialize)]
@@ -371,6 +385,11 @@ fn to_records(doc: &Document) -> ProjectOut<'_> {
                 Units::Unitless => UnitsV1::Unitless,
             },
             projection_origin: doc.settings.projection_origin.map(|[x, y]| (x, y)),
+            coordinate_system: doc.crs.as_ref().map(|c| CrsV1 {
+                name: c.name.clone(),
+                epsg: c.epsg,
+                wkt: c.wkt.clone(),
+            }),
         },
         palette_name: &doc.palette.name,
         palette: doc
@@ -563,6 +582,11 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
         },
         projection_origin: r.settings.projection_origin.map(|(x, y)| [x, y]),
     });
+    doc.crs(r.settings.coordinate_system.map(|c| crate::doc::Crs {
+        name: c.name,
+        epsg: c.epsg,
+        wkt: c.wkt,
+    }));
     let mut slots = Vec::with_capacity(r.palette.len());
     for (i, s) in r.palette.into_iter().enumerate() {
         let Some(colour) = Rgb::from_hex(&s.colour) else {

@@ -494,6 +494,37 @@ fn every_export_is_reachable_from_the_export_menu_and_written_where_asked() {
             .iter()
             .all(|f| f["properties"]["tinct_colour"].is_u64())
     );
+    // The same map back into a GIS as a GeoPackage and as a Shapefile (checked in depth, and
+    // by GDAL, in tests/gis_export.rs).
+    let regions = h.state().session.doc().regions().len();
+    for (item, file, name) in [
+        ("Regions for GIS (GeoPackage)…", "states.gpkg", "GeoPackage"),
+        ("Regions for GIS (Shapefile)…", "states.shp", "Shapefile"),
+    ] {
+        let out = dir.path().join(file);
+        let message = export_from_menu(&mut h, item, &out);
+        assert!(
+            message.starts_with(&format!("Wrote the {name}")),
+            "{message}"
+        );
+        let back = tinct::geo::import_path(&out, &Default::default()).unwrap();
+        assert_eq!(back.regions.len(), regions, "{file}");
+    }
+    assert!(dir.path().join("states.dbf").exists());
+}
+
+#[test]
+fn geopackage_and_flatgeobuf_files_open_in_the_editor() {
+    // GDAL-written copies of the 14 states (tests/data/geo/PROVENANCE.md).
+    for file in ["us_states_subset.gpkg", "us_states_subset.fgb"] {
+        let mut h = harness(App::new(
+            None,
+            Some(root().join("tests/data/geo").join(file)),
+        ));
+        h.run_steps(3);
+        assert_eq!(h.state().session.doc().regions().len(), 14, "{file}");
+        assert!(h.query_all_by_label("Colorado").next().is_some(), "{file}");
+    }
 }
 
 /// An edge-list file (vertices from 0) in `dir`, opened in the editor.
@@ -585,5 +616,223 @@ fn discarding_for_open_then_cancelling_the_path_prompt_loses_nothing() {
     assert_eq!(
         h.state().session.doc().regions()[&id].name,
         "Renamed by hand"
+    );
+}
+
+// ---- Flows driven by the keyboard alone ----
+
+/// Types `text` into whatever has the keyboard focus, as key presses do.
+fn type_keys(h: &mut Harness<'static, App>, text: &str) {
+    h.event(egui::Event::Text(text.to_string()));
+    h.run_steps(2);
+}
+
+fn press(h: &mut Harness<'static, App>, modifiers: egui::Modifiers, key: egui::Key) {
+    h.key_press_modifiers(modifiers, key);
+    h.run_steps(3);
+}
+
+/// The default map with one edit (a region renamed), so that it has unsaved changes.
+fn edited(state: &std::path::Path, path: Option<std::path::PathBuf>) -> Harness<'static, App> {
+    let mut h = harness(App::new_with(None, path, Some(state.to_path_buf())));
+    let (id, region) = {
+        let doc = h.state().session.doc();
+        let (id, r) = doc.land_regions().next().unwrap();
+        (id, r.clone())
+    };
+    h.state_mut().edit(tinct::doc::Edit::PutRegion {
+        id,
+        region: Some(tinct::doc::Region {
+            name: "Renamed by the test".into(),
+            ..region
+        }),
+    });
+    h.run_steps(2);
+    assert!(h.state().session.is_dirty());
+    h
+}
+
+#[test]
+fn save_as_by_keyboard_takes_the_typed_path_and_no_tool_shortcut_fires() {
+    let dir = tempfile::tempdir().unwrap();
+    let project = dir.path().join("valleys.tinct");
+    std::fs::copy(root().join("sample-maps/three-valleys.tinct"), &project).unwrap();
+    let mut h = edited(&dir.path().join("state"), Some(project.clone()));
+    let tool = h.state().view.tool;
+    // Ctrl+Shift+S is Save as, not Save (which would write the project file without asking).
+    press(
+        &mut h,
+        egui::Modifiers::COMMAND | egui::Modifiers::SHIFT,
+        egui::Key::S,
+    );
+    assert!(h.query_by_label("Save the project as").is_some());
+    assert!(h.state().session.is_dirty(), "nothing was saved yet");
+    // The field has the focus: the letters go into it ("b", "m", "p", "g", "w" are tools).
+    let path = dir.path().join("by keyboard/bmpgw.tinct");
+    std::fs::create_dir_all(path.parent().unwrap()).unwrap();
+    type_keys(&mut h, &path.display().to_string());
+    assert_eq!(
+        h.state().view.tool,
+        tool,
+        "no one-key shortcut fired while typing"
+    );
+    press(&mut h, egui::Modifiers::NONE, egui::Key::Enter);
+    assert!(path.exists(), "{}", last_message(&h));
+    assert!(!h.state().session.is_dirty());
+    let saved = doc::file::load(&path).unwrap();
+    assert!(
+        saved
+            .regions()
+            .iter()
+            .any(|(_, r)| r.name == "Renamed by the test")
+    );
+}
+
+#[test]
+fn save_on_an_imported_file_asks_for_a_project_name_beside_it() {
+    let dir = tempfile::tempdir().unwrap();
+    let source = dir.path().join("states.geojson");
+    std::fs::copy(
+        root().join("tests/data/geo/us_states_subset.geojson"),
+        &source,
+    )
+    .unwrap();
+    let mut h = harness(App::new_with(
+        None,
+        Some(source),
+        Some(dir.path().join("state")),
+    ));
+    h.run_steps(3);
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::S);
+    assert!(h.query_by_label("Save the project as").is_some());
+    let suggested = dir.path().join("states.tinct").display().to_string();
+    text_input_with_value(&h, &suggested);
+    // The suggestion is selected: Enter takes it as it is.
+    press(&mut h, egui::Modifiers::NONE, egui::Key::Enter);
+    assert!(
+        dir.path().join("states.tinct").exists(),
+        "{}",
+        last_message(&h)
+    );
+}
+
+#[test]
+fn save_first_saves_and_then_opens_the_prompt_it_interrupted() {
+    let dir = tempfile::tempdir().unwrap();
+    let project = dir.path().join("valleys.tinct");
+    std::fs::copy(root().join("sample-maps/three-valleys.tinct"), &project).unwrap();
+    let mut h = edited(&dir.path().join("state"), Some(project.clone()));
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::O);
+    h.get_by_label("Save first").click();
+    h.run_steps(4);
+    assert!(!h.state().session.is_dirty(), "{}", last_message(&h));
+    let saved = doc::file::load(&project).unwrap();
+    assert!(
+        saved
+            .regions()
+            .iter()
+            .any(|(_, r)| r.name == "Renamed by the test")
+    );
+    assert!(
+        h.query_by_label("Open a file").is_some(),
+        "the Open prompt follows the save"
+    );
+}
+
+#[test]
+fn save_first_on_a_new_map_asks_where_and_a_cancel_keeps_the_work_unsaved() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = edited(&dir.path().join("state"), None);
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::N);
+    h.get_by_label("Save first").click();
+    h.run_steps(4);
+    assert!(h.query_by_label("Save the project as").is_some());
+    // Escape cancels the save: nothing happens to the work, and New does not run later.
+    press(&mut h, egui::Modifiers::NONE, egui::Key::Escape);
+    assert!(h.query_by_label("Save the project as").is_none());
+    assert!(h.state().session.is_dirty());
+    assert!(h.state().after_save.is_none());
+    assert!(
+        h.state()
+            .session
+            .doc()
+            .regions()
+            .iter()
+            .any(|(_, r)| r.name == "Renamed by the test")
+    );
+}
+
+#[test]
+fn escape_closes_the_command_list_the_path_prompt_and_an_open_menu() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(App::new_with(None, None, Some(dir.path().join("state"))));
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::K);
+    assert!(h.state().command_search.is_some());
+    press(&mut h, egui::Modifiers::NONE, egui::Key::Escape);
+    assert!(h.state().command_search.is_none());
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::O);
+    assert!(h.query_by_label("Open a file").is_some());
+    press(&mut h, egui::Modifiers::NONE, egui::Key::Escape);
+    assert!(h.query_by_label("Open a file").is_none());
+    h.get_by_label("File").click();
+    h.run_steps(2);
+    assert!(h.query_by_label_contains("Save as…").is_some());
+    press(&mut h, egui::Modifiers::NONE, egui::Key::Escape);
+    assert!(
+        h.query_by_label_contains("Save as…").is_none(),
+        "the menu closed"
+    );
+}
+
+#[test]
+fn the_command_list_runs_the_best_match_on_enter_and_the_arrows_move_the_choice() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(App::new_with(None, None, Some(dir.path().join("state"))));
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::K);
+    type_keys(&mut h, "with the fewest");
+    assert_eq!(h.state().command_choice, 0);
+    press(&mut h, egui::Modifiers::NONE, egui::Key::ArrowDown);
+    press(&mut h, egui::Modifiers::NONE, egui::Key::ArrowUp);
+    press(&mut h, egui::Modifiers::NONE, egui::Key::Enter);
+    assert!(h.state().command_search.is_none());
+    // Colour with the fewest colours ran: it applies at once or as soon as the analysis is in.
+    assert!(
+        !h.state().session.doc().colouring().is_empty() || h.state().apply_when_ready,
+        "{}",
+        last_message(&h)
+    );
+    // Down then Enter runs the second match instead.
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::K);
+    type_keys(&mut h, "save");
+    let second = tinct::ui::commands::search("save")[1];
+    press(&mut h, egui::Modifiers::NONE, egui::Key::ArrowDown);
+    assert_eq!(h.state().command_choice, 1);
+    press(&mut h, egui::Modifiers::NONE, egui::Key::Enter);
+    let title = match second {
+        tinct::ui::commands::Command::SaveAs => "Save the project as",
+        other => panic!("unexpected second match {other:?}"),
+    };
+    assert!(h.query_by_label(title).is_some());
+}
+
+#[test]
+fn an_export_with_a_mistyped_extension_gets_the_right_one_and_says_so() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(App::new_with(None, None, Some(dir.path().join("state"))));
+    let typed = dir.path().join("map.pn");
+    export_from_menu(&mut h, "Picture (PNG)…", &typed);
+    assert!(dir.path().join("map.png").exists());
+    assert!(!typed.exists());
+    assert!(
+        h.state()
+            .messages
+            .iter()
+            .any(|m| m.text.contains("ended in .pn") && m.text.contains("map.png")),
+        "{:?}",
+        h.state()
+            .messages
+            .iter()
+            .map(|m| &m.text)
+            .collect::<Vec<_>>()
     );
 }

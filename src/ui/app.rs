@@ -167,6 +167,25 @@ pub enum PathPurpose {
 pub struct PathPrompt {
     pub purpose: PathPurpose,
     pub text: String,
+    /// Whether its field has been given the keyboard focus (once, when it opens).
+    pub focused: bool,
+}
+
+impl PathPrompt {
+    pub fn new(purpose: PathPurpose, text: impl Into<String>) -> PathPrompt {
+        PathPrompt {
+            purpose,
+            text: text.into(),
+            focused: false,
+        }
+    }
+}
+
+/// The path a project is saved to by default: the document's file when it is a project, else
+/// the same name with the project extension (an imported `states.geojson` becomes
+/// `states.tinct` beside it).
+pub fn project_path_for(path: &Path) -> PathBuf {
+    path.with_extension(doc::file::EXTENSION)
 }
 
 /// Everything about how the map is shown; never saved in the project.
@@ -233,6 +252,11 @@ pub struct App {
     pub path_prompt: Option<PathPrompt>,
     /// A command waiting for the user to decide about unsaved changes.
     pub confirm_discard: Option<Command>,
+    /// The command the user interrupted with *Save first*: it runs once the save succeeds, and
+    /// is dropped if the save fails or its path prompt is cancelled.
+    pub after_save: Option<Command>,
+    /// The highlighted match in the command list (Enter runs it; the arrows move it).
+    pub command_choice: usize,
     /// The user agreed to discard unsaved changes for this command.
     pub discard_agreed: Option<Command>,
     pub command_search: Option<String>,
@@ -304,6 +328,8 @@ impl App {
             messages: Vec::new(),
             path_prompt: None,
             confirm_discard: None,
+            after_save: None,
+            command_choice: 0,
             discard_agreed: None,
             command_search: None,
             argument_step: None,
@@ -659,6 +685,30 @@ impl App {
     /// Writes an export on the worker (a picture of a large map takes a while); the result
     /// arrives as a message.
     pub fn export_to(&mut self, format: ExportFormat, path: PathBuf) {
+        // A mistyped or missing extension gets the format's own, and the user is told.
+        let extension = path
+            .extension()
+            .map(|e| e.to_string_lossy().to_ascii_lowercase());
+        let path = match extension {
+            Some(e) if format.extensions().contains(&e.as_str()) => path,
+            other => {
+                let fixed = path.with_extension(format.extensions()[0]);
+                let was = match other {
+                    Some(e) => format!("ended in .{e}"),
+                    None => "had no extension".to_string(),
+                };
+                self.say(
+                    Level::Warning,
+                    format!(
+                        "The name {was}; a {} file ends in .{}, so it is written as {}",
+                        format.name(),
+                        format.extensions()[0],
+                        fixed.display()
+                    ),
+                );
+                fixed
+            }
+        };
         let snapshot = crate::worker::snapshot(self.session.doc());
         let options = self.export_options;
         let revision = self.session.doc().revision();
@@ -786,8 +836,15 @@ impl App {
                     self.remember(&path);
                 }
                 self.say(Level::Info, format!("Saved {}", path.display()));
+                // The command that *Save first* interrupted goes on now that nothing is unsaved.
+                if let Some(command) = self.after_save.take() {
+                    self.emit(command);
+                }
             }
-            Err(e) => self.say(Level::Error, format!("Not saved: {e:#}")),
+            Err(e) => {
+                self.after_save = None;
+                self.say(Level::Error, format!("Not saved: {e:#}"));
+            }
         }
     }
 
@@ -935,26 +992,22 @@ impl App {
         self.confirm_discard = None;
         match command {
             Command::New => self.replace_session(Session::new(Document::new("Untitled"), None)),
-            Command::Open => {
-                self.path_prompt = Some(PathPrompt {
-                    purpose: PathPurpose::Open,
-                    text: String::new(),
-                })
-            }
+            Command::Open => self.path_prompt = Some(PathPrompt::new(PathPurpose::Open, "")),
+            // Only a project file is saved over; an imported file's document is saved as a
+            // project (asking where, with the project name beside the source suggested).
             Command::Save => match self.session.path().map(Path::to_path_buf) {
-                Some(path) => self.save_to(&path),
-                None => self.run(ctx, Command::SaveAs),
+                Some(path) if path.extension().is_some_and(|e| e == doc::file::EXTENSION) => {
+                    self.save_to(&path)
+                }
+                _ => self.run(ctx, Command::SaveAs),
             },
             Command::SaveAs => {
                 let text = self
                     .session
                     .path()
-                    .map(|p| p.display().to_string())
+                    .map(|p| project_path_for(p).display().to_string())
                     .unwrap_or_default();
-                self.path_prompt = Some(PathPrompt {
-                    purpose: PathPurpose::SaveAs,
-                    text,
-                });
+                self.path_prompt = Some(PathPrompt::new(PathPurpose::SaveAs, text));
             }
             Command::Quit => {
                 self.quit_confirmed = true;
@@ -984,7 +1037,10 @@ impl App {
             Command::FitView => self.view.fit_pending = true,
             Command::ToggleBorders => self.view.show_borders = !self.view.show_borders,
             Command::ToggleLabels => self.view.show_labels = !self.view.show_labels,
-            Command::CommandList => self.command_search = Some(String::new()),
+            Command::CommandList => {
+                self.command_search = Some(String::new());
+                self.command_choice = 0;
+            }
             Command::UseTool(tool) => {
                 self.view.tool = tool;
                 self.view.border_first = None;
@@ -1020,10 +1076,7 @@ impl App {
                 self.run_job(revision, JobKind::Other, Box::new(job));
             }
             Command::ExportProof => {
-                self.path_prompt = Some(PathPrompt {
-                    purpose: PathPurpose::ExportProof,
-                    text: String::new(),
-                })
+                self.path_prompt = Some(PathPrompt::new(PathPurpose::ExportProof, ""))
             }
             Command::ClearColours => {
                 if !self.session.doc().colouring().is_empty() {
@@ -1062,18 +1115,29 @@ impl App {
                     .and_then(|p| p.parent())
                     .map(|dir| dir.join(format.default_file_name()).display().to_string())
                     .unwrap_or_else(|| format.default_file_name().to_string());
-                self.path_prompt = Some(PathPrompt {
-                    purpose: PathPurpose::Export(format),
-                    text,
-                });
+                self.path_prompt = Some(PathPrompt::new(PathPurpose::Export(format), text));
             }
         }
     }
 
     /// Keyboard shortcuts: single keys only when no text field has focus.
     pub fn shortcuts(&mut self, ctx: &egui::Context) {
+        if ctx.input_mut(|i| i.consume_key(egui::Modifiers::NONE, egui::Key::Escape)) {
+            self.escape(ctx);
+        }
         let typing = ctx.egui_wants_keyboard_input();
-        for command in Command::all() {
+        // The most specific shortcut first: Ctrl+Shift+S is Save as, and must not be taken
+        // by Save's Ctrl+S (egui matches a shortcut even when more modifiers are held).
+        let mut commands = Command::all();
+        commands.sort_by_key(|c| {
+            std::cmp::Reverse(c.shortcut().map_or(0, |s| {
+                [s.modifiers.command, s.modifiers.shift, s.modifiers.alt]
+                    .iter()
+                    .filter(|m| **m)
+                    .count()
+            }))
+        });
+        for command in commands {
             let Some(shortcut) = command.shortcut() else {
                 continue;
             };
@@ -1083,6 +1147,27 @@ impl App {
             if ctx.input_mut(|i| i.consume_shortcut(&shortcut)) {
                 self.emit(command);
             }
+        }
+    }
+
+    /// Escape closes what is open, the innermost first: the command list, a path prompt, the
+    /// unsaved-changes question (as Cancel), the palette window, an open menu; with nothing
+    /// open it clears the selection.
+    fn escape(&mut self, ctx: &egui::Context) {
+        if self.command_search.is_none() && self.path_prompt.is_some() {
+            self.after_save = None;
+        }
+        let closed = self.command_search.take().is_some()
+            || self.path_prompt.take().is_some()
+            || self.confirm_discard.take().is_some()
+            || self.palette_editor.take().is_some();
+        if closed {
+            return;
+        }
+        if egui::Popup::is_any_open(ctx) {
+            egui::Popup::close_all(ctx);
+        } else {
+            self.emit(Command::ClearSelection);
         }
     }
 }

@@ -103,6 +103,18 @@ impl ExportFormat {
         }
     }
 
+    /// The file name extensions of the format (the first is the one added when missing).
+    pub fn extensions(self) -> &'static [&'static str] {
+        match self {
+            ExportFormat::Svg => &["svg"],
+            ExportFormat::Png => &["png"],
+            ExportFormat::GeoJson => &["geojson", "json"],
+            ExportFormat::GeoPackage => &["gpkg"],
+            ExportFormat::Shapefile => &["shp"],
+            ExportFormat::Csv => &["csv"],
+        }
+    }
+
     /// The short name used in messages.
     pub fn name(self) -> &'static str {
         match self {
@@ -372,16 +384,35 @@ impl Command {
     }
 }
 
-/// Commands whose label contains every word of `query` (case-insensitive), in menu order.
+/// Commands whose label or description contains every word of `query` (case-insensitive),
+/// best first: those whose label holds the words as whole words, then those whose label holds
+/// them at all, then those that match only in the description; menu order within each.
 pub fn search(query: &str) -> Vec<Command> {
     let words: Vec<String> = query.split_whitespace().map(str::to_lowercase).collect();
-    Command::all()
+    let mut found: Vec<(u8, Command)> = Command::all()
         .into_iter()
-        .filter(|c| {
-            let text = format!("{} {}", c.label(), c.tooltip()).to_lowercase();
-            words.iter().all(|w| text.contains(w))
+        .filter_map(|c| {
+            let label = c.label().to_lowercase();
+            let text = format!("{label} {}", c.tooltip().to_lowercase());
+            if !words.iter().all(|w| text.contains(w)) {
+                return None;
+            }
+            let label_words: Vec<&str> = label
+                .split(|ch: char| !ch.is_alphanumeric())
+                .filter(|w| !w.is_empty())
+                .collect();
+            let rank = if words.iter().all(|w| label_words.contains(&w.as_str())) {
+                0
+            } else if words.iter().all(|w| label.contains(w)) {
+                1
+            } else {
+                2
+            };
+            Some((rank, c))
         })
-        .collect()
+        .collect();
+    found.sort_by_key(|(rank, _)| *rank);
+    found.into_iter().map(|(_, c)| c).collect()
 }
 
 #[cfg(test)]
@@ -404,5 +435,12 @@ mod tests {
         assert_eq!(search("remove colour"), vec![Command::ClearColours]);
         assert!(search("tool").len() >= Tool::ALL.len());
         assert!(search("no such command at all").is_empty());
+    }
+
+    #[test]
+    fn search_puts_whole_words_of_the_label_first() {
+        assert_eq!(search("with the fewest")[0], Command::ColourFewest);
+        assert_eq!(search("save as")[0], Command::SaveAs);
+        assert_eq!(search("open")[0], Command::Open);
     }
 }

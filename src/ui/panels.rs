@@ -925,6 +925,20 @@ fn export_options_ui(ui: &mut egui::Ui, format: ExportFormat, options: &mut Expo
     });
 }
 
+/// Gives a text field that has just opened the keyboard focus, with its text selected, so that
+/// typing replaces a suggested path and one-key shortcuts stay quiet.
+fn focus_and_select(ui: &egui::Ui, response: &egui::Response, text: &str) {
+    response.request_focus();
+    if let Some(mut state) = egui::text_edit::TextEditState::load(ui.ctx(), response.id) {
+        state
+            .cursor
+            .set_char_range(Some(egui::text_selection::CCursorRange::select_all_str(
+                text,
+            )));
+        state.store(ui.ctx(), response.id);
+    }
+}
+
 /// Dialog windows: the path prompt, the unsaved-changes question and the command list.
 pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
     if let Some(offer) = &app.recovery_offer {
@@ -983,7 +997,9 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
         });
         match choice {
             Some(0) => {
+                // Save, then carry on with what was interrupted (once the save succeeds).
                 app.confirm_discard = None;
+                app.after_save = Some(command);
                 app.emit(Command::Save);
             }
             Some(1) => {
@@ -1017,6 +1033,10 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
                             .labelled_by(label.id)
                     })
                     .inner;
+                if !prompt.focused {
+                    prompt.focused = true;
+                    focus_and_select(ui, &r, &prompt.text);
+                }
                 if r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter)) {
                     action = Some(0);
                 }
@@ -1054,11 +1074,15 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
                 }
             }
             Some(1) => app.browse(purpose),
-            Some(2) => app.path_prompt = None,
+            Some(2) => {
+                app.path_prompt = None;
+                app.after_save = None;
+            }
             _ => {}
         }
     }
     if let Some(query) = &mut app.command_search {
+        let choice = &mut app.command_choice;
         let mut chosen = None;
         let mut open = true;
         egui::Window::new("Find a command")
@@ -1072,17 +1096,43 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
                     egui::WidgetInfo::labeled(egui::Role::TextInput, true, "Command search")
                 });
                 r.request_focus();
-                for command in search(query) {
+                let matches = search(query);
+                if r.changed() {
+                    *choice = 0;
+                }
+                // Arrows move the choice, Enter runs it (the best match, unless moved).
+                let (up, down, enter) = ui.input_mut(|i| {
+                    (
+                        i.consume_key(egui::Modifiers::NONE, egui::Key::ArrowUp),
+                        i.consume_key(egui::Modifiers::NONE, egui::Key::ArrowDown),
+                        i.consume_key(egui::Modifiers::NONE, egui::Key::Enter),
+                    )
+                });
+                if !matches.is_empty() {
+                    if down {
+                        *choice = (*choice + 1) % matches.len();
+                    }
+                    if up {
+                        *choice = (*choice + matches.len() - 1) % matches.len();
+                    }
+                    *choice = (*choice).min(matches.len() - 1);
+                    if enter {
+                        chosen = Some(matches[*choice]);
+                    }
+                } else if !query.trim().is_empty() {
+                    ui.label("No command has these words in its name");
+                }
+                for (i, command) in matches.iter().enumerate() {
                     let key = command
                         .shortcut()
                         .map(|s| ui.ctx().format_shortcut(&s))
                         .unwrap_or_default();
                     if ui
-                        .button(format!("{}    {key}", command.label()))
+                        .selectable_label(i == *choice, format!("{}    {key}", command.label()))
                         .on_hover_text(command.tooltip())
                         .clicked()
                     {
-                        chosen = Some(command);
+                        chosen = Some(*command);
                     }
                 }
             });

@@ -4,6 +4,7 @@
 //! [`Session::apply`] (or undo, redo) changes the document through an edit, records the inverse,
 //! and brings the rules up to date from what the edit touched.
 
+use std::collections::VecDeque;
 use std::path::{Path, PathBuf};
 
 use crate::analysis::{LiveRules, Rules};
@@ -15,30 +16,49 @@ pub struct Session {
     doc: Document,
     history: History,
     path: Option<PathBuf>,
-    /// The revision that matches the file on disk; `None` when no revision does (recovered work).
-    saved_revision: Option<u64>,
+    /// Every state the document passes through gets a number; undo and redo go back to earlier
+    /// numbers, so a document undone to what was saved is clean again.
+    state: u64,
+    next_state: u64,
+    /// The states the undo and the redo steps lead back to, beside the history's stacks.
+    undo_states: Vec<u64>,
+    redo_states: Vec<u64>,
+    /// The state of each recent revision: a save that finishes on another thread names the
+    /// revision it wrote, and the document may have moved on since.
+    recent: VecDeque<(u64, u64)>,
+    /// The state the file on disk holds; `None` when no state does (recovered work).
+    saved_state: Option<u64>,
     rules: LiveRules,
 }
+
+/// How many revisions [`Session::saved`] can still place.
+const RECENT_REVISIONS: usize = 256;
 
 impl Session {
     /// A session for a document just loaded from `path` (or a new one, with no path): it has
     /// no unsaved changes.
     pub fn new(doc: Document, path: Option<PathBuf>) -> Session {
-        let saved_revision = Some(doc.revision());
-        Session {
+        let mut session = Session {
             rules: LiveRules::new(&doc),
-            doc,
             history: History::default(),
             path,
-            saved_revision,
-        }
+            state: 0,
+            next_state: 1,
+            undo_states: Vec::new(),
+            redo_states: Vec::new(),
+            recent: VecDeque::new(),
+            saved_state: Some(0),
+            doc,
+        };
+        session.note_state();
+        session
     }
 
     /// A session for work that is not on disk as it is (recovered after a crash): unsaved
     /// until saved.
     pub fn unsaved(doc: Document, path: Option<PathBuf>) -> Session {
         let mut session = Session::new(doc, path);
-        session.saved_revision = None;
+        session.saved_state = None;
         session
     }
 
@@ -58,14 +78,31 @@ impl Session {
     pub fn rules(&self) -> &Rules {
         self.rules.rules()
     }
-    /// The revision the file on disk holds, if any.
-    pub fn saved_revision(&self) -> Option<u64> {
-        self.saved_revision
+    /// True when the document differs from what is on disk (or was never saved as it is): a
+    /// change undone back to the saved state leaves it clean.
+    pub fn is_dirty(&self) -> bool {
+        self.saved_state != Some(self.state)
     }
 
-    /// True when the document differs from what is on disk (or was never saved as it is).
-    pub fn is_dirty(&self) -> bool {
-        self.saved_revision != Some(self.doc.revision())
+    fn note_state(&mut self) {
+        self.recent.push_back((self.doc.revision(), self.state));
+        if self.recent.len() > RECENT_REVISIONS {
+            self.recent.pop_front();
+        }
+    }
+
+    /// A new state after an edit: the old one is where undo leads.
+    fn moved_on(&mut self) {
+        self.undo_states.push(self.state);
+        // The history keeps a bounded number of steps; so do the states beside them.
+        let keep = self.history.undo_count();
+        if self.undo_states.len() > keep {
+            self.undo_states.drain(..self.undo_states.len() - keep);
+        }
+        self.redo_states.clear();
+        self.state = self.next_state;
+        self.next_state += 1;
+        self.note_state();
     }
 
     /// The window title: file name, and a mark when there are unsaved changes.
@@ -88,6 +125,7 @@ impl Session {
         let mut touched = Touched::default();
         touched.add(&edit);
         self.history.apply(&mut self.doc, edit)?;
+        self.moved_on();
         if let Some(inverse) = self.history.next_undo() {
             touched.add(inverse);
         }
@@ -102,6 +140,11 @@ impl Session {
             touched.add(edit);
         }
         let label = self.history.undo(&mut self.doc)?;
+        if label.is_some() {
+            self.redo_states.push(self.state);
+            self.state = self.undo_states.pop().unwrap_or(u64::MAX);
+            self.note_state();
+        }
         if let Some(edit) = self.history.next_redo() {
             touched.add(edit);
         }
@@ -116,6 +159,11 @@ impl Session {
             touched.add(edit);
         }
         let label = self.history.redo(&mut self.doc)?;
+        if label.is_some() {
+            self.undo_states.push(self.state);
+            self.state = self.redo_states.pop().unwrap_or(u64::MAX);
+            self.note_state();
+        }
         if let Some(edit) = self.history.next_undo() {
             touched.add(edit);
         }
@@ -127,13 +175,18 @@ impl Session {
     /// thread). The document is clean only if it is still at that revision.
     pub fn saved(&mut self, path: PathBuf, revision: u64) {
         self.path = Some(path);
-        self.saved_revision = Some(revision);
+        self.saved_state = self
+            .recent
+            .iter()
+            .rev()
+            .find(|(r, _)| *r == revision)
+            .map(|(_, state)| *state);
     }
 
     /// Forgets that the file on disk matches any revision (so quitting asks, and autosave keeps
     /// the work).
     pub fn mark_unsaved(&mut self) {
-        self.saved_revision = None;
+        self.saved_state = None;
     }
 
     /// Saves to `path` now, in the format its extension names, and makes it the session's file.
@@ -142,5 +195,60 @@ impl Session {
         let revision = self.doc.revision();
         self.saved(path, revision);
         Ok(())
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::doc::{Region, RegionId};
+
+    fn add(session: &mut Session, id: u64) {
+        session
+            .apply(Edit::PutRegion {
+                id: RegionId(id),
+                region: Some(Region::new(format!("R{id}"), [id as f64, 0.0])),
+            })
+            .unwrap();
+    }
+
+    #[test]
+    fn dirty_means_different_from_the_file_even_across_undo_and_redo() {
+        let mut s = Session::new(Document::new("t"), None);
+        assert!(!s.is_dirty());
+        add(&mut s, 1);
+        assert!(s.is_dirty());
+        s.undo().unwrap();
+        assert!(!s.is_dirty(), "undone back to what is on disk");
+        s.redo().unwrap();
+        assert!(s.is_dirty());
+        // Saved here; an edit and its undo come back to the saved state.
+        s.saved(PathBuf::from("x.tinct"), s.doc().revision());
+        assert!(!s.is_dirty());
+        add(&mut s, 2);
+        s.undo().unwrap();
+        assert!(!s.is_dirty());
+        // Undo past the save, then a new edit: the saved state can no longer be reached.
+        s.undo().unwrap();
+        assert!(s.is_dirty());
+        add(&mut s, 3);
+        s.undo().unwrap();
+        assert!(s.is_dirty(), "a different branch, not the saved state");
+    }
+
+    #[test]
+    fn a_save_of_an_earlier_revision_counts_for_that_state_only() {
+        let mut s = Session::new(Document::new("t"), None);
+        add(&mut s, 1);
+        let written = s.doc().revision();
+        add(&mut s, 2);
+        // The save of `written` finishes on another thread after the second edit.
+        s.saved(PathBuf::from("x.tinct"), written);
+        assert!(s.is_dirty());
+        s.undo().unwrap();
+        assert!(!s.is_dirty());
+        // Recovered work is on no disk.
+        let r = Session::unsaved(Document::new("r"), None);
+        assert!(r.is_dirty());
     }
 }

@@ -33,6 +33,31 @@ proptest! {
     }
 
     #[test]
+    fn the_edits_between_two_documents_lead_from_one_to_the_other_and_undo_back(
+        from in arb::document(),
+        steps in proptest::collection::vec(arb::op(), 0..30),
+        unrelated in arb::document(),
+    ) {
+        // A later version of the same document (as recovered work is of its file), and an
+        // unrelated one (ids that clash, groups and borders that differ everywhere).
+        let mut later = from.clone();
+        for op in &steps {
+            if let Some(edit) = arb::edit_for(&later, op) {
+                let _ = later.apply(edit);
+            }
+        }
+        for to in [later, unrelated] {
+            let mut doc = from.clone();
+            let inverse = doc
+                .apply(tinct::doc::edits_between(&from, &to, "Recover"))
+                .expect("the edits between two documents apply");
+            prop_assert_eq!(&doc, &to);
+            doc.apply(inverse).expect("and undo");
+            prop_assert_eq!(&doc, &from);
+        }
+    }
+
+    #[test]
     fn undoing_everything_returns_to_the_start_and_redo_replays(ops in proptest::collection::vec(arb::op(), 0..40)) {
         let mut doc = Document::new("start");
         let start = doc.clone();

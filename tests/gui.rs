@@ -836,3 +836,35 @@ fn an_export_with_a_mistyped_extension_gets_the_right_one_and_says_so() {
             .collect::<Vec<_>>()
     );
 }
+
+#[test]
+fn recovered_work_on_a_saved_project_is_one_undo_away_from_the_file() {
+    let dir = tempfile::tempdir().unwrap();
+    let project = dir.path().join("valleys.tinct");
+    std::fs::copy(root().join("sample-maps/three-valleys.tinct"), &project).unwrap();
+    let on_disk = doc::file::load(&project).unwrap();
+    let state = dir.path().join("state");
+    let mut app = App::new_with(None, Some(project.clone()), Some(state.clone()));
+    app.autosave_every = std::time::Duration::ZERO;
+    let mut h = harness(app);
+    let (a, b) = non_neighbours(h.state().session.doc());
+    add_border_by_clicking(&mut h, a, b);
+    h.run_steps(2);
+    let unsaved = h.state().session.doc().clone();
+    drop(h);
+
+    let mut h = harness(App::new_with(None, None, Some(state)));
+    h.get_by_label("Recover it").click();
+    h.run_steps(3);
+    assert_eq!(*h.state().session.doc(), unsaved);
+    assert!(h.state().session.is_dirty());
+    assert_eq!(h.state().session.path(), Some(project.as_path()));
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::Z);
+    assert_eq!(*h.state().session.doc(), on_disk, "{}", last_message(&h));
+    assert!(
+        !h.state().session.is_dirty(),
+        "undo returned to the file as saved"
+    );
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::Y);
+    assert_eq!(*h.state().session.doc(), unsaved);
+}

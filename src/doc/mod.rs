@@ -6,6 +6,7 @@
 pub mod builder;
 pub mod checks;
 pub mod constraint;
+pub mod diff;
 pub mod edit;
 pub mod file;
 #[cfg(test)]
@@ -21,6 +22,7 @@ pub mod store;
 pub use builder::{BuildError, DocumentBuilder};
 pub use checks::{ColouringCheck, check_colouring};
 pub use constraint::{ConstraintGraph, RuleConflict};
+pub use diff::edits_between;
 pub use edit::{Edit, EditError, RegionChange, Touched};
 pub use history::History;
 pub use model::{

@@ -416,11 +416,25 @@ impl App {
     /// Takes back the unsaved work of an earlier session (as unsaved work again).
     pub fn recover(&mut self) {
         if let Some(r) = self.recovery_offer.take() {
-            // It is not saved anywhere yet: unsaved, so it is saved (and written aside) again.
-            self.replace_session(Session::unsaved(r.doc, r.original));
+            // Work that belonged to a project comes back as one undoable step on top of the
+            // project as it is on disk: undo shows the file, redo the recovered work.
+            let on_disk = r.original.as_ref().and_then(|path| {
+                doc::file::load(path)
+                    .ok()
+                    .map(|saved| (path.clone(), saved))
+            });
+            match on_disk {
+                Some((path, saved)) => {
+                    let step = doc::edits_between(&saved, &r.doc, "Recover unsaved work");
+                    self.replace_session(Session::new(saved, Some(path)));
+                    self.edit(step);
+                }
+                // Never saved, or its file is gone: unsaved work with nothing under it.
+                None => self.replace_session(Session::unsaved(r.doc, r.original)),
+            }
             self.say(
                 Level::Info,
-                "Unsaved work from the earlier session is back; save it to keep it",
+                "Unsaved work from the earlier session is back (Undo shows the file as saved); save it to keep it",
             );
         }
     }

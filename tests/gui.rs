@@ -868,3 +868,69 @@ fn recovered_work_on_a_saved_project_is_one_undo_away_from_the_file() {
     press(&mut h, egui::Modifiers::COMMAND, egui::Key::Y);
     assert_eq!(*h.state().session.doc(), unsaved);
 }
+
+/// The screen box of some regions' outlines under the editor's current view.
+fn screen_box(h: &Harness<'static, App>, ids: &[RegionId]) -> egui::Rect {
+    let b = tinct::ui::view::bounds_of(h.state().session.doc(), ids).unwrap();
+    let a = screen_of(h.state(), b[0]).unwrap();
+    let c = screen_of(h.state(), b[1]).unwrap();
+    egui::Rect::from_two_pos(a, c)
+}
+
+#[test]
+fn fit_leaves_a_margin_and_going_to_a_region_or_an_obstruction_brings_it_into_view() {
+    let states = root().join("tests/data/geo/us_states_subset.geojson");
+    let mut h = harness(App::new(None, Some(states)));
+    h.run_steps(3);
+    let all: Vec<RegionId> = h.state().session.doc().regions().keys().copied().collect();
+    let canvas = h.state().view.canvas_rect.unwrap();
+    let map = screen_box(&h, &all);
+    assert!(
+        canvas.shrink(16.0).contains_rect(map),
+        "at Fit the map keeps 16 pixels from every edge: {map:?} in {canvas:?}"
+    );
+    // Colorado is small at Fit (Alaska and Texas are in view); choosing it in the list brings
+    // it to the middle, large.
+    let colorado = *h
+        .state()
+        .session
+        .doc()
+        .regions()
+        .iter()
+        .find(|(_, r)| r.name == "Colorado")
+        .unwrap()
+        .0;
+    let before = screen_box(&h, &[colorado]);
+    h.get_all_by_label("Colorado").next().unwrap().click();
+    h.run_steps(3);
+    let after = screen_box(&h, &[colorado]);
+    assert_eq!(h.state().view.selection, Some(colorado));
+    assert!(canvas.contains_rect(after));
+    assert!(
+        after.width() > 2.0 * before.width(),
+        "{before:?} -> {after:?}"
+    );
+    assert!((after.center() - canvas.center()).length() < 2.0);
+
+    // The default map: *Show them on map* for the regions that rule out three colours fits them.
+    let mut h = harness(App::new(None, None));
+    let zennick = h
+        .state()
+        .highlight_regions(tinct::ui::app::Highlight::NotThreeColourable);
+    assert!(!zennick.is_empty());
+    // Zoom far into one corner first, so that the obstruction is out of sight.
+    h.state_mut().view.camera.pixels_per_unit *= 40.0;
+    h.run_steps(2);
+    h.get_all_by_label("Show them on map")
+        .next()
+        .unwrap()
+        .click();
+    h.run_steps(3);
+    let canvas = h.state().view.canvas_rect.unwrap();
+    let shown = h.state().view.highlight;
+    assert!(
+        canvas.contains_rect(screen_box(&h, &zennick)),
+        "{shown:?} {:?} in {canvas:?}",
+        screen_box(&h, &zennick)
+    );
+}

@@ -193,6 +193,8 @@ pub struct ViewState {
     pub camera: Camera,
     /// The canvas needs fitting to the map on its next frame.
     pub fit_pending: bool,
+    /// The canvas moves to these regions on its next frame (something was gone to).
+    pub go_to: Option<Vec<RegionId>>,
     pub tool: Tool,
     pub selection: Option<RegionId>,
     pub hover: Option<RegionId>,
@@ -223,6 +225,7 @@ impl Default for ViewState {
         ViewState {
             camera: Camera::default(),
             fit_pending: true,
+            go_to: None,
             tool: Tool::Select,
             selection: None,
             hover: None,
@@ -1182,6 +1185,41 @@ impl App {
             egui::Popup::close_all(ctx);
         } else {
             self.emit(Command::ClearSelection);
+        }
+    }
+
+    /// Selects `id` and moves the view to it (from the region list, a neighbour link, a clash).
+    pub fn go_to_region(&mut self, id: RegionId) {
+        self.view.selection = Some(id);
+        self.view.go_to = Some(vec![id]);
+    }
+
+    /// The regions a highlight draws, for the current analysis.
+    pub fn highlight_regions(&self, highlight: Highlight) -> Vec<RegionId> {
+        let analysis = self.analysis.as_ref();
+        let colouring = analysis.and_then(|a| a.colouring.as_ref());
+        match highlight {
+            Highlight::NotPlanar => match analysis.and_then(|a| a.planarity.as_ref()) {
+                Some(analysis::PlanarityVerdict::NotPlanar(o)) => o.regions.clone(),
+                _ => Vec::new(),
+            },
+            Highlight::NotThreeColourable => colouring
+                .and_then(|c| c.three_impossible.as_ref())
+                .map(|why| why.regions.clone())
+                .unwrap_or_default(),
+            Highlight::NotFewerColourable => colouring
+                .and_then(|c| c.minimum_impossible.as_ref())
+                .map(|why| why.regions.clone())
+                .unwrap_or_default(),
+        }
+    }
+
+    /// Shows a highlight on the map and moves the view so that all its `regions` are in sight
+    /// (the panel passes them: it holds the analysis while it draws).
+    pub fn show_highlight(&mut self, highlight: Highlight, regions: Vec<RegionId>) {
+        self.view.highlight = Some(highlight);
+        if !regions.is_empty() {
+            self.view.go_to = Some(regions);
         }
     }
 }

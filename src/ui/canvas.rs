@@ -88,6 +88,18 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
         }
         app.view.fit_pending = false;
     }
+    if let Some(ids) = app.view.go_to.take()
+        && rect.width() > 10.0
+        && let Some(bounds) = super::view::bounds_of(app.session.doc(), &ids)
+    {
+        // Never closer than a twentieth of the map, so a tiny region shows among neighbours.
+        let context = app
+            .session
+            .doc()
+            .bounds()
+            .map_or(0.0, |[lo, hi]| (hi[0] - lo[0]).max(hi[1] - lo[1]) / 20.0);
+        app.view.camera = Camera::go_to(bounds, [rect.width(), rect.height()], context);
+    }
 
     // Zoom with the wheel (or a pinch) around the pointer.
     if let Some(p) = response.hover_pos() {

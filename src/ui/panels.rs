@@ -278,6 +278,7 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
     let doc = app.session.doc();
     ui.label(format!("{} shown of {}", rows.len(), doc.regions().len()));
     let row_height = ui.text_style_height(&egui::TextStyle::Body) + 4.0;
+    let mut go = None;
     egui::ScrollArea::vertical()
         .auto_shrink([false, false])
         .show_rows(ui, row_height, rows.len(), |ui, range| {
@@ -299,12 +300,15 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
                         .selectable_label(app.view.selection == Some(*id), &r.name)
                         .clicked()
                     {
-                        app.view.selection = Some(*id);
+                        go = Some(*id);
                     }
                 });
             }
         });
     app.view.region_rows = Some(((app.scene.generation, app.view.region_filter.clone()), rows));
+    if let Some(id) = go {
+        app.go_to_region(id);
+    }
 }
 
 /// The selected region's details, editable.
@@ -441,7 +445,7 @@ pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
             }
         });
     if let Some(j) = jump {
-        app.view.selection = Some(j);
+        app.go_to_region(j);
     }
     for e in edits {
         app.edit(e);
@@ -478,7 +482,7 @@ pub fn verdict_ui(app: &mut App, ui: &mut egui::Ui) {
         }
     }
     if let Some(id) = jump {
-        app.view.selection = Some(id);
+        app.go_to_region(id);
     }
     if !app.notices.is_empty() {
         egui::CollapsingHeader::new(format!(
@@ -640,12 +644,16 @@ fn evidence_buttons(
             })
             .clicked()
         {
-            app.view.highlight = if showing { None } else { Some(highlight) };
+            if showing {
+                app.view.highlight = None;
+            } else {
+                app.show_highlight(highlight, why.regions.clone());
+            }
         }
         if why.steps.is_some() && ui.button("Walk through the argument").clicked() {
             app.argument_step = Some(0);
             app.argument_for = highlight;
-            app.view.highlight = Some(highlight);
+            app.show_highlight(highlight, why.regions.clone());
         }
         if why.cnf_and_proof.is_some()
             && ui
@@ -803,14 +811,15 @@ fn planarity_ui(app: &mut App, ui: &mut egui::Ui) {
         }
     }
     if toggle {
-        app.view.highlight = if app.view.highlight == Some(Highlight::NotPlanar) {
-            None
+        if app.view.highlight == Some(Highlight::NotPlanar) {
+            app.view.highlight = None;
         } else {
-            Some(Highlight::NotPlanar)
-        };
+            let regions = app.highlight_regions(Highlight::NotPlanar);
+            app.show_highlight(Highlight::NotPlanar, regions);
+        }
     }
     if let Some(id) = jump {
-        app.view.selection = Some(id);
+        app.go_to_region(id);
     }
 }
 

@@ -54,17 +54,68 @@ impl Camera {
         self.centre_world[1] += drag_pixels[1] as f64 / self.pixels_per_unit;
     }
 
-    /// A camera that shows `bounds` inside a canvas of `size` pixels with a margin.
+    /// A camera that shows `bounds` inside a canvas of `size` pixels, leaving a twentieth of
+    /// the canvas, and at least [`FIT_MARGIN`] pixels, free on every side.
     pub fn fit(bounds: [Point; 2], size: [f32; 2]) -> Camera {
         let [lo, hi] = bounds;
         let w = (hi[0] - lo[0]).max(1e-9);
         let h = (hi[1] - lo[1]).max(1e-9);
-        let scale = ((size[0] as f64 / w).min(size[1] as f64 / h) * 0.9).clamp(1e-9, 1e9);
+        let room = |pixels: f32| {
+            let pixels = pixels as f64;
+            (pixels - 2.0 * FIT_MARGIN.max(0.05 * pixels)).max(1.0)
+        };
+        let scale = (room(size[0]) / w).min(room(size[1]) / h).clamp(1e-9, 1e9);
         Camera {
             centre_world: [(lo[0] + hi[0]) / 2.0, (lo[1] + hi[1]) / 2.0],
             pixels_per_unit: scale,
         }
     }
+
+    /// A camera that goes to `bounds` (a region or a few) and shows some of what surrounds
+    /// them: they fill about half the canvas, never less than `min_extent` world units across
+    /// (so a tiny region is seen among its neighbours).
+    pub fn go_to(bounds: [Point; 2], size: [f32; 2], min_extent: f64) -> Camera {
+        let [lo, hi] = bounds;
+        let centre = [(lo[0] + hi[0]) / 2.0, (lo[1] + hi[1]) / 2.0];
+        // Half the box's size on each side of the centre: the box fills about half the view.
+        let half = [
+            (hi[0] - lo[0]).max(min_extent),
+            (hi[1] - lo[1]).max(min_extent),
+        ];
+        Camera::fit(
+            [
+                [centre[0] - half[0], centre[1] - half[1]],
+                [centre[0] + half[0], centre[1] + half[1]],
+            ],
+            size,
+        )
+    }
+}
+
+/// The least room, in pixels, between the map and the canvas edge at Fit.
+pub const FIT_MARGIN: f64 = 24.0;
+
+/// The box around the given regions: their outlines, or their markers' positions.
+pub fn bounds_of(doc: &Document, ids: &[RegionId]) -> Option<[Point; 2]> {
+    let mut out: Option<[Point; 2]> = None;
+    for id in ids {
+        let Some(region) = doc.regions().get(id) else {
+            continue;
+        };
+        let b = region
+            .geometry
+            .as_ref()
+            .and_then(|g| g.bounds())
+            .unwrap_or([region.anchor, region.anchor]);
+        out = Some(match out {
+            None => b,
+            Some([lo, hi]) => [
+                [lo[0].min(b[0][0]), lo[1].min(b[0][1])],
+                [hi[0].max(b[1][0]), hi[1].max(b[1][1])],
+            ],
+        });
+    }
+    out
 }
 
 /// True when `p` lies inside the geometry (even-odd rule over all rings, so holes are outside).

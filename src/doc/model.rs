@@ -451,6 +451,21 @@ impl Units {
             Units::Unitless => "unitless",
         }
     }
+
+    /// A length for people to read: metres up to 1 km, then kilometres ("850 m", "12.4 km",
+    /// "335 km"); free units with three significant decimals at most.
+    pub fn length_text(self, x: f64) -> String {
+        match self {
+            Units::Metres if x.abs() >= 100_000.0 => format!("{:.0} km", x / 1000.0),
+            Units::Metres if x.abs() >= 1000.0 => format!("{:.1} km", x / 1000.0),
+            Units::Metres => format!("{x:.0} m"),
+            Units::Unitless if x.abs() >= 100.0 => format!("{x:.0}"),
+            Units::Unitless => format!("{:.3}", x)
+                .trim_end_matches('0')
+                .trim_end_matches('.')
+                .to_string(),
+        }
+    }
 }
 
 /// A coordinate reference system as a source file named it: the system of a planar map's world
@@ -729,5 +744,20 @@ mod default_palette_tests {
             &crate::colour::Thresholds::default(),
         );
         assert!(warnings.is_empty(), "{warnings:#?}");
+    }
+}
+
+#[cfg(test)]
+mod length_text_tests {
+    use super::Units;
+
+    #[test]
+    fn lengths_read_in_metres_then_kilometres() {
+        assert_eq!(Units::Metres.length_text(850.2), "850 m");
+        assert_eq!(Units::Metres.length_text(12_449.0), "12.4 km");
+        assert_eq!(Units::Metres.length_text(334_721.0), "335 km");
+        assert_eq!(Units::Unitless.length_text(2.5), "2.5");
+        assert_eq!(Units::Unitless.length_text(250.4), "250");
+        assert_eq!(Units::Unitless.length_text(0.0), "0");
     }
 }

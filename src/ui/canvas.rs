@@ -737,17 +737,7 @@ fn draw_base(
                     _ => points.push(s),
                 }
             }
-            let path = match (chain.closed, points.len()) {
-                (true, n) if n >= 3 => {
-                    egui::epaint::PathShape::closed_line(std::mem::take(&mut points), outline)
-                }
-                (false, n) if n >= 2 => {
-                    egui::epaint::PathShape::line(std::mem::take(&mut points), outline)
-                }
-                _ => continue,
-            };
-            tessellator.tessellate_path(&path, &mut mesh);
-            points = path.points;
+            tessellate_outline(&mut tessellator, &points, chain.closed, outline, &mut mesh);
         }
     }
     if tiny.len() <= RASTER_MIN {
@@ -811,6 +801,96 @@ fn hatch_segments(rings: &[Vec<Pos2>], spacing: f32) -> Vec<[Pos2; 2]> {
 
 /// A plain line segment of `width` points as two triangles (no feathering: hatching is a
 /// texture, not an outline).
+/// Outline joins sharper than this (the cosine of the turn between two segments) start a new
+/// path. A stroke joined at a hairpin, or at a turn between two sub-pixel segments, grows a
+/// spike: merging nearby points at a coarse zoom makes such turns out of small islands and
+/// wiggly coasts, and their spikes crossed the canvas at Fit (345 pixels long on the US states).
+const SHARP_TURN_COS: f32 = 0.0;
+
+/// Segments shorter than this many pixels are merged into their neighbours before drawing.
+const MIN_SEGMENT_PX: f32 = 0.5;
+
+/// The pieces of an outline to draw as separate paths: its points with sub-pixel steps merged,
+/// cut at every sharp turn, so that no join is sharp. A ring without sharp turns stays closed.
+fn outline_pieces(points: &[Pos2], closed: bool) -> Vec<(Vec<Pos2>, bool)> {
+    let mut p: Vec<Pos2> = Vec::with_capacity(points.len());
+    for (k, &q) in points.iter().enumerate() {
+        let last = k + 1 == points.len();
+        match p.last() {
+            Some(&r) if (q - r).length() < MIN_SEGMENT_PX => {
+                if last
+                    && p.len() > 1
+                    && let Some(end) = p.last_mut()
+                {
+                    // Keep the chain's end where it is (it meets another chain there).
+                    *end = q;
+                }
+            }
+            _ => p.push(q),
+        }
+    }
+    if closed {
+        while p.len() > 1 && (p[p.len() - 1] - p[0]).length() < MIN_SEGMENT_PX {
+            p.pop();
+        }
+    }
+    let n = p.len();
+    if n < 2 {
+        return Vec::new();
+    }
+    let closed = closed && n >= 3;
+    let sharp =
+        |a: Pos2, b: Pos2, c: Pos2| (b - a).normalized().dot((c - b).normalized()) < SHARP_TURN_COS;
+    let cut: Vec<bool> = (0..n)
+        .map(|i| {
+            if i > 0 && i + 1 < n {
+                sharp(p[i - 1], p[i], p[i + 1])
+            } else if closed {
+                sharp(p[(i + n - 1) % n], p[i], p[(i + 1) % n])
+            } else {
+                false
+            }
+        })
+        .collect();
+    let Some(first_cut) = cut.iter().position(|&c| c) else {
+        return vec![(p, closed)];
+    };
+    // Walk from a cut (round the ring back to it), starting a new piece at each cut.
+    let (start, steps) = if closed { (first_cut, n + 1) } else { (0, n) };
+    let mut pieces = Vec::new();
+    let mut piece: Vec<Pos2> = Vec::new();
+    for k in 0..steps {
+        let i = (start + k) % n;
+        piece.push(p[i]);
+        if cut[i] && piece.len() >= 2 {
+            pieces.push((std::mem::take(&mut piece), false));
+            piece.push(p[i]);
+        }
+    }
+    if piece.len() >= 2 {
+        pieces.push((piece, false));
+    }
+    pieces
+}
+
+/// Tessellates one outline chain in pieces without sharp joins (see [`outline_pieces`]).
+fn tessellate_outline(
+    tessellator: &mut egui::epaint::Tessellator,
+    points: &[Pos2],
+    closed: bool,
+    stroke: Stroke,
+    mesh: &mut Mesh,
+) {
+    for (piece, closed) in outline_pieces(points, closed) {
+        let path = if closed {
+            egui::epaint::PathShape::closed_line(piece, stroke)
+        } else {
+            egui::epaint::PathShape::line(piece, stroke)
+        };
+        tessellator.tessellate_path(&path, mesh);
+    }
+}
+
 fn add_segment(mesh: &mut Mesh, a: Pos2, b: Pos2, width: f32, colour: Color32) {
     let d = b - a;
     let len = d.length();
@@ -875,6 +955,77 @@ fn outline_region(
 #[cfg(test)]
 mod tests {
     use super::*;
+    #[test]
+    fn outlines_of_real_boundaries_draw_no_spikes_at_any_zoom() {
+        // 14 US states from npm us-atlas 3.0.1 (tests/data/geo/PROVENANCE.md), with Alaska's
+        // islands: at Fit, merging nearby points turned small islands into slivers whose joins
+        // drew spikes up to 345 pixels long. Every outline must stay within a few pixels of
+        // its own points.
+        let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+            .join("tests/data/geo/us_states_subset.topojson");
+        let doc = crate::geo::import_path(&path, &Default::default())
+            .unwrap()
+            .into_document("states");
+        let mut scene = crate::ui::mesh::Scene::default();
+        scene.sync(&doc);
+        scene.ensure_chains();
+        let mut tessellator = egui::epaint::Tessellator::new(
+            1.0,
+            egui::epaint::TessellationOptions::default(),
+            [1, 1],
+            Vec::new(),
+        );
+        for (canvas, zoom) in [(700.0, 1.0), (700.0, 3.0), (300.0, 1.0), (1400.0, 8.0)] {
+            let mut camera = Camera::fit(doc.bounds().unwrap(), [canvas, canvas]);
+            camera.pixels_per_unit *= zoom;
+            let centre = [canvas / 2.0, canvas / 2.0];
+            let mut worst = 0.0f32;
+            for chain in &scene.chains {
+                let ring = &scene.chain_points[chain.points.clone()];
+                let mut points: Vec<Pos2> = Vec::new();
+                for (k, p) in ring.iter().enumerate() {
+                    let s = pos(camera.to_screen(centre, *p));
+                    let last = k + 1 == ring.len();
+                    match points.last() {
+                        Some(q) if !last && (s - *q).length_sq() < DECIMATE_PX * DECIMATE_PX => {}
+                        _ => points.push(s),
+                    }
+                }
+                let lo = points
+                    .iter()
+                    .fold(Pos2::new(f32::MAX, f32::MAX), |m, p| m.min(*p));
+                let hi = points
+                    .iter()
+                    .fold(Pos2::new(f32::MIN, f32::MIN), |m, p| m.max(*p));
+                let mut mesh = Mesh::default();
+                let stroke = Stroke::new(0.5, Color32::BLACK);
+                tessellate_outline(&mut tessellator, &points, chain.closed, stroke, &mut mesh);
+                for v in &mesh.vertices {
+                    let dx = (lo.x - v.pos.x).max(v.pos.x - hi.x).max(0.0);
+                    let dy = (lo.y - v.pos.y).max(v.pos.y - hi.y).max(0.0);
+                    worst = worst.max(dx.max(dy));
+                }
+            }
+            assert!(
+                worst <= 3.0,
+                "canvas {canvas}, zoom {zoom}: {worst} pixels out"
+            );
+        }
+        // A plain ring stays one closed path; a hairpin is cut in two.
+        let square = [
+            Pos2::new(0.0, 0.0),
+            Pos2::new(10.0, 0.0),
+            Pos2::new(10.0, 10.0),
+            Pos2::new(0.0, 10.0),
+        ];
+        assert_eq!(outline_pieces(&square, true), vec![(square.to_vec(), true)]);
+        let hairpin = [
+            Pos2::new(0.0, 0.0),
+            Pos2::new(50.0, 0.0),
+            Pos2::new(0.0, 1.0),
+        ];
+        assert_eq!(outline_pieces(&hairpin, false).len(), 2);
+    }
 
     #[test]
     fn hatching_stays_inside_the_outline_and_out_of_holes() {

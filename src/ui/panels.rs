@@ -412,11 +412,7 @@ pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
     ui.separator();
     let neighbours = doc.borders_of(id);
     ui.label(RichText::new(format!("Borders ({})", neighbours.len())).strong());
-    let units = if doc.settings().units == crate::doc::Units::Metres {
-        " m"
-    } else {
-        ""
-    };
+    let units = doc.settings().units;
     let mut jump = None;
     egui::ScrollArea::vertical()
         .id_salt("neighbours")
@@ -425,7 +421,7 @@ pub fn details_ui(app: &mut App, ui: &mut egui::Ui) {
             for (other, pair, border) in &neighbours {
                 let active = doc.border_is_active(*pair, border);
                 let kind = match border.kind {
-                    BorderKind::Shared => format!("shared, {:.0}{units}", border.length),
+                    BorderKind::Shared => format!("shared, {}", units.length_text(border.length)),
                     BorderKind::Corner => "corner".to_string(),
                     BorderKind::Manual => "by hand".to_string(),
                 };

@@ -934,3 +934,56 @@ fn fit_leaves_a_margin_and_going_to_a_region_or_an_obstruction_brings_it_into_vi
         screen_box(&h, &zennick)
     );
 }
+
+#[test]
+fn starting_from_one_of_our_palettes_asks_before_replacing_changes_and_the_picker_reads_plainly() {
+    let mut h = harness(App::new(None, None));
+    h.state_mut()
+        .emit(tinct::ui::commands::Command::PaletteWindow);
+    h.run_steps(3);
+    let before = h.state().session.doc().palette().clone();
+    // A change made in the window: slot 1 renamed.
+    let first = before.slots[0].name.clone();
+    text_input_with_value(&h, &first).click();
+    h.run_steps(1);
+    h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::A);
+    text_input_with_value(&h, &first).type_text("Shore");
+    h.run_steps(2);
+    // Choosing one of ours now asks first; keeping the changes keeps them.
+    h.get_by_label("Start from one of ours:").click();
+    h.run_steps(2);
+    h.get_by_label_contains("Tinct 3").click();
+    h.run_steps(2);
+    assert!(
+        h.query_by_label_contains("replaces the changes made here")
+            .is_some()
+    );
+    assert_eq!(
+        h.state().palette_editor.as_ref().unwrap().draft.slots[0].name,
+        "Shore"
+    );
+    h.get_by_label("Keep my changes").click();
+    h.run_steps(2);
+    assert_eq!(
+        h.state().palette_editor.as_ref().unwrap().draft.slots[0].name,
+        "Shore"
+    );
+    h.get_by_label("Start from one of ours:").click();
+    h.run_steps(2);
+    h.get_by_label_contains("Tinct 3").click();
+    h.run_steps(2);
+    h.get_by_label("Replace them").click();
+    h.run_steps(2);
+    let draft = &h.state().palette_editor.as_ref().unwrap().draft;
+    assert_eq!(draft.slots.len(), 3);
+    assert_eq!(
+        *h.state().session.doc().palette(),
+        before,
+        "nothing applied yet"
+    );
+    // The colour picker has plain words, not a numeric-format toggle or a glyph it cannot show.
+    h.get_by_label("Pick colour 1").click();
+    h.run_steps(2);
+    assert!(h.query_all_by_label_contains("Hue").next().is_some());
+    assert!(h.query_by_label_contains("U8").is_none());
+}

@@ -17,6 +17,9 @@ pub struct PaletteEditor {
     pub draft: Palette,
     /// The hex text of each slot as typed (applied to the draft when it parses).
     pub hex: Vec<String>,
+    /// One of Tinct's palettes chosen while the draft had changes of its own: replacing them
+    /// waits for the user's word.
+    pub replace_with: Option<Palette>,
     /// For a document state (`Scene::generation`) and a number of slots: the slot pairs to
     /// check, and which slots regions use or are pinned to.
     pairs: Option<CheckedPairs>,
@@ -30,8 +33,16 @@ impl PaletteEditor {
         PaletteEditor {
             draft: palette.clone(),
             hex: palette.slots.iter().map(|s| s.colour.to_hex()).collect(),
+            replace_with: None,
             pairs: None,
         }
+    }
+
+    /// Takes `palette` as the draft.
+    fn take(&mut self, palette: Palette) {
+        self.hex = palette.slots.iter().map(|s| s.colour.to_hex()).collect();
+        self.draft = palette;
+        self.replace_with = None;
     }
 
     fn reset(&mut self, palette: &Palette) {
@@ -43,6 +54,63 @@ impl PaletteEditor {
 
 fn colour32(rgb: Rgb) -> Color32 {
     Color32::from_rgb(rgb.0[0], rgb.0[1], rgb.0[2])
+}
+
+/// A swatch button that opens a small picker: hue, saturation and brightness sliders over the
+/// colour itself (the hex field beside it takes exact values). Returns true when the colour
+/// changed.
+fn colour_picker(ui: &mut egui::Ui, rgb: &mut Rgb, slot: usize) -> bool {
+    let button = ui
+        .add(
+            egui::Button::new("")
+                .fill(colour32(*rgb))
+                .min_size(egui::vec2(32.0, 18.0)),
+        )
+        .on_hover_text("Pick a colour");
+    button.widget_info(|| {
+        egui::WidgetInfo::labeled(
+            egui::Role::Button,
+            true,
+            format!("Pick colour {}", slot + 1),
+        )
+    });
+    let mut changed = false;
+    egui::Popup::menu(&button)
+        .close_behavior(egui::PopupCloseBehavior::CloseOnClickOutside)
+        .show(|ui| {
+            let mut hsva = egui::ecolor::Hsva::from_srgb(rgb.0);
+            let mut degrees = hsva.h * 360.0;
+            let mut any = false;
+            any |= ui
+                .add(
+                    egui::Slider::new(&mut degrees, 0.0..=360.0)
+                        .text("Hue")
+                        .suffix("°")
+                        .fixed_decimals(0),
+                )
+                .changed();
+            any |= ui
+                .add(
+                    egui::Slider::new(&mut hsva.s, 0.0..=1.0)
+                        .text("Saturation")
+                        .fixed_decimals(2),
+                )
+                .changed();
+            any |= ui
+                .add(
+                    egui::Slider::new(&mut hsva.v, 0.0..=1.0)
+                        .text("Brightness")
+                        .fixed_decimals(2),
+                )
+                .changed();
+            hsva.h = degrees / 360.0;
+            swatch(ui, colour32(*rgb), 24.0);
+            if any {
+                *rgb = Rgb(hsva.to_srgb());
+                changed = true;
+            }
+        });
+    changed
 }
 
 /// What the window says about a draft: one line per warning, or why all is well. Pure, so it is
@@ -105,7 +173,7 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
                 ui.text_edit_singleline(&mut editor.draft.name);
             });
             ui.horizontal(|ui| {
-                ui.label("Start from one of ours:");
+                let label = ui.label("Start from one of ours:");
                 egui::ComboBox::from_id_salt("default-palettes")
                     .selected_text("choose…")
                     .show_ui(ui, |ui| {
@@ -114,12 +182,32 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
                             if ui.selectable_label(false, label).clicked()
                                 && let Some(palette) = palette_edit::default_palette(index)
                             {
-                                editor.hex = palette.slots.iter().map(|s| s.colour.to_hex()).collect();
-                                editor.draft = palette;
+                                // Changes made here are not thrown away without a word.
+                                if editor.draft == *doc.palette() {
+                                    editor.take(palette);
+                                } else {
+                                    editor.replace_with = Some(palette);
+                                }
                             }
                         }
-                    });
+                    })
+                    .response
+                    .labelled_by(label.id);
             });
+            if let Some(palette) = editor.replace_with.clone() {
+                ui.horizontal_wrapped(|ui| {
+                    ui.label(format!(
+                        "Starting from {} replaces the changes made here.",
+                        palette.name
+                    ));
+                    if ui.button("Replace them").clicked() {
+                        editor.take(palette);
+                    }
+                    if ui.button("Keep my changes").clicked() {
+                        editor.replace_with = None;
+                    }
+                });
+            }
             ui.separator();
             egui::Grid::new("palette-slots")
                 .num_columns(5)
@@ -128,13 +216,7 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
                     for i in 0..editor.draft.slots.len() {
                         ui.label(format!("{}.", i + 1));
                         let slot = &mut editor.draft.slots[i];
-                        let mut rgb = slot.colour.0;
-                        if ui
-                            .color_edit_button_srgb(&mut rgb)
-                            .on_hover_text("Pick a colour")
-                            .changed()
-                        {
-                            slot.colour = Rgb(rgb);
+                        if colour_picker(ui, &mut slot.colour, i) {
                             editor.hex[i] = slot.colour.to_hex();
                         }
                         ui.add_sized([130.0, 20.0], egui::TextEdit::singleline(&mut slot.name))

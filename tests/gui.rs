@@ -252,7 +252,7 @@ fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up
     let mut h = harness(App::new(None, None));
     // The analysis (run in the frame here) proves four colours and offers them.
     assert!(h.query_by_label_contains("4, proven").is_some());
-    h.get_by_label("Colour the map with them").click();
+    h.get_by_label("Colour with the fewest colours").click();
     h.run_steps(3);
     assert!(tinct::doc::check_colouring(h.state().session.doc()).is_clean());
     assert!(h.query_by_label("No neighbours share a colour").is_some());
@@ -286,7 +286,7 @@ fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up
     );
 
     // Colouring again honours the pin, and the problems go away.
-    h.get_by_label("Colour the map with them").click();
+    h.get_by_label("Colour with the fewest colours").click();
     h.run_steps(3);
     let coloured = &h.state().session.doc();
     assert_eq!(coloured.colouring()[&pair.a()], neighbour_colour);
@@ -400,9 +400,9 @@ fn the_palette_window_edits_a_colour_warns_about_a_look_alike_and_undo_restores_
     h.run_steps(4);
     let before = h.state().session.doc().palette().clone();
     // The palette section sits at the foot of the inspector: scroll to it first, as a user would.
-    h.get_by_label("Edit and check…").scroll_to_me();
+    h.get_by_label("Palette and print check…").scroll_to_me();
     h.run_steps(10);
-    h.get_by_label("Edit and check…").click();
+    h.get_by_label("Palette and print check…").click();
     h.run_steps(3);
     assert!(h.query_by_label_contains("All clear").is_some());
     // Make slot 2 the same colour as slot 1: two neighbouring colours now look alike.

@@ -195,6 +195,9 @@ pub struct ViewState {
     pub fit_pending: bool,
     /// The canvas moves to these regions on its next frame (something was gone to).
     pub go_to: Option<Vec<RegionId>>,
+    /// The view shows the whole map as Fit left it: when the canvas changes size, it fits
+    /// again (until the user pans, zooms or goes somewhere).
+    pub fitted: bool,
     pub tool: Tool,
     pub selection: Option<RegionId>,
     pub hover: Option<RegionId>,
@@ -226,6 +229,7 @@ impl Default for ViewState {
             camera: Camera::default(),
             fit_pending: true,
             go_to: None,
+            fitted: false,
             tool: Tool::Select,
             selection: None,
             hover: None,

@@ -78,6 +78,14 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
     let (response, painter) = ui.allocate_painter(size, Sense::click_and_drag());
     response.widget_info(|| egui::WidgetInfo::labeled(egui::Role::Canvas, true, "Map canvas"));
     let rect = response.rect;
+    if app.view.fitted
+        && app
+            .view
+            .canvas_rect
+            .is_some_and(|r| r.size() != rect.size())
+    {
+        app.view.fit_pending = true;
+    }
     app.view.canvas_rect = Some(rect);
     painter.rect_filled(rect, 0.0, style::BACKGROUND);
     let centre = [rect.center().x, rect.center().y];
@@ -87,6 +95,7 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
             app.view.camera = Camera::fit(bounds, [rect.width(), rect.height()]);
         }
         app.view.fit_pending = false;
+        app.view.fitted = true;
     }
     if let Some(ids) = app.view.go_to.take()
         && rect.width() > 10.0
@@ -99,6 +108,7 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
             .bounds()
             .map_or(0.0, |[lo, hi]| (hi[0] - lo[0]).max(hi[1] - lo[1]) / 20.0);
         app.view.camera = Camera::go_to(bounds, [rect.width(), rect.height()], context);
+        app.view.fitted = false;
     }
 
     // Zoom with the wheel (or a pinch) around the pointer.
@@ -107,6 +117,7 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
         let factor = (scroll as f64 * 0.0015).exp() * pinch as f64;
         if (factor - 1.0).abs() > 1e-6 {
             app.view.camera.zoom_at(centre, [p.x, p.y], factor);
+            app.view.fitted = false;
         }
     }
 
@@ -144,7 +155,10 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
                 offset[0] += d.x as f64 / camera.pixels_per_unit;
                 offset[1] -= d.y as f64 / camera.pixels_per_unit;
             }
-            None => app.view.camera.pan_by([d.x, d.y]),
+            None => {
+                app.view.camera.pan_by([d.x, d.y]);
+                app.view.fitted = false;
+            }
         }
     }
     if response.drag_stopped()

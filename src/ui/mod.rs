@@ -10,6 +10,7 @@ pub mod mesh;
 pub mod palette;
 pub mod panels;
 pub mod view;
+pub mod words;
 
 use std::path::PathBuf;
 

@@ -125,8 +125,8 @@ pub fn distinctness_lines(
     }
     let scope = match checked {
         PairsChecked::Colouring => format!(
-            "the {} slot pair(s) that neighbouring regions use",
-            pairs.len()
+            "the {} that neighbouring regions use",
+            super::words::count(pairs.len(), "slot pair", "slot pairs")
         ),
         PairsChecked::AllSlots => "every pair of slots (nothing is coloured yet)".to_string(),
     };
@@ -352,7 +352,7 @@ mod tests {
         }];
         let clear = distinctness_lines(PairsChecked::Colouring, &pairs, &[]);
         assert_eq!(clear.len(), 1);
-        assert!(clear[0].contains("the 1 slot pair(s) that neighbouring regions use"));
+        assert!(clear[0].contains("the 1 slot pair that neighbouring regions use"));
         let none_coloured = distinctness_lines(PairsChecked::AllSlots, &[], &[]);
         assert!(none_coloured[0].contains("nothing is coloured yet"));
         let warning = Warning {

@@ -78,8 +78,8 @@ pub fn verdict_lines(doc: &Document, checks: &Rules) -> Vec<VerdictLine> {
         }
     } else {
         out.push(VerdictLine::Note(format!(
-            "{} clash(es): neighbours with the same colour",
-            c.clashes.len()
+            "{}: neighbours with the same colour",
+            super::words::count(c.clashes.len(), "clash", "clashes")
         )));
         // A long list helps nobody and costs frame time: show the first ones and count the rest.
         for clash in c.clashes.iter().take(MAX_LISTED) {
@@ -100,13 +100,30 @@ pub fn verdict_lines(doc: &Document, checks: &Rules) -> Vec<VerdictLine> {
             )));
         }
     }
-    if !c.uncoloured.is_empty() {
+    // A map not coloured at all is a first step to take, not a list of faults.
+    let nothing_coloured = doc.colouring().is_empty() && checks.land > 0;
+    if nothing_coloured {
+        out.push(VerdictLine::Note(
+            "Not coloured yet: Colour with the fewest colours (Ctrl+Enter) colours it, keeping \
+             pins and groups"
+                .into(),
+        ));
+    } else if !c.uncoloured.is_empty() {
+        let n = c.uncoloured.len();
         out.push(VerdictLine::Problem {
-            text: format!("{} land region(s) have no colour yet", c.uncoloured.len()),
+            text: format!(
+                "{} {} no colour yet",
+                super::words::count(n, "land region", "land regions"),
+                if n == 1 { "has" } else { "have" }
+            ),
             regions: c.uncoloured.iter().take(12).copied().collect(),
         });
     }
-    for p in c.pins_broken.iter().take(MAX_LISTED) {
+    let pins = c
+        .pins_broken
+        .iter()
+        .filter(|p| !(nothing_coloured && p.coloured.is_none()));
+    for p in pins.take(MAX_LISTED) {
         out.push(VerdictLine::Problem {
             text: format!(
                 "{} is pinned to colour {} but {}",
@@ -242,7 +259,7 @@ pub fn toolbar_ui(app: &mut App, ui: &mut egui::Ui) {
                 });
         }
         if ui
-            .button("Fit")
+            .button(Command::FitView.label())
             .on_hover_text(Command::FitView.tooltip())
             .clicked()
         {
@@ -590,7 +607,7 @@ fn colouring_verdict_ui(
             app.emit(Command::ColourAddingSlots);
         }
     } else if ui
-        .button("Colour the map with them")
+        .button(Command::ColourFewest.label())
         .on_hover_text(Command::ColourFewest.tooltip())
         .clicked()
     {
@@ -653,7 +670,7 @@ fn evidence_buttons(
         }
         if why.cnf_and_proof.is_some()
             && ui
-                .button("Export the proof…")
+                .button(Command::ExportProof.label())
                 .on_hover_text(Command::ExportProof.tooltip())
                 .clicked()
         {
@@ -850,23 +867,26 @@ pub fn palette_ui(app: &mut App, ui: &mut egui::Ui) {
             marked(
                 ui,
                 false,
-                format!("{n} warning(s): some neighbouring colours are hard to tell apart"),
+                format!(
+                    "{}: some neighbouring colours are hard to tell apart",
+                    super::words::count(n, "warning", "warnings")
+                ),
             );
             for w in warnings.iter().take(3) {
                 ui.label(RichText::new(w).small());
             }
         }
     }
-    ui.horizontal(|ui| {
+    ui.horizontal_wrapped(|ui| {
         if ui
-            .button("Edit and check…")
+            .button(Command::PaletteWindow.label())
             .on_hover_text(Command::PaletteWindow.tooltip())
             .clicked()
         {
             app.emit(Command::PaletteWindow);
         }
         if ui
-            .button("Best slots")
+            .button(Command::AssignSlots.label())
             .on_hover_text(Command::AssignSlots.tooltip())
             .clicked()
         {
@@ -1163,7 +1183,7 @@ mod tests {
             text: "Ash and Birch both have colour 1".into(),
             regions: vec![RegionId(1), RegionId(2)]
         }));
-        assert!(lines.iter().any(|l| matches!(l, VerdictLine::Problem { text, regions } if text.contains("1 land region(s) have no colour") && regions == &vec![RegionId(3)])));
+        assert!(lines.iter().any(|l| matches!(l, VerdictLine::Problem { text, regions } if text.contains("1 land region has no colour") && regions == &vec![RegionId(3)])));
         doc.apply(Edit::PutColour {
             id: RegionId(2),
             slot: Some(1),

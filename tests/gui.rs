@@ -987,3 +987,15 @@ fn starting_from_one_of_our_palettes_asks_before_replacing_changes_and_the_picke
     assert!(h.query_all_by_label_contains("Hue").next().is_some());
     assert!(h.query_by_label_contains("U8").is_none());
 }
+
+#[test]
+fn the_view_menu_ticks_what_is_on() {
+    let mut h = harness(App::new(None, None));
+    h.get_by_label("View").click();
+    h.run_steps(2);
+    let labels = h.get_by_label_contains("region names");
+    assert!(format!("{labels:?}").contains("CheckBox"), "{labels:?}");
+    labels.click();
+    h.run_steps(3);
+    assert!(!h.state().view.show_labels);
+}

@@ -160,6 +160,27 @@ pub fn menu_ui(app: &mut App, ui: &mut egui::Ui) {
         for menu in Menu::ALL {
             ui.menu_button(menu.label(), |ui| {
                 for command in Command::all().into_iter().filter(|c| c.menu() == menu) {
+                    // On/off settings are ticked checkboxes, their shortcut beside the name.
+                    let toggle = match command {
+                        Command::ToggleBorders => Some(app.view.show_borders),
+                        Command::ToggleLabels => Some(app.view.show_labels),
+                        _ => None,
+                    };
+                    if let Some(mut on) = toggle {
+                        let key = command
+                            .shortcut()
+                            .map(|s| format!("    {}", ui.ctx().format_shortcut(&s)))
+                            .unwrap_or_default();
+                        if ui
+                            .checkbox(&mut on, format!("{}{key}", command.label()))
+                            .on_hover_text(command.tooltip())
+                            .clicked()
+                        {
+                            app.emit(command);
+                            ui.close();
+                        }
+                        continue;
+                    }
                     let mut button = egui::Button::new(command.label());
                     if let Some(s) = command.shortcut() {
                         button = button.shortcut_text(ui.ctx().format_shortcut(&s));
@@ -172,8 +193,6 @@ pub fn menu_ui(app: &mut App, ui: &mut egui::Ui) {
                     };
                     let selected = match command {
                         Command::UseTool(t) => app.view.tool == t,
-                        Command::ToggleBorders => app.view.show_borders,
-                        Command::ToggleLabels => app.view.show_labels,
                         _ => false,
                     };
                     let button = button.selected(selected);

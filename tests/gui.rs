@@ -999,3 +999,37 @@ fn the_view_menu_ticks_what_is_on() {
     h.run_steps(3);
     assert!(!h.state().view.show_labels);
 }
+
+#[test]
+fn the_region_list_is_by_name_or_file_order_and_tells_shared_names_apart() {
+    let mut doc = tinct::doc::Document::new("Shelbys");
+    for (id, name) in [(1, "Shelby"), (2, "Adair"), (3, "Shelby"), (4, "Benton")] {
+        doc.apply(tinct::doc::Edit::PutRegion {
+            id: RegionId(id),
+            region: Some(tinct::doc::Region::new(name, [id as f64, 0.0])),
+        })
+        .unwrap();
+    }
+    let mut app = App::new_with(None, None, None);
+    app.show_document(doc);
+    let mut h = harness(app);
+    let rows = |h: &Harness<'static, App>| -> Vec<RegionId> {
+        h.state()
+            .view
+            .region_rows
+            .as_ref()
+            .unwrap()
+            .1
+            .iter()
+            .map(|r| r.0)
+            .collect()
+    };
+    // By name (the default), ties by id; a shared name carries the id.
+    assert_eq!(rows(&h), [2, 4, 1, 3].map(RegionId));
+    assert!(h.query_by_label("Shelby (id 1)").is_some());
+    assert!(h.query_by_label("Shelby (id 3)").is_some());
+    assert!(h.query_by_label("Adair").is_some());
+    h.get_by_label("as in the file").click();
+    h.run_steps(3);
+    assert_eq!(rows(&h), [1, 2, 3, 4].map(RegionId));
+}

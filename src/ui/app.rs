@@ -220,7 +220,11 @@ pub struct ViewState {
     /// The fills and outlines drawn last, reused while only the view moves.
     pub base_layer: Option<super::canvas::BaseLayer>,
     /// The region list's rows for a document state and search text.
-    pub region_rows: Option<((u64, String), Vec<RegionId>)>,
+    /// For a document state, search text and order: the rows, each with whether its name is
+    /// shared with another region (then shown with its id).
+    pub region_rows: Option<((u64, String, bool), Vec<(RegionId, bool)>)>,
+    /// The region list in the order of the source file (ids) rather than by name.
+    pub list_in_file_order: bool,
 }
 
 impl Default for ViewState {
@@ -245,6 +249,7 @@ impl Default for ViewState {
             canvas_rect: None,
             base_layer: None,
             region_rows: None,
+            list_in_file_order: false,
         }
     }
 }

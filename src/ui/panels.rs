@@ -294,23 +294,46 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
         .widget_info(|| egui::WidgetInfo::labeled(egui::Role::TextInput, true, "Search regions"));
     // The matching ids are kept until the document or the search changes: on a large map,
     // filtering every name every frame would cost more than the rest of the frame.
-    let key = (app.scene.generation, app.view.region_filter.clone());
+    ui.horizontal(|ui| {
+        ui.label("Order:");
+        ui.radio_value(&mut app.view.list_in_file_order, false, "by name");
+        ui.radio_value(&mut app.view.list_in_file_order, true, "as in the file");
+    });
+    let key = (
+        app.scene.generation,
+        app.view.region_filter.clone(),
+        app.view.list_in_file_order,
+    );
     if app.view.region_rows.as_ref().is_none_or(|(k, _)| *k != key) {
         let filter = app.view.region_filter.to_lowercase();
-        let ids: Vec<RegionId> = app
-            .session
-            .doc()
+        let doc = app.session.doc();
+        let mut names: std::collections::HashMap<String, usize> = Default::default();
+        for r in doc.regions().values() {
+            *names.entry(r.name.to_lowercase()).or_default() += 1;
+        }
+        let mut rows: Vec<(RegionId, bool)> = doc
             .regions()
             .iter()
             .filter(|(_, r)| filter.is_empty() || r.name.to_lowercase().contains(&filter))
-            .map(|(id, _)| *id)
+            .map(|(id, r)| {
+                (
+                    *id,
+                    names.get(&r.name.to_lowercase()).is_some_and(|&n| n > 1),
+                )
+            })
             .collect();
-        app.view.region_rows = Some((key, ids));
+        if !app.view.list_in_file_order {
+            let lower = |id: &RegionId| {
+                doc.regions()
+                    .get(id)
+                    .map(|r| r.name.to_lowercase())
+                    .unwrap_or_default()
+            };
+            rows.sort_by_cached_key(|(id, _)| (lower(id), *id));
+        }
+        app.view.region_rows = Some((key.clone(), rows));
     }
-    let rows = match app.view.region_rows.take() {
-        Some((_, ids)) => ids,
-        None => Vec::new(),
-    };
+    let (key, rows) = app.view.region_rows.take().unwrap_or((key, Vec::new()));
     let doc = app.session.doc();
     ui.label(format!("{} shown of {}", rows.len(), doc.regions().len()));
     let row_height = ui.text_style_height(&egui::TextStyle::Body) + 4.0;
@@ -318,7 +341,7 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
     egui::ScrollArea::vertical()
         .auto_shrink([false, false])
         .show_rows(ui, row_height, rows.len(), |ui, range| {
-            for id in &rows[range] {
+            for (id, shared_name) in &rows[range] {
                 let Some(r) = doc.regions().get(id) else {
                     continue;
                 };
@@ -332,8 +355,14 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
                 };
                 ui.horizontal(|ui| {
                     swatch(ui, colour.unwrap_or(style::UNCOLOURED), 12.0);
+                    // A name several regions share is told apart by the region's id.
+                    let text = if *shared_name {
+                        format!("{} (id {id})", r.name)
+                    } else {
+                        r.name.clone()
+                    };
                     if ui
-                        .selectable_label(app.view.selection == Some(*id), &r.name)
+                        .selectable_label(app.view.selection == Some(*id), text)
                         .clicked()
                     {
                         go = Some(*id);
@@ -341,7 +370,7 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
                 });
             }
         });
-    app.view.region_rows = Some(((app.scene.generation, app.view.region_filter.clone()), rows));
+    app.view.region_rows = Some((key, rows));
     if let Some(id) = go {
         app.go_to_region(id);
     }

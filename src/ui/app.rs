@@ -188,6 +188,10 @@ pub fn project_path_for(path: &Path) -> PathBuf {
     path.with_extension(doc::file::EXTENSION)
 }
 
+/// What the region list's rows were made for: the scene generation, the search text and the
+/// order (file order when true).
+pub type RowsKey = (u64, String, bool);
+
 /// Everything about how the map is shown; never saved in the project.
 pub struct ViewState {
     pub camera: Camera,
@@ -222,7 +226,7 @@ pub struct ViewState {
     /// The region list's rows for a document state and search text.
     /// For a document state, search text and order: the rows, each with whether its name is
     /// shared with another region (then shown with its id).
-    pub region_rows: Option<((u64, String, bool), Vec<(RegionId, bool)>)>,
+    pub region_rows: Option<(RowsKey, Vec<(RegionId, bool)>)>,
     /// The region list in the order of the source file (ids) rather than by name.
     pub list_in_file_order: bool,
 }

@@ -1527,3 +1527,80 @@ fn a_region_whose_outline_is_degenerate_stands_where_its_positions_are() {
     let region = doc.regions().values().find(|r| r.name == "Sliver").unwrap();
     assert_eq!(region.anchor, at);
 }
+
+#[test]
+fn deriving_borders_again_with_a_tolerance_matches_importing_with_it() {
+    // The 14 US states (us-atlas; PROVENANCE.md), imported exactly, then derived again in the
+    // project with a 2 km tolerance: the same contacts as importing with 2 km; borders added by
+    // hand and suppressed ones keep what the user made of them; undo restores the first state.
+    let source = data("us_states_subset.geojson");
+    let exact = geo::import_path(&source, &options(Rule::Queen)).unwrap();
+    let mut doc = exact.into_document("states");
+    let first = doc.clone();
+    // A border by hand between two states that do not touch, and one derived border suppressed.
+    let id = |doc: &tinct::doc::Document, name: &str| {
+        *doc.regions()
+            .iter()
+            .find(|(_, r)| r.name == name)
+            .unwrap()
+            .0
+    };
+    let by_hand = tinct::doc::RegionPair::new(id(&doc, "Alaska"), id(&doc, "Texas")).unwrap();
+    let suppressed = tinct::doc::RegionPair::new(id(&doc, "Utah"), id(&doc, "Colorado")).unwrap();
+    doc.apply(tinct::doc::Edit::PutBorder {
+        pair: by_hand,
+        border: Some(tinct::doc::Border::manual()),
+    })
+    .unwrap();
+    let mut off = doc.borders().get(&suppressed).unwrap().clone();
+    off.suppressed = true;
+    doc.apply(tinct::doc::Edit::PutBorder {
+        pair: suppressed,
+        border: Some(off),
+    })
+    .unwrap();
+    let before = doc.clone();
+
+    let edit = geo::document::rederive_borders(&doc, 2000.0).expect("the map has outlines");
+    let undo = doc.apply(edit).unwrap();
+    assert_eq!(doc.settings().tolerance, 2000.0);
+    let with_tolerance = geo::import_path(
+        &source,
+        &ImportOptions {
+            rule: Rule::Queen,
+            tolerance: 2000.0,
+            ..ImportOptions::default()
+        },
+    )
+    .unwrap()
+    .into_document("states");
+    // Pairs, kinds and shared lengths to the metre (the tolerance shortens each shared stretch).
+    let derived = |d: &tinct::doc::Document| -> BTreeSet<(u64, u64, bool, i64)> {
+        d.borders()
+            .iter()
+            .filter(|(_, b)| b.kind != tinct::doc::BorderKind::Manual)
+            .map(|(p, b)| {
+                let corner = b.kind == tinct::doc::BorderKind::Corner;
+                (p.a().0, p.b().0, corner, b.length.round() as i64)
+            })
+            .collect()
+    };
+    assert_eq!(derived(&doc), derived(&with_tolerance));
+    assert_ne!(
+        derived(&doc),
+        derived(&first),
+        "2 km changes the measured lengths"
+    );
+    assert_eq!(
+        doc.borders().get(&by_hand).unwrap().kind,
+        tinct::doc::BorderKind::Manual
+    );
+    assert!(doc.borders().get(&suppressed).unwrap().suppressed);
+    doc.apply(undo).unwrap();
+    assert_eq!(doc, before);
+    // The same tolerance again changes no border.
+    let again = geo::document::rederive_borders(&first, 0.0).unwrap();
+    let mut same = first.clone();
+    same.apply(again).unwrap();
+    assert_eq!(same.borders(), first.borders());
+}

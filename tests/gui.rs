@@ -1033,3 +1033,30 @@ fn the_region_list_is_by_name_or_file_order_and_tells_shared_names_apart() {
     h.run_steps(3);
     assert_eq!(rows(&h), [1, 2, 3, 4].map(RegionId));
 }
+
+#[test]
+fn project_settings_change_the_rule_and_the_tolerance_in_one_undoable_step() {
+    let states = root().join("tests/data/geo/us_states_subset.geojson");
+    let mut h = harness(App::new(None, Some(states)));
+    h.run_steps(3);
+    let before = h.state().session.doc().clone();
+    assert!(!before.settings().corners_count);
+    let active = |h: &Harness<'static, App>| h.state().session.doc().active_borders().count();
+    let rook = active(&h);
+    h.get_by_label("Edit").click();
+    h.run_steps(2);
+    h.get_by_label_contains("Project settings…").click();
+    h.run_steps(3);
+    h.get_by_label_contains("queen contiguity").click();
+    h.run_steps(1);
+    replace_text(&mut h, "Tolerance", "500");
+    h.get_by_label("Apply").click();
+    h.run_steps(3);
+    let doc = h.state().session.doc();
+    assert!(doc.settings().corners_count);
+    assert_eq!(doc.settings().tolerance, 500.0);
+    // The Four Corners diagonals now count (common practice: queen adds them).
+    assert_eq!(active(&h), rook + 2, "{}", last_message(&h));
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::Z);
+    assert_eq!(*h.state().session.doc(), before);
+}

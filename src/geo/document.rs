@@ -251,3 +251,109 @@ mod tests {
         assert!(p[0] > 0.0 && p[0] < 1.0, "{p:?}");
     }
 }
+
+/// The edit that derives `doc`'s borders again from its outlines with another `tolerance`, as
+/// importing with it would have, and records the tolerance: one undoable step. Borders added by
+/// hand stay; a derived border the user suppressed stays suppressed when it is found again;
+/// derived borders no longer found go. Regions drawn as markers keep their borders. `None` when
+/// the map has no outlines to derive anything from.
+pub fn rederive_borders(doc: &Document, tolerance: f64) -> Option<doc::Edit> {
+    use crate::doc::{BorderKind as DocKind, Edit};
+    let outlined: Vec<(RegionId, &doc::Region)> = doc
+        .regions()
+        .iter()
+        .filter(|(_, r)| r.geometry.as_ref().is_some_and(|g| !g.polygons.is_empty()))
+        .map(|(id, r)| (*id, r))
+        .collect();
+    if outlined.is_empty() {
+        return None;
+    }
+    let regions: Vec<super::ImportedRegion> = outlined
+        .iter()
+        .enumerate()
+        .map(|(i, (_, r))| super::ImportedRegion {
+            source_index: i,
+            name: r.name.clone(),
+            parts: r
+                .geometry
+                .as_ref()
+                .map(|g| {
+                    g.polygons
+                        .iter()
+                        .map(|p| GeoPolygon {
+                            exterior: p.exterior.clone(),
+                            holes: p.holes.clone(),
+                        })
+                        .collect()
+                })
+                .unwrap_or_default(),
+            properties: super::Properties::new(),
+            position: None,
+        })
+        .collect();
+    let settings = doc.settings();
+    let options = super::AdjacencyOptions {
+        rule: Rule::Queen,
+        tolerance: tolerance.max(0.0),
+        min_border_length: 0.0,
+        gap_width: None,
+        lengths_on_sphere: match (settings.units, settings.projection_origin) {
+            (doc::Units::Metres, Some([lon, lat])) => {
+                Some(super::LambertAzimuthalEqualArea::new(lon, lat))
+            }
+            _ => None,
+        },
+    };
+    let derived = super::derive_contacts(&regions, &options);
+    let mut found: BTreeMap<RegionPair, Border> = BTreeMap::new();
+    for b in derived.borders.iter().chain(&derived.excluded) {
+        if let Some(pair) = RegionPair::new(outlined[b.a].0, outlined[b.b].0) {
+            found.insert(
+                pair,
+                match b.kind {
+                    GeoBorderKind::Shared { length } => Border::shared(length),
+                    GeoBorderKind::Corner => Border::corner(),
+                },
+            );
+        }
+    }
+    let is_outlined = |id: RegionId| outlined.binary_search_by_key(&id, |(i, _)| *i).is_ok();
+    let mut edits = Vec::new();
+    for (pair, old) in doc.borders().iter() {
+        let derived_kind = matches!(old.kind, DocKind::Shared | DocKind::Corner);
+        if derived_kind
+            && is_outlined(pair.a())
+            && is_outlined(pair.b())
+            && !found.contains_key(pair)
+        {
+            edits.push(Edit::PutBorder {
+                pair: *pair,
+                border: None,
+            });
+        }
+    }
+    for (pair, mut border) in found {
+        match doc.borders().get(&pair) {
+            Some(old) if old.kind == DocKind::Manual => continue,
+            Some(old) => {
+                border.suppressed = old.suppressed;
+                if *old == border {
+                    continue;
+                }
+            }
+            None => {}
+        }
+        edits.push(Edit::PutBorder {
+            pair,
+            border: Some(border),
+        });
+    }
+    edits.push(Edit::SetSettings(doc::Settings {
+        tolerance: tolerance.max(0.0),
+        ..*settings
+    }));
+    Some(Edit::Batch {
+        label: "Derive borders with another tolerance".into(),
+        edits,
+    })
+}

@@ -315,6 +315,8 @@ pub struct App {
     pub export_options: ExportOptions,
     /// The palette window, while open.
     pub palette_editor: Option<super::palette::PaletteEditor>,
+    /// The project settings window's draft, while it is open.
+    pub settings_draft: Option<super::settings::SettingsDraft>,
 }
 
 impl App {
@@ -363,6 +365,7 @@ impl App {
             last_title: String::new(),
             export_options: ExportOptions::default(),
             palette_editor: None,
+            settings_draft: None,
             recent: recovery
                 .as_deref()
                 .map(doc::recovery::recent_files)
@@ -1113,6 +1116,11 @@ impl App {
                     self.edit(Edit::SetColouring(Default::default()));
                 }
             }
+            Command::ProjectSettings => {
+                self.settings_draft = Some(super::settings::SettingsDraft::new(
+                    self.session.doc().settings(),
+                ));
+            }
             Command::PaletteWindow => {
                 if self.palette_editor.is_none() {
                     self.palette_editor = Some(super::palette::PaletteEditor::new(
@@ -1190,7 +1198,8 @@ impl App {
         let closed = self.command_search.take().is_some()
             || self.path_prompt.take().is_some()
             || self.confirm_discard.take().is_some()
-            || self.palette_editor.take().is_some();
+            || self.palette_editor.take().is_some()
+            || self.settings_draft.take().is_some();
         if closed {
             return;
         }

@@ -152,6 +152,8 @@ pub enum Command {
     ClearColours,
     CommandList,
     /// Opens the palette window (edit slots, check distinctness, see simulated readers).
+    /// The project's adjacency settings (rule, minimum shared length, tolerance).
+    ProjectSettings,
     PaletteWindow,
     /// Moves colour classes to the palette slots that suit them best.
     AssignSlots,
@@ -203,6 +205,7 @@ impl Command {
             Command::Redo,
             Command::DeleteRegion,
             Command::ClearSelection,
+            Command::ProjectSettings,
             Command::FitView,
             Command::ToggleBorders,
             Command::ToggleLabels,
@@ -227,9 +230,11 @@ impl Command {
             Command::New | Command::Open | Command::Save | Command::SaveAs | Command::Quit => {
                 Menu::File
             }
-            Command::Undo | Command::Redo | Command::DeleteRegion | Command::ClearSelection => {
-                Menu::Edit
-            }
+            Command::Undo
+            | Command::Redo
+            | Command::DeleteRegion
+            | Command::ClearSelection
+            | Command::ProjectSettings => Menu::Edit,
             Command::FitView
             | Command::ToggleBorders
             | Command::ToggleLabels
@@ -268,6 +273,7 @@ impl Command {
             Command::ExportProof => "Export the proof…".into(),
             Command::ClearColours => "Remove all colours".into(),
             Command::PaletteWindow => "Palette and print check…".into(),
+            Command::ProjectSettings => "Project settings…".into(),
             Command::AssignSlots => "Most distinct colours for most borders".into(),
             Command::Export(ExportFormat::Svg) => "Picture for print (SVG)…".into(),
             Command::Export(ExportFormat::Png) => "Picture (PNG)…".into(),
@@ -309,6 +315,9 @@ impl Command {
                 "Write the CNF and DRAT proof of each part of the map that rules out fewer colours, for checking with any DRAT checker"
             }
             Command::ClearColours => "Remove the colour of every region (undoable)",
+            Command::ProjectSettings => {
+                "Which contacts count as borders: shared edges only or corner contacts too, the shortest shared border that counts, and the tolerance borders are found with (undoable)"
+            }
             Command::PaletteWindow => {
                 "Edit the palette's colours and names, and check that neighbouring colours stay distinct in greyscale and for colour-blind readers"
             }
@@ -368,6 +377,7 @@ impl Command {
             Command::ExportProof => None,
             Command::ClearColours => None,
             Command::PaletteWindow => None,
+            Command::ProjectSettings => None,
             Command::AssignSlots => None,
             Command::Export(ExportFormat::Svg) => Some(KeyboardShortcut::new(
                 Modifiers::COMMAND | Modifiers::SHIFT,

@@ -9,6 +9,7 @@ pub mod commands;
 pub mod mesh;
 pub mod palette;
 pub mod panels;
+pub mod settings;
 pub mod view;
 pub mod words;
 
@@ -43,6 +44,7 @@ impl App {
         panels::dialogs_ui(self, &ctx);
         panels::argument_ui(self, &ctx);
         palette::palette_window_ui(self, &ctx);
+        settings::settings_window_ui(self, &ctx);
         self.run_pending(&ctx);
     }
 }

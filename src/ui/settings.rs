@@ -1,0 +1,171 @@
+//! The project settings window: which contacts count as borders (shared edges only, or corner
+//! contacts too), the shortest shared border that counts, and the tolerance borders are found
+//! with. Applying is one undoable edit; a new tolerance derives the borders again from the
+//! outlines (borders added by hand and suppressed ones keep what the user made of them).
+
+use crate::doc::{Edit, Settings, Units};
+
+use super::app::{App, Level};
+
+/// The settings being edited while the window is open.
+pub struct SettingsDraft {
+    pub corners_count: bool,
+    pub min_border_length: f64,
+    pub tolerance: f64,
+}
+
+impl SettingsDraft {
+    pub fn new(settings: &Settings) -> SettingsDraft {
+        SettingsDraft {
+            corners_count: settings.corners_count,
+            min_border_length: settings.min_border_length,
+            tolerance: settings.tolerance,
+        }
+    }
+}
+
+/// The edit that makes the project's settings `draft`, or `None` when nothing changes.
+pub fn settings_edit(doc: &crate::doc::Document, draft: &SettingsDraft) -> Option<Edit> {
+    let old = *doc.settings();
+    let settings = Settings {
+        corners_count: draft.corners_count,
+        min_border_length: draft.min_border_length.max(0.0),
+        ..old
+    };
+    let mut edits = Vec::new();
+    if settings != old {
+        edits.push(Edit::SetSettings(settings));
+    }
+    if draft.tolerance.max(0.0) != old.tolerance {
+        // Derived against the settings as they will be (the tolerance edit records them).
+        let mut with = doc.clone();
+        if let Some(e) = edits.first() {
+            let _ = with.apply(e.clone());
+        }
+        match crate::geo::document::rederive_borders(&with, draft.tolerance) {
+            Some(rederive) => edits.push(rederive),
+            None => edits.push(Edit::SetSettings(Settings {
+                tolerance: draft.tolerance.max(0.0),
+                ..settings
+            })),
+        }
+    }
+    (!edits.is_empty()).then(|| Edit::Batch {
+        label: "Change project settings".into(),
+        edits,
+    })
+}
+
+/// Draws the window while it is open.
+pub fn settings_window_ui(app: &mut App, ctx: &egui::Context) {
+    let Some(draft) = &mut app.settings_draft else {
+        return;
+    };
+    let doc = app.session.doc();
+    let unit = match doc.settings().units {
+        Units::Metres => " m",
+        Units::Unitless => "",
+    };
+    let has_outlines = doc.regions().values().any(|r| r.geometry.is_some());
+    let mut open = true;
+    let mut apply = false;
+    egui::Window::new("Project settings")
+        .open(&mut open)
+        .collapsible(false)
+        .resizable(false)
+        .show(ctx, |ui| {
+            ui.label("Regions border each other when they share");
+            ui.radio_value(&mut draft.corners_count, false, "an edge (rook contiguity)");
+            ui.radio_value(
+                &mut draft.corners_count,
+                true,
+                "an edge or just a corner point (queen contiguity)",
+            );
+            ui.horizontal(|ui| {
+                let label = ui.label("Shortest shared border that counts");
+                ui.add(
+                    egui::DragValue::new(&mut draft.min_border_length)
+                        .range(0.0..=f64::MAX)
+                        .speed(10.0)
+                        .suffix(unit),
+                )
+                .labelled_by(label.id);
+            });
+            ui.label(
+                egui::RichText::new(
+                    "Shorter shared borders count as corner contacts (they constrain the colouring only with corner contacts counted).",
+                )
+                .small(),
+            );
+            ui.add_enabled_ui(has_outlines, |ui| {
+                ui.horizontal(|ui| {
+                    let label = ui.label("Tolerance");
+                    ui.add(
+                        egui::DragValue::new(&mut draft.tolerance)
+                            .range(0.0..=f64::MAX)
+                            .speed(10.0)
+                            .suffix(unit),
+                    )
+                    .labelled_by(label.id);
+                });
+                ui.label(
+                    egui::RichText::new(
+                        "Boundaries this close count as touching. Changing it finds the borders again from the outlines; borders added by hand and borders you removed stay as you left them.",
+                    )
+                    .small(),
+                );
+            });
+            ui.horizontal(|ui| {
+                if ui.button("Apply").clicked() {
+                    apply = true;
+                }
+            });
+        });
+    if apply {
+        match settings_edit(doc, draft) {
+            Some(edit) => {
+                app.edit(edit);
+                app.say(
+                    Level::Info,
+                    "Project settings changed (undo puts them back)",
+                );
+            }
+            None => app.say(Level::Info, "The settings are as they were"),
+        }
+        app.settings_draft = None;
+    } else if !open {
+        app.settings_draft = None;
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::doc::{Border, Document, Region, RegionId, RegionPair};
+
+    #[test]
+    fn switching_to_corner_contacts_makes_a_corner_border_count_and_undo_takes_it_back() {
+        let mut doc = Document::new("t");
+        for id in [1, 2] {
+            doc.apply(Edit::PutRegion {
+                id: RegionId(id),
+                region: Some(Region::new(format!("R{id}"), [id as f64, 0.0])),
+            })
+            .unwrap();
+        }
+        let pair = RegionPair::new(RegionId(1), RegionId(2)).unwrap();
+        doc.apply(Edit::PutBorder {
+            pair,
+            border: Some(Border::corner()),
+        })
+        .unwrap();
+        assert_eq!(doc.active_borders().count(), 0);
+        let mut draft = SettingsDraft::new(doc.settings());
+        assert!(settings_edit(&doc, &draft).is_none(), "nothing changed");
+        draft.corners_count = true;
+        let undo = doc.apply(settings_edit(&doc, &draft).unwrap()).unwrap();
+        assert_eq!(doc.active_borders().count(), 1);
+        doc.apply(undo).unwrap();
+        assert_eq!(doc.active_borders().count(), 0);
+    }
+}

@@ -226,32 +226,6 @@ pub fn anchor_of(parts: &[GeoPolygon]) -> Point {
         .map_or(centroid, |w| [(w[0] + w[1]) / 2.0, y])
 }
 
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn anchor_of_a_c_shape_lies_inside_it() {
-        // A C-shaped polygon whose centroid falls in the notch.
-        let ring = vec![
-            [0.0, 0.0],
-            [3.0, 0.0],
-            [3.0, 1.0],
-            [1.0, 1.0],
-            [1.0, 2.0],
-            [3.0, 2.0],
-            [3.0, 3.0],
-            [0.0, 3.0],
-            [0.0, 0.0],
-        ];
-        let p = anchor_of(&[GeoPolygon {
-            exterior: ring,
-            holes: vec![],
-        }]);
-        assert!(p[0] > 0.0 && p[0] < 1.0, "{p:?}");
-    }
-}
-
 /// The edit that derives `doc`'s borders again from its outlines with another `tolerance`, as
 /// importing with it would have, and records the tolerance: one undoable step. Borders added by
 /// hand stay; a derived border the user suppressed stays suppressed when it is found again;
@@ -356,4 +330,30 @@ pub fn rederive_borders(doc: &Document, tolerance: f64) -> Option<doc::Edit> {
         label: "Derive borders with another tolerance".into(),
         edits,
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn anchor_of_a_c_shape_lies_inside_it() {
+        // A C-shaped polygon whose centroid falls in the notch.
+        let ring = vec![
+            [0.0, 0.0],
+            [3.0, 0.0],
+            [3.0, 1.0],
+            [1.0, 1.0],
+            [1.0, 2.0],
+            [3.0, 2.0],
+            [3.0, 3.0],
+            [0.0, 3.0],
+            [0.0, 0.0],
+        ];
+        let p = anchor_of(&[GeoPolygon {
+            exterior: ring,
+            holes: vec![],
+        }]);
+        assert!(p[0] > 0.0 && p[0] < 1.0, "{p:?}");
+    }
 }

@@ -1552,7 +1552,7 @@ fn deriving_borders_again_with_a_tolerance_matches_importing_with_it() {
         border: Some(tinct::doc::Border::manual()),
     })
     .unwrap();
-    let mut off = doc.borders().get(&suppressed).unwrap().clone();
+    let mut off = *doc.borders().get(&suppressed).unwrap();
     off.suppressed = true;
     doc.apply(tinct::doc::Edit::PutBorder {
         pair: suppressed,

@@ -1060,3 +1060,25 @@ fn project_settings_change_the_rule_and_the_tolerance_in_one_undoable_step() {
     press(&mut h, egui::Modifiers::COMMAND, egui::Key::Z);
     assert_eq!(*h.state().session.doc(), before);
 }
+
+#[test]
+fn opening_a_boundary_file_offers_the_import_options() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(App::new_with(None, None, Some(dir.path().join("state"))));
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::O);
+    // A project path shows no import options; a boundary file does.
+    type_keys(&mut h, "map.tinct");
+    assert!(h.query_by_label("Importing boundaries").is_none());
+    let states = root().join("tests/data/geo/us_states_subset.geojson");
+    replace_text(&mut h, "File path", &states.display().to_string());
+    assert!(h.query_by_label("Importing boundaries").is_some());
+    h.get_by_label("an edge or a corner (queen)").click();
+    h.run_steps(1);
+    replace_text(&mut h, "Tolerance", "250");
+    h.get_all_by_label("Open").last().unwrap().click();
+    h.run_steps(4);
+    let doc = h.state().session.doc();
+    assert_eq!(doc.regions().len(), 14, "{}", last_message(&h));
+    assert!(doc.settings().corners_count, "imported with the queen rule");
+    assert_eq!(doc.settings().tolerance, 250.0);
+}

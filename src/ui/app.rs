@@ -313,6 +313,8 @@ pub struct App {
     last_title: String,
     /// How pictures are exported.
     pub export_options: ExportOptions,
+    /// How boundary files are imported when opened (kept for the session).
+    pub import_options: crate::geo::ImportOptions,
     /// The palette window, while open.
     pub palette_editor: Option<super::palette::PaletteEditor>,
     /// The project settings window's draft, while it is open.
@@ -364,6 +366,7 @@ impl App {
             quit_confirmed: false,
             last_title: String::new(),
             export_options: ExportOptions::default(),
+            import_options: crate::geo::ImportOptions::default(),
             palette_editor: None,
             settings_draft: None,
             recent: recovery
@@ -492,8 +495,9 @@ impl App {
     /// Reads a file on the worker (or here, when there is no worker, as in tests).
     pub fn open_path(&mut self, path: PathBuf) {
         let job_path = path.clone();
+        let import = self.import_options.clone();
         let job = move || {
-            let result = crate::formats::load(&job_path, &crate::geo::ImportOptions::default())
+            let result = crate::formats::load(&job_path, &import)
                 .map(|l| Box::new((l.doc, l.notices.into_iter().map(|n| n.message).collect())))
                 .map_err(|e| format!("{e:#}"));
             JobResult::Loaded {

@@ -1012,6 +1012,66 @@ fn focus_and_select(ui: &egui::Ui, response: &egui::Response, text: &str) {
     }
 }
 
+/// How a boundary file is imported: the options of `tinct import`, for the Open window.
+fn import_options_ui(ui: &mut egui::Ui, options: &mut crate::geo::ImportOptions) {
+    use crate::geo::Rule;
+    ui.separator();
+    ui.label(RichText::new("Importing boundaries").strong());
+    ui.horizontal(|ui| {
+        ui.label("Regions border each other along");
+        ui.radio_value(&mut options.rule, Rule::Rook, "an edge (rook)");
+        ui.radio_value(
+            &mut options.rule,
+            Rule::Queen,
+            "an edge or a corner (queen)",
+        );
+    });
+    let number = |ui: &mut egui::Ui, label: &str, value: &mut f64| {
+        ui.horizontal(|ui| {
+            let l = ui.label(label);
+            ui.add(
+                egui::DragValue::new(value)
+                    .range(0.0..=f64::MAX)
+                    .speed(10.0),
+            )
+            .labelled_by(l.id);
+            ui.label("(metres for longitude/latitude data, else map units)");
+        });
+    };
+    number(ui, "Tolerance", &mut options.tolerance);
+    number(ui, "Shortest shared border", &mut options.min_border_length);
+    let text = |ui: &mut egui::Ui, label: &str, hint: &str, value: &mut Option<String>| {
+        ui.horizontal(|ui| {
+            let l = ui.label(label);
+            let mut typed = value.clone().unwrap_or_default();
+            if ui
+                .add(egui::TextEdit::singleline(&mut typed).hint_text(hint))
+                .labelled_by(l.id)
+                .changed()
+            {
+                *value = (!typed.trim().is_empty()).then(|| typed.trim().to_string());
+            }
+        });
+    };
+    text(
+        ui,
+        "Name field",
+        "name, NAME, Name, id or ID",
+        &mut options.name_field,
+    );
+    text(
+        ui,
+        "Field that tells equal names apart",
+        "for example STATE",
+        &mut options.qualify_field,
+    );
+    text(ui, "Layer", "the only polygon layer", &mut options.layer);
+    ui.checkbox(
+        &mut options.split_parts,
+        "One region per polygon part (the parts share a colour)",
+    );
+}
+
 /// Dialog windows: the path prompt, the unsaved-changes question and the command list.
 pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
     if let Some(offer) = &app.recovery_offer {
@@ -1093,6 +1153,7 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
             PathPurpose::Export(format) => format!("Export a {}", format.name()),
         };
         let export_options = &mut app.export_options;
+        let import_options = &mut app.import_options;
         let mut action: Option<u8> = None;
         egui::Window::new(title)
             .collapsible(false)
@@ -1115,6 +1176,11 @@ pub fn dialogs_ui(app: &mut App, ctx: &egui::Context) {
                 }
                 if let PathPurpose::Export(format) = prompt.purpose {
                     export_options_ui(ui, format, export_options);
+                }
+                if prompt.purpose == PathPurpose::Open
+                    && crate::geo::is_boundary_file(std::path::Path::new(prompt.text.trim()))
+                {
+                    import_options_ui(ui, import_options);
                 }
                 ui.horizontal(|ui| {
                     let go = match prompt.purpose {

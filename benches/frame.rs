@@ -4,6 +4,14 @@
 //! same window showing an empty project, so the ratio isolates what the map costs.
 //!
 //! Run: `cargo bench --bench frame`. Target (issue: the editor): under 8 ms per frame at 3,000 regions.
+//!
+//! Two more measurements:
+//! - **edit to verdict**: on the editor's sample map, with the real background worker, the time
+//!   from an edit to a frame that shows the analysis of the edited map (target 100 ms), against
+//!   one frame at rest;
+//! - **a real map**: with `TINCT_COUNTIES=…/counties-10m.json` (npm `us-atlas` 3.0.1, 3,231 US
+//!   counties; not in the repository), the same rows for it (target: a wheel-zoom frame, "whole,
+//!   zooming", under 16 ms).
 
 #[path = "../tests/support/generators.rs"]
 mod generators;
@@ -98,7 +106,67 @@ fn frame_times(
     (times[times.len() / 2], shapes, triangles)
 }
 
+/// Edit to verdict on the sample map with the background worker: median of `edits` edits.
+fn edit_to_verdict(edits: usize) -> (Duration, Duration) {
+    let ctx = egui::Context::default();
+    let mut app = App::new(Some(ctx.clone()), None);
+    let input = || egui::RawInput {
+        screen_rect: Some(egui::Rect::from_min_size(
+            egui::Pos2::ZERO,
+            egui::vec2(1280.0, 800.0),
+        )),
+        ..Default::default()
+    };
+    let frame = |app: &mut App| {
+        let mut output = ctx.run_ui(input(), |ui| app.ui(ui));
+        output.textures_delta.clear();
+        let _ = ctx.tessellate(output.shapes, output.pixels_per_point);
+    };
+    // Let the first analysis arrive (and teach the editor how long one takes).
+    let deadline = Instant::now() + Duration::from_secs(30);
+    while app.analysis_is_stale() && Instant::now() < deadline {
+        frame(&mut app);
+        std::thread::sleep(Duration::from_millis(1));
+    }
+    let mut rest = Vec::new();
+    for _ in 0..20 {
+        let start = Instant::now();
+        frame(&mut app);
+        rest.push(start.elapsed());
+    }
+    rest.sort();
+    let mut times = Vec::with_capacity(edits);
+    for k in 0..edits {
+        let (id, region) = {
+            let (id, r) = app.session.doc().land_regions().next().expect("land");
+            (id, r.clone())
+        };
+        let start = Instant::now();
+        app.edit(Edit::PutRegion {
+            id,
+            region: Some(tinct::doc::Region {
+                name: format!("Renamed {k}"),
+                ..region
+            }),
+        });
+        while app.analysis_is_stale() && start.elapsed() < Duration::from_secs(10) {
+            frame(&mut app);
+            std::thread::sleep(Duration::from_micros(200));
+        }
+        frame(&mut app);
+        times.push(start.elapsed());
+    }
+    times.sort();
+    (times[times.len() / 2], rest[rest.len() / 2])
+}
+
 fn main() {
+    let (verdict, rest) = edit_to_verdict(15);
+    println!(
+        "edit to verdict on the sample map (31 regions, background worker): {:.1} ms median, against a frame at rest {:.2} ms (target 100 ms)",
+        ms(verdict),
+        ms(rest)
+    );
     let frames = 40;
     let (empty, _, _) = frame_times(Document::new("Empty"), frames, None, 1.0);
     println!(
@@ -114,8 +182,33 @@ fn main() {
     } else {
         &[(20, 15), (60, 50), (100, 100), (320, 320)]
     };
-    for &(cols, rows) in sizes {
-        let doc = map(cols, rows);
+    let mut maps: Vec<Document> = Vec::new();
+    if let Some(path) = std::env::var_os("TINCT_COUNTIES") {
+        match tinct::geo::import_path(std::path::Path::new(&path), &ImportOptions::default()) {
+            Ok(map) => {
+                let mut doc = map.into_document("US counties");
+                let ctx = JobContext {
+                    cancel: Default::default(),
+                    progress: Default::default(),
+                };
+                let verdict = ctx.with_control(|c| {
+                    analysis::colour(&doc, c, analysis::ColourOptions::default())
+                });
+                if let Some(colouring) = verdict.colouring {
+                    let _ = doc.apply(Edit::SetColouring(colouring));
+                }
+                println!(
+                    "real map: {} ({} regions)",
+                    path.to_string_lossy(),
+                    doc.regions().len()
+                );
+                maps.push(doc);
+            }
+            Err(e) => println!("TINCT_COUNTIES: {e}"),
+        }
+    }
+    maps.extend(sizes.iter().map(|&(cols, rows)| map(cols, rows)));
+    for doc in maps {
         let vertices: usize = doc
             .regions()
             .values()

@@ -133,8 +133,13 @@ pub enum Highlight {
 /// How often unsaved work is written to the recovery file.
 pub const AUTOSAVE_EVERY: Duration = Duration::from_secs(5);
 
-/// How long the document must rest after an edit before the background analysis starts.
+/// How long the document must rest after an edit before the background analysis starts, when
+/// the last analysis took long enough for a burst of edits to pile up work.
 pub const ANALYSIS_DEBOUNCE: Duration = Duration::from_millis(250);
+
+/// An analysis quicker than this starts at once after an edit: on a small map the verdict follows
+/// the edit without a wait (a newer edit cancels a job still running).
+pub const QUICK_ANALYSIS: Duration = Duration::from_millis(50);
 
 /// How serious a message in the status area is.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -286,6 +291,9 @@ pub struct App {
     pub analysis: Option<Analysis>,
     /// The revision the latest analysis job was started for.
     analysis_requested: Option<u64>,
+    /// When the latest analysis job was started, and how long the last finished one took.
+    analysis_started: Option<Instant>,
+    analysis_took: Option<Duration>,
     /// When the document last changed (for the debounce).
     changed_at: Instant,
     seen_revision: u64,
@@ -357,6 +365,8 @@ impl App {
             apply_when_ready: false,
             analysis: None,
             analysis_requested: None,
+            analysis_started: None,
+            analysis_took: None,
             changed_at: Instant::now(),
             seen_revision: u64::MAX,
             worker,
@@ -570,6 +580,7 @@ impl App {
                 );
             }
             JobResult::Analysed(a) => {
+                self.analysis_took = self.analysis_started.map(|t| t.elapsed());
                 self.analysis = Some(*a);
                 if self.apply_when_ready && !self.analysis_is_stale() {
                     self.apply_when_ready = false;
@@ -835,6 +846,7 @@ impl App {
     pub fn start_analysis(&mut self) {
         let revision = self.session.doc().revision();
         self.analysis_requested = Some(revision);
+        self.analysis_started = Some(Instant::now());
         let snapshot = crate::worker::snapshot(self.session.doc());
         match &mut self.worker {
             Some(w) => w.submit(
@@ -949,10 +961,15 @@ impl App {
         }
         if self.analysis_requested != Some(revision) {
             let rest = self.changed_at.elapsed();
-            if rest >= ANALYSIS_DEBOUNCE || self.worker.is_none() {
+            let wait = if self.analysis_took.is_some_and(|t| t < QUICK_ANALYSIS) {
+                Duration::ZERO
+            } else {
+                ANALYSIS_DEBOUNCE
+            };
+            if rest >= wait || self.worker.is_none() {
                 self.start_analysis();
             } else {
-                ctx.request_repaint_after(ANALYSIS_DEBOUNCE - rest);
+                ctx.request_repaint_after(wait - rest);
             }
         }
         self.autosave(ctx);

@@ -4,8 +4,6 @@
 //! open dataset (US Census state boundaries via npm us-atlas, see tests/data/geo/PROVENANCE.md),
 //! the CSV parses back under RFC 4180. Also the palette glue on documents and the CLI.
 
-use std::collections::BTreeMap;
-
 use serde_json::Value;
 use tinct::colour::Thresholds;
 use tinct::doc::palette_check::{palette_report, slot_assignment_edit, slot_border_counts};
@@ -13,25 +11,7 @@ use tinct::doc::{Border, Document, Edit, Region, RegionChange, RegionId, RegionP
 use tinct::export::{self, ExportError, MapFrame, PngSize, SvgOptions};
 use tinct::geo::{self, ImportOptions};
 
-use super::support::{root, stderr, stdout, tinct_path};
-
-/// A proper colouring by a plain greedy pass in id order (written here, not taken from the
-/// engine): enough colours for any test map, always valid.
-fn greedy_colour(doc: &mut Document) {
-    let mut colouring: BTreeMap<RegionId, u32> = BTreeMap::new();
-    let land: Vec<RegionId> = doc.land_regions().map(|(id, _)| id).collect();
-    for id in land {
-        let taken: Vec<u32> = doc
-            .active_borders()
-            .filter_map(|(p, _)| p.other(id))
-            .filter_map(|n| colouring.get(&n).copied())
-            .collect();
-        let slot = (0..).find(|s| !taken.contains(s)).unwrap_or(0);
-        colouring.insert(id, slot);
-    }
-    doc.apply(Edit::SetColouring(colouring))
-        .expect("colouring applies");
-}
+use super::support::{greedy_colour, root, stderr, stdout, tinct_path};
 
 fn sample(name: &str) -> Document {
     let path = root().join("sample-maps").join(format!("{name}.tinct"));

@@ -12,29 +12,14 @@ use std::path::{Path, PathBuf};
 use std::process::Command;
 
 use serde_json::Value;
-use tinct::doc::{Document, Edit, RegionId};
+use tinct::doc::Document;
 use tinct::export::{self, ExportFormat, SvgOptions};
 use tinct::geo::{self, CoordinateMode, ImportOptions, ImportedMap, Units};
 
-use super::support::{root, stderr, tinct};
+use super::support::{greedy_colour, root, stderr, tinct};
 
 fn data(name: &str) -> PathBuf {
     root().join("tests/data/geo").join(name)
-}
-
-/// A proper colouring by a plain greedy pass in id order (not the engine's).
-fn greedy_colour(doc: &mut Document) {
-    let mut colouring: BTreeMap<RegionId, u32> = BTreeMap::new();
-    let land: Vec<RegionId> = doc.land_regions().map(|(id, _)| id).collect();
-    for id in land {
-        let taken: Vec<u32> = doc
-            .active_borders()
-            .filter_map(|(p, _)| p.other(id))
-            .filter_map(|n| colouring.get(&n).copied())
-            .collect();
-        colouring.insert(id, (0..).find(|s| !taken.contains(s)).unwrap_or(0));
-    }
-    doc.apply(Edit::SetColouring(colouring)).unwrap();
 }
 
 fn coloured(file: &str) -> Document {

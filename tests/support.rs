@@ -3,6 +3,24 @@
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 
+/// A proper colouring by a plain greedy pass in id order (written here, not taken from the
+/// engine): enough colours for any test map, always valid.
+pub fn greedy_colour(doc: &mut tinct::doc::Document) {
+    use tinct::doc::RegionId;
+    let mut colouring: std::collections::BTreeMap<RegionId, u32> = Default::default();
+    let land: Vec<RegionId> = doc.land_regions().map(|(id, _)| id).collect();
+    for id in land {
+        let taken: Vec<u32> = doc
+            .active_borders()
+            .filter_map(|(p, _)| p.other(id))
+            .filter_map(|n| colouring.get(&n).copied())
+            .collect();
+        colouring.insert(id, (0..).find(|s| !taken.contains(s)).unwrap_or(0));
+    }
+    doc.apply(tinct::doc::Edit::SetColouring(colouring))
+        .expect("colouring applies");
+}
+
 /// The repository root.
 pub fn root() -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR"))

@@ -480,6 +480,26 @@ pub struct Crs {
     pub wkt: Option<String>,
 }
 
+impl Crs {
+    /// Whether the system is longitude/latitude (`Some(true)`), projected (`Some(false)`), or
+    /// not known from its definition: by its EPSG code 4326, else by the keyword that opens its
+    /// well-known text (WKT 1 `GEOGCS`/`PROJCS`, WKT 2 `GEOGCRS`/`PROJCRS` and their long forms).
+    pub fn is_geographic(&self) -> Option<bool> {
+        if self.epsg == Some(4326) {
+            return Some(true);
+        }
+        let upper = self.wkt.as_deref()?.trim_start().to_ascii_uppercase();
+        let opens = |words: &[&str]| words.iter().any(|w| upper.starts_with(w));
+        if opens(&["GEOGCS", "GEOGCRS", "GEOGRAPHICCRS"]) {
+            Some(true)
+        } else if opens(&["PROJCS", "PROJCRS", "PROJECTEDCRS"]) {
+            Some(false)
+        } else {
+            None
+        }
+    }
+}
+
 /// Project settings that decide which recorded borders constrain the colouring.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Settings {

@@ -22,7 +22,7 @@
 use serde_json::{Map, Value, json};
 
 use crate::doc::model::ring_area;
-use crate::doc::{AttrValue, Document, Point, Polygon, Role, Units};
+use crate::doc::{AttrValue, Document, Point, Polygon, Units};
 use crate::geo::LambertAzimuthalEqualArea;
 
 use super::ExportError;
@@ -221,27 +221,12 @@ pub fn to_geojson(doc: &Document) -> Result<String, ExportError> {
             .iter()
             .map(|(k, v)| (k.clone(), attr(v)))
             .collect();
-        let slot = if region.role == Role::Land {
-            doc.colouring().get(id).copied()
-        } else {
-            None
-        };
-        let fill = slot
-            .and_then(|s| doc.palette().slots.get(s as usize))
-            .map(|s| s.colour.to_hex());
+        let colour = super::gis::colour_columns(doc, *id, region);
         properties.insert("name".into(), json!(region.name));
         properties.insert("tinct_id".into(), json!(id.0));
-        properties.insert("tinct_colour".into(), json!(slot));
-        properties.insert("tinct_fill".into(), json!(fill));
-        properties.insert(
-            "tinct_group".into(),
-            json!(
-                region
-                    .group
-                    .and_then(|g| doc.groups().get(&g))
-                    .map(|g| g.name.clone())
-            ),
-        );
+        properties.insert("tinct_colour".into(), json!(colour.slot));
+        properties.insert("tinct_fill".into(), json!(colour.fill));
+        properties.insert("tinct_group".into(), json!(colour.group));
         properties.insert("tinct_pinned".into(), json!(region.pin.is_some()));
         let geometry = match &region.geometry {
             Some(g) if !g.polygons.is_empty() => {

@@ -201,18 +201,7 @@ pub fn layer(
             },
             None => Vec::new(),
         };
-        let slot = if region.role == Role::Land {
-            doc.colouring().get(id).copied()
-        } else {
-            None
-        };
-        let fill = slot
-            .and_then(|s| doc.palette().slots.get(s as usize))
-            .map(|s| s.colour.to_hex());
-        let group = region
-            .group
-            .and_then(|g| doc.groups().get(&g))
-            .map(|g| g.name.clone());
+        let ColourColumns { slot, fill, group } = colour_columns(doc, *id, region);
         let text = |t: Option<String>| t.map_or(AttrValue::Null, AttrValue::Text);
         let mut values: Vec<AttrValue> = columns
             .iter()
@@ -234,6 +223,36 @@ pub fn layer(
         columns: columns.into_iter().map(|(_, c)| c).collect(),
         features,
     })
+}
+
+/// What every GIS export says of a region's colour: its palette slot (none for water or
+/// uncoloured land), the slot's fill as `#rrggbb`, and its same-colour group's name.
+pub struct ColourColumns {
+    pub slot: Option<u32>,
+    pub fill: Option<String>,
+    pub group: Option<String>,
+}
+
+pub fn colour_columns(
+    doc: &Document,
+    id: crate::doc::RegionId,
+    region: &crate::doc::Region,
+) -> ColourColumns {
+    let slot = if region.role == Role::Land {
+        doc.colouring().get(&id).copied()
+    } else {
+        None
+    };
+    ColourColumns {
+        slot,
+        fill: slot
+            .and_then(|s| doc.palette().slots.get(s as usize))
+            .map(|s| s.colour.to_hex()),
+        group: region
+            .group
+            .and_then(|g| doc.groups().get(&g))
+            .map(|g| g.name.clone()),
+    }
 }
 
 /// Well-known text of WGS 84 (EPSG:4326) in the form of OGC 01-009 (WKT 1), as GeoPackage's

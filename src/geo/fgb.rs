@@ -107,29 +107,14 @@ pub(super) fn read_bytes(all: &[u8], mode: CoordinateMode) -> Result<RawMap, Imp
             .wkt()
             .map(str::to_string)
             .filter(|w| !w.trim().is_empty());
-        let upper = wkt
-            .as_deref()
-            .unwrap_or("")
-            .trim_start()
-            .to_ascii_uppercase();
-        let geographic =
-            if epsg == Some(4326) || upper.starts_with("GEOGCS") || upper.starts_with("GEOGCRS") {
-                Some(true)
-            } else if upper.starts_with("PROJCS") || upper.starts_with("PROJCRS") {
-                Some(false)
-            } else {
-                None
-            };
-        if mode == CoordinateMode::Auto {
-            raw.lon_lat_hint = geographic;
-        }
-        if geographic == Some(false) {
-            raw.crs = Some(Crs {
+        raw.note_coordinate_system(
+            mode,
+            Crs {
                 name: crs.name().unwrap_or_default().to_string(),
                 epsg,
                 wkt,
-            });
-        }
+            },
+        );
     }
     let columns: Vec<(String, ColumnType)> = header
         .columns()

@@ -215,13 +215,13 @@ fn choose_layer(connection: &Connection, wanted: Option<&str>) -> Result<Layer, 
     }
 }
 
-/// The layer's spatial reference: whether it is longitude/latitude, and the system itself.
-fn spatial_reference(connection: &Connection, srs_id: i64) -> (Option<bool>, Option<Crs>) {
+/// The layer's spatial reference, when it is a defined one.
+fn spatial_reference(connection: &Connection, srs_id: i64) -> Option<Crs> {
     // The standard's reserved ids: -1 undefined Cartesian, 0 undefined geographic. GDAL gives
     // data without any coordinate system id 0, so neither decides: the coordinate range does,
     // as for a shapefile without a `.prj`.
     if srs_id == -1 || srs_id == 0 {
-        return (None, None);
+        return None;
     }
     let row = connection.query_row(
         "SELECT srs_name, organization, organization_coordsys_id, definition \
@@ -236,38 +236,20 @@ fn spatial_reference(connection: &Connection, srs_id: i64) -> (Option<bool>, Opt
             ))
         },
     );
-    let Ok((name, organization, code, definition)) = row else {
-        return (None, None);
-    };
+    let (name, organization, code, definition) = row.ok()?;
     let definition = definition.unwrap_or_default();
-    let upper = definition.trim_start().to_ascii_uppercase();
     let epsg = organization
         .as_deref()
         .is_some_and(|o| o.eq_ignore_ascii_case("EPSG"))
         .then_some(code)
         .flatten()
         .and_then(|c| u32::try_from(c).ok());
-    let geographic = if upper.starts_with("GEOGCS")
-        || upper.starts_with("GEOGCRS")
-        || upper.starts_with("GEOGRAPHICCRS")
-        || epsg == Some(4326)
-    {
-        Some(true)
-    } else if upper.starts_with("PROJCS")
-        || upper.starts_with("PROJCRS")
-        || upper.starts_with("PROJECTEDCRS")
-    {
-        Some(false)
-    } else {
-        None
-    };
-    let crs = Crs {
+    Some(Crs {
         name: name.unwrap_or_default(),
         epsg,
         wkt: (!definition.trim().is_empty() && !definition.eq_ignore_ascii_case("undefined"))
             .then_some(definition),
-    };
-    (geographic, Some(crs))
+    })
 }
 
 fn read_connection(
@@ -277,12 +259,8 @@ fn read_connection(
 ) -> Result<RawMap, ImportError> {
     let layer = choose_layer(connection, layer)?;
     let mut raw = RawMap::default();
-    let (geographic, crs) = spatial_reference(connection, layer.srs_id);
-    if mode == CoordinateMode::Auto {
-        raw.lon_lat_hint = geographic;
-    }
-    if geographic == Some(false) {
-        raw.crs = crs;
+    if let Some(crs) = spatial_reference(connection, layer.srs_id) {
+        raw.note_coordinate_system(mode, crs);
     }
 
     // Columns in table order; the primary key is the feature id.

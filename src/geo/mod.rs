@@ -416,6 +416,20 @@ pub fn is_boundary_file(path: &Path) -> bool {
         .is_some_and(|e| BOUNDARY_EXTENSIONS.contains(&e.as_str()))
 }
 
+impl RawMap {
+    /// Records what a file says of its coordinate system: whether it is longitude/latitude
+    /// (unless the user chose how to read coordinates), and a planar system itself.
+    fn note_coordinate_system(&mut self, mode: CoordinateMode, crs: Crs) {
+        let geographic = crs.is_geographic();
+        if mode == CoordinateMode::Auto {
+            self.lon_lat_hint = geographic;
+        }
+        if geographic == Some(false) {
+            self.crs = Some(crs);
+        }
+    }
+}
+
 /// Reads and imports a boundary file; the format comes from the extension (and, for `.json`,
 /// from the document's `type`).
 pub fn import_path(path: &Path, options: &ImportOptions) -> Result<ImportedMap, ImportError> {
@@ -782,17 +796,7 @@ fn choose_names(raw: &RawMap, field: Option<&str>) -> Result<Vec<String>, Import
     let field = match field {
         Some(f) => {
             if !has_field(f) {
-                let mut available = raw.field_names.clone();
-                for feature in &raw.features {
-                    for key in feature.properties.keys() {
-                        if !available.contains(key) {
-                            available.push(key.clone());
-                        }
-                    }
-                }
-                if raw.features.iter().any(|x| x.id.is_some()) {
-                    available.push("(feature id: leave the name field unset)".to_string());
-                }
+                let available = available_fields(raw, "(feature id: leave the name field unset)");
                 return Err(ImportError::MissingNameField {
                     field: f.to_string(),
                     available,
@@ -861,21 +865,28 @@ fn field_value(feature: &RawFeature, field: &str) -> Option<String> {
         .or_else(|| (field == "id").then(|| feature.id.clone()).flatten())
 }
 
+/// The fields a file has, for an error that names a missing one: the declared fields, then any
+/// other property seen, then `feature_id` when features carry ids.
+fn available_fields(raw: &RawMap, feature_id: &str) -> Vec<String> {
+    let mut available = raw.field_names.clone();
+    for feature in &raw.features {
+        for key in feature.properties.keys() {
+            if !available.contains(key) {
+                available.push(key.clone());
+            }
+        }
+    }
+    if raw.features.iter().any(|x| x.id.is_some()) {
+        available.push(feature_id.to_string());
+    }
+    available
+}
+
 /// Appends the value of `field` to every name that more than one feature has.
 fn qualify_names(raw: &RawMap, names: &mut [String], field: &str) -> Result<(), ImportError> {
     let known = raw.features.iter().any(|f| field_value(f, field).is_some());
     if !known {
-        let mut available = raw.field_names.clone();
-        for feature in &raw.features {
-            for key in feature.properties.keys() {
-                if !available.contains(key) {
-                    available.push(key.clone());
-                }
-            }
-        }
-        if raw.features.iter().any(|x| x.id.is_some()) {
-            available.push("id (the feature id)".to_string());
-        }
+        let available = available_fields(raw, "id (the feature id)");
         return Err(ImportError::MissingQualifyField {
             field: field.to_string(),
             available,

@@ -267,26 +267,16 @@ pub(super) fn read_files(files: &Files, mode: CoordinateMode) -> Result<RawMap, 
 
     if let Some(prj) = files.prj {
         let wkt = String::from_utf8_lossy(prj).trim().to_string();
-        let upper = wkt.to_ascii_uppercase();
-        let geographic = if upper.starts_with("GEOGCS") {
-            Some(true)
-        } else if upper.starts_with("PROJCS") {
-            Some(false)
-        } else {
-            None
-        };
-        if mode == CoordinateMode::Auto {
-            raw.lon_lat_hint = geographic;
-        }
-        if geographic == Some(false) {
-            // The name is the first quoted string: PROJCS["NAD_1983_Albers", ...].
-            let name = wkt.split('"').nth(1).unwrap_or_default().to_string();
-            raw.crs = Some(super::Crs {
+        // The name is the first quoted string: PROJCS["NAD_1983_Albers", ...].
+        let name = wkt.split('"').nth(1).unwrap_or_default().to_string();
+        raw.note_coordinate_system(
+            mode,
+            super::Crs {
                 name,
                 epsg: None,
                 wkt: Some(wkt),
-            });
-        }
+            },
+        );
     }
 
     for (index, range) in contents.into_iter().enumerate() {

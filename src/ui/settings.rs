@@ -56,6 +56,20 @@ pub fn settings_edit(doc: &crate::doc::Document, draft: &SettingsDraft) -> Optio
     })
 }
 
+/// A labelled length that cannot go below zero.
+fn length_field(ui: &mut egui::Ui, label: &str, value: &mut f64, unit: &str) {
+    ui.horizontal(|ui| {
+        let label = ui.label(label);
+        ui.add(
+            egui::DragValue::new(value)
+                .range(0.0..=f64::MAX)
+                .speed(10.0)
+                .suffix(unit),
+        )
+        .labelled_by(label.id);
+    });
+}
+
 /// Draws the window while it is open.
 pub fn settings_window_ui(app: &mut App, ctx: &egui::Context) {
     let Some(draft) = &mut app.settings_draft else {
@@ -81,16 +95,12 @@ pub fn settings_window_ui(app: &mut App, ctx: &egui::Context) {
                 true,
                 "an edge or just a corner point (queen contiguity)",
             );
-            ui.horizontal(|ui| {
-                let label = ui.label("Shortest shared border that counts");
-                ui.add(
-                    egui::DragValue::new(&mut draft.min_border_length)
-                        .range(0.0..=f64::MAX)
-                        .speed(10.0)
-                        .suffix(unit),
-                )
-                .labelled_by(label.id);
-            });
+            length_field(
+                ui,
+                "Shortest shared border that counts",
+                &mut draft.min_border_length,
+                unit,
+            );
             ui.label(
                 egui::RichText::new(
                     "Shorter shared borders count as corner contacts (they constrain the colouring only with corner contacts counted).",
@@ -98,16 +108,7 @@ pub fn settings_window_ui(app: &mut App, ctx: &egui::Context) {
                 .small(),
             );
             ui.add_enabled_ui(has_outlines, |ui| {
-                ui.horizontal(|ui| {
-                    let label = ui.label("Tolerance");
-                    ui.add(
-                        egui::DragValue::new(&mut draft.tolerance)
-                            .range(0.0..=f64::MAX)
-                            .speed(10.0)
-                            .suffix(unit),
-                    )
-                    .labelled_by(label.id);
-                });
+                length_field(ui, "Tolerance", &mut draft.tolerance, unit);
                 ui.label(
                     egui::RichText::new(
                         "Boundaries this close count as touching. Changing it finds the borders again from the outlines; borders added by hand and borders you removed stay as you left them.",

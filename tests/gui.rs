@@ -1082,3 +1082,35 @@ fn opening_a_boundary_file_offers_the_import_options() {
     assert!(doc.settings().corners_count, "imported with the queen rule");
     assert_eq!(doc.settings().tolerance, 250.0);
 }
+
+#[test]
+fn import_notes_go_to_their_regions_and_are_kept_with_the_project() {
+    // The us-atlas extract has notes (Oregon's ring touches itself at a tripoint, see
+    // tests/data/geo/PROVENANCE.md).
+    let dir = tempfile::tempdir().unwrap();
+    let states = root().join("tests/data/geo/us_states_subset.geojson");
+    let mut h = harness(App::new_with(
+        None,
+        Some(states),
+        Some(dir.path().join("state")),
+    ));
+    h.run_steps(3);
+    let notes = h.state().session.doc().notes().to_vec();
+    let oregon = notes
+        .iter()
+        .find(|n| n.message.contains("Oregon"))
+        .expect("a note about Oregon")
+        .clone();
+    assert!(!oregon.regions.is_empty());
+    h.get_by_label_contains("Notes from reading the file")
+        .click();
+    h.run_steps(2);
+    h.get_by_label(&oregon.message).click();
+    h.run_steps(3);
+    assert_eq!(h.state().view.selection, oregon.regions.first().copied());
+    // Saved and opened again, the notes are still there, with their regions.
+    let project = dir.path().join("states.tinct");
+    tinct::doc::file::save(h.state().session.doc(), &project).unwrap();
+    let reopened = tinct::doc::file::load(&project).unwrap();
+    assert_eq!(reopened.notes(), &notes[..]);
+}

@@ -6,7 +6,7 @@ use std::collections::BTreeMap;
 use std::sync::{Arc, OnceLock};
 
 use super::model::{
-    Border, Crs, Document, Group, GroupId, Palette, Region, RegionId, RegionPair, Settings,
+    Border, Crs, Document, Group, GroupId, Note, Palette, Region, RegionId, RegionPair, Settings,
 };
 use super::store::{BorderIndex, Borders, Regions, SlotLookup};
 
@@ -46,6 +46,7 @@ pub struct DocumentBuilder {
     next_region_id: u64,
     next_group_id: u64,
     crs: Option<Crs>,
+    notes: Vec<Note>,
 }
 
 impl DocumentBuilder {
@@ -60,6 +61,11 @@ impl DocumentBuilder {
     }
     pub fn settings(&mut self, settings: Settings) -> &mut Self {
         self.settings = settings;
+        self
+    }
+    /// Notes from importing the map (see [`Document::notes`]).
+    pub fn notes(&mut self, notes: Vec<Note>) -> &mut Self {
+        self.notes = notes;
         self
     }
     /// The coordinate system of the world units (see [`Document::crs`]).
@@ -189,6 +195,7 @@ impl DocumentBuilder {
             revision: 0,
             index,
             crs: self.crs,
+            notes: self.notes,
         })
     }
 }

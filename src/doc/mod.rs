@@ -26,8 +26,8 @@ pub use diff::edits_between;
 pub use edit::{Edit, EditError, RegionChange, Touched};
 pub use history::History;
 pub use model::{
-    AttrValue, Attributes, Border, BorderKind, Crs, Document, Geometry, Group, GroupId, Palette,
-    Point, Polygon, Region, RegionId, RegionPair, Rgb, Role, Settings, Slot, Units,
+    AttrValue, Attributes, Border, BorderKind, Crs, Document, Geometry, Group, GroupId, Note,
+    Palette, Point, Polygon, Region, RegionId, RegionPair, Rgb, Role, Settings, Slot, Units,
 };
 pub use palette_check::{PaletteReport, palette_report, simulated_palettes, slot_assignment_edit};
 pub use palette_edit::PaletteEditError;

@@ -500,6 +500,14 @@ impl Crs {
     }
 }
 
+/// A note about questionable data found when the map was imported (a gap, an overlap, a
+/// duplicate name), with the regions it is about; kept with the project.
+#[derive(Clone, Debug, PartialEq, Default)]
+pub struct Note {
+    pub message: String,
+    pub regions: Vec<RegionId>,
+}
+
 /// Project settings that decide which recorded borders constrain the colouring.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Settings {
@@ -548,6 +556,8 @@ pub struct Document {
     /// The coordinate system of a planar map imported from a file that named one; set when the
     /// document is built, never edited.
     pub(super) crs: Option<Crs>,
+    /// Notes from importing the map, set when the document is built.
+    pub(super) notes: Vec<Note>,
     /// Derived from regions and borders when first asked for after a change.
     pub(super) index: OnceLock<Arc<BorderIndex>>,
 }
@@ -563,6 +573,7 @@ impl PartialEq for Document {
             && self.regions == other.regions
             && self.borders == other.borders
             && self.crs == other.crs
+            && self.notes == other.notes
     }
 }
 
@@ -589,6 +600,10 @@ impl Document {
     /// one (a projected GeoPackage layer, a Shapefile's `.prj`); `None` otherwise.
     pub fn crs(&self) -> Option<&Crs> {
         self.crs.as_ref()
+    }
+    /// Notes about questionable data found when the map was imported.
+    pub fn notes(&self) -> &[Note] {
+        &self.notes
     }
     /// The fill colours.
     pub fn palette(&self) -> &Palette {

@@ -40,6 +40,19 @@ impl ImportedMap {
         });
         document.reserve(self.regions.len(), self.borders.len() + self.excluded.len());
         document.crs(self.crs);
+        document.notes(
+            self.diagnostics
+                .iter()
+                .map(|d| doc::Note {
+                    message: d.message.clone(),
+                    regions: d
+                        .regions
+                        .iter()
+                        .map(|&i| RegionId(FIRST_ID + i as u64))
+                        .collect(),
+                })
+                .collect(),
+        );
 
         // A contact recorded twice keeps its last record, as inserting into a map would. Both
         // lists come sorted from the importers; they are merged as they are consumed, without a

@@ -555,15 +555,23 @@ impl App {
                 result: Ok(loaded),
             } => {
                 let (doc, notices) = *loaded;
+                // An imported map keeps its notes itself (with their regions); only a graph
+                // file's notes about its lines are held here.
+                let notices = if doc.notes().is_empty() {
+                    notices
+                } else {
+                    Vec::new()
+                };
+                let count = doc.notes().len() + notices.len();
                 self.replace_session(Session::new(doc, Some(path.clone())));
                 self.say(Level::Info, format!("Opened {}", path.display()));
                 self.remember(&path);
-                if !notices.is_empty() {
+                if count > 0 {
                     self.say(
                         Level::Warning,
                         format!(
-                            "{} notes about the file: see the verdict panel",
-                            notices.len()
+                            "{} about the file: see the verdict panel",
+                            super::words::count(count, "note", "notes")
                         ),
                     );
                 }

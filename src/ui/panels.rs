@@ -545,16 +545,41 @@ pub fn verdict_ui(app: &mut App, ui: &mut egui::Ui) {
     if let Some(id) = jump {
         app.go_to_region(id);
     }
-    if !app.notices.is_empty() {
-        egui::CollapsingHeader::new(format!(
-            "Notes from reading the file ({})",
-            app.notices.len()
-        ))
-        .show(ui, |ui| {
-            for n in &app.notices {
-                ui.label(n);
-            }
-        });
+    // Notes kept with the project (each goes to its regions), then those about a graph file's
+    // lines.
+    let notes = app.session.doc().notes().len() + app.notices.len();
+    if notes > 0 {
+        let mut go: Option<Vec<RegionId>> = None;
+        egui::CollapsingHeader::new(format!("Notes from reading the file ({notes})")).show(
+            ui,
+            |ui| {
+                // Long lists are cut: a county map can have hundreds of notes.
+                for note in app.session.doc().notes().iter().take(200) {
+                    if note.regions.is_empty() {
+                        ui.label(&note.message);
+                    } else if ui
+                        .link(&note.message)
+                        .on_hover_text("Show these regions on the map")
+                        .clicked()
+                    {
+                        go = Some(note.regions.clone());
+                    }
+                }
+                if app.session.doc().notes().len() > 200 {
+                    ui.label(format!(
+                        "… and {} more (all are in the project file)",
+                        app.session.doc().notes().len() - 200
+                    ));
+                }
+                for n in &app.notices {
+                    ui.label(n);
+                }
+            },
+        );
+        if let Some(regions) = go {
+            app.view.selection = regions.first().copied();
+            app.view.go_to = Some(regions);
+        }
     }
     ui.add_space(6.0);
     colouring_ui(app, ui);

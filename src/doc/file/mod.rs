@@ -76,6 +76,18 @@ struct ProjectV1 {
     next_region_id: u64,
     #[serde(default)]
     next_group_id: u64,
+    /// Added within version 1 (optional): notes from importing the map.
+    #[serde(default)]
+    notes: Vec<NoteV1>,
+}
+
+/// A note from importing the map: what was found and the regions it is about.
+#[derive(Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct NoteV1 {
+    message: String,
+    #[serde(default)]
+    regions: Vec<u64>,
 }
 
 #[derive(Serialize, Deserialize)]
@@ -245,6 +257,8 @@ struct ProjectOut<'a> {
     colouring: ColouringOut<'a>,
     next_region_id: u64,
     next_group_id: u64,
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    notes: Vec<NoteV1>,
 }
 
 /// One region as written (see [`RegionV1`]).
@@ -414,6 +428,14 @@ fn to_records(doc: &Document) -> ProjectOut<'_> {
         colouring: ColouringOut(doc),
         next_region_id: doc.peek_region_id().0,
         next_group_id: doc.peek_group_id().0,
+        notes: doc
+            .notes
+            .iter()
+            .map(|n| NoteV1 {
+                message: n.message.clone(),
+                regions: n.regions.iter().map(|r| r.0).collect(),
+            })
+            .collect(),
     }
 }
 
@@ -710,6 +732,15 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
         doc.colour(RegionId(id), slot);
     }
     doc.next_ids(r.next_region_id, r.next_group_id);
+    doc.notes(
+        r.notes
+            .into_iter()
+            .map(|n| crate::doc::Note {
+                message: n.message,
+                regions: n.regions.into_iter().map(RegionId).collect(),
+            })
+            .collect(),
+    );
     doc.build().map_err(|e| FileError::Invalid(e.to_string()))
 }
 
@@ -761,6 +792,16 @@ mod tests {
         ))
         .unwrap();
         both_readers_agree(&to_string(&doc));
+        // Notes from an import and a coordinate system, as an imported project carries them.
+        let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+            .join("tests/data/geo/us_states_albers.gpkg");
+        let imported = crate::geo::import_path(&path, &Default::default())
+            .unwrap()
+            .into_document("states");
+        assert!(imported.crs().is_some());
+        let text = to_string(&imported);
+        both_readers_agree(&text);
+        assert_eq!(from_str(&text).unwrap(), imported);
         // A comment is RON, but not what Tinct writes: the fast reader gives up, and loading
         // still works through the general parser.
         let text = to_string(&sample()).replacen("(\n", "( // a note\n", 1);

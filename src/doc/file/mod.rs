@@ -793,12 +793,19 @@ mod tests {
         .unwrap();
         both_readers_agree(&to_string(&doc));
         // Notes from an import and a coordinate system, as an imported project carries them.
-        let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
-            .join("tests/data/geo/us_states_albers.gpkg");
-        let imported = crate::geo::import_path(&path, &Default::default())
-            .unwrap()
-            .into_document("states");
-        assert!(imported.crs().is_some());
+        let mut builder = crate::doc::DocumentBuilder::new("imported");
+        builder
+            .region(RegionId(1), crate::doc::Region::new("Ashcombe", [0.0, 0.0]))
+            .crs(Some(crate::doc::Crs {
+                name: "NAD83 / Conus Albers".into(),
+                epsg: Some(5070),
+                wkt: Some("PROJCS[\"NAD83 / Conus Albers\"]".into()),
+            }))
+            .notes(vec![crate::doc::Note {
+                message: "a ring of region \"Ashcombe\" crosses or touches itself".into(),
+                regions: vec![RegionId(1)],
+            }]);
+        let imported = builder.build().unwrap();
         let text = to_string(&imported);
         both_readers_agree(&text);
         assert_eq!(from_str(&text).unwrap(), imported);

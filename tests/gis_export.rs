@@ -80,7 +80,7 @@ fn expected_colours(doc: &Document) -> BTreeMap<String, (i64, String)> {
 }
 
 /// `ogrinfo -ro -al -so PATH`, or `None` when GDAL is not installed and not required.
-fn ogrinfo(path: &Path) -> Option<String> {
+pub fn ogrinfo(path: &Path) -> Option<String> {
     match Command::new("ogrinfo")
         .args(["-ro", "-al", "-so"])
         .arg(path)
@@ -103,7 +103,7 @@ fn ogrinfo(path: &Path) -> Option<String> {
 
 /// GDAL's GeoPackage validator (`validate_gpkg`, shipped in Debian's python3-gdal), checking the
 /// standard's requirements one by one; skipped like `ogrinfo` when GDAL is not required.
-fn validate_gpkg(path: &Path) {
+pub fn validate_gpkg(path: &Path) {
     let python = if Path::new("/usr/bin/python3").exists() {
         "/usr/bin/python3"
     } else {

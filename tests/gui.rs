@@ -509,7 +509,15 @@ fn every_export_is_reachable_from_the_export_menu_and_written_where_asked() {
         );
         let back = tinct::geo::import_path(&out, &Default::default()).unwrap();
         assert_eq!(back.regions.len(), regions, "{file}");
+        // GDAL reads what the editor wrote (CI requires it; see tests/gis_export.rs).
+        if let Some(info) = super::gis_export::ogrinfo(&out) {
+            assert!(
+                info.contains(&format!("Feature Count: {regions}")),
+                "{info}"
+            );
+        }
     }
+    super::gis_export::validate_gpkg(&dir.path().join("states.gpkg"));
     assert!(dir.path().join("states.dbf").exists());
 }
 

@@ -1122,3 +1122,56 @@ fn import_notes_go_to_their_regions_and_are_kept_with_the_project() {
     let reopened = tinct::doc::file::load(&project).unwrap();
     assert_eq!(reopened.notes(), &notes[..]);
 }
+
+#[test]
+fn saving_runs_on_the_file_thread_and_the_project_is_clean_once_written() {
+    // With the real background threads (the other tests run jobs in the frame).
+    let dir = tempfile::tempdir().unwrap();
+    let project = dir.path().join("valleys.tinct");
+    std::fs::copy(root().join("sample-maps/three-valleys.tinct"), &project).unwrap();
+    let app = App::new_with(
+        Some(egui::Context::default()),
+        Some(project.clone()),
+        Some(dir.path().join("state")),
+    );
+    let mut h = harness(app);
+    let deadline = std::time::Instant::now() + std::time::Duration::from_secs(20);
+    while h.state().session.path() != Some(project.as_path())
+        && std::time::Instant::now() < deadline
+    {
+        h.step();
+        std::thread::sleep(std::time::Duration::from_millis(5));
+    }
+    assert_eq!(
+        h.state().session.path(),
+        Some(project.as_path()),
+        "the project opened"
+    );
+    let (id, region) = {
+        let doc = h.state().session.doc();
+        let (id, r) = doc.land_regions().next().unwrap();
+        (id, r.clone())
+    };
+    h.state_mut().edit(tinct::doc::Edit::PutRegion {
+        id,
+        region: Some(tinct::doc::Region {
+            name: "Saved in the background".into(),
+            ..region
+        }),
+    });
+    h.step();
+    assert!(h.state().session.is_dirty());
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::S);
+    while h.state().session.is_dirty() && std::time::Instant::now() < deadline {
+        h.step();
+        std::thread::sleep(std::time::Duration::from_millis(5));
+    }
+    assert!(!h.state().session.is_dirty(), "{}", last_message(&h));
+    let saved = doc::file::load(&project).unwrap();
+    assert!(
+        saved
+            .regions()
+            .iter()
+            .any(|(_, r)| r.name == "Saved in the background")
+    );
+}

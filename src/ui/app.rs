@@ -57,6 +57,23 @@ pub enum JobResult {
         path: PathBuf,
         result: Result<usize, String>,
     },
+    /// The project saved (as of `revision`) to `path`, or why not.
+    Saved {
+        path: PathBuf,
+        revision: u64,
+        result: Result<(), String>,
+    },
+    /// Unsaved work written aside as of `revision`, or why not.
+    Autosaved {
+        revision: u64,
+        result: Result<(), String>,
+    },
+    /// Proof files written to a folder, or why not.
+    ProofWritten {
+        folder: PathBuf,
+        names: Vec<String>,
+        result: Result<(), String>,
+    },
 }
 
 /// A byte count in words a user reads at a glance.
@@ -298,6 +315,9 @@ pub struct App {
     changed_at: Instant,
     seen_revision: u64,
     worker: Option<Worker<JobResult>>,
+    /// A second thread for the disk (saves, autosaves, exports, proofs), so that neither waits
+    /// behind a long analysis and the interface never waits for the disk.
+    files: Option<Worker<JobResult>>,
     /// Paths chosen in a system file dialog, delivered from its thread.
     dialog_results: std::sync::mpsc::Receiver<(PathPurpose, Option<PathBuf>)>,
     dialog_sender: std::sync::mpsc::Sender<(PathPurpose, Option<PathBuf>)>,
@@ -344,8 +364,11 @@ impl App {
         recovery: Option<PathBuf>,
     ) -> App {
         let doc = doc::file::from_str(DEFAULT_MAP).unwrap_or_else(|_| Document::new("Untitled"));
-        let worker =
-            ctx.and_then(|ctx| Worker::start(Box::new(move || ctx.request_repaint())).ok());
+        let start = |ctx: &Option<egui::Context>| {
+            ctx.clone()
+                .and_then(|ctx| Worker::start(Box::new(move || ctx.request_repaint())).ok())
+        };
+        let (worker, files) = (start(&ctx), start(&ctx));
         let (dialog_sender, dialog_results) = std::sync::mpsc::channel();
         let palette_warnings = PaletteWarnings::of(&doc);
         let mut app = App {
@@ -370,6 +393,7 @@ impl App {
             changed_at: Instant::now(),
             seen_revision: u64::MAX,
             worker,
+            files,
             dialog_results,
             dialog_sender,
             pending: Vec::new(),
@@ -428,13 +452,16 @@ impl App {
             && self.autosaved_at.elapsed() >= self.autosave_every
         {
             self.autosaved_at = Instant::now();
-            match doc::recovery::write(&dir, self.session.doc(), self.session.path()) {
-                Ok(()) => self.autosaved_revision = Some(revision),
-                Err(e) => self.say(
-                    Level::Warning,
-                    format!("Unsaved work could not be written aside: {e}"),
-                ),
-            }
+            // Marked as asked at once, so that the next frames do not ask again meanwhile.
+            self.autosaved_revision = Some(revision);
+            let snapshot = crate::worker::snapshot(self.session.doc());
+            let original = self.session.path().map(Path::to_path_buf);
+            let job = move |_: &crate::worker::JobContext| JobResult::Autosaved {
+                revision,
+                result: doc::recovery::write(&dir, &snapshot, original.as_deref())
+                    .map_err(|e| e.to_string()),
+            };
+            self.run_file_job(revision, JobKind::Autosave, Box::new(job));
         } else if self.autosaved_revision != Some(revision) {
             // An idle window draws no frames: ask for one when the write falls due, so work left
             // unsaved is written aside on time even if the user walks away.
@@ -587,6 +614,41 @@ impl App {
                     format!("Could not open {}: {e}", path.display()),
                 );
             }
+            JobResult::Saved {
+                path,
+                revision,
+                result,
+            } => self.saved(path, revision, result),
+            JobResult::Autosaved { revision, result } => match result {
+                // Saved meanwhile: what was written aside is not needed (nor wanted at the
+                // next start).
+                Ok(()) if !self.session.is_dirty() => {
+                    if let Some(dir) = &self.recovery_dir {
+                        doc::recovery::clear(dir);
+                    }
+                }
+                Ok(()) => {}
+                Err(e) => {
+                    if self.autosaved_revision == Some(revision) {
+                        self.autosaved_revision = None;
+                    }
+                    self.say(
+                        Level::Warning,
+                        format!("Unsaved work could not be written aside: {e}"),
+                    );
+                }
+            },
+            JobResult::ProofWritten {
+                folder,
+                names,
+                result,
+            } => match result {
+                Ok(()) => self.say(
+                    Level::Info,
+                    format!("Wrote {} to {}", names.join(", "), folder.display()),
+                ),
+                Err(e) => self.say(Level::Error, format!("Proof not written: {e}")),
+            },
             JobResult::Analysed(a) => {
                 self.analysis_took = self.analysis_started.map(|t| t.elapsed());
                 self.analysis = Some(*a);
@@ -738,7 +800,32 @@ impl App {
         }
     }
 
-    /// Writes an export on the worker (a picture of a large map takes a while); the result
+    /// Runs a job on the file thread (or here, when there is none, as in tests); true when it
+    /// was sent off.
+    fn run_file_job(
+        &mut self,
+        revision: u64,
+        kind: JobKind,
+        job: crate::worker::JobFn<JobResult>,
+    ) -> bool {
+        match &mut self.files {
+            Some(w) => {
+                w.submit(revision, kind, job);
+                true
+            }
+            None => {
+                let ctx = crate::worker::JobContext {
+                    cancel: Default::default(),
+                    progress: Default::default(),
+                };
+                let result = job(&ctx);
+                self.receive(result);
+                false
+            }
+        }
+    }
+
+    /// Writes an export on the file thread (a picture of a large map takes a while); the result
     /// arrives as a message.
     pub fn export_to(&mut self, format: ExportFormat, path: PathBuf) {
         // A mistyped or missing extension gets the format's own, and the user is told.
@@ -786,7 +873,7 @@ impl App {
                 result,
             }
         };
-        if self.run_job(revision, JobKind::Export, Box::new(job)) {
+        if self.run_file_job(revision, JobKind::Export, Box::new(job)) {
             self.say(Level::Info, format!("Writing the {}…", format.name()));
         }
     }
@@ -805,23 +892,25 @@ impl App {
             );
             return;
         }
-        let result = std::fs::create_dir_all(folder)
-            .map_err(|e| e.to_string())
-            .and_then(|_| {
-                for (name, text) in &files {
-                    crate::atomic::write_atomically(&folder.join(name), text.as_bytes())
-                        .map_err(|e| e.to_string())?;
-                }
-                Ok(())
-            });
-        let names: Vec<&str> = files.iter().map(|(n, _)| n.as_str()).collect();
-        match result {
-            Ok(()) => self.say(
-                Level::Info,
-                format!("Wrote {} to {}", names.join(", "), folder.display()),
-            ),
-            Err(e) => self.say(Level::Error, format!("Proof not written: {e}")),
-        }
+        let folder = folder.to_path_buf();
+        let revision = self.session.doc().revision();
+        let job = move |_: &crate::worker::JobContext| {
+            let result = std::fs::create_dir_all(&folder)
+                .map_err(|e| e.to_string())
+                .and_then(|_| {
+                    for (name, text) in &files {
+                        crate::atomic::write_atomically(&folder.join(name), text.as_bytes())
+                            .map_err(|e| e.to_string())?;
+                    }
+                    Ok(())
+                });
+            JobResult::ProofWritten {
+                names: files.into_iter().map(|(n, _)| n).collect(),
+                folder,
+                result,
+            }
+        };
+        self.run_file_job(revision, JobKind::Export, Box::new(job));
     }
 
     /// True when the analysis on show was computed for an older revision of the document.
@@ -877,18 +966,33 @@ impl App {
         }
     }
 
-    /// Saves to `path` (atomically) and remembers it as the document's file.
+    /// Saves to `path` (atomically, on the file thread) and, once written, remembers it as the
+    /// document's file. The document may change meanwhile: the save counts for the revision it
+    /// wrote.
     pub fn save_to(&mut self, path: &Path) {
         let path = if path.extension().is_none() {
             path.with_extension(doc::file::EXTENSION)
         } else {
             path.to_path_buf()
         };
-        match crate::formats::save(self.session.doc(), &path) {
+        let snapshot = crate::worker::snapshot(self.session.doc());
+        let revision = self.session.doc().revision();
+        let job_path = path.clone();
+        let job = move |_: &crate::worker::JobContext| JobResult::Saved {
+            result: crate::formats::save(&snapshot, &job_path).map_err(|e| format!("{e:#}")),
+            path: job_path,
+            revision,
+        };
+        if self.run_file_job(revision, JobKind::Save, Box::new(job)) {
+            self.say(Level::Info, format!("Saving {}…", path.display()));
+        }
+    }
+
+    fn saved(&mut self, path: PathBuf, revision: u64, result: Result<(), String>) {
+        match result {
             Ok(()) => {
                 let is_project = path.extension().is_some_and(|e| e == doc::file::EXTENSION);
                 if is_project {
-                    let revision = self.session.doc().revision();
                     self.session.saved(path.clone(), revision);
                     self.remember(&path);
                 }
@@ -900,14 +1004,19 @@ impl App {
             }
             Err(e) => {
                 self.after_save = None;
-                self.say(Level::Error, format!("Not saved: {e:#}"));
+                self.say(Level::Error, format!("Not saved: {e}"));
             }
         }
     }
 
     /// One frame of work that does not draw: worker events, dialog results, the checks.
     pub fn logic(&mut self, ctx: &egui::Context) {
-        while let Some(event) = self.worker.as_mut().and_then(|w| w.try_next()) {
+        while let Some(event) = self
+            .worker
+            .as_mut()
+            .and_then(|w| w.try_next())
+            .or_else(|| self.files.as_mut().and_then(|w| w.try_next()))
+        {
             match event {
                 Event::Done {
                     result,

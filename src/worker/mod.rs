@@ -87,6 +87,10 @@ pub enum JobKind {
     Other,
     /// Writing a file the user asked for: never cancelled by a newer job (each is wanted).
     Export,
+    /// Saving the project: never cancelled either.
+    Save,
+    /// Writing unsaved work aside: a newer one replaces an older one still queued.
+    Autosave,
 }
 
 /// What the worker reports back.
@@ -175,7 +179,7 @@ impl<T: Send + 'static> Worker<T> {
 
     /// Queues a job for `revision`, cancelling any earlier job of the same kind.
     pub fn submit(&mut self, revision: u64, kind: JobKind, job: JobFn<T>) {
-        if kind != JobKind::Export {
+        if !matches!(kind, JobKind::Export | JobKind::Save) {
             self.cancel(kind);
         }
         let cancel = Arc::new(AtomicBool::new(false));

@@ -774,41 +774,40 @@ impl App {
         }
     }
 
-    /// Writes the CNF and the DRAT proof that three colours fail into `folder`.
-    /// Runs `job` on the worker; without one (headless tests, benchmarks), runs it here and
-    /// takes its result at once. True when it went to the worker.
+    /// Runs `job` on the analysis worker; without one (headless tests, benchmarks), runs it here
+    /// and takes its result at once. True when it went to the worker.
     fn run_job(
         &mut self,
         revision: u64,
         kind: JobKind,
         job: crate::worker::JobFn<JobResult>,
     ) -> bool {
-        match &mut self.worker {
-            Some(w) => {
-                w.submit(revision, kind, job);
-                true
-            }
-            None => {
-                let ctx = crate::worker::JobContext {
-                    cancel: Default::default(),
-                    progress: Default::default(),
-                };
-                let result = job(&ctx);
-                self.receive(result);
-                false
-            }
-        }
+        self.run_on(false, revision, kind, job)
     }
 
-    /// Runs a job on the file thread (or here, when there is none, as in tests); true when it
-    /// was sent off.
+    /// Runs `job` on the file thread, or here when there is none, as [`App::run_job`] does.
     fn run_file_job(
         &mut self,
         revision: u64,
         kind: JobKind,
         job: crate::worker::JobFn<JobResult>,
     ) -> bool {
-        match &mut self.files {
+        self.run_on(true, revision, kind, job)
+    }
+
+    fn run_on(
+        &mut self,
+        files: bool,
+        revision: u64,
+        kind: JobKind,
+        job: crate::worker::JobFn<JobResult>,
+    ) -> bool {
+        let worker = if files {
+            &mut self.files
+        } else {
+            &mut self.worker
+        };
+        match worker {
             Some(w) => {
                 w.submit(revision, kind, job);
                 true
@@ -878,6 +877,8 @@ impl App {
         }
     }
 
+    /// Writes the CNF and DRAT proof files of the current obstructions into `folder` (on the file
+    /// thread).
     pub fn export_proof(&mut self, folder: &Path) {
         let files = self
             .analysis

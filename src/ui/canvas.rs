@@ -9,28 +9,10 @@ use crate::doc::{BorderKind, Document, Edit, Region, RegionChange, RegionId, Reg
 
 use super::app::{App, Highlight};
 use super::commands::Tool;
+use super::style;
 use super::view::{Camera, hit_test};
+use super::widgets::colour32;
 use crate::analysis::PlanarityVerdict;
-
-/// Colours of the canvas (our own choices: quiet neutrals, with strong colours kept for warnings).
-pub mod style {
-    use egui::Color32;
-    pub const BACKGROUND: Color32 = Color32::from_rgb(0xf4, 0xf2, 0xec);
-    pub const UNCOLOURED: Color32 = Color32::from_rgb(0xe4, 0xe1, 0xd8);
-    pub const WATER: Color32 = Color32::from_rgb(0xe3, 0xec, 0xf1);
-    pub const WATER_HATCH: Color32 = Color32::from_rgb(0x6d, 0x9c, 0xc0);
-    pub const OUTLINE: Color32 = Color32::from_rgb(0x55, 0x55, 0x55);
-    pub const SELECTION: Color32 = Color32::from_rgb(0x17, 0x45, 0x8f);
-    pub const CLASH: Color32 = Color32::from_rgb(0xc4, 0x1e, 0x3a);
-    pub const LINK_SHARED: Color32 = Color32::from_rgb(0x4a, 0x4a, 0x4a);
-    pub const LINK_CORNER: Color32 = Color32::from_rgb(0x8a, 0x6d, 0x3b);
-    pub const LINK_MANUAL: Color32 = Color32::from_rgb(0xd0, 0x6a, 0x10);
-    pub const LINK_SUPPRESSED: Color32 = Color32::from_rgb(0xb0, 0xb0, 0xb0);
-    pub const GROUP: Color32 = Color32::from_rgb(0x6b, 0x2f, 0x9e);
-    pub const LABEL: Color32 = Color32::from_rgb(0x22, 0x22, 0x22);
-    pub const CERTIFICATE: Color32 = Color32::from_rgb(0xa3, 0x1a, 0x8c);
-    pub const OBSTRUCTION: Color32 = Color32::from_rgb(0xb3, 0x4a, 0x00);
-}
 
 /// Below this size on screen (in points) a region is drawn as a box and without an outline.
 const LOD_PIXELS: f64 = 3.0;
@@ -54,7 +36,7 @@ fn fill_of(doc: &Document, id: RegionId, region: &Region) -> Color32 {
         .get(&id)
         .and_then(|s| doc.palette().slots.get(*s as usize))
     {
-        Some(slot) => Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]),
+        Some(slot) => colour32(slot.colour),
         None => style::UNCOLOURED,
     }
 }

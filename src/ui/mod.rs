@@ -10,7 +10,9 @@ pub mod mesh;
 pub mod palette;
 pub mod panels;
 pub mod settings;
+pub mod style;
 pub mod view;
+pub mod widgets;
 pub mod words;
 
 use std::path::PathBuf;

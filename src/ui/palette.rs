@@ -2,7 +2,7 @@
 //! with a colour-vision deficiency and a greyscale copy show it, read the warnings for the slot
 //! pairs that neighbouring regions use, and apply the copy to the project as one undoable edit.
 
-use egui::{Color32, RichText};
+use egui::RichText;
 
 use crate::colour::{DEFAULT_PALETTES, Thresholds, Warning};
 use crate::doc::palette_check::{self, PairsChecked, SlotPairUse};
@@ -10,7 +10,8 @@ use crate::doc::palette_edit;
 use crate::doc::{Edit, Palette, Rgb, Slot};
 
 use super::app::{App, Level};
-use super::panels::swatch;
+use super::style;
+use super::widgets::{colour32, swatch};
 
 /// The working copy of the palette while the window is open.
 pub struct PaletteEditor {
@@ -50,10 +51,6 @@ impl PaletteEditor {
         *self = PaletteEditor::new(palette);
         self.pairs = pairs;
     }
-}
-
-fn colour32(rgb: Rgb) -> Color32 {
-    Color32::from_rgb(rgb.0[0], rgb.0[1], rgb.0[2])
 }
 
 /// A swatch button that opens a small picker: hue, saturation and brightness sliders over the
@@ -286,9 +283,9 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
                 let good = warnings.is_empty();
                 for line in distinctness_lines(*checked, pairs, &warnings) {
                     let colour = if good {
-                        Color32::from_rgb(0x2e, 0x7d, 0x32)
+                        style::GOOD
                     } else {
-                        Color32::from_rgb(0xa0, 0x60, 0x00)
+                        style::WARNING
                     };
                     ui.label(RichText::new(line).color(colour));
                 }

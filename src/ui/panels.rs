@@ -2,13 +2,14 @@
 //! from a pure function such as [`verdict_lines`]), and what the user asks for goes out as commands
 //! or edits.
 
-use egui::{Color32, RichText};
+use egui::RichText;
 
 use crate::doc::{BorderKind, Document, Edit, GroupId, RegionChange, RegionId, Role};
 
 use super::app::{App, ExportOptions, Highlight, Level, PathPurpose};
-use super::canvas::style;
 use super::commands::{Command, ExportFormat, Menu, Tool, search};
+use super::style;
+use super::widgets::{colour32, swatch};
 use crate::analysis::{self, PlanarityVerdict, Rules};
 
 /// One line of the verdict panel.
@@ -25,29 +26,15 @@ pub enum VerdictLine {
     Note(String),
 }
 
-/// A filled square of colour, drawn rather than typed so it needs no glyph from any font.
-pub(super) fn swatch(ui: &mut egui::Ui, colour: Color32, size: f32) {
-    let (rect, _) = ui.allocate_exact_size(egui::vec2(size, size), egui::Sense::hover());
-    ui.painter().rect_filled(rect, 2.0, colour);
-    ui.painter().rect_stroke(
-        rect,
-        2.0,
-        egui::Stroke::new(0.5, style::OUTLINE),
-        egui::StrokeKind::Inside,
-    );
-}
-
 /// A line of text with a coloured dot before it: green for good news, red for a problem.
 fn marked(ui: &mut egui::Ui, good: bool, text: String) {
-    let colour = if good { GOOD } else { style::CLASH };
+    let colour = if good { style::GOOD } else { style::CLASH };
     ui.horizontal_wrapped(|ui| {
         let (rect, _) = ui.allocate_exact_size(egui::vec2(10.0, 10.0), egui::Sense::hover());
         ui.painter().circle_filled(rect.center(), 4.5, colour);
         ui.label(RichText::new(text).color(colour));
     });
 }
-
-const GOOD: Color32 = Color32::from_rgb(0x2e, 0x7d, 0x32);
 
 fn name(doc: &Document, id: RegionId) -> String {
     doc.regions()
@@ -244,7 +231,7 @@ pub fn toolbar_ui(app: &mut App, ui: &mut egui::Ui) {
             ui.label("Pin to:");
             let slots = app.session.doc().palette().slots.clone();
             for (i, slot) in slots.iter().enumerate() {
-                let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
+                let c = colour32(slot.colour);
                 swatch(ui, c, 12.0);
                 if ui
                     .selectable_label(app.view.pin_slot == i as u32, &slot.name)
@@ -351,7 +338,7 @@ pub fn regions_ui(app: &mut App, ui: &mut egui::Ui) {
                         .colouring()
                         .get(id)
                         .and_then(|s| doc.palette().slots.get(*s as usize))
-                        .map(|s| Color32::from_rgb(s.colour.0[0], s.colour.0[1], s.colour.0[2])),
+                        .map(|s| colour32(s.colour)),
                 };
                 ui.horizontal(|ui| {
                     swatch(ui, colour.unwrap_or(style::UNCOLOURED), 12.0);
@@ -917,7 +904,7 @@ pub fn palette_ui(app: &mut App, ui: &mut egui::Ui) {
     let counts = &app.session.rules().slot_use;
     let warnings = &app.palette_warnings.warnings;
     for (i, slot) in doc.palette().slots.iter().enumerate() {
-        let c = Color32::from_rgb(slot.colour.0[0], slot.colour.0[1], slot.colour.0[2]);
+        let c = colour32(slot.colour);
         ui.horizontal(|ui| {
             swatch(ui, c, 16.0);
             ui.label(format!(
@@ -985,7 +972,7 @@ pub fn status_ui(app: &mut App, ui: &mut egui::Ui) {
     if let Some(m) = app.messages.last() {
         let colour = match m.level {
             Level::Info => ui.visuals().text_color(),
-            Level::Warning => Color32::from_rgb(0xa0, 0x60, 0x00),
+            Level::Warning => style::WARNING,
             Level::Error => style::CLASH,
         };
         ui.label(RichText::new(&m.text).color(colour));

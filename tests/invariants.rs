@@ -348,3 +348,95 @@ fn the_checker_catches_an_offence() {
             .all(|(_, l)| !names(l, "egui"))
     );
 }
+
+/// The modules of `src/ui` each file names (`super::x` or `crate::ui::x`), by file stem.
+fn ui_imports() -> std::collections::BTreeMap<String, std::collections::BTreeSet<String>> {
+    let dir = root().join("src/ui");
+    let mut graph = std::collections::BTreeMap::new();
+    let stems: Vec<String> = rust_files(&dir)
+        .iter()
+        .filter_map(|p| p.file_stem().map(|s| s.to_string_lossy().into_owned()))
+        .filter(|s| s != "mod")
+        .collect();
+    for path in rust_files(&dir) {
+        let stem = path.file_stem().unwrap().to_string_lossy().into_owned();
+        if stem == "mod" {
+            continue;
+        }
+        let text = std::fs::read_to_string(&path).unwrap();
+        let mut uses = std::collections::BTreeSet::new();
+        for (_, line) in code_lines(&text) {
+            for prefix in ["super::", "crate::ui::"] {
+                let mut rest = line.as_str();
+                while let Some(at) = rest.find(prefix) {
+                    rest = &rest[at + prefix.len()..];
+                    let name: String = rest
+                        .chars()
+                        .take_while(|c| c.is_ascii_alphanumeric() || *c == '_')
+                        .collect();
+                    if name != stem && stems.contains(&name) {
+                        uses.insert(name);
+                    }
+                }
+            }
+        }
+        graph.insert(stem, uses);
+    }
+    graph
+}
+
+/// A circle in the graph, if there is one (as the list of its modules).
+fn circle(
+    graph: &std::collections::BTreeMap<String, std::collections::BTreeSet<String>>,
+) -> Option<Vec<String>> {
+    fn visit(
+        node: &str,
+        graph: &std::collections::BTreeMap<String, std::collections::BTreeSet<String>>,
+        path: &mut Vec<String>,
+        done: &mut std::collections::BTreeSet<String>,
+    ) -> Option<Vec<String>> {
+        if let Some(i) = path.iter().position(|n| n == node) {
+            let mut found = path[i..].to_vec();
+            found.push(node.to_string());
+            return Some(found);
+        }
+        if done.contains(node) {
+            return None;
+        }
+        path.push(node.to_string());
+        for next in graph.get(node).into_iter().flatten() {
+            if let Some(found) = visit(next, graph, path, done) {
+                return Some(found);
+            }
+        }
+        path.pop();
+        done.insert(node.to_string());
+        None
+    }
+    let mut done = std::collections::BTreeSet::new();
+    graph
+        .keys()
+        .find_map(|n| visit(n, graph, &mut Vec::new(), &mut done))
+}
+
+#[test]
+fn the_user_interface_has_no_circle_of_imports() {
+    // The app holds the windows' and the canvas's state (src/ui/state.rs) without importing the
+    // modules that draw them; the panels and windows import the app, never the other way round.
+    let graph = ui_imports();
+    assert!(graph.len() >= 10, "{graph:?}");
+    assert!(
+        graph["canvas"].contains("app") && graph["panels"].contains("app"),
+        "the reader sees imports: {graph:?}"
+    );
+    if let Some(found) = circle(&graph) {
+        panic!("a circle of imports in src/ui: {}", found.join(" -> "));
+    }
+    // The check finds one when there is one.
+    let mut with_circle = graph.clone();
+    with_circle
+        .get_mut("app")
+        .unwrap()
+        .insert("canvas".to_string());
+    assert!(circle(&with_circle).is_some());
+}

@@ -244,7 +244,7 @@ pub struct ViewState {
     /// Where the canvas was drawn last frame (screen points), so tests and tools can aim at regions.
     pub canvas_rect: Option<egui::Rect>,
     /// The fills and outlines drawn last, reused while only the view moves.
-    pub base_layer: Option<super::canvas::BaseLayer>,
+    pub base_layer: Option<super::state::BaseLayer>,
     /// The region list's rows for a document state and search text.
     /// For a document state, search text and order: the rows, each with whether its name is
     /// shared with another region (then shown with its id).
@@ -344,9 +344,9 @@ pub struct App {
     /// How boundary files are imported when opened (kept for the session).
     pub import_options: crate::geo::ImportOptions,
     /// The palette window, while open.
-    pub palette_editor: Option<super::palette::PaletteEditor>,
+    pub palette_editor: Option<super::state::PaletteEditor>,
     /// The project settings window's draft, while it is open.
-    pub settings_draft: Option<super::settings::SettingsDraft>,
+    pub settings_draft: Option<super::state::SettingsDraft>,
 }
 
 impl App {
@@ -1256,13 +1256,13 @@ impl App {
                 }
             }
             Command::ProjectSettings => {
-                self.settings_draft = Some(super::settings::SettingsDraft::new(
+                self.settings_draft = Some(super::state::SettingsDraft::new(
                     self.session.doc().settings(),
                 ));
             }
             Command::PaletteWindow => {
                 if self.palette_editor.is_none() {
-                    self.palette_editor = Some(super::palette::PaletteEditor::new(
+                    self.palette_editor = Some(super::state::PaletteEditor::new(
                         self.session.doc().palette(),
                     ));
                 }

@@ -9,6 +9,7 @@ use crate::doc::{BorderKind, Document, Edit, Region, RegionChange, RegionId, Reg
 
 use super::app::{App, Highlight};
 use super::commands::Tool;
+use super::state::BaseLayer;
 use super::style;
 use super::view::{Camera, hit_test};
 use super::widgets::colour32;
@@ -481,35 +482,6 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
         {
             label(region, 80.0, egui::vec2(0.0, MARKER_RADIUS + 8.0));
         }
-    }
-}
-
-/// The fills and outlines of the map, tessellated for one view. Drawing them is most of a
-/// frame's work on a large map, so a frame reuses them when nothing has changed, and while the
-/// view moves (pan, zoom) it moves the last drawing instead, redrawing once the view rests or
-/// has moved too far for the old drawing to stand in.
-pub struct BaseLayer {
-    mesh: std::sync::Arc<Mesh>,
-    generation: u64,
-    camera: Camera,
-    rect: egui::Rect,
-    /// The world rectangle the drawing covers (the view at the time, with a margin).
-    covers: [[f64; 2]; 2],
-    /// The view of the previous frame, to tell a moving view from one at rest.
-    last_camera: Camera,
-    /// Regions too small to draw one by one, as an image, and where it goes on screen.
-    raster: Option<(egui::TextureHandle, egui::Rect)>,
-}
-
-impl BaseLayer {
-    /// Whether small regions were painted as an image (the coarsest level of detail).
-    pub fn uses_raster(&self) -> bool {
-        self.raster.is_some()
-    }
-
-    /// Triangles in the tessellated part (fills and outlines).
-    pub fn triangle_count(&self) -> usize {
-        self.mesh.indices.len() / 3
     }
 }
 

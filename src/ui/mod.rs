@@ -10,6 +10,7 @@ pub mod mesh;
 pub mod palette;
 pub mod panels;
 pub mod settings;
+pub mod state;
 pub mod style;
 pub mod view;
 pub mod widgets;

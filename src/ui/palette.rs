@@ -7,51 +7,11 @@ use egui::RichText;
 use crate::colour::{DEFAULT_PALETTES, Thresholds, Warning};
 use crate::doc::palette_check::{self, PairsChecked, SlotPairUse};
 use crate::doc::palette_edit;
-use crate::doc::{Edit, Palette, Rgb, Slot};
+use crate::doc::{Edit, Rgb, Slot};
 
 use super::app::{App, Level};
 use super::style;
 use super::widgets::{colour32, swatch};
-
-/// The working copy of the palette while the window is open.
-pub struct PaletteEditor {
-    pub draft: Palette,
-    /// The hex text of each slot as typed (applied to the draft when it parses).
-    pub hex: Vec<String>,
-    /// One of Tinct's palettes chosen while the draft had changes of its own: replacing them
-    /// waits for the user's word.
-    pub replace_with: Option<Palette>,
-    /// For a document state (`Scene::generation`) and a number of slots: the slot pairs to
-    /// check, and which slots regions use or are pinned to.
-    pairs: Option<CheckedPairs>,
-}
-
-/// The slot pairs to check for one document state and slot count, and the slots in use.
-type CheckedPairs = ((u64, usize), PairsChecked, Vec<SlotPairUse>, Vec<bool>);
-
-impl PaletteEditor {
-    pub fn new(palette: &Palette) -> PaletteEditor {
-        PaletteEditor {
-            draft: palette.clone(),
-            hex: palette.slots.iter().map(|s| s.colour.to_hex()).collect(),
-            replace_with: None,
-            pairs: None,
-        }
-    }
-
-    /// Takes `palette` as the draft.
-    fn take(&mut self, palette: Palette) {
-        self.hex = palette.slots.iter().map(|s| s.colour.to_hex()).collect();
-        self.draft = palette;
-        self.replace_with = None;
-    }
-
-    fn reset(&mut self, palette: &Palette) {
-        let pairs = self.pairs.take();
-        *self = PaletteEditor::new(palette);
-        self.pairs = pairs;
-    }
-}
 
 /// A swatch button that opens a small picker: hue, saturation and brightness sliders over the
 /// colour itself (the hex field beside it takes exact values). Returns true when the colour

@@ -6,23 +6,7 @@
 use crate::doc::{Edit, Settings, Units};
 
 use super::app::{App, Level};
-
-/// The settings being edited while the window is open.
-pub struct SettingsDraft {
-    pub corners_count: bool,
-    pub min_border_length: f64,
-    pub tolerance: f64,
-}
-
-impl SettingsDraft {
-    pub fn new(settings: &Settings) -> SettingsDraft {
-        SettingsDraft {
-            corners_count: settings.corners_count,
-            min_border_length: settings.min_border_length,
-            tolerance: settings.tolerance,
-        }
-    }
-}
+use super::state::SettingsDraft;
 
 /// The edit that makes the project's settings `draft`, or `None` when nothing changes.
 pub fn settings_edit(doc: &crate::doc::Document, draft: &SettingsDraft) -> Option<Edit> {

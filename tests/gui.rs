@@ -640,9 +640,8 @@ fn press(h: &mut Harness<'static, App>, modifiers: egui::Modifiers, key: egui::K
     h.run_steps(3);
 }
 
-/// The default map with one edit (a region renamed), so that it has unsaved changes.
-fn edited(state: &std::path::Path, path: Option<std::path::PathBuf>) -> Harness<'static, App> {
-    let mut h = harness(App::new_with(None, path, Some(state.to_path_buf())));
+/// Renames the first land region through the editor's edit path.
+fn rename_first_land(h: &mut Harness<'static, App>, name: &str) {
     let (id, region) = {
         let doc = h.state().session.doc();
         let (id, r) = doc.land_regions().next().unwrap();
@@ -651,10 +650,16 @@ fn edited(state: &std::path::Path, path: Option<std::path::PathBuf>) -> Harness<
     h.state_mut().edit(tinct::doc::Edit::PutRegion {
         id,
         region: Some(tinct::doc::Region {
-            name: "Renamed by the test".into(),
+            name: name.into(),
             ..region
         }),
     });
+}
+
+/// The default map with one edit (a region renamed), so that it has unsaved changes.
+fn edited(state: &std::path::Path, path: Option<std::path::PathBuf>) -> Harness<'static, App> {
+    let mut h = harness(App::new_with(None, path, Some(state.to_path_buf())));
+    rename_first_land(&mut h, "Renamed by the test");
     h.run_steps(2);
     assert!(h.state().session.is_dirty());
     h
@@ -1147,18 +1152,7 @@ fn saving_runs_on_the_file_thread_and_the_project_is_clean_once_written() {
         Some(project.as_path()),
         "the project opened"
     );
-    let (id, region) = {
-        let doc = h.state().session.doc();
-        let (id, r) = doc.land_regions().next().unwrap();
-        (id, r.clone())
-    };
-    h.state_mut().edit(tinct::doc::Edit::PutRegion {
-        id,
-        region: Some(tinct::doc::Region {
-            name: "Saved in the background".into(),
-            ..region
-        }),
-    });
+    rename_first_land(&mut h, "Saved in the background");
     h.step();
     assert!(h.state().session.is_dirty());
     press(&mut h, egui::Modifiers::COMMAND, egui::Key::S);

@@ -73,13 +73,13 @@ fn frame_times(
     for i in 0..frames + 5 {
         if i == 2 {
             // The first frames fit the map to the window; then zoom in around its centre.
-            app.view.camera.pixels_per_unit *= zoom;
+            app.panels.canvas.camera.pixels_per_unit *= zoom;
         }
         if let Some(step) = step
             && i >= 5
         {
             let factor = if i % 2 == 0 { step } else { 1.0 / step };
-            app.view.camera.pixels_per_unit *= factor;
+            app.panels.canvas.camera.pixels_per_unit *= factor;
         }
         let start = Instant::now();
         let mut output = ctx.run_ui(input(), |ui| app.ui(ui));

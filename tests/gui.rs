@@ -5,7 +5,6 @@ use egui_kittest::Harness;
 use egui_kittest::kittest::Queryable;
 use tinct::doc::{self, RegionId, RegionPair};
 use tinct::ui::App;
-use tinct::ui::canvas::screen_of;
 
 use super::support::root;
 
@@ -19,7 +18,10 @@ fn harness(app: App) -> Harness<'static, App> {
 
 fn click_region(h: &mut Harness<'static, App>, id: RegionId) {
     let anchor = h.state().session.doc().regions()[&id].anchor;
-    let p = screen_of(h.state(), anchor).expect("the canvas has been drawn");
+    let p = h
+        .state()
+        .screen_of(anchor)
+        .expect("the canvas has been drawn");
     h.hover_at(p);
     for pressed in [true, false] {
         h.event(egui::Event::PointerButton {
@@ -198,7 +200,7 @@ fn every_sample_map_renders_and_the_exclave_map_shows_its_certificate() {
             h.run_steps(2);
             assert_eq!(
                 h.state().view.highlight,
-                Some(tinct::ui::app::Highlight::NotPlanar)
+                Some(tinct::ui::state::Highlight::NotPlanar)
             );
         }
     }
@@ -297,7 +299,8 @@ fn colouring_with_the_fewest_colours_clears_every_problem_and_a_new_pin_shows_up
 fn the_three_colour_argument_can_be_walked_step_by_step() {
     let mut h = harness(App::new(None, None));
     h.get_by_label("Walk through the argument").click();
-    h.run_steps(2);
+    // The click's frame opens the window; the next sizes it; the third shows it.
+    h.run_steps(3);
     assert!(
         h.query_by_label("Why three colours are impossible")
             .is_some()
@@ -360,7 +363,8 @@ fn a_large_map_seen_whole_is_drawn_coarsely_and_in_full_once_zoomed_in() {
     let mut h = harness(app);
     let whole = h
         .state()
-        .view
+        .panels
+        .canvas
         .base_layer
         .as_ref()
         .expect("the map was drawn");
@@ -368,6 +372,8 @@ fn a_large_map_seen_whole_is_drawn_coarsely_and_in_full_once_zoomed_in() {
     let coarse = whole.triangle_count();
     let triangulated = |h: &Harness<'static, App>| {
         h.state()
+            .panels
+            .canvas
             .scene
             .outlined
             .iter()
@@ -379,9 +385,9 @@ fn a_large_map_seen_whole_is_drawn_coarsely_and_in_full_once_zoomed_in() {
         seen_whole < 900,
         "seen whole, only the odd larger region is triangulated: {seen_whole} of 90,000"
     );
-    h.state_mut().view.camera.pixels_per_unit *= 40.0;
+    h.state_mut().panels.canvas.camera.pixels_per_unit *= 40.0;
     h.run_steps(2);
-    let near = h.state().view.base_layer.as_ref().unwrap();
+    let near = h.state().panels.canvas.base_layer.as_ref().unwrap();
     assert!(!near.uses_raster());
     assert!(near.triangle_count() > 1000, "{}", near.triangle_count());
     // Besides the image, only those odd larger regions are drawn as triangles.
@@ -593,7 +599,7 @@ fn the_part_that_rules_out_one_colour_fewer_is_shown_on_the_map() {
     h.run_steps(2);
     assert_eq!(
         h.state().view.highlight,
-        Some(tinct::ui::app::Highlight::NotFewerColourable)
+        Some(tinct::ui::state::Highlight::NotFewerColourable)
     );
 }
 
@@ -613,10 +619,13 @@ fn discarding_for_open_then_cancelling_the_path_prompt_loses_nothing() {
     h.run_steps(2);
     h.get_by_label("Discard them").click();
     h.run_steps(3);
-    assert!(h.state().path_prompt.is_some(), "the Open prompt follows");
+    assert!(
+        h.state().dialogs.path.prompt.is_some(),
+        "the Open prompt follows"
+    );
     h.get_all_by_label("Cancel").last().unwrap().click();
     h.run_steps(3);
-    assert!(h.state().path_prompt.is_none());
+    assert!(h.state().dialogs.path.prompt.is_none());
     assert!(
         h.state().session.is_dirty(),
         "the edited work is still unsaved"
@@ -780,9 +789,9 @@ fn escape_closes_the_command_list_the_path_prompt_and_an_open_menu() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness(App::new_with(None, None, Some(dir.path().join("state"))));
     press(&mut h, egui::Modifiers::COMMAND, egui::Key::K);
-    assert!(h.state().command_search.is_some());
+    assert!(h.state().dialogs.commands.is_some());
     press(&mut h, egui::Modifiers::NONE, egui::Key::Escape);
-    assert!(h.state().command_search.is_none());
+    assert!(h.state().dialogs.commands.is_none());
     press(&mut h, egui::Modifiers::COMMAND, egui::Key::O);
     assert!(h.query_by_label("Open a file").is_some());
     press(&mut h, egui::Modifiers::NONE, egui::Key::Escape);
@@ -803,11 +812,11 @@ fn the_command_list_runs_the_best_match_on_enter_and_the_arrows_move_the_choice(
     let mut h = harness(App::new_with(None, None, Some(dir.path().join("state"))));
     press(&mut h, egui::Modifiers::COMMAND, egui::Key::K);
     type_keys(&mut h, "with the fewest");
-    assert_eq!(h.state().command_choice, 0);
+    assert_eq!(h.state().dialogs.commands.as_ref().unwrap().choice, 0);
     press(&mut h, egui::Modifiers::NONE, egui::Key::ArrowDown);
     press(&mut h, egui::Modifiers::NONE, egui::Key::ArrowUp);
     press(&mut h, egui::Modifiers::NONE, egui::Key::Enter);
-    assert!(h.state().command_search.is_none());
+    assert!(h.state().dialogs.commands.is_none());
     // Colour with the fewest colours ran: it applies at once or as soon as the analysis is in.
     assert!(
         !h.state().session.doc().colouring().is_empty() || h.state().apply_when_ready,
@@ -819,7 +828,7 @@ fn the_command_list_runs_the_best_match_on_enter_and_the_arrows_move_the_choice(
     type_keys(&mut h, "save");
     let second = tinct::ui::commands::search("save")[1];
     press(&mut h, egui::Modifiers::NONE, egui::Key::ArrowDown);
-    assert_eq!(h.state().command_choice, 1);
+    assert_eq!(h.state().dialogs.commands.as_ref().unwrap().choice, 1);
     press(&mut h, egui::Modifiers::NONE, egui::Key::Enter);
     let title = match second {
         tinct::ui::commands::Command::SaveAs => "Save the project as",
@@ -885,8 +894,8 @@ fn recovered_work_on_a_saved_project_is_one_undo_away_from_the_file() {
 /// The screen box of some regions' outlines under the editor's current view.
 fn screen_box(h: &Harness<'static, App>, ids: &[RegionId]) -> egui::Rect {
     let b = tinct::ui::view::bounds_of(h.state().session.doc(), ids).unwrap();
-    let a = screen_of(h.state(), b[0]).unwrap();
-    let c = screen_of(h.state(), b[1]).unwrap();
+    let a = h.state().screen_of(b[0]).unwrap();
+    let c = h.state().screen_of(b[1]).unwrap();
     egui::Rect::from_two_pos(a, c)
 }
 
@@ -896,7 +905,7 @@ fn fit_leaves_a_margin_and_going_to_a_region_or_an_obstruction_brings_it_into_vi
     let mut h = harness(App::new(None, Some(states)));
     h.run_steps(3);
     let all: Vec<RegionId> = h.state().session.doc().regions().keys().copied().collect();
-    let canvas = h.state().view.canvas_rect.unwrap();
+    let canvas = h.state().panels.canvas.rect.unwrap();
     let map = screen_box(&h, &all);
     assert!(
         canvas.shrink(16.0).contains_rect(map),
@@ -929,17 +938,17 @@ fn fit_leaves_a_margin_and_going_to_a_region_or_an_obstruction_brings_it_into_vi
     let mut h = harness(App::new(None, None));
     let zennick = h
         .state()
-        .highlight_regions(tinct::ui::app::Highlight::NotThreeColourable);
+        .highlight_regions(tinct::ui::state::Highlight::NotThreeColourable);
     assert!(!zennick.is_empty());
     // Zoom far into one corner first, so that the obstruction is out of sight.
-    h.state_mut().view.camera.pixels_per_unit *= 40.0;
+    h.state_mut().panels.canvas.camera.pixels_per_unit *= 40.0;
     h.run_steps(2);
     h.get_all_by_label("Show them on map")
         .next()
         .unwrap()
         .click();
     h.run_steps(3);
-    let canvas = h.state().view.canvas_rect.unwrap();
+    let canvas = h.state().panels.canvas.rect.unwrap();
     let shown = h.state().view.highlight;
     assert!(
         canvas.contains_rect(screen_box(&h, &zennick)),
@@ -972,13 +981,13 @@ fn starting_from_one_of_our_palettes_asks_before_replacing_changes_and_the_picke
             .is_some()
     );
     assert_eq!(
-        h.state().palette_editor.as_ref().unwrap().draft.slots[0].name,
+        h.state().dialogs.palette.as_ref().unwrap().draft.slots[0].name,
         "Shore"
     );
     h.get_by_label("Keep my changes").click();
     h.run_steps(2);
     assert_eq!(
-        h.state().palette_editor.as_ref().unwrap().draft.slots[0].name,
+        h.state().dialogs.palette.as_ref().unwrap().draft.slots[0].name,
         "Shore"
     );
     h.get_by_label("Start from one of ours:").click();
@@ -987,7 +996,7 @@ fn starting_from_one_of_our_palettes_asks_before_replacing_changes_and_the_picke
     h.run_steps(2);
     h.get_by_label("Replace them").click();
     h.run_steps(2);
-    let draft = &h.state().palette_editor.as_ref().unwrap().draft;
+    let draft = &h.state().dialogs.palette.as_ref().unwrap().draft;
     assert_eq!(draft.slots.len(), 3);
     assert_eq!(
         *h.state().session.doc().palette(),
@@ -1028,11 +1037,9 @@ fn the_region_list_is_by_name_or_file_order_and_tells_shared_names_apart() {
     let mut h = harness(app);
     let rows = |h: &Harness<'static, App>| -> Vec<RegionId> {
         h.state()
-            .view
-            .region_rows
-            .as_ref()
-            .unwrap()
-            .1
+            .panels
+            .regions
+            .shown()
             .iter()
             .map(|r| r.0)
             .collect()

@@ -349,38 +349,95 @@ fn the_checker_catches_an_offence() {
     );
 }
 
-/// The modules of `src/ui` each file names (`super::x` or `crate::ui::x`), by file stem.
+/// The modules of `src/ui` (as paths such as `app` or `panels::canvas`; a folder's `mod.rs` is
+/// the folder) and, for each, the modules of `src/ui` it names: `crate::ui::a::b`, `super::a`
+/// (from the module's parent) or, in a folder's `mod.rs`, a child `a::`.
 fn ui_imports() -> std::collections::BTreeMap<String, std::collections::BTreeSet<String>> {
     let dir = root().join("src/ui");
-    let mut graph = std::collections::BTreeMap::new();
-    let stems: Vec<String> = rust_files(&dir)
-        .iter()
-        .filter_map(|p| p.file_stem().map(|s| s.to_string_lossy().into_owned()))
-        .filter(|s| s != "mod")
-        .collect();
-    for path in rust_files(&dir) {
-        let stem = path.file_stem().unwrap().to_string_lossy().into_owned();
-        if stem == "mod" {
-            continue;
+    let module_of = |path: &std::path::Path| -> String {
+        let rel = path.strip_prefix(&dir).unwrap().with_extension("");
+        let mut parts: Vec<String> = rel
+            .components()
+            .map(|c| c.as_os_str().to_string_lossy().into_owned())
+            .collect();
+        if parts.last().is_some_and(|p| p == "mod") {
+            parts.pop();
         }
-        let text = std::fs::read_to_string(&path).unwrap();
+        parts.join("::")
+    };
+    let files = rust_files(&dir);
+    let modules: std::collections::BTreeSet<String> = files
+        .iter()
+        .map(|p| module_of(p))
+        .filter(|m| !m.is_empty())
+        .collect();
+    // The longest module that `path` (segments after the `ui` root) starts with.
+    let resolve = |path: &[String]| -> Option<String> {
+        (1..=path.len())
+            .rev()
+            .map(|n| path[..n].join("::"))
+            .find(|m| modules.contains(m))
+    };
+    let segments = |rest: &str| -> Vec<String> {
+        rest.split("::")
+            .map(|s| {
+                s.chars()
+                    .take_while(|c| c.is_ascii_alphanumeric() || *c == '_')
+                    .collect::<String>()
+            })
+            .take_while(|s| !s.is_empty())
+            .collect()
+    };
+    let mut graph = std::collections::BTreeMap::new();
+    for path in &files {
+        let module = module_of(path);
+        if module.is_empty() {
+            continue; // src/ui/mod.rs only declares and wires the modules
+        }
+        let is_folder = path.file_stem().is_some_and(|s| s == "mod");
+        // `super` from a file is the folder it is in; from a folder's `mod.rs`, the folder's parent.
+        let parent: Vec<String> = {
+            let mut p: Vec<String> = module.split("::").map(str::to_string).collect();
+            p.pop();
+            p
+        };
+        let text = std::fs::read_to_string(path).unwrap();
+        // A file's unit tests (`use super::*` names the file itself) are not its imports.
+        let text = text.split("#[cfg(test)]").next().unwrap_or_default();
         let mut uses = std::collections::BTreeSet::new();
-        for (_, line) in code_lines(&text) {
-            for prefix in ["super::", "crate::ui::"] {
+        for (_, line) in code_lines(text) {
+            let mut found = |prefix: &str, base: &[String]| {
                 let mut rest = line.as_str();
                 while let Some(at) = rest.find(prefix) {
+                    let before = rest[..at].chars().last();
                     rest = &rest[at + prefix.len()..];
-                    let name: String = rest
-                        .chars()
-                        .take_while(|c| c.is_ascii_alphanumeric() || *c == '_')
-                        .collect();
-                    if name != stem && stems.contains(&name) {
-                        uses.insert(name);
+                    if before.is_some_and(|c| c.is_ascii_alphanumeric() || c == '_' || c == ':') {
+                        continue;
                     }
+                    let mut full = base.to_vec();
+                    full.extend(segments(rest));
+                    if let Some(m) = resolve(&full)
+                        && m != module
+                    {
+                        uses.insert(m);
+                    }
+                }
+            };
+            found("crate::ui::", &[]);
+            found("super::", &parent);
+            if is_folder {
+                let children = modules.iter().filter(|m| {
+                    m.strip_prefix(&format!("{module}::"))
+                        .is_some_and(|c| !c.contains("::"))
+                });
+                for child in children {
+                    let name = child.rsplit("::").next().unwrap();
+                    let base: Vec<String> = child.split("::").map(str::to_string).collect();
+                    found(&format!("{name}::"), &base);
                 }
             }
         }
-        graph.insert(stem, uses);
+        graph.insert(module, uses);
     }
     graph
 }
@@ -421,12 +478,14 @@ fn circle(
 
 #[test]
 fn the_user_interface_has_no_circle_of_imports() {
-    // The app holds the windows' and the canvas's state (src/ui/state.rs) without importing the
-    // modules that draw them; the panels and windows import the app, never the other way round.
+    // The app holds the panels' and windows' state and draws them; they import the frame and the
+    // shared state, never the app, so nothing they do can reach past the frame.
     let graph = ui_imports();
-    assert!(graph.len() >= 10, "{graph:?}");
+    assert!(graph.len() >= 20, "{graph:?}");
     assert!(
-        graph["canvas"].contains("app") && graph["panels"].contains("app"),
+        graph["panels::canvas"].contains("frame")
+            && graph["app"].contains("panels")
+            && graph["panels"].contains("panels::canvas"),
         "the reader sees imports: {graph:?}"
     );
     if let Some(found) = circle(&graph) {
@@ -435,8 +494,43 @@ fn the_user_interface_has_no_circle_of_imports() {
     // The check finds one when there is one.
     let mut with_circle = graph.clone();
     with_circle
-        .get_mut("app")
+        .get_mut("panels::canvas")
         .unwrap()
-        .insert("canvas".to_string());
+        .insert("app".to_string());
     assert!(circle(&with_circle).is_some());
+}
+
+#[test]
+fn panels_and_windows_draw_from_the_frame_and_never_reach_the_app() {
+    // Every panel and window gets a read-only frame and sends actions: none of them imports the
+    // app, so none can write the session, the document or another panel's state mid-frame.
+    let graph = ui_imports();
+    let drawn: Vec<&String> = graph
+        .keys()
+        .filter(|m| m.starts_with("panels::") || m.starts_with("dialogs::"))
+        .collect();
+    assert!(
+        drawn.len() >= 14,
+        "one module per panel and window: {drawn:?}"
+    );
+    for module in drawn {
+        assert!(
+            !graph[module].contains("app"),
+            "{module} imports the app: {:?}",
+            graph[module]
+        );
+    }
+    let dir = root().join("src/ui");
+    for folder in ["panels", "dialogs"] {
+        for path in rust_files(&dir.join(folder)) {
+            let text = std::fs::read_to_string(&path).unwrap();
+            for (n, line) in code_lines(&text) {
+                assert!(
+                    !line.contains("&mut App") && !line.contains("&mut Session"),
+                    "{}:{n} takes the app or the session to write: {line}",
+                    path.display()
+                );
+            }
+        }
+    }
 }

@@ -5,147 +5,20 @@ use std::path::{Path, PathBuf};
 use std::time::{Duration, Instant};
 
 use crate::analysis::{self, Analysis, Request};
-use crate::doc::{self, Document, Edit, GroupId, RegionId};
+use crate::doc::{self, Document, Edit, RegionId};
 use crate::session::Session;
 use crate::worker::{Event, JobKind, Worker};
 
-use super::commands::{Command, ExportFormat, Tool};
-use super::mesh::Scene;
-use super::view::Camera;
+use super::commands::{Command, ExportFormat};
+use super::dialogs::Dialogs;
+use super::dialogs::path::PathPrompt;
+use super::frame::{Action, Frame, UnsavedAnswer};
+use super::jobs::{JobResult, export_files, human_size};
+use super::panels::Panels;
+use super::state::{Highlight, Level, Message, PaletteWarnings, PathPurpose, ViewState};
 
 /// The invented map the editor opens with.
 pub const DEFAULT_MAP: &str = include_str!("../../sample-maps/vessland-province.tinct");
-
-/// The palette's distinctness warnings for the slot pairs neighbours use, for one revision.
-#[derive(Default)]
-pub struct PaletteWarnings {
-    pub revision: u64,
-    pub warnings: Vec<String>,
-}
-
-impl PaletteWarnings {
-    pub fn of(doc: &Document) -> PaletteWarnings {
-        PaletteWarnings {
-            revision: doc.revision(),
-            warnings: doc::palette_check::palette_report(
-                doc,
-                &crate::colour::Thresholds::default(),
-            )
-            .warnings
-            .into_iter()
-            .map(|w| w.message)
-            .collect(),
-        }
-    }
-}
-
-/// Results of background jobs.
-pub enum JobResult {
-    Loaded {
-        path: PathBuf,
-        result: Result<Box<(Document, Vec<String>)>, String>,
-    },
-    Analysed(Box<Analysis>),
-    /// A balanced recolouring for a revision.
-    Balanced {
-        revision: u64,
-        verdict: Box<analysis::ColouringVerdict>,
-    },
-    /// An export written (its size in bytes) or the reason it was not.
-    Exported {
-        format: ExportFormat,
-        path: PathBuf,
-        result: Result<usize, String>,
-    },
-    /// The project saved (as of `revision`) to `path`, or why not.
-    Saved {
-        path: PathBuf,
-        revision: u64,
-        result: Result<(), String>,
-    },
-    /// Unsaved work written aside as of `revision`, or why not.
-    Autosaved {
-        revision: u64,
-        result: Result<(), String>,
-    },
-    /// Proof files written to a folder, or why not.
-    ProofWritten {
-        folder: PathBuf,
-        names: Vec<String>,
-        result: Result<(), String>,
-    },
-}
-
-/// A byte count in words a user reads at a glance.
-fn human_size(bytes: usize) -> String {
-    match bytes {
-        b if b < 1024 => format!("{b} bytes"),
-        b if b < 1024 * 1024 => format!("{:.0} KB", b as f64 / 1024.0),
-        b => format!("{:.1} MB", b as f64 / (1024.0 * 1024.0)),
-    }
-}
-
-/// How pictures are exported (kept for the session, not in the project).
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub struct ExportOptions {
-    /// Region names on the picture.
-    pub labels: bool,
-    /// A legend of the colours in use.
-    pub legend: bool,
-    /// Page width in millimetres (SVG and PNG).
-    pub width_mm: f64,
-    /// Resolution of a PNG, in dots per inch at that page width.
-    pub dpi: u32,
-}
-
-impl Default for ExportOptions {
-    fn default() -> ExportOptions {
-        ExportOptions {
-            labels: true,
-            legend: true,
-            width_mm: 180.0,
-            dpi: 300,
-        }
-    }
-}
-
-/// Makes the files of an export to `path` (run on the worker: a PNG of a large map takes a
-/// while); a shapefile is several files beside `path`.
-pub fn export_files(
-    doc: &Document,
-    format: ExportFormat,
-    options: ExportOptions,
-    path: &Path,
-) -> Result<Vec<(PathBuf, Vec<u8>)>, crate::export::ExportError> {
-    let svg = crate::export::SvgOptions {
-        width_mm: options.width_mm,
-        labels: options.labels,
-        legend: options.legend,
-        ..Default::default()
-    };
-    let format = match format {
-        ExportFormat::Svg => crate::export::ExportFormat::Svg,
-        ExportFormat::Png => {
-            crate::export::ExportFormat::Png(crate::export::PngSize::Dpi(options.dpi as f64))
-        }
-        ExportFormat::GeoJson => crate::export::ExportFormat::GeoJson,
-        ExportFormat::GeoPackage => crate::export::ExportFormat::GeoPackage,
-        ExportFormat::Shapefile => crate::export::ExportFormat::Shapefile,
-        ExportFormat::Csv => crate::export::ExportFormat::Csv,
-    };
-    crate::export::export_files(doc, format, &svg, path)
-}
-
-/// Which certificate the map highlights.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum Highlight {
-    /// The regions whose borders cannot be drawn flat (a Kuratowski subdivision).
-    NotPlanar,
-    /// The regions that cannot take three colours.
-    NotThreeColourable,
-    /// The regions that cannot take one colour fewer than the minimum.
-    NotFewerColourable,
-}
 
 /// How often unsaved work is written to the recovery file.
 pub const AUTOSAVE_EVERY: Duration = Duration::from_secs(5);
@@ -158,51 +31,6 @@ pub const ANALYSIS_DEBOUNCE: Duration = Duration::from_millis(250);
 /// the edit without a wait (a newer edit cancels a job still running).
 pub const QUICK_ANALYSIS: Duration = Duration::from_millis(50);
 
-/// How serious a message in the status area is.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum Level {
-    Info,
-    Warning,
-    Error,
-}
-
-/// A message shown to the user.
-#[derive(Clone, Debug)]
-pub struct Message {
-    pub level: Level,
-    pub text: String,
-    pub at: Instant,
-}
-
-/// The purpose of the file-path prompt.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum PathPurpose {
-    Open,
-    SaveAs,
-    /// A folder for the CNF and DRAT proof files.
-    ExportProof,
-    /// Where an export goes.
-    Export(ExportFormat),
-}
-
-/// The small window that asks for a file path (typed, or chosen with the system dialog).
-pub struct PathPrompt {
-    pub purpose: PathPurpose,
-    pub text: String,
-    /// Whether its field has been given the keyboard focus (once, when it opens).
-    pub focused: bool,
-}
-
-impl PathPrompt {
-    pub fn new(purpose: PathPurpose, text: impl Into<String>) -> PathPrompt {
-        PathPrompt {
-            purpose,
-            text: text.into(),
-            focused: false,
-        }
-    }
-}
-
 /// The path a project is saved to by default: the document's file when it is a project, else
 /// the same name with the project extension (an imported `states.geojson` becomes
 /// `states.tinct` beside it).
@@ -210,98 +38,24 @@ pub fn project_path_for(path: &Path) -> PathBuf {
     path.with_extension(doc::file::EXTENSION)
 }
 
-/// What the region list's rows were made for: the scene generation, the search text and the
-/// order (file order when true).
-pub type RowsKey = (u64, String, bool);
-
-/// Everything about how the map is shown; never saved in the project.
-pub struct ViewState {
-    pub camera: Camera,
-    /// The canvas needs fitting to the map on its next frame.
-    pub fit_pending: bool,
-    /// The canvas moves to these regions on its next frame (something was gone to).
-    pub go_to: Option<Vec<RegionId>>,
-    /// The view shows the whole map as Fit left it: when the canvas changes size, it fits
-    /// again (until the user pans, zooms or goes somewhere).
-    pub fitted: bool,
-    pub tool: Tool,
-    pub selection: Option<RegionId>,
-    pub hover: Option<RegionId>,
-    /// The first region clicked with the border tool.
-    pub border_first: Option<RegionId>,
-    pub show_borders: bool,
-    pub show_labels: bool,
-    /// The palette slot the pin tool uses.
-    pub pin_slot: u32,
-    /// The group the group tool adds to.
-    pub group: Option<GroupId>,
-    pub region_filter: String,
-    /// A name being typed for the selected region.
-    pub name_draft: Option<(RegionId, String)>,
-    /// A marker being dragged: its region and the drag offset in world units so far.
-    pub dragging: Option<(RegionId, [f64; 2])>,
-    pub highlight: Option<Highlight>,
-    /// Where the canvas was drawn last frame (screen points), so tests and tools can aim at regions.
-    pub canvas_rect: Option<egui::Rect>,
-    /// The fills and outlines drawn last, reused while only the view moves.
-    pub base_layer: Option<super::state::BaseLayer>,
-    /// The region list's rows for a document state and search text.
-    /// For a document state, search text and order: the rows, each with whether its name is
-    /// shared with another region (then shown with its id).
-    pub region_rows: Option<(RowsKey, Vec<(RegionId, bool)>)>,
-    /// The region list in the order of the source file (ids) rather than by name.
-    pub list_in_file_order: bool,
-}
-
-impl Default for ViewState {
-    fn default() -> ViewState {
-        ViewState {
-            camera: Camera::default(),
-            fit_pending: true,
-            go_to: None,
-            fitted: false,
-            tool: Tool::Select,
-            selection: None,
-            hover: None,
-            border_first: None,
-            show_borders: false,
-            show_labels: true,
-            pin_slot: 0,
-            group: None,
-            region_filter: String::new(),
-            name_draft: None,
-            dragging: None,
-            highlight: None,
-            canvas_rect: None,
-            base_layer: None,
-            region_rows: None,
-            list_in_file_order: false,
-        }
-    }
-}
-
 /// The editor.
 pub struct App {
     pub session: Session,
+    /// How the map is shown and what the tools act on (read by every panel).
     pub view: ViewState,
-    pub scene: Scene,
+    /// The panels' own state (the canvas's view and drawing caches, the region list's search).
+    pub panels: Panels,
+    /// The windows' own state.
+    pub dialogs: Dialogs,
     pub palette_warnings: PaletteWarnings,
     pub messages: Vec<Message>,
-    pub path_prompt: Option<PathPrompt>,
     /// A command waiting for the user to decide about unsaved changes.
     pub confirm_discard: Option<Command>,
     /// The command the user interrupted with *Save first*: it runs once the save succeeds, and
     /// is dropped if the save fails or its path prompt is cancelled.
     pub after_save: Option<Command>,
-    /// The highlighted match in the command list (Enter runs it; the arrows move it).
-    pub command_choice: usize,
     /// The user agreed to discard unsaved changes for this command.
     pub discard_agreed: Option<Command>,
-    pub command_search: Option<String>,
-    /// The step of the argument on show, while walking through why fewer colours fail.
-    pub argument_step: Option<usize>,
-    /// Which argument is on show: the one for three colours, or for one fewer than the minimum.
-    pub argument_for: Highlight,
     /// Apply the fewest-colours colouring as soon as an analysis of the current revision arrives.
     pub apply_when_ready: bool,
     /// The latest background analysis (possibly for an older revision: then it is shown as stale).
@@ -321,8 +75,9 @@ pub struct App {
     /// Paths chosen in a system file dialog, delivered from its thread.
     dialog_results: std::sync::mpsc::Receiver<(PathPurpose, Option<PathBuf>)>,
     dialog_sender: std::sync::mpsc::Sender<(PathPurpose, Option<PathBuf>)>,
-    /// Commands emitted while drawing this frame, applied at its end.
-    pending: Vec<Command>,
+    /// Actions sent outside the panels (shortcuts, a save that finished), applied at the end of
+    /// the frame with those the panels sent.
+    pending: Vec<Action>,
     /// Set once the user has agreed to close.
     pub quit_confirmed: bool,
     /// Files opened or saved recently, newest first.
@@ -339,14 +94,6 @@ pub struct App {
     /// The revision last written aside, if any.
     autosaved_revision: Option<u64>,
     last_title: String,
-    /// How pictures are exported.
-    pub export_options: ExportOptions,
-    /// How boundary files are imported when opened (kept for the session).
-    pub import_options: crate::geo::ImportOptions,
-    /// The palette window, while open.
-    pub palette_editor: Option<super::state::PaletteEditor>,
-    /// The project settings window's draft, while it is open.
-    pub settings_draft: Option<super::state::SettingsDraft>,
 }
 
 impl App {
@@ -374,17 +121,13 @@ impl App {
         let mut app = App {
             session: Session::new(doc, None),
             view: ViewState::default(),
-            scene: Scene::default(),
+            panels: Panels::default(),
+            dialogs: Dialogs::default(),
             palette_warnings,
             messages: Vec::new(),
-            path_prompt: None,
             confirm_discard: None,
             after_save: None,
-            command_choice: 0,
             discard_agreed: None,
-            command_search: None,
-            argument_step: None,
-            argument_for: Highlight::NotThreeColourable,
             apply_when_ready: false,
             analysis: None,
             analysis_requested: None,
@@ -399,10 +142,6 @@ impl App {
             pending: Vec::new(),
             quit_confirmed: false,
             last_title: String::new(),
-            export_options: ExportOptions::default(),
-            import_options: crate::geo::ImportOptions::default(),
-            palette_editor: None,
-            settings_draft: None,
             recent: recovery
                 .as_deref()
                 .map(doc::recovery::recent_files)
@@ -508,7 +247,7 @@ impl App {
 
     /// Queues a command for the end of this frame.
     pub fn emit(&mut self, command: Command) {
-        self.pending.push(command);
+        self.pending.push(Action::Run(command));
     }
 
     pub fn say(&mut self, level: Level, text: impl Into<String>) {
@@ -532,7 +271,7 @@ impl App {
     /// Reads a file on the worker (or here, when there is no worker, as in tests).
     pub fn open_path(&mut self, path: PathBuf) {
         let job_path = path.clone();
-        let import = self.import_options.clone();
+        let import = self.dialogs.path.import_options.clone();
         let job = move || {
             let result = crate::formats::load(&job_path, &import)
                 .map(|l| Box::new((l.doc, l.notices.into_iter().map(|n| n.message).collect())))
@@ -685,6 +424,8 @@ impl App {
         self.session = session;
         self.notices.clear();
         self.view = ViewState::default();
+        self.panels.reset();
+        self.dialogs.walk = None;
         self.palette_warnings = PaletteWarnings::of(self.session.doc());
         self.analysis = None;
         self.analysis_requested = None;
@@ -852,7 +593,7 @@ impl App {
             }
         };
         let snapshot = crate::worker::snapshot(self.session.doc());
-        let options = self.export_options;
+        let options = self.dialogs.path.export_options;
         let revision = self.session.doc().revision();
         let job = move |_: &crate::worker::JobContext| {
             let result = export_files(&snapshot, format, options, &path)
@@ -1034,24 +775,7 @@ impl App {
         }
         while let Ok((purpose, picked)) = self.dialog_results.try_recv() {
             match picked {
-                Some(path) => match purpose {
-                    PathPurpose::Open => {
-                        self.path_prompt = None;
-                        self.open_path(path);
-                    }
-                    PathPurpose::SaveAs => {
-                        self.path_prompt = None;
-                        self.save_to(&path);
-                    }
-                    PathPurpose::ExportProof => {
-                        self.path_prompt = None;
-                        self.export_proof(&path);
-                    }
-                    PathPurpose::Export(format) => {
-                        self.path_prompt = None;
-                        self.export_to(format, path);
-                    }
-                },
+                Some(path) => self.path_chosen(purpose, path),
                 None => self.say(
                     Level::Info,
                     "No file was chosen (if no dialog appeared, this system has no file dialog service: type the path instead)",
@@ -1075,7 +799,7 @@ impl App {
         if revision != self.seen_revision {
             self.seen_revision = revision;
             self.changed_at = Instant::now();
-            self.scene.sync(self.session.doc());
+            self.panels.canvas.scene.sync(self.session.doc());
         }
         if self.analysis_requested != Some(revision) {
             let rest = self.changed_at.elapsed();
@@ -1143,11 +867,102 @@ impl App {
             });
     }
 
-    /// Applies the commands emitted during this frame.
-    pub fn run_pending(&mut self, ctx: &egui::Context) {
-        let pending = std::mem::take(&mut self.pending);
-        for command in pending {
-            self.run(ctx, command);
+    /// Draws one frame of the whole editor into `ui` (also what the UI tests drive): the work
+    /// that does not draw, then every panel and window from one read-only [`Frame`], then the
+    /// actions they sent, applied in order.
+    pub fn ui(&mut self, ui: &mut egui::Ui) {
+        let ctx = ui.ctx().clone();
+        self.logic(&ctx);
+        self.shortcuts(&ctx);
+        let progress = self.analysis_progress();
+        let frame = Frame {
+            session: &self.session,
+            analysis: self.analysis.as_ref(),
+            analysis_stale: self.analysis_is_stale(),
+            progress,
+            view: &self.view,
+            generation: self.panels.canvas.scene.generation,
+            palette_warnings: &self.palette_warnings,
+            messages: &self.messages,
+            recent: &self.recent,
+            notices: &self.notices,
+            recovery_offer: self.recovery_offer.as_ref(),
+            unsaved_question: self.confirm_discard,
+            actions: Default::default(),
+        };
+        super::draw(&frame, &mut self.panels, &mut self.dialogs, ui);
+        let actions = frame.into_actions();
+        self.pending.extend(actions);
+        self.apply_pending(&ctx);
+    }
+
+    /// Applies the actions sent during this frame, in the order they were sent (an action may
+    /// send more: a finished save runs the command it interrupted).
+    pub fn apply_pending(&mut self, ctx: &egui::Context) {
+        if !self.pending.is_empty() {
+            // What changed is drawn at once (a window that opens, a view that moves).
+            ctx.request_repaint();
+        }
+        while !self.pending.is_empty() {
+            for action in std::mem::take(&mut self.pending) {
+                self.apply(ctx, action);
+            }
+        }
+    }
+
+    /// Applies one action.
+    pub fn apply(&mut self, ctx: &egui::Context, action: Action) {
+        match action {
+            Action::Run(command) => self.run(ctx, command),
+            Action::Edit(edit) => self.edit(edit),
+            Action::Say(level, text) => self.say(level, text),
+            Action::Select(id) => self.view.selection = id,
+            Action::GoTo(regions) => self.go_to(regions),
+            Action::BorderFrom(id) => self.view.border_first = id,
+            Action::SetPinSlot(slot) => self.view.pin_slot = slot,
+            Action::SetGroup(group) => self.view.group = group,
+            Action::ShowHighlight(highlight, regions) => self.show_highlight(highlight, regions),
+            Action::HideHighlight => self.view.highlight = None,
+            Action::WalkThrough(highlight, regions) => {
+                self.dialogs.walk = Some(super::dialogs::argument::Walk::new(highlight));
+                self.show_highlight(highlight, regions);
+            }
+            Action::CancelAnalysis => self.cancel_analysis(),
+            Action::OpenFile(path) => self.confirm_or_run_open(path),
+            Action::PathChosen(purpose, path) => self.path_chosen(purpose, path),
+            Action::PathCancelled => self.after_save = None,
+            Action::Browse(purpose) => self.browse(purpose),
+            Action::Unsaved(answer) => {
+                let Some(command) = self.confirm_discard.take() else {
+                    return;
+                };
+                match answer {
+                    // Save, then carry on with what was interrupted (once the save succeeds).
+                    UnsavedAnswer::SaveFirst => {
+                        self.after_save = Some(command);
+                        self.run(ctx, Command::Save);
+                    }
+                    // Agreed for this command only: the work is not marked saved.
+                    UnsavedAnswer::Discard => {
+                        self.discard_agreed = Some(command);
+                        self.run(ctx, command);
+                    }
+                    UnsavedAnswer::Cancel => {}
+                }
+            }
+            Action::Recover(true) => self.recover(),
+            Action::Recover(false) => self.discard_recovery(),
+        }
+    }
+
+    /// A path typed or picked for `purpose`.
+    fn path_chosen(&mut self, purpose: PathPurpose, path: PathBuf) {
+        self.dialogs.path.prompt = None;
+        match purpose {
+            PathPurpose::Open => self.open_path(path),
+            PathPurpose::SaveAs => self.save_to(&path),
+            PathPurpose::ExportProof => self.export_proof(&path),
+            PathPurpose::Export(format) => self.export_to(format, path),
         }
     }
 
@@ -1164,7 +979,9 @@ impl App {
         self.confirm_discard = None;
         match command {
             Command::New => self.replace_session(Session::new(Document::new("Untitled"), None)),
-            Command::Open => self.path_prompt = Some(PathPrompt::new(PathPurpose::Open, "")),
+            Command::Open => {
+                self.dialogs.path.prompt = Some(PathPrompt::new(PathPurpose::Open, ""))
+            }
             // Only a project file is saved over; an imported file's document is saved as a
             // project (asking where, with the project name beside the source suggested).
             Command::Save => match self.session.path().map(Path::to_path_buf) {
@@ -1179,7 +996,7 @@ impl App {
                     .path()
                     .map(|p| project_path_for(p).display().to_string())
                     .unwrap_or_default();
-                self.path_prompt = Some(PathPrompt::new(PathPurpose::SaveAs, text));
+                self.dialogs.path.prompt = Some(PathPrompt::new(PathPurpose::SaveAs, text));
             }
             Command::Quit => {
                 self.quit_confirmed = true;
@@ -1204,14 +1021,13 @@ impl App {
                 self.view.selection = None;
                 self.view.border_first = None;
                 self.view.group = None;
-                self.command_search = None;
+                self.dialogs.commands = None;
             }
-            Command::FitView => self.view.fit_pending = true,
+            Command::FitView => self.panels.canvas.fit_pending = true,
             Command::ToggleBorders => self.view.show_borders = !self.view.show_borders,
             Command::ToggleLabels => self.view.show_labels = !self.view.show_labels,
             Command::CommandList => {
-                self.command_search = Some(String::new());
-                self.command_choice = 0;
+                self.dialogs.commands = Some(Default::default());
             }
             Command::UseTool(tool) => {
                 self.view.tool = tool;
@@ -1248,7 +1064,7 @@ impl App {
                 self.run_job(revision, JobKind::Other, Box::new(job));
             }
             Command::ExportProof => {
-                self.path_prompt = Some(PathPrompt::new(PathPurpose::ExportProof, ""))
+                self.dialogs.path.prompt = Some(PathPrompt::new(PathPurpose::ExportProof, ""))
             }
             Command::ClearColours => {
                 if !self.session.doc().colouring().is_empty() {
@@ -1256,13 +1072,13 @@ impl App {
                 }
             }
             Command::ProjectSettings => {
-                self.settings_draft = Some(super::state::SettingsDraft::new(
+                self.dialogs.settings = Some(super::dialogs::settings::SettingsDraft::new(
                     self.session.doc().settings(),
                 ));
             }
             Command::PaletteWindow => {
-                if self.palette_editor.is_none() {
-                    self.palette_editor = Some(super::state::PaletteEditor::new(
+                if self.dialogs.palette.is_none() {
+                    self.dialogs.palette = Some(super::dialogs::palette::PaletteEditor::new(
                         self.session.doc().palette(),
                     ));
                 }
@@ -1292,7 +1108,7 @@ impl App {
                     .and_then(|p| p.parent())
                     .map(|dir| dir.join(format.default_file_name()).display().to_string())
                     .unwrap_or_else(|| format.default_file_name().to_string());
-                self.path_prompt = Some(PathPrompt::new(PathPurpose::Export(format), text));
+                self.dialogs.path.prompt = Some(PathPrompt::new(PathPurpose::Export(format), text));
             }
         }
     }
@@ -1331,14 +1147,14 @@ impl App {
     /// unsaved-changes question (as Cancel), the palette window, an open menu; with nothing
     /// open it clears the selection.
     fn escape(&mut self, ctx: &egui::Context) {
-        if self.command_search.is_none() && self.path_prompt.is_some() {
+        if self.dialogs.commands.is_none() && self.dialogs.path.prompt.is_some() {
             self.after_save = None;
         }
-        let closed = self.command_search.take().is_some()
-            || self.path_prompt.take().is_some()
+        let closed = self.dialogs.commands.take().is_some()
+            || self.dialogs.path.prompt.take().is_some()
             || self.confirm_discard.take().is_some()
-            || self.palette_editor.take().is_some()
-            || self.settings_draft.take().is_some();
+            || self.dialogs.palette.take().is_some()
+            || self.dialogs.settings.take().is_some();
         if closed {
             return;
         }
@@ -1349,10 +1165,17 @@ impl App {
         }
     }
 
-    /// Selects `id` and moves the view to it (from the region list, a neighbour link, a clash).
-    pub fn go_to_region(&mut self, id: RegionId) {
-        self.view.selection = Some(id);
-        self.view.go_to = Some(vec![id]);
+    /// Selects the first of `regions` and moves the view so that all of them are in sight.
+    pub fn go_to(&mut self, regions: Vec<RegionId>) {
+        self.view.selection = regions.first().copied();
+        if !regions.is_empty() {
+            self.panels.canvas.go_to = Some(regions);
+        }
+    }
+
+    /// Where a world point is on screen, given the canvas drawn last frame (for tests and tools).
+    pub fn screen_of(&self, p: [f64; 2]) -> Option<egui::Pos2> {
+        self.panels.canvas.screen_of(p)
     }
 
     /// The regions a highlight draws, for the current analysis.
@@ -1375,12 +1198,11 @@ impl App {
         }
     }
 
-    /// Shows a highlight on the map and moves the view so that all its `regions` are in sight
-    /// (the panel passes them: it holds the analysis while it draws).
+    /// Shows a highlight on the map and moves the view so that all its `regions` are in sight.
     pub fn show_highlight(&mut self, highlight: Highlight, regions: Vec<RegionId>) {
         self.view.highlight = Some(highlight);
         if !regions.is_empty() {
-            self.view.go_to = Some(regions);
+            self.panels.canvas.go_to = Some(regions);
         }
     }
 }

@@ -1,15 +1,17 @@
 //! The desktop editor (eframe/egui), behind the default `gui` feature.
 //!
-//! `App` holds the session, the view state and the worker; each frame drains worker events, draws the
-//! panels, which emit commands, and applies those commands at the end of the frame.
+//! `App` holds the session, the shared view state, the panels' and windows' own state and the
+//! workers. Each frame drains worker events, builds one read-only [`Frame`] from which every
+//! panel (`panels/`) and window (`dialogs/`) draws and to which they send actions, then applies
+//! those actions in one place at the end of the frame.
 
 pub mod app;
-pub mod canvas;
 pub mod commands;
+pub mod dialogs;
+pub mod frame;
+pub mod jobs;
 pub mod mesh;
-pub mod palette;
 pub mod panels;
-pub mod settings;
 pub mod state;
 pub mod style;
 pub mod view;
@@ -20,36 +22,43 @@ use std::path::PathBuf;
 
 pub use app::App;
 
-impl App {
-    /// Draws one frame of the whole editor into `ui` (also what the UI tests drive).
-    pub fn ui(&mut self, ui: &mut egui::Ui) {
-        let ctx = ui.ctx().clone();
-        self.logic(&ctx);
-        self.shortcuts(&ctx);
-        egui::Panel::top("menu").show(ui, |ui| panels::menu_ui(self, ui));
-        egui::Panel::top("tools").show(ui, |ui| panels::toolbar_ui(self, ui));
-        egui::Panel::bottom("status").show(ui, |ui| panels::status_ui(self, ui));
-        egui::Panel::left("regions")
-            .default_size(220.0)
-            .show(ui, |ui| panels::regions_ui(self, ui));
-        egui::Panel::right("inspector")
-            .default_size(320.0)
-            .show(ui, |ui| {
-                egui::ScrollArea::vertical().show(ui, |ui| {
-                    panels::details_ui(self, ui);
-                    ui.separator();
-                    panels::verdict_ui(self, ui);
-                    ui.separator();
-                    panels::palette_ui(self, ui);
-                });
+use dialogs::Dialogs;
+use frame::Frame;
+use panels::Panels;
+
+/// Draws every panel and window of one frame from `frame`; what they ask for is in its queue.
+fn draw(frame: &Frame, panels: &mut Panels, dialogs: &mut Dialogs, ui: &mut egui::Ui) {
+    let ctx = ui.ctx().clone();
+    egui::Panel::top("menu").show(ui, |ui| panels::menu::show(frame, ui));
+    egui::Panel::top("tools").show(ui, |ui| panels::toolbar::show(frame, ui));
+    egui::Panel::bottom("status").show(ui, |ui| panels::status::show(frame, ui));
+    egui::Panel::left("regions")
+        .default_size(220.0)
+        .show(ui, |ui| {
+            panels::regions::show(frame, &mut panels.regions, ui)
+        });
+    egui::Panel::right("inspector")
+        .default_size(320.0)
+        .show(ui, |ui| {
+            egui::ScrollArea::vertical().show(ui, |ui| {
+                panels::details::show(frame, &mut panels.details, ui);
+                ui.separator();
+                panels::verdict::show(frame, ui);
+                ui.separator();
+                panels::palette::show(frame, ui);
             });
-        egui::CentralPanel::default().show(ui, |ui| canvas::canvas_ui(self, ui));
-        panels::dialogs_ui(self, &ctx);
-        panels::argument_ui(self, &ctx);
-        palette::palette_window_ui(self, &ctx);
-        settings::settings_window_ui(self, &ctx);
-        self.run_pending(&ctx);
+        });
+    egui::CentralPanel::default()
+        .show(ui, |ui| panels::canvas::show(frame, &mut panels.canvas, ui));
+    if dialogs::recovery::show(frame, &ctx) {
+        return;
     }
+    dialogs::unsaved::show(frame, &ctx);
+    dialogs::path::show(frame, &mut dialogs.path, &ctx);
+    dialogs::command_list::show(frame, &mut dialogs.commands, &ctx);
+    dialogs::argument::show(frame, &mut dialogs.walk, &ctx);
+    dialogs::palette::show(frame, &mut dialogs.palette, &ctx);
+    dialogs::settings::show(frame, &mut dialogs.settings, &ctx);
 }
 
 impl eframe::App for App {

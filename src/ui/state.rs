@@ -1,96 +1,125 @@
-//! The state the editor's windows and canvas keep between frames, in a module of its own so
-//! that the app holds it without importing the panels that draw it (no circle of imports inside
-//! `src/ui`; `tests/invariants.rs` checks it).
+//! The state the panels share and read during a frame: how the map is shown, what is selected,
+//! the messages, the picture options. Panels never write it; they send actions (`frame.rs`) that
+//! the app applies at the end of the frame. A panel's or window's own small state (text being
+//! typed, a cache of its rows, the view of the canvas) lives in that panel's module.
 
-use egui::epaint::Mesh;
+use std::time::Instant;
 
-use crate::doc::palette_check::{PairsChecked, SlotPairUse};
-use crate::doc::{Palette, Settings};
+use crate::doc::{self, Document, GroupId, RegionId};
 
-use super::view::Camera;
+use super::commands::{ExportFormat, Tool};
 
-/// The fills and outlines of the map, tessellated for one view. Drawing them is most of a
-/// frame's work on a large map, so a frame reuses them when nothing has changed, and while the
-/// view moves (pan, zoom) it moves the last drawing instead, redrawing once the view rests or
-/// has moved too far for the old drawing to stand in.
-pub struct BaseLayer {
-    pub(super) mesh: std::sync::Arc<Mesh>,
-    pub(super) generation: u64,
-    pub(super) camera: Camera,
-    pub(super) rect: egui::Rect,
-    /// The world rectangle the drawing covers (the view at the time, with a margin).
-    pub(super) covers: [[f64; 2]; 2],
-    /// The view of the previous frame, to tell a moving view from one at rest.
-    pub(super) last_camera: Camera,
-    /// Regions too small to draw one by one, as an image, and where it goes on screen.
-    pub(super) raster: Option<(egui::TextureHandle, egui::Rect)>,
+/// The palette's distinctness warnings for the slot pairs neighbours use, for one revision.
+#[derive(Default)]
+pub struct PaletteWarnings {
+    pub revision: u64,
+    pub warnings: Vec<String>,
 }
 
-impl BaseLayer {
-    /// Whether small regions were painted as an image (the coarsest level of detail).
-    pub fn uses_raster(&self) -> bool {
-        self.raster.is_some()
-    }
-
-    /// Triangles in the tessellated part (fills and outlines).
-    pub fn triangle_count(&self) -> usize {
-        self.mesh.indices.len() / 3
-    }
-}
-
-/// The working copy of the palette while the window is open.
-pub struct PaletteEditor {
-    pub draft: Palette,
-    /// The hex text of each slot as typed (applied to the draft when it parses).
-    pub hex: Vec<String>,
-    /// One of Tinct's palettes chosen while the draft had changes of its own: replacing them
-    /// waits for the user's word.
-    pub replace_with: Option<Palette>,
-    /// For a document state (`Scene::generation`) and a number of slots: the slot pairs to
-    /// check, and which slots regions use or are pinned to.
-    pub(super) pairs: Option<CheckedPairs>,
-}
-
-/// The slot pairs to check for one document state and slot count, and the slots in use.
-pub(super) type CheckedPairs = ((u64, usize), PairsChecked, Vec<SlotPairUse>, Vec<bool>);
-
-impl PaletteEditor {
-    pub fn new(palette: &Palette) -> PaletteEditor {
-        PaletteEditor {
-            draft: palette.clone(),
-            hex: palette.slots.iter().map(|s| s.colour.to_hex()).collect(),
-            replace_with: None,
-            pairs: None,
+impl PaletteWarnings {
+    pub fn of(doc: &Document) -> PaletteWarnings {
+        PaletteWarnings {
+            revision: doc.revision(),
+            warnings: doc::palette_check::palette_report(
+                doc,
+                &crate::colour::Thresholds::default(),
+            )
+            .warnings
+            .into_iter()
+            .map(|w| w.message)
+            .collect(),
         }
     }
+}
 
-    /// Takes `palette` as the draft.
-    pub(super) fn take(&mut self, palette: Palette) {
-        self.hex = palette.slots.iter().map(|s| s.colour.to_hex()).collect();
-        self.draft = palette;
-        self.replace_with = None;
-    }
+/// Which certificate the map highlights.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Highlight {
+    /// The regions whose borders cannot be drawn flat (a Kuratowski subdivision).
+    NotPlanar,
+    /// The regions that cannot take three colours.
+    NotThreeColourable,
+    /// The regions that cannot take one colour fewer than the minimum.
+    NotFewerColourable,
+}
 
-    pub(super) fn reset(&mut self, palette: &Palette) {
-        let pairs = self.pairs.take();
-        *self = PaletteEditor::new(palette);
-        self.pairs = pairs;
+/// How serious a message in the status area is.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Level {
+    Info,
+    Warning,
+    Error,
+}
+
+/// A message shown to the user.
+#[derive(Clone, Debug)]
+pub struct Message {
+    pub level: Level,
+    pub text: String,
+    pub at: Instant,
+}
+
+/// The purpose of the file-path prompt.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum PathPurpose {
+    Open,
+    SaveAs,
+    /// A folder for the CNF and DRAT proof files.
+    ExportProof,
+    /// Where an export goes.
+    Export(ExportFormat),
+}
+
+/// How pictures are exported (kept for the session, not in the project).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct ExportOptions {
+    /// Region names on the picture.
+    pub labels: bool,
+    /// A legend of the colours in use.
+    pub legend: bool,
+    /// Page width in millimetres (SVG and PNG).
+    pub width_mm: f64,
+    /// Resolution of a PNG, in dots per inch at that page width.
+    pub dpi: u32,
+}
+
+impl Default for ExportOptions {
+    fn default() -> ExportOptions {
+        ExportOptions {
+            labels: true,
+            legend: true,
+            width_mm: 180.0,
+            dpi: 300,
+        }
     }
 }
 
-/// The settings being edited while the window is open.
-pub struct SettingsDraft {
-    pub corners_count: bool,
-    pub min_border_length: f64,
-    pub tolerance: f64,
+/// How the map is shown and what the tools act on; never saved in the project.
+pub struct ViewState {
+    pub tool: Tool,
+    pub selection: Option<RegionId>,
+    /// The first region clicked with the border tool.
+    pub border_first: Option<RegionId>,
+    pub show_borders: bool,
+    pub show_labels: bool,
+    /// The palette slot the pin tool uses.
+    pub pin_slot: u32,
+    /// The group the group tool adds to.
+    pub group: Option<GroupId>,
+    pub highlight: Option<Highlight>,
 }
 
-impl SettingsDraft {
-    pub fn new(settings: &Settings) -> SettingsDraft {
-        SettingsDraft {
-            corners_count: settings.corners_count,
-            min_border_length: settings.min_border_length,
-            tolerance: settings.tolerance,
+impl Default for ViewState {
+    fn default() -> ViewState {
+        ViewState {
+            tool: Tool::Select,
+            selection: None,
+            border_first: None,
+            show_borders: false,
+            show_labels: true,
+            pin_slot: 0,
+            group: None,
+            highlight: None,
         }
     }
 }

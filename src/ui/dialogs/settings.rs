@@ -5,8 +5,25 @@
 
 use crate::doc::{Edit, Settings, Units};
 
-use super::app::{App, Level};
-use super::state::SettingsDraft;
+use crate::ui::frame::{Action, Frame};
+use crate::ui::state::Level;
+
+/// The settings being edited while the window is open.
+pub struct SettingsDraft {
+    pub corners_count: bool,
+    pub min_border_length: f64,
+    pub tolerance: f64,
+}
+
+impl SettingsDraft {
+    pub fn new(settings: &Settings) -> SettingsDraft {
+        SettingsDraft {
+            corners_count: settings.corners_count,
+            min_border_length: settings.min_border_length,
+            tolerance: settings.tolerance,
+        }
+    }
+}
 
 /// The edit that makes the project's settings `draft`, or `None` when nothing changes.
 pub fn settings_edit(doc: &crate::doc::Document, draft: &SettingsDraft) -> Option<Edit> {
@@ -55,11 +72,11 @@ fn length_field(ui: &mut egui::Ui, label: &str, value: &mut f64, unit: &str) {
 }
 
 /// Draws the window while it is open.
-pub fn settings_window_ui(app: &mut App, ctx: &egui::Context) {
-    let Some(draft) = &mut app.settings_draft else {
+pub fn show(frame: &Frame, window: &mut Option<SettingsDraft>, ctx: &egui::Context) {
+    let Some(draft) = window else {
         return;
     };
-    let doc = app.session.doc();
+    let doc = frame.doc();
     let unit = match doc.settings().units {
         Units::Metres => " m",
         Units::Unitless => "",
@@ -109,17 +126,20 @@ pub fn settings_window_ui(app: &mut App, ctx: &egui::Context) {
     if apply {
         match settings_edit(doc, draft) {
             Some(edit) => {
-                app.edit(edit);
-                app.say(
+                frame.edit(edit);
+                frame.send(Action::Say(
                     Level::Info,
-                    "Project settings changed (undo puts them back)",
-                );
+                    "Project settings changed (undo puts them back)".into(),
+                ));
             }
-            None => app.say(Level::Info, "The settings are as they were"),
+            None => frame.send(Action::Say(
+                Level::Info,
+                "The settings are as they were".into(),
+            )),
         }
-        app.settings_draft = None;
+        *window = None;
     } else if !open {
-        app.settings_draft = None;
+        *window = None;
     }
 }
 

@@ -7,13 +7,14 @@ use egui::{Align2, Color32, FontId, Pos2, Sense, Stroke};
 
 use crate::doc::{BorderKind, Document, Edit, Region, RegionChange, RegionId, RegionPair, Role};
 
-use super::app::{App, Highlight};
-use super::commands::Tool;
-use super::state::BaseLayer;
-use super::style;
-use super::view::{Camera, hit_test};
-use super::widgets::colour32;
 use crate::analysis::PlanarityVerdict;
+use crate::ui::commands::Tool;
+use crate::ui::frame::{Action, Frame};
+use crate::ui::mesh::Scene;
+use crate::ui::state::Highlight;
+use crate::ui::style;
+use crate::ui::view::{Camera, bounds_of, hit_test};
+use crate::ui::widgets::colour32;
 
 /// Below this size on screen (in points) a region is drawn as a box and without an outline.
 const LOD_PIXELS: f64 = 3.0;
@@ -42,13 +43,91 @@ fn fill_of(doc: &Document, id: RegionId, region: &Region) -> Color32 {
     }
 }
 
-/// Where a world point is on screen, given the canvas drawn last frame (for tests and tools).
-pub fn screen_of(app: &App, p: [f64; 2]) -> Option<Pos2> {
-    let rect = app.view.canvas_rect?;
-    Some(pos(app
-        .view
-        .camera
-        .to_screen([rect.center().x, rect.center().y], p)))
+/// The canvas's own state: the view of the map, what the pointer is over, a marker being
+/// dragged, and the drawing caches (the tessellated scene and the last base layer).
+pub struct Canvas {
+    pub camera: Camera,
+    /// The canvas needs fitting to the map on its next frame.
+    pub fit_pending: bool,
+    /// The canvas moves to these regions on its next frame (something was gone to).
+    pub go_to: Option<Vec<RegionId>>,
+    /// The view shows the whole map as Fit left it: when the canvas changes size, it fits
+    /// again (until the user pans, zooms or goes somewhere).
+    pub fitted: bool,
+    pub hover: Option<RegionId>,
+    /// A marker being dragged: its region and the drag offset in world units so far.
+    pub dragging: Option<(RegionId, [f64; 2])>,
+    /// Where the canvas was drawn last frame (screen points), so tests and tools can aim at regions.
+    pub rect: Option<egui::Rect>,
+    /// The document's regions prepared for drawing and hit-testing (kept in step by the app).
+    pub scene: Scene,
+    /// The fills and outlines drawn last, reused while only the view moves.
+    pub base_layer: Option<BaseLayer>,
+}
+
+impl Default for Canvas {
+    fn default() -> Canvas {
+        Canvas {
+            camera: Camera::default(),
+            fit_pending: true,
+            go_to: None,
+            fitted: false,
+            hover: None,
+            dragging: None,
+            rect: None,
+            scene: Scene::default(),
+            base_layer: None,
+        }
+    }
+}
+
+impl Canvas {
+    /// Where a world point is on screen, given the canvas drawn last frame (for tests and tools).
+    pub fn screen_of(&self, p: [f64; 2]) -> Option<Pos2> {
+        let rect = self.rect?;
+        Some(pos(self
+            .camera
+            .to_screen([rect.center().x, rect.center().y], p)))
+    }
+
+    /// Forgets the view and the drawings (another document is on show); the scene stays, to be
+    /// brought in step with the new document.
+    pub fn reset(&mut self) {
+        let scene = std::mem::take(&mut self.scene);
+        *self = Canvas {
+            scene,
+            ..Canvas::default()
+        };
+    }
+}
+
+/// The fills and outlines of the map, tessellated for one view. Drawing them is most of a
+/// frame's work on a large map, so a frame reuses them when nothing has changed, and while the
+/// view moves (pan, zoom) it moves the last drawing instead, redrawing once the view rests or
+/// has moved too far for the old drawing to stand in.
+pub struct BaseLayer {
+    mesh: std::sync::Arc<Mesh>,
+    generation: u64,
+    camera: Camera,
+    rect: egui::Rect,
+    /// The world rectangle the drawing covers (the view at the time, with a margin).
+    covers: [[f64; 2]; 2],
+    /// The view of the previous frame, to tell a moving view from one at rest.
+    last_camera: Camera,
+    /// Regions too small to draw one by one, as an image, and where it goes on screen.
+    raster: Option<(egui::TextureHandle, egui::Rect)>,
+}
+
+impl BaseLayer {
+    /// Whether small regions were painted as an image (the coarsest level of detail).
+    pub fn uses_raster(&self) -> bool {
+        self.raster.is_some()
+    }
+
+    /// Triangles in the tessellated part (fills and outlines).
+    pub fn triangle_count(&self) -> usize {
+        self.mesh.indices.len() / 3
+    }
 }
 
 fn pos(p: [f32; 2]) -> Pos2 {
@@ -56,42 +135,37 @@ fn pos(p: [f32; 2]) -> Pos2 {
 }
 
 /// Draws the canvas and handles its input.
-pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
+pub fn show(frame: &Frame, canvas: &mut Canvas, ui: &mut egui::Ui) {
     let size = ui.available_size();
     let (response, painter) = ui.allocate_painter(size, Sense::click_and_drag());
     response.widget_info(|| egui::WidgetInfo::labeled(egui::Role::Canvas, true, "Map canvas"));
     let rect = response.rect;
-    if app.view.fitted
-        && app
-            .view
-            .canvas_rect
-            .is_some_and(|r| r.size() != rect.size())
-    {
-        app.view.fit_pending = true;
+    if canvas.fitted && canvas.rect.is_some_and(|r| r.size() != rect.size()) {
+        canvas.fit_pending = true;
     }
-    app.view.canvas_rect = Some(rect);
+    canvas.rect = Some(rect);
     painter.rect_filled(rect, 0.0, style::BACKGROUND);
     let centre = [rect.center().x, rect.center().y];
 
-    if app.view.fit_pending && rect.width() > 10.0 {
-        if let Some(bounds) = app.session.doc().bounds() {
-            app.view.camera = Camera::fit(bounds, [rect.width(), rect.height()]);
+    if canvas.fit_pending && rect.width() > 10.0 {
+        if let Some(bounds) = frame.session.doc().bounds() {
+            canvas.camera = Camera::fit(bounds, [rect.width(), rect.height()]);
         }
-        app.view.fit_pending = false;
-        app.view.fitted = true;
+        canvas.fit_pending = false;
+        canvas.fitted = true;
     }
-    if let Some(ids) = app.view.go_to.take()
+    if let Some(ids) = canvas.go_to.take()
         && rect.width() > 10.0
-        && let Some(bounds) = super::view::bounds_of(app.session.doc(), &ids)
+        && let Some(bounds) = bounds_of(frame.session.doc(), &ids)
     {
         // Never closer than a twentieth of the map, so a tiny region shows among neighbours.
-        let context = app
+        let context = frame
             .session
             .doc()
             .bounds()
             .map_or(0.0, |[lo, hi]| (hi[0] - lo[0]).max(hi[1] - lo[1]) / 20.0);
-        app.view.camera = Camera::go_to(bounds, [rect.width(), rect.height()], context);
-        app.view.fitted = false;
+        canvas.camera = Camera::go_to(bounds, [rect.width(), rect.height()], context);
+        canvas.fitted = false;
     }
 
     // Zoom with the wheel (or a pinch) around the pointer.
@@ -99,20 +173,20 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
         let (scroll, pinch) = ui.input(|i| (i.smooth_scroll_delta.y, i.zoom_delta()));
         let factor = (scroll as f64 * 0.0015).exp() * pinch as f64;
         if (factor - 1.0).abs() > 1e-6 {
-            app.view.camera.zoom_at(centre, [p.x, p.y], factor);
-            app.view.fitted = false;
+            canvas.camera.zoom_at(centre, [p.x, p.y], factor);
+            canvas.fitted = false;
         }
     }
 
-    let camera = app.view.camera;
+    let camera = canvas.camera;
     let marker_radius_world = MARKER_RADIUS as f64 / camera.pixels_per_unit;
     let pointer_world = response
         .hover_pos()
         .map(|p| camera.to_world(centre, [p.x, p.y]));
-    app.view.hover = pointer_world.and_then(|w| {
+    canvas.hover = pointer_world.and_then(|w| {
         hit_test(
-            app.session.doc(),
-            app.scene.hit_boxes(),
+            frame.session.doc(),
+            canvas.scene.hit_boxes(),
             w,
             marker_radius_world,
         )
@@ -120,36 +194,36 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
 
     // Dragging: moves a marker in the select tool, otherwise pans. A move is one edit, on release.
     if response.drag_started()
-        && app.view.tool == Tool::Select
-        && let Some(id) = app.view.hover
-        && app
+        && frame.view.tool == Tool::Select
+        && let Some(id) = canvas.hover
+        && frame
             .session
             .doc()
             .regions()
             .get(&id)
             .is_some_and(|r| r.geometry.is_none())
     {
-        app.view.dragging = Some((id, [0.0, 0.0]));
+        canvas.dragging = Some((id, [0.0, 0.0]));
     }
     if response.dragged() {
         let d = response.drag_delta();
-        match &mut app.view.dragging {
+        match &mut canvas.dragging {
             Some((_, offset)) => {
                 offset[0] += d.x as f64 / camera.pixels_per_unit;
                 offset[1] -= d.y as f64 / camera.pixels_per_unit;
             }
             None => {
-                app.view.camera.pan_by([d.x, d.y]);
-                app.view.fitted = false;
+                canvas.camera.pan_by([d.x, d.y]);
+                canvas.fitted = false;
             }
         }
     }
     if response.drag_stopped()
-        && let Some((id, offset)) = app.view.dragging.take()
-        && let Some(region) = app.session.doc().regions().get(&id)
+        && let Some((id, offset)) = canvas.dragging.take()
+        && let Some(region) = frame.session.doc().regions().get(&id)
     {
         let to = [region.anchor[0] + offset[0], region.anchor[1] + offset[1]];
-        app.edit(Edit::UpdateRegion {
+        frame.edit(Edit::UpdateRegion {
             id,
             change: RegionChange::Anchor(to),
         });
@@ -157,21 +231,22 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
     if response.clicked()
         && let Some(world) = pointer_world
     {
-        let hit = app.view.hover;
-        click(app, hit, world);
+        let hit = canvas.hover;
+        click(frame, hit, world);
     }
 
-    draw(app, &painter, centre, rect);
+    draw(frame, canvas, &painter, centre, rect);
 
-    if let Some(id) = app.view.hover
-        && let Some(r) = app.session.doc().regions().get(&id)
+    if let Some(id) = canvas.hover
+        && let Some(r) = frame.session.doc().regions().get(&id)
     {
-        let text = match (r.role, app.session.doc().colouring().get(&id)) {
+        let text = match (r.role, frame.session.doc().colouring().get(&id)) {
             (Role::Water, _) => format!("{} (water)", r.name),
             (_, Some(s)) => format!(
                 "{} — colour {}",
                 r.name,
-                app.session
+                frame
+                    .session
                     .doc()
                     .palette()
                     .slots
@@ -185,20 +260,20 @@ pub fn canvas_ui(app: &mut App, ui: &mut egui::Ui) {
 }
 
 /// What a click does with the current tool.
-fn click(app: &mut App, hit: Option<RegionId>, world: [f64; 2]) {
-    let doc = app.session.doc();
-    match app.view.tool {
-        Tool::Select => app.view.selection = hit,
+fn click(frame: &Frame, hit: Option<RegionId>, world: [f64; 2]) {
+    let doc = frame.doc();
+    match frame.view.tool {
+        Tool::Select => frame.send(Action::Select(hit)),
         Tool::Place => {
             let id = doc.peek_region_id();
             let (id, edit) = doc.add_region_edit(Region::new(format!("Region {id}"), world));
-            app.edit(edit);
-            app.view.selection = Some(id);
+            frame.edit(edit);
+            frame.send(Action::Select(Some(id)));
         }
-        Tool::Border => match (app.view.border_first, hit) {
-            (None, Some(h)) => app.view.border_first = Some(h),
+        Tool::Border => match (frame.view.border_first, hit) {
+            (None, Some(h)) => frame.send(Action::BorderFrom(Some(h))),
             (Some(a), Some(b)) if a != b => {
-                app.view.border_first = None;
+                frame.send(Action::BorderFrom(None));
                 if let Some(pair) = RegionPair::new(a, b) {
                     let active = doc.borders().get(&pair).is_some_and(|bd| !bd.suppressed);
                     let edit = if active {
@@ -207,41 +282,41 @@ fn click(app: &mut App, hit: Option<RegionId>, world: [f64; 2]) {
                         doc.add_border_edit(pair)
                     };
                     if let Some(edit) = edit {
-                        app.edit(edit);
+                        frame.edit(edit);
                     }
                 }
             }
-            _ => app.view.border_first = None,
+            _ => frame.send(Action::BorderFrom(None)),
         },
         Tool::Pin => {
             if let Some(h) = hit
                 && let Some(region) = doc.regions().get(&h)
             {
-                let slot = app.view.pin_slot;
+                let slot = frame.view.pin_slot;
                 let pin = if region.pin == Some(slot) {
                     None
                 } else {
                     Some(slot)
                 };
-                app.edit(Edit::UpdateRegion {
+                frame.edit(Edit::UpdateRegion {
                     id: h,
                     change: RegionChange::Pin(pin),
                 });
-                app.view.selection = Some(h);
+                frame.send(Action::Select(Some(h)));
             }
         }
         Tool::Group => {
             if let Some(h) = hit
                 && let Some(region) = doc.regions().get(&h)
             {
-                match app.view.group.filter(|g| doc.groups().contains_key(g)) {
+                match frame.view.group.filter(|g| doc.groups().contains_key(g)) {
                     Some(g) => {
                         let to = if region.group == Some(g) {
                             None
                         } else {
                             Some(g)
                         };
-                        app.edit(Edit::UpdateRegion {
+                        frame.edit(Edit::UpdateRegion {
                             id: h,
                             change: RegionChange::Group(to),
                         });
@@ -252,14 +327,14 @@ fn click(app: &mut App, hit: Option<RegionId>, world: [f64; 2]) {
                             id: h,
                             change: RegionChange::Group(Some(g)),
                         };
-                        app.edit(Edit::Batch {
+                        frame.edit(Edit::Batch {
                             label: "Start a same-colour group".into(),
                             edits: vec![create, join],
                         });
-                        app.view.group = Some(g);
+                        frame.send(Action::SetGroup(Some(g)));
                     }
                 }
-                app.view.selection = Some(h);
+                frame.send(Action::Select(Some(h)));
             }
         }
         Tool::Water => {
@@ -271,7 +346,7 @@ fn click(app: &mut App, hit: Option<RegionId>, world: [f64; 2]) {
                 } else {
                     Role::Water
                 };
-                app.edit(Edit::UpdateRegion {
+                frame.edit(Edit::UpdateRegion {
                     id: h,
                     change: RegionChange::Role(role),
                 });
@@ -280,31 +355,37 @@ fn click(app: &mut App, hit: Option<RegionId>, world: [f64; 2]) {
     }
 }
 
-fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Rect) {
-    let base = base_layer(app, painter.ctx(), app.view.camera, centre, rect);
-    let app = &*app;
+fn draw(
+    frame: &Frame,
+    canvas: &mut Canvas,
+    painter: &egui::Painter,
+    centre: [f32; 2],
+    rect: egui::Rect,
+) {
+    let base = base_layer(frame, canvas, painter.ctx(), canvas.camera, centre, rect);
+    let canvas = &*canvas;
     if let Some((texture, at)) = base.raster {
         let uv = egui::Rect::from_min_max(Pos2::ZERO, Pos2::new(1.0, 1.0));
         painter.image(texture, at, uv, Color32::WHITE);
     }
-    let doc = app.session.doc();
-    let camera = app.view.camera;
+    let doc = frame.session.doc();
+    let camera = canvas.camera;
     let to_screen = |p: [f64; 2]| pos(camera.to_screen(centre, p));
     let anchor_of = |id: RegionId| -> Option<[f64; 2]> {
         let r = doc.regions().get(&id)?;
-        Some(match app.view.dragging {
+        Some(match canvas.dragging {
             Some((d, off)) if d == id => [r.anchor[0] + off[0], r.anchor[1] + off[1]],
             _ => r.anchor,
         })
     };
 
     let ppu = camera.pixels_per_unit;
-    let typical_px = app.scene.typical_size * ppu;
+    let typical_px = canvas.scene.typical_size * ppu;
     painter.add(Shape::Mesh(base.mesh));
 
     // Border links between anchors, styled by kind (once they are long enough to tell apart).
-    let links_readable = app.scene.outlined.is_empty() || typical_px >= LINK_MIN_PIXELS;
-    if app.view.show_borders && !links_readable {
+    let links_readable = canvas.scene.outlined.is_empty() || typical_px >= LINK_MIN_PIXELS;
+    if frame.view.show_borders && !links_readable {
         painter.text(
             rect.left_bottom() + egui::vec2(8.0, -8.0),
             Align2::LEFT_BOTTOM,
@@ -313,7 +394,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
             style::LABEL,
         );
     }
-    if app.view.show_borders && links_readable {
+    if frame.view.show_borders && links_readable {
         for (pair, border) in doc.borders() {
             let (Some(a), Some(b)) = (anchor_of(pair.a()), anchor_of(pair.b())) else {
                 continue;
@@ -336,8 +417,9 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
     }
 
     // Same-colour groups: a dotted chain through the members of the group being built or selected.
-    let focus_group = app.view.group.or_else(|| {
-        app.view
+    let focus_group = frame.view.group.or_else(|| {
+        frame
+            .view
             .selection
             .and_then(|s| doc.regions().get(&s))
             .and_then(|r| r.group)
@@ -355,7 +437,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
     }
 
     // Clashes are always shown: a red link and red outlines.
-    for clash in &app.session.rules().colouring.clashes {
+    for clash in &frame.session.rules().colouring.clashes {
         let (Some(a), Some(b)) = (anchor_of(clash.pair.a()), anchor_of(clash.pair.b())) else {
             continue;
         };
@@ -366,10 +448,10 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
     }
 
     // Evidence asked for: the regions that cannot be drawn flat, or that cannot take three colours.
-    let colouring = app.analysis.as_ref().and_then(|a| a.colouring.as_ref());
+    let colouring = frame.analysis.and_then(|a| a.colouring.as_ref());
     let evidence = match (
-        app.view.highlight,
-        app.analysis.as_ref().and_then(|a| a.planarity.as_ref()),
+        frame.view.highlight,
+        frame.analysis.and_then(|a| a.planarity.as_ref()),
     ) {
         (Some(Highlight::NotPlanar), Some(PlanarityVerdict::NotPlanar(o))) => Some((
             &o.regions,
@@ -403,7 +485,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
     }
 
     // Markers for regions without an outline.
-    for id in &app.scene.markers {
+    for id in &canvas.scene.markers {
         let Some(region) = doc.regions().get(id) else {
             continue;
         };
@@ -421,7 +503,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
     }
 
     // Pins: a small dark square at the label point.
-    for region in app
+    for region in canvas
         .scene
         .pinned
         .iter()
@@ -439,8 +521,8 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
 
     // Selection and the first end of a half-made border.
     for (id, colour) in [
-        (app.view.selection, style::SELECTION),
-        (app.view.border_first, style::LINK_MANUAL),
+        (frame.view.selection, style::SELECTION),
+        (frame.view.border_first, style::LINK_MANUAL),
     ] {
         if let Some(id) = id {
             outline_region(doc, id, painter, &to_screen, Stroke::new(3.0, colour));
@@ -448,7 +530,7 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
     }
 
     // Names, where the region is big enough on screen to hold them.
-    if app.view.show_labels {
+    if frame.view.show_labels {
         let font = FontId::proportional(12.0);
         let label = |region: &Region, width_px: f32, offset: egui::Vec2| {
             if width_px < 6.0 * region.name.chars().count() as f32 {
@@ -467,14 +549,14 @@ fn draw(app: &mut App, painter: &egui::Painter, centre: [f32; 2], rect: egui::Re
         };
         // Outlined regions: skipped as a whole when a typical one is too small for a short name.
         if typical_px >= 24.0 {
-            for o in &app.scene.outlined {
+            for o in &canvas.scene.outlined {
                 if let Some(region) = doc.regions().get(&o.id) {
                     let width_px = ((o.bounds[1][0] - o.bounds[0][0]) * ppu) as f32;
                     label(region, width_px, egui::vec2(0.0, 0.0));
                 }
             }
         }
-        for region in app
+        for region in canvas
             .scene
             .markers
             .iter()
@@ -503,18 +585,19 @@ const RASTER_MAX_SIDE: usize = 4096;
 const BASE_MARGIN: f64 = 0.25;
 
 fn base_layer(
-    app: &mut App,
+    frame: &Frame,
+    canvas: &mut Canvas,
     ctx: &egui::Context,
     camera: Camera,
     centre: [f32; 2],
     rect: egui::Rect,
 ) -> BaseDrawing {
-    let generation = app.scene.generation;
+    let generation = canvas.scene.generation;
     let view = [
         camera.to_world(centre, [rect.left(), rect.bottom()]),
         camera.to_world(centre, [rect.right(), rect.top()]),
     ];
-    if let Some(old) = &mut app.view.base_layer
+    if let Some(old) = &mut canvas.base_layer
         && old.generation == generation
         && old.rect == rect
     {
@@ -556,7 +639,7 @@ fn base_layer(
     ];
     // Only what this drawing shows at full detail needs triangles and outline chains.
     let ppu = camera.pixels_per_unit;
-    app.scene.triangulate_where(|o| {
+    canvas.scene.triangulate_where(|o| {
         let [lo, hi] = o.bounds;
         (hi[0] - lo[0]).max(hi[1] - lo[1]) * ppu >= LOD_PIXELS
             && hi[0] >= covers[0][0]
@@ -564,19 +647,17 @@ fn base_layer(
             && hi[1] >= covers[0][1]
             && lo[1] <= covers[1][1]
     });
-    if app.scene.typical_size * ppu >= LOD_PIXELS {
-        app.scene.ensure_chains();
+    if canvas.scene.typical_size * ppu >= LOD_PIXELS {
+        canvas.scene.ensure_chains();
     }
-    let hint = app
-        .view
+    let hint = canvas
         .base_layer
         .as_ref()
         .map_or((0, 0), |b| (b.mesh.vertices.len(), b.mesh.indices.len()));
-    let (mesh, image) = draw_base(app, ctx, camera, centre, covers, hint);
+    let (mesh, image) = draw_base(frame, &canvas.scene, ctx, camera, centre, covers, hint);
     let mesh = std::sync::Arc::new(mesh);
     // Reuse the texture of the previous drawing when there is one (egui frees it when dropped).
-    let old_texture = app
-        .view
+    let old_texture = canvas
         .base_layer
         .take()
         .and_then(|b| b.raster)
@@ -596,7 +677,7 @@ fn base_layer(
         mesh: mesh.clone(),
         raster: raster.as_ref().map(|(t, r)| (t.id(), *r)),
     };
-    app.view.base_layer = Some(BaseLayer {
+    canvas.base_layer = Some(BaseLayer {
         mesh,
         generation,
         camera,
@@ -609,15 +690,17 @@ fn base_layer(
 }
 
 /// Tessellates fills and outlines of everything within `covers` (world units).
+#[allow(clippy::too_many_arguments)]
 fn draw_base(
-    app: &App,
+    frame: &Frame,
+    scene: &Scene,
     ctx: &egui::Context,
     camera: Camera,
     centre: [f32; 2],
     covers: [[f64; 2]; 2],
     capacity: (usize, usize),
 ) -> (Mesh, Option<(egui::ColorImage, egui::Rect)>) {
-    let doc = app.session.doc();
+    let doc = frame.session.doc();
     let to_screen = |p: [f64; 2]| pos(camera.to_screen(centre, p));
     let visible = |b: &[[f64; 2]; 2]| {
         b[1][0] >= covers[0][0]
@@ -626,7 +709,7 @@ fn draw_base(
             && b[0][1] <= covers[1][1]
     };
     let ppu = camera.pixels_per_unit;
-    let typical_px = app.scene.typical_size * ppu;
+    let typical_px = scene.typical_size * ppu;
 
     // Fills. A region smaller than a few pixels on screen is drawn as its bounding box (level of
     // detail: its triangles would cover the same pixels).
@@ -637,7 +720,7 @@ fn draw_base(
         ..Mesh::default()
     };
     let mut tiny: Vec<(egui::Rect, Color32)> = Vec::new();
-    for o in &app.scene.outlined {
+    for o in &scene.outlined {
         if !visible(&o.bounds) {
             continue;
         }
@@ -687,7 +770,7 @@ fn draw_base(
             egui::epaint::Tessellator::new(ctx.pixels_per_point(), options, [1, 1], Vec::new());
         let outline = Stroke::new(if typical_px < 12.0 { 0.5 } else { 1.0 }, style::OUTLINE);
         let mut points: Vec<Pos2> = Vec::new();
-        for chain in &app.scene.chains {
+        for chain in &scene.chains {
             if !visible(&chain.bounds) {
                 continue;
             }
@@ -695,7 +778,7 @@ fn draw_base(
             if ((hi[0] - lo[0]).max(hi[1] - lo[1])) * ppu < 1.0 {
                 continue;
             }
-            let ring = &app.scene.chain_points[chain.points.clone()];
+            let ring = &scene.chain_points[chain.points.clone()];
             points.clear();
             for (k, p) in ring.iter().enumerate() {
                 let s = to_screen(*p);

@@ -7,11 +7,52 @@ use egui::RichText;
 use crate::colour::{DEFAULT_PALETTES, Thresholds, Warning};
 use crate::doc::palette_check::{self, PairsChecked, SlotPairUse};
 use crate::doc::palette_edit;
-use crate::doc::{Edit, Rgb, Slot};
+use crate::doc::{Edit, Palette, Rgb, Slot};
 
-use super::app::{App, Level};
-use super::style;
-use super::widgets::{colour32, swatch};
+use crate::ui::frame::{Action, Frame};
+use crate::ui::state::Level;
+use crate::ui::style;
+use crate::ui::widgets::{colour32, swatch};
+
+/// The working copy of the palette while the window is open.
+pub struct PaletteEditor {
+    pub draft: Palette,
+    /// The hex text of each slot as typed (applied to the draft when it parses).
+    pub hex: Vec<String>,
+    /// One of Tinct's palettes chosen while the draft had changes of its own: replacing them
+    /// waits for the user's word.
+    pub replace_with: Option<Palette>,
+    /// For a document state (`Scene::generation`) and a number of slots: the slot pairs to
+    /// check, and which slots regions use or are pinned to.
+    pairs: Option<CheckedPairs>,
+}
+
+/// The slot pairs to check for one document state and slot count, and the slots in use.
+type CheckedPairs = ((u64, usize), PairsChecked, Vec<SlotPairUse>, Vec<bool>);
+
+impl PaletteEditor {
+    pub fn new(palette: &Palette) -> PaletteEditor {
+        PaletteEditor {
+            draft: palette.clone(),
+            hex: palette.slots.iter().map(|s| s.colour.to_hex()).collect(),
+            replace_with: None,
+            pairs: None,
+        }
+    }
+
+    /// Takes `palette` as the draft.
+    pub(crate) fn take(&mut self, palette: Palette) {
+        self.hex = palette.slots.iter().map(|s| s.colour.to_hex()).collect();
+        self.draft = palette;
+        self.replace_with = None;
+    }
+
+    pub(crate) fn reset(&mut self, palette: &Palette) {
+        let pairs = self.pairs.take();
+        *self = PaletteEditor::new(palette);
+        self.pairs = pairs;
+    }
+}
 
 /// A swatch button that opens a small picker: hue, saturation and brightness sliders over the
 /// colour itself (the hex field beside it takes exact values). Returns true when the colour
@@ -83,7 +124,7 @@ pub fn distinctness_lines(
     let scope = match checked {
         PairsChecked::Colouring => format!(
             "the {} that neighbouring regions use",
-            super::words::count(pairs.len(), "slot pair", "slot pairs")
+            crate::ui::words::count(pairs.len(), "slot pair", "slot pairs")
         ),
         PairsChecked::AllSlots => "every pair of slots (nothing is coloured yet)".to_string(),
     };
@@ -93,16 +134,16 @@ pub fn distinctness_lines(
 }
 
 /// Draws the palette window while it is open.
-pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
-    let Some(editor) = &mut app.palette_editor else {
+pub fn show(frame: &Frame, window: &mut Option<PaletteEditor>, ctx: &egui::Context) {
+    let Some(editor) = window else {
         return;
     };
-    let key = (app.scene.generation, editor.draft.slots.len());
-    let doc = app.session.doc();
+    let key = (frame.generation, editor.draft.slots.len());
+    let doc = frame.doc();
     if editor.pairs.as_ref().is_none_or(|(k, ..)| *k != key) {
         let (checked, pairs, _) = palette_check::checked_pairs(doc, key.1);
         let mut in_use: Vec<bool> = (0..key.1)
-            .map(|i| app.session.rules().slot_use.get(i).copied().unwrap_or(0) > 0)
+            .map(|i| frame.session.rules().slot_use.get(i).copied().unwrap_or(0) > 0)
             .collect();
         for pin in doc.regions().values().filter_map(|r| r.pin) {
             if let Some(u) = in_use.get_mut(pin as usize) {
@@ -284,14 +325,20 @@ pub fn palette_window_ui(app: &mut App, ctx: &egui::Context) {
     if apply {
         let draft = editor.draft.clone();
         if let Some(bad) = draft.slots.iter().position(|s| s.name.trim().is_empty()) {
-            app.say(Level::Error, format!("Slot {} needs a name", bad + 1));
+            frame.send(Action::Say(
+                Level::Error,
+                format!("Slot {} needs a name", bad + 1),
+            ));
         } else {
-            app.edit(Edit::SetPalette(draft));
-            app.say(Level::Info, "Palette applied (undo puts the old one back)");
+            frame.edit(Edit::SetPalette(draft));
+            frame.send(Action::Say(
+                Level::Info,
+                "Palette applied (undo puts the old one back)".into(),
+            ));
         }
     }
     if !open {
-        app.palette_editor = None;
+        *window = None;
     }
 }
 

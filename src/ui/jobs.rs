@@ -1,0 +1,82 @@
+//! What the background jobs of the editor return, and the export job's work.
+
+use std::path::{Path, PathBuf};
+
+use crate::analysis::{self, Analysis};
+use crate::doc::Document;
+
+use super::commands::ExportFormat;
+use super::state::ExportOptions;
+
+/// Results of background jobs.
+pub enum JobResult {
+    Loaded {
+        path: PathBuf,
+        result: Result<Box<(Document, Vec<String>)>, String>,
+    },
+    Analysed(Box<Analysis>),
+    /// A balanced recolouring for a revision.
+    Balanced {
+        revision: u64,
+        verdict: Box<analysis::ColouringVerdict>,
+    },
+    /// An export written (its size in bytes) or the reason it was not.
+    Exported {
+        format: ExportFormat,
+        path: PathBuf,
+        result: Result<usize, String>,
+    },
+    /// The project saved (as of `revision`) to `path`, or why not.
+    Saved {
+        path: PathBuf,
+        revision: u64,
+        result: Result<(), String>,
+    },
+    /// Unsaved work written aside as of `revision`, or why not.
+    Autosaved {
+        revision: u64,
+        result: Result<(), String>,
+    },
+    /// Proof files written to a folder, or why not.
+    ProofWritten {
+        folder: PathBuf,
+        names: Vec<String>,
+        result: Result<(), String>,
+    },
+}
+
+/// A byte count in words a user reads at a glance.
+pub fn human_size(bytes: usize) -> String {
+    match bytes {
+        b if b < 1024 => format!("{b} bytes"),
+        b if b < 1024 * 1024 => format!("{:.0} KB", b as f64 / 1024.0),
+        b => format!("{:.1} MB", b as f64 / (1024.0 * 1024.0)),
+    }
+}
+
+/// Makes the files of an export to `path` (run on the worker: a PNG of a large map takes a
+/// while); a shapefile is several files beside `path`.
+pub fn export_files(
+    doc: &Document,
+    format: ExportFormat,
+    options: ExportOptions,
+    path: &Path,
+) -> Result<Vec<(PathBuf, Vec<u8>)>, crate::export::ExportError> {
+    let svg = crate::export::SvgOptions {
+        width_mm: options.width_mm,
+        labels: options.labels,
+        legend: options.legend,
+        ..Default::default()
+    };
+    let format = match format {
+        ExportFormat::Svg => crate::export::ExportFormat::Svg,
+        ExportFormat::Png => {
+            crate::export::ExportFormat::Png(crate::export::PngSize::Dpi(options.dpi as f64))
+        }
+        ExportFormat::GeoJson => crate::export::ExportFormat::GeoJson,
+        ExportFormat::GeoPackage => crate::export::ExportFormat::GeoPackage,
+        ExportFormat::Shapefile => crate::export::ExportFormat::Shapefile,
+        ExportFormat::Csv => crate::export::ExportFormat::Csv,
+    };
+    crate::export::export_files(doc, format, &svg, path)
+}

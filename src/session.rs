@@ -124,10 +124,11 @@ impl Session {
     pub fn apply(&mut self, edit: Edit) -> Result<(), EditError> {
         let mut touched = Touched::default();
         touched.add(&edit);
-        self.history.apply(&mut self.doc, edit)?;
-        self.moved_on();
-        if let Some(inverse) = self.history.next_undo() {
-            touched.add(inverse);
+        if self.history.apply(&mut self.doc, edit)? {
+            self.moved_on();
+            if let Some(inverse) = self.history.next_undo() {
+                touched.add(inverse);
+            }
         }
         self.rules.update(&self.doc, &touched);
         Ok(())

@@ -4,6 +4,8 @@ mod blocks;
 mod cli;
 mod colour;
 mod colouring;
+#[cfg(feature = "gui")]
+mod editor_random;
 mod edits;
 mod export;
 mod geo;

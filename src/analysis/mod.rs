@@ -9,6 +9,7 @@
 pub mod colouring;
 pub mod planarity;
 pub mod rules;
+mod verify;
 
 use std::sync::Arc;
 use std::sync::atomic::{AtomicBool, Ordering};

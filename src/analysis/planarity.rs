@@ -49,6 +49,11 @@ pub struct RegionEmbedding {
 }
 
 impl RegionEmbedding {
+    /// The embedding of the border graph's vertices, as the engine's checker reads it.
+    pub fn engine(&self) -> &Embedding {
+        &self.embedding
+    }
+
     /// `(vertex, clockwise neighbours)` for every vertex, vertices named by their first region.
     pub fn rotations<'a>(
         &'a self,

@@ -113,6 +113,25 @@ impl Touched {
 }
 
 impl Edit {
+    /// True when this edit, applied, was undone by `inverse` that is the edit itself: nothing
+    /// changed. A batch changed nothing when each of its edits changed nothing (its inverse
+    /// holds their inverses newest first).
+    pub fn changes_nothing(&self, inverse: &Edit) -> bool {
+        match (self, inverse) {
+            (Edit::Batch { edits, .. }, Edit::Batch { edits: undo, .. }) => {
+                edits.len() == undo.len()
+                    && edits
+                        .iter()
+                        .zip(undo.iter().rev())
+                        .all(|(e, u)| e.changes_nothing(u))
+            }
+            (Edit::Batch { edits, .. }, single) => {
+                edits.len() == 1 && edits[0].changes_nothing(single)
+            }
+            (edit, inverse) => edit == inverse,
+        }
+    }
+
     /// A short description for undo and redo menus.
     pub fn label(&self) -> String {
         match self {

@@ -38,10 +38,17 @@ impl History {
         }
     }
 
-    /// Applies `edit` to `doc` and records its inverse. Clears the redo stack.
-    pub fn apply(&mut self, doc: &mut Document, edit: Edit) -> Result<(), EditError> {
+    /// Applies `edit` to `doc` and records its inverse, clearing the redo stack; an edit that
+    /// changed nothing (its inverse is itself, as when a colouring is set to the one already
+    /// there) is not recorded, so it neither fills the history nor leaves the work unsaved.
+    /// True when a step was recorded.
+    pub fn apply(&mut self, doc: &mut Document, edit: Edit) -> Result<bool, EditError> {
         let label = edit.label();
+        let forward = edit.clone();
         let inverse = doc.apply(edit)?;
+        if forward.changes_nothing(&inverse) {
+            return Ok(false);
+        }
         self.undo.push(Step {
             label,
             edit: inverse,
@@ -50,7 +57,7 @@ impl History {
             self.undo.remove(0);
         }
         self.redo.clear();
-        Ok(())
+        Ok(true)
     }
 
     /// Undoes the newest step; returns its label, or `None` when there is nothing to undo.
@@ -162,6 +169,39 @@ mod tests {
             .apply(&mut doc, Edit::SetTitle("other".into()))
             .unwrap();
         assert_eq!(history.redo_label(), None);
+    }
+
+    #[test]
+    fn an_edit_that_changes_nothing_is_not_a_step_and_keeps_redo() {
+        // Found by the random editor test: evening out colours that were already even left the
+        // work marked unsaved though nothing had changed.
+        let mut doc = Document::new("t");
+        let mut history = History::default();
+        let (id, add) = doc.add_region_edit(Region::new("A", [1.0, 2.0]));
+        assert!(history.apply(&mut doc, add).unwrap());
+        let colouring: std::collections::BTreeMap<_, _> = [(id, 1)].into();
+        assert!(
+            history
+                .apply(&mut doc, Edit::SetColouring(colouring.clone()))
+                .unwrap()
+        );
+        history.undo(&mut doc).unwrap();
+        history.redo(&mut doc).unwrap();
+        history.undo(&mut doc).unwrap();
+        // Setting what is there already: nothing recorded, the redo step survives.
+        let same = Edit::Batch {
+            label: "Even out colour use".into(),
+            edits: vec![Edit::SetColouring(Default::default())],
+        };
+        assert!(!history.apply(&mut doc, same).unwrap());
+        assert_eq!(history.undo_count(), 1);
+        assert_eq!(history.redo_label(), Some("Apply colouring"));
+        // A batch of a change and a no-op is a change.
+        let mixed = Edit::Batch {
+            label: "both".into(),
+            edits: vec![Edit::SetTitle("t".into()), Edit::SetTitle("u".into())],
+        };
+        assert!(history.apply(&mut doc, mixed).unwrap());
     }
 
     #[test]

@@ -94,6 +94,8 @@ pub struct App {
     /// The revision last written aside, if any.
     autosaved_revision: Option<u64>,
     last_title: String,
+    /// How many documents this editor has put in front of the user (each Open, New, recovery).
+    documents: u64,
 }
 
 impl App {
@@ -142,6 +144,7 @@ impl App {
             pending: Vec::new(),
             quit_confirmed: false,
             last_title: String::new(),
+            documents: 1,
             recent: recovery
                 .as_deref()
                 .map(doc::recovery::recent_files)
@@ -422,6 +425,7 @@ impl App {
             w.cancel(JobKind::Analysis);
         }
         self.session = session;
+        self.documents += 1;
         self.notices.clear();
         self.view = ViewState::default();
         self.panels.reset();
@@ -430,6 +434,12 @@ impl App {
         self.analysis = None;
         self.analysis_requested = None;
         self.seen_revision = u64::MAX;
+    }
+
+    /// Counts the documents shown so far: it changes exactly when the document on show is
+    /// replaced (Open, New, recovered work), when revisions start again.
+    pub fn document_number(&self) -> u64 {
+        self.documents
     }
 
     /// Shows `doc` as a new, unsaved document (used by benchmarks and tests that build maps in code).
@@ -662,6 +672,15 @@ impl App {
             .is_none_or(|a| a.revision != self.session.doc().revision())
     }
 
+    /// True while a background job (analysis, load, save, autosave, export) is queued or
+    /// running, or its result has not been taken in yet.
+    pub fn jobs_running(&self) -> bool {
+        [&self.worker, &self.files]
+            .into_iter()
+            .flatten()
+            .any(|w| !w.idle())
+    }
+
     /// The running analysis, if any: its stage and fraction done.
     pub fn analysis_progress(&self) -> Option<(String, f64)> {
         self.worker
@@ -687,13 +706,18 @@ impl App {
         self.analysis_requested = Some(revision);
         self.analysis_started = Some(Instant::now());
         let snapshot = crate::worker::snapshot(self.session.doc());
+        // The embedding is kept: a planar verdict on show carries its certificate.
+        let request = Request {
+            embedding: true,
+            ..Request::everything()
+        };
         match &mut self.worker {
             Some(w) => w.submit(
                 revision,
                 JobKind::Analysis,
                 Box::new(move |ctx| {
                     JobResult::Analysed(Box::new(
-                        ctx.with_control(|c| Analysis::run(&snapshot, Request::everything(), c)),
+                        ctx.with_control(|c| Analysis::run(&snapshot, request, c)),
                     ))
                 }),
             ),
@@ -702,8 +726,7 @@ impl App {
                     cancel: Default::default(),
                     progress: Default::default(),
                 };
-                self.analysis =
-                    Some(ctx.with_control(|c| Analysis::run(&snapshot, Request::everything(), c)));
+                self.analysis = Some(ctx.with_control(|c| Analysis::run(&snapshot, request, c)));
             }
         }
     }

@@ -215,6 +215,11 @@ impl<T: Send + 'static> Worker<T> {
             .map(|(_, rev, _, p)| (*rev, p.get()))
     }
 
+    /// True when no job is queued or running.
+    pub fn idle(&self) -> bool {
+        self.running.is_empty()
+    }
+
     /// The next event, without waiting.
     pub fn try_next(&mut self) -> Option<Event<T>> {
         match self.events.try_recv() {

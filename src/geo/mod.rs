@@ -63,7 +63,7 @@ mod topojson;
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 
-pub use crate::projection::Projection;
+pub use crate::projection::{MainMass, Projection, outlying_parts};
 pub use adjacency::{AdjacencyOptions, Derived, derive_borders, derive_contacts};
 pub use project::LambertAzimuthalEqualArea;
 

@@ -3,7 +3,7 @@
 //! Tinct keeps geographic maps in metres so that tolerances, shared lengths and areas mean the same
 //! everywhere on the map. Every projection here is **equal-area**, so the sizes of regions keep their
 //! true proportions; what differs between them is how shapes are bent, which depends on the map's
-//! extent. All work on a sphere of the GRS 80 authalic radius
+//! extent (see [`MainMass`] for the choice). All work on a sphere of the GRS 80 authalic radius
 //! ([`AUTHALIC_RADIUS_M`]); latitudes read from WGS 84 data are used on the sphere as they are, as
 //! Tinct has always done, so coordinates come back exactly as they were read.
 //!
@@ -20,6 +20,10 @@
 //! The 180-degree meridian: every formula uses the longitude only as `lon - lon0` brought into
 //! `[-180, 180)`, so data written in 0..360 or across the meridian projects the same way. A leaf:
 //! it uses nothing else in the crate (the document records a [`Projection`]; the importers choose one).
+
+mod choose;
+
+pub use choose::{Extent, MainMass, REACH_DEG, outlying_parts};
 
 /// `[longitude, latitude]` in degrees, or `[x, y]` in metres once projected.
 pub type LonLat = [f64; 2];
@@ -102,7 +106,8 @@ impl Projection {
 
     /// Checks the parameters: finite, latitudes within +-90 degrees, and for Albers standard
     /// parallels that define a cone (not symmetric about the equator, where `n` would be 0).
-    /// Projections read from a file are checked with this before use.
+    /// Projections read from a file are checked with this before use; [`MainMass::projection`]
+    /// only makes valid ones.
     pub fn check(&self) -> Result<(), ProjectionError> {
         let finite = |name, value: f64| {
             if value.is_finite() {

@@ -597,6 +597,40 @@ mod tests {
 
     proptest! {
         #[test]
+        fn random_cells_keep_their_area(
+            which in 0..ALL.len(),
+            lon_offset in -150.0f64..130.0,
+            d_lon in 0.5f64..20.0,
+            lat1 in -80.0f64..60.0,
+            d_lat in 0.5f64..20.0,
+        ) {
+            // Archimedes' hat-box theorem, as in the fixed cells above; cells placed relative to
+            // the central meridian so that none straddles the map's edge, and for the azimuthal
+            // projections within 120 degrees of the centre.
+            let projection = ALL[which];
+            let lon1 = projection.lon0() + lon_offset;
+            let (lon2, lat2) = (lon1 + d_lon, lat1 + d_lat);
+            if let Projection::LambertAzimuthal { lon0, lat0 } = projection {
+                for [lon, lat] in [[lon1, lat1], [lon2, lat1], [lon1, lat2], [lon2, lat2]] {
+                    let (p, p0) = (lat.to_radians(), lat0.to_radians());
+                    let cos_distance =
+                        p.sin() * p0.sin() + p.cos() * p0.cos() * (lon - lon0).to_radians().cos();
+                    prop_assume!(cos_distance > (120f64).to_radians().cos());
+                }
+            }
+            let mut ring = cell(lon1, lon2, lat1, lat2);
+            projection.project_ring(&mut ring);
+            let expected = AUTHALIC_RADIUS_M.powi(2)
+                * d_lon.to_radians()
+                * (lat2.to_radians().sin() - lat1.to_radians().sin());
+            let got = shoelace(&ring).abs();
+            prop_assert!(
+                (got - expected).abs() / expected < 1e-4,
+                "{:?} cell {},{},{},{}: {} vs {}", projection, lon1, lon2, lat1, lat2, got, expected
+            );
+        }
+
+        #[test]
         fn unproject_inverts_project(
             which in 0..ALL.len(),
             lon in -179.999f64..179.999,

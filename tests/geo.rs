@@ -1728,3 +1728,33 @@ fn rings_cut_at_the_180_degree_meridian_stay_open_once_projected() {
     let doc = map.into_document("World subset");
     assert!(doc.regions().values().any(|r| r.name == "Russia"));
 }
+
+#[test]
+fn markers_alone_are_placed_at_their_own_coordinates() {
+    // Every feature's outline is degenerate (fewer than three distinct positions): the
+    // projection is chosen from where their positions lie, and each marker stands at the
+    // projection of its own positions' average, not at the projection's centre. Invented data.
+    let text = r#"{"type":"FeatureCollection","features":[
+      {"type":"Feature","properties":{"name":"West"},"geometry":{"type":"Polygon","coordinates":[[[-77.18,38.88],[-77.17,38.89],[-77.18,38.88]]]}},
+      {"type":"Feature","properties":{"name":"East"},"geometry":{"type":"Polygon","coordinates":[[[-70.0,41.0],[-70.2,41.2],[-70.0,41.0]]]}}]}"#;
+    let map = import_text(text, &options(Rule::Rook));
+    let projection = map.projection.expect("chosen from the positions");
+    for (name, average) in [
+        (
+            "West",
+            [(-77.18 * 2.0 - 77.17) / 3.0, (38.88 * 2.0 + 38.89) / 3.0],
+        ),
+        (
+            "East",
+            [(-70.0 * 2.0 - 70.2) / 3.0, (41.0 * 2.0 + 41.2) / 3.0],
+        ),
+    ] {
+        let region = &map.regions[map.region_named(name).unwrap()];
+        assert!(region.parts.is_empty());
+        let [lon, lat] = projection.unproject(region.position.unwrap());
+        assert!(
+            (lon - average[0]).abs() < 1e-9 && (lat - average[1]).abs() < 1e-9,
+            "{name}: {lon}, {lat} vs {average:?}"
+        );
+    }
+}

@@ -638,7 +638,13 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
                 .iter()
                 .flat_map(|(p, _, _)| all_points(p))
                 .peekable();
-            all.peek().is_some() && project::looks_like_lon_lat(all)
+            if all.peek().is_some() {
+                project::looks_like_lon_lat(all)
+            } else {
+                // No outline is left, only markers: decide by where their positions lie.
+                let mut markers = raw_points.iter().flatten().copied().peekable();
+                markers.peek().is_some() && project::looks_like_lon_lat(markers)
+            }
         }),
     };
     let projection = if lon_lat {

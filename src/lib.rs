@@ -5,7 +5,8 @@
 //! [`geo`] (importers), [`analysis`] (rules, planarity and colouring of one revision, in region
 //! terms), [`formats`] (every file kind by extension) and [`export`] (SVG, PNG, GeoJSON, CSV) <-
 //! [`worker`] (background jobs) and [`session`] (an open project with its history and rules) <- the
-//! editor (`ui`) and [`cli`]; [`atomic`] writes files for all of them; [`geometry`] holds the plane geometry they share.
+//! editor (`ui`) and [`cli`]; [`atomic`] writes files for all of them; [`geometry`] holds the plane geometry they share, and
+//! [`projection`] the map projections from longitude/latitude to metres.
 
 pub mod analysis;
 pub mod atomic;
@@ -17,6 +18,7 @@ pub mod export;
 pub mod formats;
 pub mod geo;
 pub mod geometry;
+pub mod projection;
 pub mod session;
 #[cfg(feature = "gui")]
 pub mod ui;

@@ -419,10 +419,11 @@ fn analyse_imports_a_boundary_file_with_the_rule_it_is_given() {
 #[test]
 fn geopackage_and_flatgeobuf_files_import_from_the_command_line() {
     // GDAL-written copies of the 14-state extract (tests/data/geo/PROVENANCE.md): the same regions
-    // and borders whichever format carries them.
+    // and borders whichever format carries them, and the same projection, which the command names.
     let geo = root().join("tests/data/geo");
     let dir = tempfile::tempdir().unwrap();
     let mut borders = Vec::new();
+    let mut projections = Vec::new();
     for file in [
         "us_states_subset.geojson",
         "us_states_subset.gpkg",
@@ -443,8 +444,25 @@ fn geopackage_and_flatgeobuf_files_import_from_the_command_line() {
             .unwrap()
             .to_string();
         borders.push(line.split(" into ").next().unwrap().to_string());
+        projections.push(
+            said.lines()
+                .find(|l| l.contains("projection: "))
+                .unwrap()
+                .to_string(),
+        );
     }
     assert_eq!(borders[0], "tinct: imported 14 regions and 25 borders");
+    assert!(
+        projections
+            .iter()
+            .all(|p| p
+                .starts_with("tinct: projection: Albers equal-area conic (standard parallels ")),
+        "{projections:?}"
+    );
+    assert!(
+        projections.iter().all(|p| *p == projections[0]),
+        "{projections:?}"
+    );
     assert!(borders.iter().all(|b| *b == borders[0]), "{borders:?}");
     // A layer that is not there: exit 2, naming the layers the file has.
     let out = tinct(&[

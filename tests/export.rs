@@ -180,8 +180,8 @@ fn geojson_reimports_with_the_same_regions_colours_borders_and_coordinates() {
     let imported = geo::import_json(source_text.as_bytes(), &ImportOptions::default()).unwrap();
     let mut doc = imported.into_document("States");
     assert!(
-        doc.settings().projection_origin.is_some(),
-        "import records the projection centre"
+        doc.settings().projection.is_some(),
+        "import records the projection"
     );
     greedy_colour(&mut doc);
 

@@ -1052,6 +1052,13 @@ fn adjacency_report_names_regions_by_import_id() {
     assert_eq!(json["schema"], 1);
     assert_eq!(json["rule"], "queen");
     assert_eq!(json["units"], "metres");
+    // The 13 states decide the projection, not Alaska (see tests/projections.rs).
+    let projection = json["projection"].as_str().unwrap();
+    assert!(
+        projection.starts_with("Albers equal-area conic (standard parallels "),
+        "{projection}"
+    );
+    assert!(json["proj"].as_str().unwrap().starts_with("+proj=aea "));
     assert_eq!(json["regions"][0]["id"], 1);
     assert_eq!(json["regions"][0]["name"], "Utah");
     assert_eq!(json["regions"][0]["source_index"], 0);
@@ -1587,4 +1594,167 @@ fn deriving_borders_again_with_a_tolerance_matches_importing_with_it() {
     let mut same = first.clone();
     same.apply(again).unwrap();
     assert_eq!(same.borders(), first.borders());
+}
+
+/// A GeoJSON polygon feature for a longitude/latitude box, its edges split every degree.
+fn box_feature(name: &str, west: f64, east: f64, south: f64, north: f64) -> String {
+    let n_lon = (east - west).ceil() as usize;
+    let n_lat = (north - south).ceil() as usize;
+    let mut ring = Vec::new();
+    for i in 0..n_lon {
+        ring.push([west + (east - west) * i as f64 / n_lon as f64, south]);
+    }
+    for i in 0..n_lat {
+        ring.push([east, south + (north - south) * i as f64 / n_lat as f64]);
+    }
+    for i in 0..n_lon {
+        ring.push([east - (east - west) * i as f64 / n_lon as f64, north]);
+    }
+    for i in 0..n_lat {
+        ring.push([west, north - (north - south) * i as f64 / n_lat as f64]);
+    }
+    ring.push(ring[0]);
+    let coordinates: Vec<String> = ring
+        .iter()
+        .map(|p| format!("[{},{}]", p[0], p[1]))
+        .collect();
+    format!(
+        r#"{{"type":"Feature","properties":{{"name":"{name}"}},"geometry":{{"type":"Polygon","coordinates":[[{}]]}}}}"#,
+        coordinates.join(",")
+    )
+}
+
+#[test]
+fn a_world_map_is_imported_on_equal_earth_and_exports_its_coordinates_back() {
+    // Regression: a world map was one azimuthal disc with the Americas smeared round its rim.
+    // Rough continents as boxes (from memory, to a few degrees); the Bering Strait and Panama
+    // keep them one mass.
+    let continents = [
+        ("North America", -168.0, -52.0, 15.0, 72.0),
+        ("Central America", -92.0, -77.0, 7.0, 18.0),
+        ("South America", -81.0, -35.0, -55.0, 12.0),
+        ("Eurasia", -10.0, 179.5, 1.0, 77.0),
+        ("Chukotka", -179.5, -170.0, 60.0, 70.0),
+        ("Africa", -17.0, 51.0, -35.0, 37.0),
+        ("Australia", 113.0, 153.0, -39.0, -11.0),
+    ];
+    let features: Vec<String> = continents
+        .iter()
+        .map(|&(name, w, e, s, n)| box_feature(name, w, e, s, n))
+        .collect();
+    let text = format!(
+        r#"{{"type":"FeatureCollection","features":[{}]}}"#,
+        features.join(",")
+    );
+    let map = import_text(&text, &options(Rule::Rook));
+    assert_eq!(
+        map.projection,
+        Some(tinct::projection::Projection::EqualEarth { lon0: 0.0 })
+    );
+    let doc = map.into_document("World");
+    assert_eq!(
+        doc.settings().projection,
+        Some(tinct::projection::Projection::EqualEarth { lon0: 0.0 })
+    );
+    // The GeoJSON export unprojects with the recorded projection: each box comes back with its
+    // own extent, to the export's 7 decimals.
+    let out: serde_json::Value =
+        serde_json::from_str(&tinct::export::to_geojson(&doc).unwrap()).unwrap();
+    for (feature, &(name, w, e, s, n)) in
+        out["features"].as_array().unwrap().iter().zip(&continents)
+    {
+        assert_eq!(feature["properties"]["name"], name);
+        let ring = feature["geometry"]["coordinates"][0].as_array().unwrap();
+        let lons: Vec<f64> = ring.iter().map(|p| p[0].as_f64().unwrap()).collect();
+        let lats: Vec<f64> = ring.iter().map(|p| p[1].as_f64().unwrap()).collect();
+        let min = |v: &[f64]| v.iter().copied().fold(f64::INFINITY, f64::min);
+        let max = |v: &[f64]| v.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+        for (got, expected) in [
+            (min(&lons), w),
+            (max(&lons), e),
+            (min(&lats), s),
+            (max(&lats), n),
+        ] {
+            assert!((got - expected).abs() < 2e-7, "{name}: {got} vs {expected}");
+        }
+    }
+}
+
+#[test]
+fn the_us_states_are_projected_for_the_conterminous_states_not_alaska() {
+    // Regression: with Alaska (whose Aleutians cross the 180-degree meridian) the centre went
+    // into the Pacific and the states came out rotated. us-atlas 3.0.1 (PROVENANCE.md): the 13
+    // states other than Alaska span about 124.4 W to 93.5 W, so the central meridian lies near
+    // 109 W, and north stays up: Colorado's north border (41 N, a parallel) tilts by only the
+    // conic's convergence, n times its 3.5 degrees from the central meridian (about 2 degrees),
+    // where the old centre in the Pacific turned the map about 30 degrees.
+    let map = import_text(
+        &std::fs::read_to_string(data("us_states_subset.geojson")).unwrap(),
+        &options(Rule::Rook),
+    );
+    let projection = map.projection.unwrap();
+    assert!(
+        matches!(
+            projection,
+            tinct::projection::Projection::AlbersEqualArea { .. }
+        ),
+        "{projection:?}"
+    );
+    assert!(
+        (-112.0..=-106.0).contains(&projection.lon0()),
+        "{projection:?}"
+    );
+    let a = projection.project([-109.05, 41.0]);
+    let b = projection.project([-102.05, 41.0]);
+    let tilt = (b[1] - a[1]).atan2(b[0] - a[0]).to_degrees();
+    assert!(tilt.abs() < 5.0, "{tilt}");
+}
+
+#[test]
+fn rings_cut_at_the_180_degree_meridian_stay_open_once_projected() {
+    // Regression: world-atlas 110m (PROVENANCE.md) has Russia's rings cut at the 180-degree
+    // meridian, with positions at both 180 and -180 on one parallel; projected, they are one
+    // point, and a ring came into the document closed (a debug assertion stopped the import).
+    let map = geo::import_path(&data("world_subset.topojson"), &options(Rule::Rook)).unwrap();
+    for region in &map.regions {
+        for polygon in &region.parts {
+            for ring in std::iter::once(&polygon.exterior).chain(&polygon.holes) {
+                assert!(ring.len() >= 3, "{}", region.name);
+                assert_ne!(ring.first(), ring.last(), "{}", region.name);
+                assert!(ring.windows(2).all(|w| w[0] != w[1]), "{}", region.name);
+            }
+        }
+    }
+    let doc = map.into_document("World subset");
+    assert!(doc.regions().values().any(|r| r.name == "Russia"));
+}
+
+#[test]
+fn markers_alone_are_placed_at_their_own_coordinates() {
+    // Every feature's outline is degenerate (fewer than three distinct positions): the
+    // projection is chosen from where their positions lie, and each marker stands at the
+    // projection of its own positions' average, not at the projection's centre. Invented data.
+    let text = r#"{"type":"FeatureCollection","features":[
+      {"type":"Feature","properties":{"name":"West"},"geometry":{"type":"Polygon","coordinates":[[[-77.18,38.88],[-77.17,38.89],[-77.18,38.88]]]}},
+      {"type":"Feature","properties":{"name":"East"},"geometry":{"type":"Polygon","coordinates":[[[-70.0,41.0],[-70.2,41.2],[-70.0,41.0]]]}}]}"#;
+    let map = import_text(text, &options(Rule::Rook));
+    let projection = map.projection.expect("chosen from the positions");
+    for (name, average) in [
+        (
+            "West",
+            [(-77.18 * 2.0 - 77.17) / 3.0, (38.88 * 2.0 + 38.89) / 3.0],
+        ),
+        (
+            "East",
+            [(-70.0 * 2.0 - 70.2) / 3.0, (41.0 * 2.0 + 41.2) / 3.0],
+        ),
+    ] {
+        let region = &map.regions[map.region_named(name).unwrap()];
+        assert!(region.parts.is_empty());
+        let [lon, lat] = projection.unproject(region.position.unwrap());
+        assert!(
+            (lon - average[0]).abs() < 1e-9 && (lat - average[1]).abs() < 1e-9,
+            "{name}: {lon}, {lat} vs {average:?}"
+        );
+    }
 }

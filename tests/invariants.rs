@@ -160,6 +160,29 @@ fn document_knows_no_gui() {
 }
 
 #[test]
+fn projections_are_a_leaf() {
+    // Map projections are mathematics: the document records one, the importers choose one, so
+    // they can use nothing above them (and nothing else in the crate).
+    let mut found = offences("projection", LEAF_FORBIDDEN, &[]);
+    found.extend(offences_text(
+        "projection",
+        &[
+            "std::fs",
+            "std::thread",
+            "std::net",
+            "std::process",
+            "std::io",
+            "crate::",
+        ],
+    ));
+    assert!(
+        found.is_empty(),
+        "src/projection must stay a leaf:\n{}",
+        found.join("\n")
+    );
+}
+
+#[test]
 fn colour_is_a_leaf() {
     // Like the engine: colour science only, no I/O, no GUI, nothing else from the crate.
     let words = LEAF_FORBIDDEN;

@@ -3,7 +3,8 @@
 
 use proptest::prelude::*;
 use tinct::doc::file::{self, FileError};
-use tinct::doc::{BorderKind, GroupId, RegionId, RegionPair, Role, Units};
+use tinct::doc::{BorderKind, Edit, GroupId, RegionId, RegionPair, Role, Settings, Units};
+use tinct::projection::Projection;
 
 use super::support::{arb, root};
 
@@ -45,11 +46,92 @@ fn golden_v1_minimal_loads() {
     assert_eq!(doc.palette().slots.len(), 1);
 }
 
+/// Format version 1 as written before Tinct chose among projections: the centre of its Lambert
+/// azimuthal projection, `projection_origin`. (Hand-written in the layout that writer used.)
+#[test]
+fn golden_v1_projection_origin_loads_as_lambert_azimuthal() {
+    let doc = file::load(&golden("lambert_origin.tinct")).expect("golden file loads");
+    assert_eq!(
+        doc.settings().projection,
+        Some(Projection::LambertAzimuthal {
+            lon0: -96.5,
+            lat0: 38.25
+        })
+    );
+}
+
+#[test]
+fn other_projections_are_saved_beside_the_old_field_and_come_back() {
+    let minimal = std::fs::read_to_string(golden("minimal.tinct")).unwrap();
+    for projection in [
+        Projection::AlbersEqualArea {
+            lon0: -96.0,
+            lat0: 23.0,
+            lat1: 29.5,
+            lat2: 45.5,
+        },
+        Projection::EqualEarth { lon0: -150.0 },
+    ] {
+        let mut doc = file::from_str(&minimal).unwrap();
+        let settings = Settings {
+            units: Units::Metres,
+            projection: Some(projection),
+            ..*doc.settings()
+        };
+        doc.apply(Edit::SetSettings(settings)).unwrap();
+        let text = file::to_string(&doc);
+        assert!(text.contains("    projection: Some("), "{text}");
+        assert!(!text.contains("projection_origin"), "{text}");
+        assert_eq!(
+            file::from_str(&text).unwrap().settings().projection,
+            Some(projection)
+        );
+    }
+    // A Lambert azimuthal projection is written in the old field, so earlier builds read it.
+    let text = std::fs::read_to_string(golden("lambert_origin.tinct")).unwrap();
+    let saved = file::to_string(&file::from_str(&text).unwrap());
+    assert_eq!(saved, text);
+}
+
+#[test]
+fn a_projection_that_cannot_be_used_is_a_clear_error() {
+    let minimal = std::fs::read_to_string(golden("minimal.tinct")).unwrap();
+    let with = |settings: &str| {
+        minimal.replace(
+            "    units: Unitless,\n",
+            &format!("    units: Metres,\n{settings}"),
+        )
+    };
+    for (settings, expected) in [
+        (
+            "    projection_origin: Some((1.0, 2.0)),\n    projection: Some(EqualEarth(lon0: 0.0)),\n",
+            "both projection_origin and projection",
+        ),
+        (
+            "    projection: Some(AlbersEqualArea(lon0: 0.0, lat0: 0.0, lat1: -30.0, lat2: 30.0)),\n",
+            "symmetrically about the equator",
+        ),
+        (
+            "    projection: Some(LambertAzimuthal(lon0: 0.0, lat0: 120.0)),\n",
+            "not a latitude",
+        ),
+    ] {
+        let text = with(settings);
+        assert!(text.contains(settings));
+        match file::from_str(&text) {
+            Err(FileError::Invalid(message)) => {
+                assert!(message.contains(expected), "{message}")
+            }
+            other => panic!("{settings}: {other:?}"),
+        }
+    }
+}
+
 #[test]
 fn saving_a_golden_file_again_gives_the_same_text() {
     // The writer is canonical: sorted, fixed layout. (If the writer ever changes layout, the golden
     // files stay as they are and this test compares against a fresh save instead.)
-    for name in ["full.tinct", "minimal.tinct"] {
+    for name in ["full.tinct", "minimal.tinct", "lambert_origin.tinct"] {
         let text = std::fs::read_to_string(golden(name)).unwrap();
         let doc = file::from_str(&text).unwrap();
         assert_eq!(file::to_string(&doc), text, "{name}");

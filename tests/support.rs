@@ -87,6 +87,7 @@ pub mod arb {
         AttrValue, Border, BorderKind, Document, Edit, Geometry, GroupId, Palette, Polygon, Region,
         RegionChange, RegionId, RegionPair, Rgb, Role, Settings, Slot, Units,
     };
+    use tinct::projection::Projection;
 
     /// One random step, with indices that are resolved against the document when it is applied.
     #[derive(Clone, Debug)]
@@ -141,6 +142,8 @@ pub mod arb {
             min: f64,
             tol: f64,
             metres: bool,
+            /// Which projection a geographic map records (0 to 2).
+            projection: u8,
         },
         Palette(Vec<(String, [u8; 3])>),
         Title(String),
@@ -184,8 +187,8 @@ pub mod arb {
             1 => (idx.clone(), any::<bool>()).prop_map(|(i, water)| Op::Role { i, water }),
             1 => idx.clone().prop_map(Op::DeleteRegion),
             1 => (0usize..3).prop_map(Op::DeleteGroup),
-            1 => (any::<bool>(), 0.0..50.0f64, 0.0..5.0f64, any::<bool>())
-                .prop_map(|(corners, min, tol, metres)| Op::Settings { corners, min, tol, metres }),
+            1 => (any::<bool>(), 0.0..50.0f64, 0.0..5.0f64, any::<bool>(), 0u8..3)
+                .prop_map(|(corners, min, tol, metres, projection)| Op::Settings { corners, min, tol, metres, projection }),
             1 => proptest::collection::vec((name(), any::<[u8; 3]>()), 1..8).prop_map(Op::Palette),
             1 => name().prop_map(Op::Title),
             1 => proptest::collection::vec((idx, 0u32..6), 0..6).prop_map(Op::Recolour),
@@ -321,6 +324,7 @@ pub mod arb {
                 min,
                 tol,
                 metres,
+                projection,
             } => Edit::SetSettings(Settings {
                 corners_count: *corners,
                 min_border_length: *min,
@@ -330,8 +334,21 @@ pub mod arb {
                 } else {
                     Units::Unitless
                 },
-                // Geographic maps record their projection centre (an optional field of format 1).
-                projection_origin: metres.then_some([12.5, -47.25]),
+                // Geographic maps record their projection (optional fields of format 1: the
+                // centre of a Lambert azimuthal one, or any other).
+                projection: metres.then_some(match projection {
+                    0 => Projection::LambertAzimuthal {
+                        lon0: 12.5,
+                        lat0: -47.25,
+                    },
+                    1 => Projection::AlbersEqualArea {
+                        lon0: -96.0,
+                        lat0: 23.0,
+                        lat1: 29.5,
+                        lat2: 45.5,
+                    },
+                    _ => Projection::EqualEarth { lon0: 150.0 },
+                }),
             }),
             Op::Palette(slots) => Edit::SetPalette(Palette {
                 name: "random".into(),

@@ -18,6 +18,7 @@ mod interrupted_saves;
 mod invariants;
 mod planarity;
 mod project_file;
+mod projections;
 mod recovery;
 mod sample_maps;
 mod scale;

@@ -110,6 +110,10 @@ pub fn run_import(file: &Path, out: &Path, args: &GeoArgs) -> CommandResult {
         .map(|d| format!("note: {}", d.message))
         .collect();
     let (regions, borders) = (map.regions.len(), map.borders.len());
+    if let Some(projection) = map.projection {
+        // Which flat map of the globe the shapes are on: it decides how they look.
+        notes.push(format!("projection: {}", projection.name()));
+    }
     let document = map.into_document(title_of(file));
     super::save(&document, out)?;
     notes.push(format!(
@@ -129,6 +133,12 @@ pub struct AdjacencyReport {
     pub rule: &'static str,
     /// "metres" (projected longitude/latitude) or "map units".
     pub units: &'static str,
+    /// For longitude/latitude data: the projection chosen for it, by name (added within schema 1).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub projection: Option<String>,
+    /// The same as a PROJ string (added within schema 1).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub proj: Option<String>,
     pub tolerance: f64,
     pub min_border_length: f64,
     pub regions: Vec<RegionOut>,
@@ -205,6 +215,8 @@ pub fn report(file: &str, map: &ImportedMap) -> AdjacencyReport {
             Units::Metres => "metres",
             Units::MapUnits => "map units",
         },
+        projection: map.projection.map(|p| p.name()),
+        proj: map.projection.map(|p| p.proj_string()),
         tolerance: map.tolerance,
         min_border_length: map.min_border_length,
         regions: map
@@ -264,6 +276,9 @@ pub fn render_text(report: &AdjacencyReport) -> String {
                 report.units
             ),
         };
+    }
+    if let Some(projection) = &report.projection {
+        let _ = writeln!(out, "projection: {projection}");
     }
     if !report.diagnostics.is_empty() {
         let _ = writeln!(out, "{} diagnostics:", report.diagnostics.len());

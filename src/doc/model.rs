@@ -10,6 +10,7 @@ use std::fmt;
 use std::sync::{Arc, OnceLock};
 
 use super::store::{BorderIndex, Borders, Colouring, Regions};
+use crate::projection::Projection;
 
 /// A region's stable identifier. Chosen by Tinct, saved in project files, never reused within a
 /// document (the counter only grows), and independent of any graph library's indices.
@@ -518,11 +519,12 @@ pub struct Settings {
     /// Boundaries closer than this (in world units) are treated as touching when deriving borders.
     pub tolerance: f64,
     pub units: Units,
-    /// For maps imported from longitude/latitude: the centre `[longitude, latitude]` in degrees of
-    /// the Lambert azimuthal equal-area projection (on the GRS 80 authalic sphere) that turned them
-    /// into metres, so exports can give longitude/latitude back. `None` for sketches, planar data,
-    /// and projects saved before Tinct recorded it.
-    pub projection_origin: Option<[f64; 2]>,
+    /// For maps imported from longitude/latitude: the equal-area projection (on the GRS 80
+    /// authalic sphere) that turned them into metres, so exports can give longitude/latitude back
+    /// and shared lengths can be measured on the sphere. `None` for sketches, planar data, and
+    /// projects saved before Tinct recorded it. (Projects saved before Tinct chose among several
+    /// projections recorded only the centre of a Lambert azimuthal one; they load as that.)
+    pub projection: Option<Projection>,
 }
 
 impl Default for Settings {
@@ -532,7 +534,7 @@ impl Default for Settings {
             min_border_length: 0.0,
             tolerance: 0.0,
             units: Units::Unitless,
-            projection_origin: None,
+            projection: None,
         }
     }
 }

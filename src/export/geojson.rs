@@ -7,9 +7,9 @@
 //! - `tinct_fill`: that slot's colour as `#rrggbb`, or null;
 //! - `tinct_group`: the same-colour group's name, or null; `tinct_pinned`: whether the colour is fixed.
 //!
-//! Imported geographic maps are kept in metres (Lambert azimuthal equal-area, see
-//! [`crate::geo::project`]); the export applies the inverse projection about the centre recorded at
-//! import ([`crate::doc::Settings::projection_origin`]). The sphere's latitude is written as WGS 84
+//! Imported geographic maps are kept in metres on the equal-area projection chosen at import (see
+//! [`crate::projection`]); the export applies the inverse of the projection recorded then
+//! ([`crate::doc::Settings::projection`]). The sphere's latitude is written as WGS 84
 //! latitude, as the import read WGS 84 latitude onto the sphere, so coordinates come back as they were
 //! read, to rounding (7 decimals, about 1 cm).
 //!
@@ -23,7 +23,7 @@ use serde_json::{Map, Value, json};
 
 use crate::doc::model::ring_area;
 use crate::doc::{AttrValue, Document, Point, Polygon, Units};
-use crate::geo::LambertAzimuthalEqualArea;
+use crate::geo::Projection;
 
 use super::ExportError;
 
@@ -31,7 +31,7 @@ fn round7(v: f64) -> f64 {
     (v * 1e7).round() / 1e7
 }
 
-fn position(projection: &LambertAzimuthalEqualArea, p: Point) -> Value {
+fn position(projection: &Projection, p: Point) -> Value {
     let [lon, lat] = projection.unproject(p);
     json!([round7(lon), round7(lat)])
 }
@@ -88,10 +88,7 @@ pub(super) type OutputPolygon = (Vec<Point>, Vec<Vec<Point>>);
 /// One polygon in longitude/latitude, as one or two polygons: a polygon that crosses the
 /// 180-degree meridian is cut there, as RFC 7946 section 3.1.9 asks (and as GIS formats in
 /// longitude/latitude expect). Positions are rounded to 7 decimals (about 1 cm).
-pub(super) fn polygons_lon_lat(
-    projection: &LambertAzimuthalEqualArea,
-    polygon: &Polygon,
-) -> Vec<OutputPolygon> {
+pub(super) fn polygons_lon_lat(projection: &Projection, polygon: &Polygon) -> Vec<OutputPolygon> {
     let mut exterior: Vec<Point> = polygon
         .exterior
         .iter()
@@ -193,8 +190,8 @@ fn attr(value: &AttrValue) -> Value {
 
 /// The map as a GeoJSON FeatureCollection.
 pub fn to_geojson(doc: &Document) -> Result<String, ExportError> {
-    let origin = match (doc.settings().units, doc.settings().projection_origin) {
-        (Units::Metres, Some(origin)) => origin,
+    let projection = match (doc.settings().units, doc.settings().projection) {
+        (Units::Metres, Some(projection)) => projection,
         (Units::Metres, None) => {
             return Err(ExportError::NotGeographic(
                 "this map is in metres on a plane with no recorded position on the globe (planar \
@@ -213,7 +210,6 @@ pub fn to_geojson(doc: &Document) -> Result<String, ExportError> {
             ));
         }
     };
-    let projection = LambertAzimuthalEqualArea::new(origin[0], origin[1]);
     let mut features = Vec::with_capacity(doc.regions().len());
     for (id, region) in doc.regions() {
         let mut properties: Map<String, Value> = region

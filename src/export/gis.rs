@@ -12,7 +12,6 @@
 //!   GIS software shows as "unknown" rather than placing it somewhere on Earth.
 
 use crate::doc::{AttrValue, Crs, Document, Role, Units};
-use crate::geo::LambertAzimuthalEqualArea;
 
 use super::ExportError;
 use super::geojson::{OutputPolygon, polygon_planar, polygons_lon_lat};
@@ -118,11 +117,8 @@ pub fn layer(
     names: &TinctNames,
     fit_name: impl Fn(&str, Option<usize>) -> String,
 ) -> Result<Layer, ExportError> {
-    let (crs, projection) = match (doc.settings().units, doc.settings().projection_origin) {
-        (Units::Metres, Some(origin)) => (
-            OutputCrs::Wgs84,
-            Some(LambertAzimuthalEqualArea::new(origin[0], origin[1])),
-        ),
+    let (crs, projection) = match (doc.settings().units, doc.settings().projection) {
+        (Units::Metres, Some(projection)) => (OutputCrs::Wgs84, Some(projection)),
         // Planar maps (in metres or free units) keep their own coordinates.
         (Units::Metres, None) | (Units::Unitless, _) => (
             doc.crs()

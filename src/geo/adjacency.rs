@@ -42,8 +42,7 @@ use rstar::{
 };
 
 use super::{
-    BorderKind, Diagnostic, DiagnosticKind, ImportedBorder, ImportedRegion,
-    LambertAzimuthalEqualArea, Point, Rule,
+    BorderKind, Diagnostic, DiagnosticKind, ImportedBorder, ImportedRegion, Point, Projection, Rule,
 };
 use crate::geometry::{segments_cross, segments_intersect};
 
@@ -61,7 +60,7 @@ pub struct AdjacencyOptions {
     /// For projected longitude/latitude data: measure shared lengths as great-circle distances
     /// on this projection's sphere instead of in the plane (an equal-area projection stretches
     /// lengths by a few per cent away from its centre).
-    pub lengths_on_sphere: Option<LambertAzimuthalEqualArea>,
+    pub lengths_on_sphere: Option<Projection>,
 }
 
 impl Default for AdjacencyOptions {
@@ -296,7 +295,7 @@ fn edge_ready(ring: &[Point]) -> Option<Cow<'_, [Point]>> {
 }
 
 impl<'a> Geometry<'a> {
-    fn build(regions: &'a [ImportedRegion], sphere: Option<&LambertAzimuthalEqualArea>) -> Self {
+    fn build(regions: &'a [ImportedRegion], sphere: Option<&Projection>) -> Self {
         let total: usize = regions
             .iter()
             .flat_map(|r| &r.parts)

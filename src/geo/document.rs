@@ -36,7 +36,7 @@ impl ImportedMap {
                 Units::Metres => doc::Units::Metres,
                 Units::MapUnits => doc::Units::Unitless,
             },
-            projection_origin: self.projection.map(|p| [p.lon0_deg, p.lat0_deg]),
+            projection: self.projection,
         });
         document.reserve(self.regions.len(), self.borders.len() + self.excluded.len());
         document.crs(self.crs);
@@ -284,11 +284,9 @@ pub fn rederive_borders(doc: &Document, tolerance: f64) -> Option<doc::Edit> {
         tolerance: tolerance.max(0.0),
         min_border_length: 0.0,
         gap_width: None,
-        lengths_on_sphere: match (settings.units, settings.projection_origin) {
-            (doc::Units::Metres, Some([lon, lat])) => {
-                Some(super::LambertAzimuthalEqualArea::new(lon, lat))
-            }
-            _ => None,
+        lengths_on_sphere: match settings.units {
+            doc::Units::Metres => settings.projection,
+            doc::Units::Unitless => None,
         },
     };
     let derived = super::derive_contacts(&regions, &options);

@@ -31,9 +31,11 @@
 //!   arc share its length; regions whose arcs end at a common node touch there. The tolerance
 //!   then applies only to the geometric diagnostics (gaps, overlaps).
 //! * **Projection**: longitude/latitude data (GeoJSON per RFC 7946; Shapefile with a `GEOGCS`
-//!   .prj; otherwise detected from the coordinate range) is projected to metres with the Lambert
-//!   azimuthal equal-area projection centred on the data (see [`project`]); data crossing the
-//!   180-degree meridian stays whole.
+//!   .prj; otherwise detected from the coordinate range) is projected to metres with an
+//!   equal-area projection chosen for the extent of the data's main mass
+//!   ([`Projection::choose`]: Equal Earth for the world, Albers for mid-latitude areas wider
+//!   east-west, Lambert azimuthal for the rest), so outlying parts do not move its centre; data
+//!   crossing the 180-degree meridian stays whole.
 //!
 //! # Diagnostics
 //!
@@ -63,8 +65,8 @@ mod topojson;
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 
+pub use crate::projection::{MainMass, Projection, outlying_parts};
 pub use adjacency::{AdjacencyOptions, Derived, derive_borders, derive_contacts};
-pub use project::LambertAzimuthalEqualArea;
 
 /// A position in world units (`[x, y]`), or `[longitude, latitude]` in degrees before projection.
 pub type Point = [f64; 2];
@@ -247,7 +249,7 @@ pub struct ImportedMap {
     pub diagnostics: Vec<Diagnostic>,
     pub units: Units,
     /// The projection used for longitude/latitude input (`None` for planar data).
-    pub projection: Option<LambertAzimuthalEqualArea>,
+    pub projection: Option<Projection>,
     /// The coordinate system of planar data, when the file names one (a GeoPackage layer's
     /// spatial reference, a shapefile's `.prj`); exports write it back.
     pub crs: Option<Crs>,
@@ -636,22 +638,35 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
                 .iter()
                 .flat_map(|(p, _, _)| all_points(p))
                 .peekable();
-            all.peek().is_some() && project::looks_like_lon_lat(all)
+            if all.peek().is_some() {
+                project::looks_like_lon_lat(all)
+            } else {
+                // No outline is left, only markers: decide by where their positions lie.
+                let mut markers = raw_points.iter().flatten().copied().peekable();
+                markers.peek().is_some() && project::looks_like_lon_lat(markers)
+            }
         }),
     };
     let projection = if lon_lat {
-        let points = cleaned.iter().flat_map(|(p, _, _)| all_points(p));
-        let arc_points = raw.arcs.iter().flatten().flatten().copied();
-        LambertAzimuthalEqualArea::fit(points.chain(arc_points))
+        // Chosen for the outlines; when no feature has one left, for where the features' positions
+        // lie on average (they become markers there).
+        let outlines: Vec<&[Point]> = cleaned
+            .iter()
+            .flat_map(|(parts, _, _)| parts.iter().map(|p| p.exterior.as_slice()))
+            .collect();
+        Projection::choose(&outlines).or_else(|| {
+            let positions: Vec<[Point; 1]> = raw_points.iter().flatten().map(|p| [*p]).collect();
+            Projection::choose(&positions)
+        })
     } else {
         None
     };
     if let Some(proj) = &projection {
         for (parts, _, _) in &mut cleaned {
             for polygon in parts.iter_mut() {
-                proj.project_ring(&mut polygon.exterior);
+                project_open_ring(proj, &mut polygon.exterior);
                 for hole in &mut polygon.holes {
-                    proj.project_ring(hole);
+                    project_open_ring(proj, hole);
                 }
             }
         }
@@ -773,6 +788,17 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
         projection,
         crs: if projection.is_none() { raw.crs } else { None },
     })
+}
+
+/// Projects a cleaned (open) ring and keeps it open: positions that differ in longitude/latitude
+/// but are one place on the globe (180 and -180 degrees on the same parallel, as data cut at the
+/// 180-degree meridian has them) project to one point, so repeats are dropped.
+fn project_open_ring(projection: &Projection, ring: &mut Ring) {
+    projection.project_ring(ring);
+    ring.dedup();
+    while ring.len() > 1 && ring.first() == ring.last() {
+        ring.pop();
+    }
 }
 
 fn arcs_or_empty(arcs: Vec<Vec<usize>>) -> impl Iterator<Item = Vec<usize>> {

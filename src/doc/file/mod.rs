@@ -12,6 +12,8 @@ use std::sync::Arc;
 use serde::{Deserialize, Serialize};
 
 use super::builder::DocumentBuilder;
+use crate::projection::Projection;
+
 use super::model::{
     AttrValue, Border, BorderKind, Document, Geometry, Group, GroupId, Palette, Polygon, Region,
     RegionId, RegionPair, Rgb, Role, Settings, Slot, Units,
@@ -97,13 +99,80 @@ struct SettingsV1 {
     min_border_length: f64,
     tolerance: f64,
     units: UnitsV1,
-    /// Added within version 1 (optional): the projection centre `(longitude, latitude)`.
+    /// Added within version 1 (optional): the centre `(longitude, latitude)` of a Lambert azimuthal
+    /// equal-area projection. Written for that projection (so earlier builds still read the file),
+    /// never together with `projection`.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     projection_origin: Option<(f64, f64)>,
+    /// Added within version 1 (optional): any other projection of a map imported from
+    /// longitude/latitude.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    projection: Option<ProjectionV1>,
     /// Added within version 1 (optional): the coordinate system of a planar map's units, as the
     /// imported file named it.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     coordinate_system: Option<CrsV1>,
+}
+
+/// A map projection; every angle in degrees (see [`crate::projection::Projection`]).
+#[derive(Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+enum ProjectionV1 {
+    LambertAzimuthal {
+        lon0: f64,
+        lat0: f64,
+    },
+    AlbersEqualArea {
+        lon0: f64,
+        lat0: f64,
+        lat1: f64,
+        lat2: f64,
+    },
+    EqualEarth {
+        lon0: f64,
+    },
+}
+
+impl ProjectionV1 {
+    fn from_projection(p: Projection) -> Self {
+        match p {
+            Projection::LambertAzimuthal { lon0, lat0 } => {
+                ProjectionV1::LambertAzimuthal { lon0, lat0 }
+            }
+            Projection::AlbersEqualArea {
+                lon0,
+                lat0,
+                lat1,
+                lat2,
+            } => ProjectionV1::AlbersEqualArea {
+                lon0,
+                lat0,
+                lat1,
+                lat2,
+            },
+            Projection::EqualEarth { lon0 } => ProjectionV1::EqualEarth { lon0 },
+        }
+    }
+
+    fn to_projection(&self) -> Projection {
+        match *self {
+            ProjectionV1::LambertAzimuthal { lon0, lat0 } => {
+                Projection::LambertAzimuthal { lon0, lat0 }
+            }
+            ProjectionV1::AlbersEqualArea {
+                lon0,
+                lat0,
+                lat1,
+                lat2,
+            } => Projection::AlbersEqualArea {
+                lon0,
+                lat0,
+                lat1,
+                lat2,
+            },
+            ProjectionV1::EqualEarth { lon0 } => Projection::EqualEarth { lon0 },
+        }
+    }
 }
 
 #[derive(Serialize, Deserialize)]
@@ -398,7 +467,16 @@ fn to_records(doc: &Document) -> ProjectOut<'_> {
                 Units::Metres => UnitsV1::Metres,
                 Units::Unitless => UnitsV1::Unitless,
             },
-            projection_origin: doc.settings.projection_origin.map(|[x, y]| (x, y)),
+            // A Lambert azimuthal projection is written as its centre, as before there was a
+            // choice, so that earlier builds of format 1 still open the project.
+            projection_origin: match doc.settings.projection {
+                Some(Projection::LambertAzimuthal { lon0, lat0 }) => Some((lon0, lat0)),
+                _ => None,
+            },
+            projection: match doc.settings.projection {
+                Some(Projection::LambertAzimuthal { .. }) | None => None,
+                Some(p) => Some(ProjectionV1::from_projection(p)),
+            },
             coordinate_system: doc.crs.as_ref().map(|c| CrsV1 {
                 name: c.name.clone(),
                 epsg: c.epsg,
@@ -594,6 +672,23 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
             "settings: projection_origin ({lon}, {lat}) is not a longitude and latitude"
         ));
     }
+    let projection = match (r.settings.projection_origin, &r.settings.projection) {
+        (Some(_), Some(_)) => {
+            return invalid(
+                "settings: both projection_origin and projection are given; a map has one projection"
+                    .into(),
+            );
+        }
+        (Some((lon0, lat0)), None) => Some(Projection::LambertAzimuthal { lon0, lat0 }),
+        (None, Some(p)) => {
+            let p = p.to_projection();
+            if let Err(e) = p.check() {
+                return invalid(format!("settings: projection {}: {e}", p.name()));
+            }
+            Some(p)
+        }
+        (None, None) => None,
+    };
     doc.settings(Settings {
         corners_count: r.settings.corners_count,
         min_border_length: r.settings.min_border_length,
@@ -602,7 +697,7 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
             UnitsV1::Metres => Units::Metres,
             UnitsV1::Unitless => Units::Unitless,
         },
-        projection_origin: r.settings.projection_origin.map(|(x, y)| [x, y]),
+        projection,
     });
     doc.crs(r.settings.coordinate_system.map(|c| crate::doc::Crs {
         name: c.name,

@@ -1,0 +1,291 @@
+//! The projections against outside references: PROJ (through pyproj, values committed in
+//! `tests/data/projections/reference.csv`, see its PROVENANCE.md), and the choice of projection
+//! on real boundary data (us-atlas states, `tests/data/geo/PROVENANCE.md`).
+
+use std::path::PathBuf;
+
+use tinct::projection::{AUTHALIC_RADIUS_M, LonLat, MainMass, Projection};
+
+fn data(path: &str) -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+        .join("tests/data")
+        .join(path)
+}
+
+struct Reference {
+    projection: Projection,
+    proj: String,
+    lon_lat: LonLat,
+    xy: LonLat,
+}
+
+fn references() -> Vec<Reference> {
+    let text = std::fs::read_to_string(data("projections/reference.csv")).unwrap();
+    let mut rows = Vec::new();
+    for line in text.lines().skip(1) {
+        let cells: Vec<&str> = line.split(',').collect();
+        assert_eq!(cells.len(), 10, "{line}");
+        let number = |i: usize| cells[i].parse::<f64>().unwrap();
+        let projection = match cells[0] {
+            "laea" => Projection::LambertAzimuthal {
+                lon0: number(1),
+                lat0: number(2),
+            },
+            "aea" => Projection::AlbersEqualArea {
+                lon0: number(1),
+                lat0: number(2),
+                lat1: number(3),
+                lat2: number(4),
+            },
+            "eqearth" => Projection::EqualEarth { lon0: number(1) },
+            other => panic!("unknown projection {other}"),
+        };
+        rows.push(Reference {
+            projection,
+            proj: cells[5].to_string(),
+            lon_lat: [number(6), number(7)],
+            xy: [number(8), number(9)],
+        });
+    }
+    rows
+}
+
+#[test]
+fn forward_agrees_with_proj_within_a_millimetre() {
+    // Source: PROJ 9.5.1 via pyproj 3.7.2, `laea`, `aea` and `eqearth` on the sphere of radius
+    // 6371007.181 m (tests/data/projections/PROVENANCE.md).
+    let rows = references();
+    assert!(rows.len() >= 100, "{} rows", rows.len());
+    for kind in ["laea", "aea", "eqearth"] {
+        assert!(rows.iter().any(|r| r.proj.contains(kind)), "no {kind} rows");
+    }
+    for r in &rows {
+        let [x, y] = r.projection.project(r.lon_lat);
+        let error = (x - r.xy[0]).hypot(y - r.xy[1]);
+        assert!(
+            error < 1e-3,
+            "{}: {:?} -> [{x}, {y}], PROJ says {:?} ({error} m apart)",
+            r.proj,
+            r.lon_lat,
+            r.xy
+        );
+    }
+}
+
+#[test]
+fn inverse_agrees_with_proj_within_a_nanodegree() {
+    // Source: as above; Tinct's inverse of PROJ's forward result gives back PROJ's input.
+    for r in references() {
+        let [lon, lat] = r.projection.unproject(r.xy);
+        let d_lon = (lon - r.lon_lat[0] + 180.0).rem_euclid(360.0) - 180.0;
+        assert!(
+            d_lon.abs() < 1e-9 && (lat - r.lon_lat[1]).abs() < 1e-9,
+            "{}: {:?} -> [{lon}, {lat}], expected {:?}",
+            r.proj,
+            r.xy,
+            r.lon_lat
+        );
+    }
+}
+
+#[test]
+fn proj_strings_are_the_ones_proj_was_given() {
+    // Source: the PROJ strings the reference values were computed with.
+    for r in references() {
+        assert_eq!(r.projection.proj_string(), r.proj);
+    }
+    assert!(
+        references()[0]
+            .proj
+            .contains(&format!("+R={AUTHALIC_RADIUS_M}"))
+    );
+}
+
+/// The polygons (exterior rings, `[lon, lat]`) of each feature of a GeoJSON file, with the
+/// feature's `name` property.
+fn features(path: &str) -> Vec<(String, Vec<Vec<LonLat>>)> {
+    let text = std::fs::read_to_string(data(path)).unwrap();
+    let json: serde_json::Value = serde_json::from_str(&text).unwrap();
+    let ring = |v: &serde_json::Value| -> Vec<LonLat> {
+        v.as_array()
+            .unwrap()
+            .iter()
+            .map(|p| [p[0].as_f64().unwrap(), p[1].as_f64().unwrap()])
+            .collect()
+    };
+    json["features"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|f| {
+            let g = &f["geometry"];
+            let polygons = match g["type"].as_str().unwrap() {
+                "Polygon" => vec![ring(&g["coordinates"][0])],
+                "MultiPolygon" => g["coordinates"]
+                    .as_array()
+                    .unwrap()
+                    .iter()
+                    .map(|p| ring(&p[0]))
+                    .collect(),
+                other => panic!("{other}"),
+            };
+            (
+                f["properties"]["name"].as_str().unwrap().to_string(),
+                polygons,
+            )
+        })
+        .collect()
+}
+
+/// The conterminous United States as a coarse outline: coastal and border points to about half
+/// a degree, written down from memory of a general atlas (not from a data set).
+fn conterminous_us() -> Vec<LonLat> {
+    vec![
+        [-124.7, 48.4],
+        [-123.0, 49.0],
+        [-95.2, 49.0],
+        [-95.2, 49.4],
+        [-89.6, 48.0],
+        [-84.8, 46.5],
+        [-83.0, 42.0],
+        [-79.0, 43.3],
+        [-76.0, 44.2],
+        [-74.7, 45.0],
+        [-71.5, 45.0],
+        [-69.2, 47.4],
+        [-67.8, 47.1],
+        [-67.0, 44.8],
+        [-70.0, 41.7],
+        [-74.0, 40.5],
+        [-75.5, 35.2],
+        [-81.4, 30.3],
+        [-80.0, 26.0],
+        [-81.0, 25.1],
+        [-82.7, 27.8],
+        [-84.0, 30.0],
+        [-89.0, 30.2],
+        [-89.4, 29.0],
+        [-94.0, 29.6],
+        [-97.2, 26.0],
+        [-99.5, 27.5],
+        [-101.4, 29.8],
+        [-103.0, 29.0],
+        [-104.5, 29.6],
+        [-106.5, 31.8],
+        [-108.2, 31.3],
+        [-111.1, 31.3],
+        [-114.8, 32.5],
+        [-117.1, 32.5],
+        [-118.5, 34.0],
+        [-120.6, 34.5],
+        [-122.5, 37.8],
+        [-124.2, 40.4],
+        [-124.5, 42.8],
+        [-124.0, 46.2],
+    ]
+}
+
+/// A small box, standing in for an island.
+fn island(lon: f64, lat: f64, half_deg: f64) -> Vec<LonLat> {
+    vec![
+        [lon - half_deg, lat - half_deg],
+        [lon + half_deg, lat - half_deg],
+        [lon + half_deg, lat + half_deg],
+        [lon - half_deg, lat + half_deg],
+    ]
+}
+
+#[test]
+fn alaska_hawaii_and_puerto_rico_do_not_move_the_us_centre() {
+    // Regression: the 3,231 US counties (with Alaska, Hawaii and Puerto Rico) came out rotated
+    // about 30 degrees, centred in the Pacific. Stand-in: the conterminous outline above, Alaska's
+    // real polygons (us-atlas 3.0.1, Aleutians across the 180-degree meridian included), and
+    // Hawaii's and Puerto Rico's main islands as boxes at their places (from memory).
+    let alaska = features("geo/us_states_subset.geojson")
+        .into_iter()
+        .find(|(name, _)| name == "Alaska")
+        .unwrap()
+        .1;
+    let mut parts = vec![conterminous_us()];
+    parts.extend(alaska.iter().cloned());
+    let hawaii = [
+        island(-155.5, 19.6, 0.5),
+        island(-156.3, 20.8, 0.3),
+        island(-157.0, 21.5, 0.3),
+        island(-159.5, 22.1, 0.2),
+    ];
+    parts.extend(hawaii.iter().cloned());
+    parts.push(island(-66.5, 18.2, 0.4));
+    let m = MainMass::find(&parts).unwrap();
+    assert!(!m.outlying[0], "the conterminous states are the main mass");
+    assert!(
+        m.outlying[1..].iter().all(|&o| o),
+        "Alaska, Hawaii, Puerto Rico: {:?}",
+        m.outlying
+    );
+    let projection = m.projection();
+    // Snyder 1987 (ch. 14) gives standard parallels 29.5 and 45.5 N, central meridian 96 W, as
+    // the usual Albers for the conterminous US; the brief's tolerance is 6 degrees of longitude
+    // about 100 W and 4 degrees on each parallel.
+    let Projection::AlbersEqualArea {
+        lon0, lat1, lat2, ..
+    } = projection
+    else {
+        panic!("{projection:?}")
+    };
+    assert!((lon0 + 100.0).abs() <= 6.0, "{projection:?}");
+    assert!(
+        (lat1 - 29.5).abs() <= 4.0 && (lat2 - 45.5).abs() <= 4.0,
+        "{projection:?}"
+    );
+}
+
+#[test]
+fn the_us_states_fixture_centres_on_its_conterminous_states() {
+    // us-atlas 3.0.1, 13 western and central states and Alaska (tests/data/geo/PROVENANCE.md).
+    // The main mass is the 13 states; Alaska's polygons are outlying; the centre lies in the
+    // middle of the 13 states' own longitude span, whatever Alaska does across the meridian.
+    let states = features("geo/us_states_subset.geojson");
+    let mut parts = Vec::new();
+    let mut is_alaska = Vec::new();
+    for (name, polygons) in &states {
+        for p in polygons {
+            parts.push(p.clone());
+            is_alaska.push(name == "Alaska");
+        }
+    }
+    let m = MainMass::find(&parts).unwrap();
+    assert_eq!(m.outlying, is_alaska);
+    let lower: Vec<&LonLat> = parts
+        .iter()
+        .zip(&is_alaska)
+        .filter(|(_, a)| !**a)
+        .flat_map(|(p, _)| p)
+        .collect();
+    let west = lower.iter().map(|p| p[0]).fold(f64::INFINITY, f64::min);
+    let east = lower.iter().map(|p| p[0]).fold(f64::NEG_INFINITY, f64::max);
+    let south = lower.iter().map(|p| p[1]).fold(f64::INFINITY, f64::min);
+    let north = lower.iter().map(|p| p[1]).fold(f64::NEG_INFINITY, f64::max);
+    assert_eq!(
+        (m.extent.west, m.extent.east, m.extent.south, m.extent.north),
+        (west, east, south, north)
+    );
+    let projection = m.projection();
+    assert!(
+        (projection.lon0() - (west + east) / 2.0).abs() < 1e-9,
+        "{projection:?}"
+    );
+    // Alaska alone: Albers across the 180-degree meridian, centred on Alaska (its span runs
+    // from the Aleutians west of 180 to the panhandle near 130 W).
+    let alaska: Vec<Vec<LonLat>> = parts
+        .iter()
+        .zip(&is_alaska)
+        .filter(|(_, a)| **a)
+        .map(|(p, _)| p.clone())
+        .collect();
+    let projection = Projection::choose(&alaska).unwrap();
+    let Projection::AlbersEqualArea { lon0, .. } = projection else {
+        panic!("{projection:?}")
+    };
+    assert!((-165.0..=-145.0).contains(&lon0), "{projection:?}");
+}

@@ -117,6 +117,18 @@ pub fn show(frame: &Frame, window: &mut Option<SettingsDraft>, ctx: &egui::Conte
                     .small(),
                 );
             });
+            ui.separator();
+            // The projection is chosen at import for the data's extent (and saved with it).
+            ui.label(match &doc.settings().projection {
+                Some(p) => format!("Projection: {}", p.name()),
+                None => "Projection: none (the map's own coordinates)".to_string(),
+            });
+            ui.label(
+                egui::RichText::new(
+                    "Chosen when the map was imported, for the extent of its main land mass; shapes and sizes on screen and in exports follow it.",
+                )
+                .small(),
+            );
             ui.horizontal(|ui| {
                 if ui.button("Apply").clicked() {
                     apply = true;

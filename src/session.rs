@@ -4,8 +4,10 @@
 //! [`Session::apply`] (or undo, redo) changes the document through an edit, records the inverse,
 //! and brings the rules up to date from what the edit touched.
 
+use std::cell::Cell;
 use std::collections::VecDeque;
 use std::path::{Path, PathBuf};
+use std::sync::Arc;
 
 use crate::analysis::{LiveRules, Rules};
 use crate::doc::{Document, Edit, EditError, History, Touched};
@@ -28,8 +30,19 @@ pub struct Session {
     recent: VecDeque<(u64, u64)>,
     /// The state the file on disk holds; `None` when no state does (recovered work).
     saved_state: Option<u64>,
+    /// The document as the file on disk holds it (for maps up to [`EXACT_DIRTY_LIMIT`]
+    /// regions), so that a change taken back by hand rather than by Undo leaves the work clean.
+    saved_copy: Option<Arc<Document>>,
+    /// The last state compared with the saved copy, and whether it differed.
+    compared: Cell<Option<(u64, bool)>>,
     rules: LiveRules,
 }
+
+/// Up to this many regions, a session keeps a copy of the document as saved and tells unsaved
+/// work by content: a change taken back by hand (a marker placed, then deleted) leaves the work
+/// clean. Larger maps tell it by the history alone (comparing would cost a pass over the whole
+/// map after every edit, and the copy doubles the memory).
+pub const EXACT_DIRTY_LIMIT: usize = 50_000;
 
 /// How many revisions [`Session::saved`] can still place.
 const RECENT_REVISIONS: usize = 256;
@@ -48,8 +61,11 @@ impl Session {
             redo_states: Vec::new(),
             recent: VecDeque::new(),
             saved_state: Some(0),
+            saved_copy: None,
+            compared: Cell::new(None),
             doc,
         };
+        session.keep_saved_copy(None);
         session.note_state();
         session
     }
@@ -59,6 +75,7 @@ impl Session {
     pub fn unsaved(doc: Document, path: Option<PathBuf>) -> Session {
         let mut session = Session::new(doc, path);
         session.saved_state = None;
+        session.saved_copy = None;
         session
     }
 
@@ -80,8 +97,35 @@ impl Session {
     }
     /// True when the document differs from what is on disk (or was never saved as it is): a
     /// change undone back to the saved state leaves it clean.
+    /// Exact for maps up to [`EXACT_DIRTY_LIMIT`] regions: the document is compared with the
+    /// saved copy (once per state); above it, any change since the save counts until undone.
     pub fn is_dirty(&self) -> bool {
-        self.saved_state != Some(self.state)
+        if self.saved_state == Some(self.state) {
+            return false;
+        }
+        let Some(copy) = &self.saved_copy else {
+            return true;
+        };
+        if let Some((state, dirty)) = self.compared.get()
+            && state == self.state
+        {
+            return dirty;
+        }
+        let dirty = **copy != self.doc;
+        self.compared.set(Some((self.state, dirty)));
+        dirty
+    }
+
+    /// Keeps the document as saved: `written` when the save says what it wrote, else the
+    /// document itself when it is still at the saved state (nothing otherwise).
+    fn keep_saved_copy(&mut self, written: Option<Arc<Document>>) {
+        self.compared.set(None);
+        self.saved_copy = match written {
+            Some(doc) => Some(doc),
+            None if self.saved_state == Some(self.state) => Some(Arc::new(self.doc.clone())),
+            None => None,
+        }
+        .filter(|d| d.regions().len() <= EXACT_DIRTY_LIMIT);
     }
 
     fn note_state(&mut self) {
@@ -175,6 +219,12 @@ impl Session {
     /// Records that `revision` was written to `path` (a save, possibly finished on another
     /// thread). The document is clean only if it is still at that revision.
     pub fn saved(&mut self, path: PathBuf, revision: u64) {
+        self.saved_with(path, revision, None);
+    }
+
+    /// As [`Session::saved`], with the document the save wrote (its snapshot), so that the work
+    /// is clean whenever it comes back to that content.
+    pub fn saved_with(&mut self, path: PathBuf, revision: u64, written: Option<Arc<Document>>) {
         self.path = Some(path);
         self.saved_state = self
             .recent
@@ -182,12 +232,16 @@ impl Session {
             .rev()
             .find(|(r, _)| *r == revision)
             .map(|(_, state)| *state);
+        let written = written.filter(|d| d.revision() == revision);
+        self.keep_saved_copy(written);
     }
 
     /// Forgets that the file on disk matches any revision (so quitting asks, and autosave keeps
     /// the work).
     pub fn mark_unsaved(&mut self) {
         self.saved_state = None;
+        self.saved_copy = None;
+        self.compared.set(None);
     }
 
     /// Saves to `path` now, in the format its extension names, and makes it the session's file.
@@ -251,5 +305,35 @@ mod tests {
         // Recovered work is on no disk.
         let r = Session::unsaved(Document::new("r"), None);
         assert!(r.is_dirty());
+    }
+
+    #[test]
+    fn a_change_taken_back_by_hand_leaves_the_work_clean() {
+        // Found by the random editor test: a marker placed and then deleted (not undone) left the
+        // work marked unsaved though the document was as saved.
+        let mut s = Session::new(Document::new("t"), None);
+        add(&mut s, 1);
+        assert!(s.is_dirty());
+        s.apply(Edit::PutRegion {
+            id: RegionId(1),
+            region: None,
+        })
+        .unwrap();
+        assert!(!s.is_dirty(), "the same content as the file");
+        // The same after a save that finished while the document moved on.
+        add(&mut s, 2);
+        let written = s.doc().revision();
+        let copy = Arc::new(s.doc().clone());
+        add(&mut s, 3);
+        s.saved_with(PathBuf::from("x.tinct"), written, Some(copy));
+        assert!(s.is_dirty());
+        s.apply(Edit::PutRegion {
+            id: RegionId(3),
+            region: None,
+        })
+        .unwrap();
+        assert!(!s.is_dirty());
+        s.mark_unsaved();
+        assert!(s.is_dirty());
     }
 }

@@ -643,3 +643,21 @@ fn evening_out_colours_that_change_nothing_leaves_nothing_unsaved() {
         run_sequence(&steps, workers).unwrap();
     }
 }
+
+#[test]
+fn a_marker_placed_and_deleted_leaves_nothing_unsaved() {
+    // Found by the random run (with the background threads): a marker placed, then deleted
+    // through the command list while the Open window waited, left the work marked unsaved
+    // though it was as opened.
+    let steps = [
+        command(Command::Open, false),
+        Step::ClickRegion {
+            tool: Tool::ALL.iter().position(|t| *t == Tool::Place).unwrap(),
+            pick: 0,
+        },
+        command(Command::DeleteRegion, false),
+    ];
+    for workers in [false, true] {
+        run_sequence(&steps, workers).unwrap();
+    }
+}

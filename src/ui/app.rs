@@ -359,8 +359,9 @@ impl App {
             JobResult::Saved {
                 path,
                 revision,
+                written,
                 result,
-            } => self.saved(path, revision, result),
+            } => self.saved(path, revision, written, result),
             JobResult::Autosaved { revision, result } => match result {
                 // Saved meanwhile: what was written aside is not needed (nor wanted at the
                 // next start).
@@ -747,18 +748,26 @@ impl App {
             result: crate::formats::save(&snapshot, &job_path).map_err(|e| format!("{e:#}")),
             path: job_path,
             revision,
+            written: snapshot,
         };
         if self.run_file_job(revision, JobKind::Save, Box::new(job)) {
             self.say(Level::Info, format!("Saving {}…", path.display()));
         }
     }
 
-    fn saved(&mut self, path: PathBuf, revision: u64, result: Result<(), String>) {
+    fn saved(
+        &mut self,
+        path: PathBuf,
+        revision: u64,
+        written: std::sync::Arc<Document>,
+        result: Result<(), String>,
+    ) {
         match result {
             Ok(()) => {
                 let is_project = path.extension().is_some_and(|e| e == doc::file::EXTENSION);
                 if is_project {
-                    self.session.saved(path.clone(), revision);
+                    self.session
+                        .saved_with(path.clone(), revision, Some(written));
                     self.remember(&path);
                 }
                 self.say(Level::Info, format!("Saved {}", path.display()));

@@ -30,6 +30,8 @@ pub enum JobResult {
     Saved {
         path: PathBuf,
         revision: u64,
+        /// The document as written.
+        written: std::sync::Arc<Document>,
         result: Result<(), String>,
     },
     /// Unsaved work written aside as of `revision`, or why not.

@@ -123,24 +123,38 @@ const LABELS: &[&str] = &[
     "Tinct 4 with two reserves",
 ];
 
-/// Files a user opens: the sample maps and small real boundary files.
-fn openable() -> Vec<PathBuf> {
-    let root = root();
-    let mut files: Vec<PathBuf> = [
-        "sample-maps/vessland-province.tinct",
-        "sample-maps/three-valleys.tinct",
-        "sample-maps/exclave-coast.tinct",
-        "sample-maps/three-valleys.geojson",
-        "tests/data/geo/columbus.shp",
-        "tests/data/geo/columbus.gpkg",
-        "tests/data/geo/world50m_caucasus.topojson",
-        "tests/data/geo/us_states_subset.fgb",
-    ]
-    .iter()
-    .map(|p| root.join(p))
-    .collect();
-    files.push(PathBuf::from("/no/such/file.tinct"));
-    files
+/// Files a user opens: the sample maps and small real boundary files, as copies in the
+/// sequence's temporary folder (Save writes over an opened project), and one that is missing.
+const OPENABLE: &[&str] = &[
+    "sample-maps/vessland-province.tinct",
+    "sample-maps/three-valleys.tinct",
+    "sample-maps/exclave-coast.tinct",
+    "sample-maps/three-valleys.geojson",
+    "tests/data/geo/columbus.shp",
+    "tests/data/geo/columbus.gpkg",
+    "tests/data/geo/world50m_caucasus.topojson",
+    "tests/data/geo/us_states_subset.fgb",
+    "missing/file.tinct",
+];
+
+/// Copies the files of [`OPENABLE`] (a shapefile with its `.shx` and `.dbf`) into `dir`.
+fn copy_openable(dir: &Path) {
+    for file in OPENABLE {
+        let from = root().join(file);
+        let mut sources = vec![from.clone()];
+        if from.extension().is_some_and(|e| e == "shp") {
+            sources.extend(["shx", "dbf"].map(|e| from.with_extension(e)));
+        }
+        for source in sources.into_iter().filter(|p| p.exists()) {
+            std::fs::copy(&source, dir.join(source.file_name().unwrap())).unwrap();
+        }
+    }
+}
+
+/// Where the copy of `OPENABLE[pick]` is.
+fn openable(dir: &Path, pick: usize) -> PathBuf {
+    let file = OPENABLE[pick % OPENABLE.len()];
+    dir.join(Path::new(file).file_name().unwrap())
 }
 
 fn step() -> impl Strategy<Value = Step> {
@@ -163,7 +177,7 @@ fn step() -> impl Strategy<Value = Step> {
         ]
         .prop_map(Step::Key),
         5 => (0..LABELS.len()).prop_map(Step::ClickLabel),
-        1 => (0..openable().len()).prop_map(Step::Open),
+        1 => (0..OPENABLE.len()).prop_map(Step::Open),
         1 => (0..4usize).prop_map(Step::SaveAs),
         1 => (-400.0f32..400.0).prop_map(Step::Wheel),
         1 => (1..4u8).prop_map(Step::Wait),
@@ -241,9 +255,8 @@ fn answer_path_prompt(h: &mut Harness<'static, App>, dir: &Path, pick: usize) {
     let Some(purpose) = h.state().dialogs.path.prompt.as_ref().map(|p| p.purpose) else {
         return;
     };
-    let files = openable();
     let path = match purpose {
-        PathPurpose::Open => files[pick % files.len()].clone(),
+        PathPurpose::Open => openable(dir, pick),
         PathPurpose::SaveAs => dir.join(format!("project-{}.tinct", pick % 3)),
         PathPurpose::ExportProof => dir.join("proof"),
         // A mistyped extension now and then: the export must add the right one and say so.
@@ -558,6 +571,14 @@ fn check_end(h: &mut Harness<'static, App>, model: &Model) -> Result<(), String>
 /// Runs one sequence; the error names the step that broke an invariant.
 fn run_sequence(steps: &[Step], workers: bool) -> Result<usize, String> {
     let dir = tempfile::tempdir().unwrap();
+    copy_openable(dir.path());
+    // The repository's own files are never written (a run once saved over a sample map).
+    let sources: Vec<(PathBuf, Vec<u8>)> = OPENABLE
+        .iter()
+        .map(|f| root().join(f))
+        .filter(|p| p.exists())
+        .map(|p| (p.clone(), std::fs::read(&p).unwrap()))
+        .collect();
     let mut h = harness(dir.path(), workers);
     settle(&mut h)?;
     let mut model = Model {
@@ -575,6 +596,11 @@ fn run_sequence(steps: &[Step], workers: bool) -> Result<usize, String> {
         check(&h, &mut model).map_err(|e| format!("after step {i} ({step:?}): {e}"))?;
     }
     check_end(&mut h, &model).map_err(|e| format!("at the end: {e}"))?;
+    for (path, bytes) in sources {
+        if std::fs::read(&path).unwrap() != bytes {
+            return Err(format!("{} was written", path.display()));
+        }
+    }
     Ok(model.actions)
 }
 

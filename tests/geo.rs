@@ -1598,21 +1598,11 @@ fn deriving_borders_again_with_a_tolerance_matches_importing_with_it() {
 
 /// A GeoJSON polygon feature for a longitude/latitude box, its edges split every degree.
 fn box_feature(name: &str, west: f64, east: f64, south: f64, north: f64) -> String {
-    let n_lon = (east - west).ceil() as usize;
-    let n_lat = (north - south).ceil() as usize;
-    let mut ring = Vec::new();
-    for i in 0..n_lon {
-        ring.push([west + (east - west) * i as f64 / n_lon as f64, south]);
-    }
-    for i in 0..n_lat {
-        ring.push([east, south + (north - south) * i as f64 / n_lat as f64]);
-    }
-    for i in 0..n_lon {
-        ring.push([east - (east - west) * i as f64 / n_lon as f64, north]);
-    }
-    for i in 0..n_lat {
-        ring.push([west, north - (north - south) * i as f64 / n_lat as f64]);
-    }
+    let steps = [
+        (east - west).ceil() as usize,
+        (north - south).ceil() as usize,
+    ];
+    let mut ring = tinct::projection::lon_lat_box(west, east, south, north, steps);
     ring.push(ring[0]);
     let coordinates: Vec<String> = ring
         .iter()

@@ -418,22 +418,11 @@ mod tests {
 
     /// A longitude/latitude box as an open ring, its edges split into steps of at most a degree.
     fn lon_lat_box(west: f64, east: f64, south: f64, north: f64) -> Vec<LonLat> {
-        let n_lon = ((east - west).abs().ceil() as usize).max(1);
-        let n_lat = ((north - south).abs().ceil() as usize).max(1);
-        let mut ring = Vec::new();
-        for i in 0..n_lon {
-            ring.push([west + (east - west) * i as f64 / n_lon as f64, south]);
-        }
-        for i in 0..n_lat {
-            ring.push([east, south + (north - south) * i as f64 / n_lat as f64]);
-        }
-        for i in 0..n_lon {
-            ring.push([east - (east - west) * i as f64 / n_lon as f64, north]);
-        }
-        for i in 0..n_lat {
-            ring.push([west, north - (north - south) * i as f64 / n_lat as f64]);
-        }
-        ring
+        let steps = [
+            (east - west).abs().ceil() as usize,
+            (north - south).abs().ceil() as usize,
+        ];
+        super::super::lon_lat_box(west, east, south, north, steps)
     }
 
     /// Rough continents as boxes (coordinates of the trade, from memory, to a few degrees), split

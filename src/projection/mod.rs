@@ -28,6 +28,20 @@ pub use choose::{Extent, MainMass, REACH_DEG, outlying_parts};
 /// `[longitude, latitude]` in degrees, or `[x, y]` in metres once projected.
 pub type LonLat = [f64; 2];
 
+/// The outline of a longitude/latitude box as an open ring (south edge eastwards, then east,
+/// north and west), each edge split into `steps` equal parts (`[along longitude, along
+/// latitude]`, at least one each), so that its projected outline follows the curves.
+pub fn lon_lat_box(west: f64, east: f64, south: f64, north: f64, steps: [usize; 2]) -> Vec<LonLat> {
+    let [n_lon, n_lat] = steps.map(|n| n.max(1));
+    let along = |from: f64, to: f64, i: usize, n: usize| from + (to - from) * i as f64 / n as f64;
+    let mut ring = Vec::with_capacity(2 * (n_lon + n_lat));
+    ring.extend((0..n_lon).map(|i| [along(west, east, i, n_lon), south]));
+    ring.extend((0..n_lat).map(|i| [east, along(south, north, i, n_lat)]));
+    ring.extend((0..n_lon).map(|i| [along(east, west, i, n_lon), north]));
+    ring.extend((0..n_lat).map(|i| [west, along(north, south, i, n_lat)]));
+    ring
+}
+
 /// Authalic (equal-area) radius of the GRS 80 ellipsoid in metres (from memory: 6371007.181 m,
 /// the value used by equal-area grids on a sphere).
 pub const AUTHALIC_RADIUS_M: f64 = 6_371_007.181;
@@ -343,21 +357,7 @@ mod tests {
 
     /// A latitude/longitude cell, densified so that its projected outline follows the curves.
     fn cell(lon1: f64, lon2: f64, lat1: f64, lat2: f64) -> Vec<LonLat> {
-        let n = 400;
-        let mut ring = Vec::new();
-        for i in 0..n {
-            ring.push([lon1 + (lon2 - lon1) * i as f64 / n as f64, lat1]);
-        }
-        for i in 0..n {
-            ring.push([lon2, lat1 + (lat2 - lat1) * i as f64 / n as f64]);
-        }
-        for i in 0..n {
-            ring.push([lon2 - (lon2 - lon1) * i as f64 / n as f64, lat2]);
-        }
-        for i in 0..n {
-            ring.push([lon1, lat2 - (lat2 - lat1) * i as f64 / n as f64]);
-        }
-        ring
+        lon_lat_box(lon1, lon2, lat1, lat2, [400, 400])
     }
 
     const ALL: [Projection; 5] = [

@@ -69,8 +69,12 @@ enum Step {
     Wheel(f32),
     /// Lets frames pass.
     Wait(u8),
-    /// Switches a region between land and water and cancels the analysis that starts.
-    EditThenCancel(usize),
+    /// Switches a region between land and water, asks for the fewest colours (when
+    /// `colour_first`) while the analysis that starts is running, and cancels it.
+    EditThenCancel {
+        pick: usize,
+        colour_first: bool,
+    },
 }
 
 #[derive(Clone, Copy, Debug)]
@@ -181,7 +185,8 @@ fn step() -> impl Strategy<Value = Step> {
         1 => (0..4usize).prop_map(Step::SaveAs),
         1 => (-400.0f32..400.0).prop_map(Step::Wheel),
         1 => (1..4u8).prop_map(Step::Wait),
-        1 => any::<usize>().prop_map(Step::EditThenCancel),
+        1 => (any::<usize>(), any::<bool>())
+            .prop_map(|(pick, colour_first)| Step::EditThenCancel { pick, colour_first }),
     ]
 }
 
@@ -378,7 +383,7 @@ fn run_step(h: &mut Harness<'static, App>, dir: &Path, step: &Step) {
             }
         }
         Step::Wait(n) => frames(h, *n as usize),
-        Step::EditThenCancel(pick) => {
+        Step::EditThenCancel { pick, colour_first } => {
             run_step(
                 h,
                 dir,
@@ -387,6 +392,10 @@ fn run_step(h: &mut Harness<'static, App>, dir: &Path, step: &Step) {
                     pick: *pick,
                 },
             );
+            if *colour_first {
+                h.state_mut().emit(Command::ColourFewest);
+                frames(h, 1);
+            }
             h.state_mut().cancel_analysis();
             frames(h, 1);
         }
@@ -606,7 +615,15 @@ fn run_sequence(steps: &[Step], workers: bool) -> Result<usize, String> {
 
 static ACTIONS: std::sync::atomic::AtomicUsize = std::sync::atomic::AtomicUsize::new(0);
 
+static FAILED: std::sync::atomic::AtomicBool = std::sync::atomic::AtomicBool::new(false);
+
 fn record(result: Result<usize, String>) -> Result<(), TestCaseError> {
+    // The first failure is printed at once: shrinking a long sequence takes a while.
+    if let Err(e) = &result
+        && !FAILED.swap(true, std::sync::atomic::Ordering::Relaxed)
+    {
+        eprintln!("random editor use: first failure, shrinking now: {e}");
+    }
     match result {
         Ok(n) => {
             let total = ACTIONS.fetch_add(n, std::sync::atomic::Ordering::Relaxed) + n;
@@ -621,6 +638,7 @@ proptest! {
     #![proptest_config(ProptestConfig {
         cases: env("TINCT_RANDOM_CASES", 3) as u32,
         max_shrink_iters: 2000,
+        max_shrink_time: 20 * 60 * 1000,
         ..ProptestConfig::default()
     })]
     /// Jobs run at once, so every step is deterministic and shrinks well.
@@ -686,4 +704,34 @@ fn a_marker_placed_and_deleted_leaves_nothing_unsaved() {
     for workers in [false, true] {
         run_sequence(&steps, workers).unwrap();
     }
+}
+
+#[test]
+fn colouring_after_a_cancelled_analysis_starts_one() {
+    // Found by the random run (with the background threads): after the analysis was cancelled,
+    // "Colour with the fewest colours" waited for an analysis that nothing started, and the
+    // colours landed much later, in the middle of undoing, throwing away the redo steps.
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(dir.path(), true);
+    settle(&mut h).unwrap();
+    assert!(h.state().session.doc().colouring().is_empty());
+    let id = *h.state().session.doc().regions().keys().next().unwrap();
+    h.state_mut().edit(tinct::doc::Edit::UpdateRegion {
+        id,
+        change: tinct::doc::RegionChange::Name("Renamed".into()),
+    });
+    // The analysis of the new revision starts and is cancelled at once (it takes milliseconds,
+    // the cancel microseconds).
+    h.state_mut().start_analysis();
+    h.state_mut().cancel_analysis();
+    settle(&mut h).unwrap();
+    assert!(h.state().analysis_is_stale());
+    h.state_mut().emit(Command::ColourFewest);
+    frames(&mut h, 1);
+    settle(&mut h).unwrap();
+    assert!(
+        !h.state().session.doc().colouring().is_empty(),
+        "the colouring is applied once its analysis is in"
+    );
+    assert!(!h.state().apply_when_ready);
 }

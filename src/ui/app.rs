@@ -433,6 +433,7 @@ impl App {
         self.dialogs.walk = None;
         self.palette_warnings = PaletteWarnings::of(self.session.doc());
         self.analysis = None;
+        self.apply_when_ready = false;
         self.analysis_requested = None;
         self.seen_revision = u64::MAX;
     }
@@ -694,9 +695,16 @@ impl App {
     pub fn cancel_analysis(&mut self) {
         if let Some(w) = &mut self.worker {
             w.cancel(JobKind::Analysis);
+            // A colouring waiting for this analysis is called off with it: applied later, it
+            // would land at a moment the user did not choose (after an undo, say).
+            let waiting = std::mem::take(&mut self.apply_when_ready);
             self.say(
                 Level::Info,
-                "Analysis cancelled; it starts again after the next change",
+                if waiting {
+                    "Analysis cancelled, and with it the colouring that waited for it; it starts again after the next change"
+                } else {
+                    "Analysis cancelled; it starts again after the next change"
+                },
             );
         }
     }
@@ -1068,6 +1076,17 @@ impl App {
             Command::ColourFewest => {
                 if self.analysis_is_stale() {
                     self.apply_when_ready = true;
+                    // No analysis of this revision under way (one was cancelled): start one, or
+                    // the colours would wait for an edit and land at a moment nobody chose.
+                    let revision = self.session.doc().revision();
+                    let running = self
+                        .worker
+                        .as_ref()
+                        .and_then(|w| w.busy(JobKind::Analysis))
+                        .is_some_and(|(r, _)| r == revision);
+                    if !running {
+                        self.start_analysis();
+                    }
                     self.say(
                         Level::Info,
                         "Colouring: the colours are applied as soon as the analysis finishes",

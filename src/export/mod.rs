@@ -5,11 +5,14 @@
 //! command line and the editor write them where the user asked. Beside `formats` in the layering:
 //! uses `doc`, `colour` and `geo` (for the inverse projection), and nothing above.
 
+pub mod contrast;
 pub mod csv;
 pub mod geojson;
 pub mod gis;
 pub mod gpkg;
+pub mod lines;
 pub mod png;
+pub mod polylabel;
 pub mod shp;
 pub mod svg;
 

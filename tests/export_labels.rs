@@ -195,7 +195,12 @@ fn check_labels(doc: &Document, options: &SvgOptions) -> Checked {
         let attr = |a: &str| n.attribute(a).or_else(|| parent.attribute(a));
         labels.push(Label {
             id: id.trim_start_matches("label-").to_string(),
-            text: n.text().unwrap_or_default().to_string(),
+            text: n
+                .descendants()
+                .filter(|d| d.is_text())
+                .filter_map(|d| d.text())
+                .collect::<Vec<_>>()
+                .join(" "),
             ink: attr("fill").unwrap().to_string(),
             halo: attr("stroke").unwrap().to_string(),
             italic: attr("font-style") == Some("italic"),

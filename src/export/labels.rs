@@ -8,7 +8,8 @@
 //! - **Anchor**: the pole of inaccessibility of the region's largest part
 //!   ([`super::polylabel`]), the interior point farthest from its outline.
 //! - **Size** steps with the region's area on the page ([`size_step`]): three sizes from
-//!   `label_min_mm` to `label_max_mm`. A name that does not fit at its size tries the smaller steps.
+//!   `label_min_mm` to `label_max_mm`. A name that does not fit at its size tries the smaller steps;
+//!   at each size a name of several words may also be set on two lines ([`layouts`]).
 //! - **Order**: largest region first, so the big names take their places before the small ones.
 //! - **Inside**: the label's box (the estimated text box plus the halo, widened by
 //!   [`INSIDE_MARGIN_MM`]) must lie inside the region: its corners and centre inside, and no edge
@@ -52,6 +53,8 @@ pub const LEADER_MAX_AREA_MM2: f64 = 120.0;
 pub const MARKER_RADIUS_MM: f64 = 2.2;
 /// Text box height as a multiple of the font size, and the baseline below the box's centre.
 pub const BOX_HEIGHT_EM: f64 = 1.18;
+/// Baseline to baseline in a name set on two lines, as a multiple of the font size.
+pub const LINE_ADVANCE_EM: f64 = 1.15;
 pub const BASELINE_BELOW_CENTRE_EM: f64 = 0.35;
 /// Water names: a deep blue that reaches 4.5:1 against the water's ground colour (see the tests).
 pub const WATER_INK: Rgb = Rgb([0x1f, 0x4e, 0x6e]);
@@ -108,6 +111,8 @@ pub type BoxMm = [[f64; 2]; 2];
 pub struct Placement {
     pub id: RegionId,
     pub text: String,
+    /// The name as set: one line, or two when a name of several words fits better so.
+    pub lines: Vec<String>,
     /// The centre of the text box, in page millimetres.
     pub centre_mm: [f64; 2],
     pub size_mm: f64,
@@ -210,9 +215,33 @@ fn rings_meet_box(rings: &[Vec<Point>], b: &BoxMm) -> bool {
     })
 }
 
-fn label_box(centre: Point, text: &str, size_mm: f64) -> BoxMm {
-    let half_w = text_width_mm(text, size_mm) / 2.0 + HALO_MM / 2.0;
-    let half_h = BOX_HEIGHT_EM * size_mm / 2.0 + HALO_MM / 2.0;
+/// The ways to set a name: on one line, then (for a name of several words) on two lines broken
+/// at the space that makes the longer line shortest.
+pub fn layouts(name: &str) -> Vec<Vec<String>> {
+    let mut out = vec![vec![name.to_string()]];
+    let best = name
+        .char_indices()
+        .filter(|(_, c)| *c == ' ')
+        .map(|(i, _)| {
+            let (a, b) = (name[..i].trim(), name[i..].trim());
+            (text_width_mm(a, 1.0).max(text_width_mm(b, 1.0)), a, b)
+        })
+        .filter(|(_, a, b)| !a.is_empty() && !b.is_empty())
+        .min_by(|x, y| x.0.total_cmp(&y.0));
+    if let Some((_, a, b)) = best {
+        out.push(vec![a.to_string(), b.to_string()]);
+    }
+    out
+}
+
+fn label_box(centre: Point, lines: &[String], size_mm: f64) -> BoxMm {
+    let widest = lines
+        .iter()
+        .map(|l| text_width_mm(l, size_mm))
+        .fold(0.0, f64::max);
+    let extra_lines = lines.len().saturating_sub(1) as f64;
+    let half_w = widest / 2.0 + HALO_MM / 2.0;
+    let half_h = (BOX_HEIGHT_EM + extra_lines * LINE_ADVANCE_EM) * size_mm / 2.0 + HALO_MM / 2.0;
     [
         [centre[0] - half_w, centre[1] - half_h],
         [centre[0] + half_w, centre[1] + half_h],
@@ -330,7 +359,7 @@ pub fn place(
     let mut pending: Vec<&Candidate> = Vec::new();
     for c in &candidates {
         match place_inside(c, &sizes, &placed) {
-            Some((centre, size, b)) => {
+            Some((centre, size, b, set)) => {
                 let (ink, halo) = inks(c);
                 placed.insert(GeomWithData::new(
                     Rectangle::from_corners(b[0], b[1]),
@@ -339,6 +368,7 @@ pub fn place(
                 out.push(Placement {
                     id: c.id,
                     text: c.name.clone(),
+                    lines: set,
                     centre_mm: centre,
                     size_mm: size,
                     box_mm: b,
@@ -388,7 +418,7 @@ pub fn place(
             None
         };
         match placement {
-            Some(((centre, b, leader), host)) => {
+            Some(((centre, b, leader, set), host)) => {
                 let (ink, halo) = leader_inks(c, host);
                 placed.insert(GeomWithData::new(
                     Rectangle::from_corners(b[0], b[1]),
@@ -398,6 +428,7 @@ pub fn place(
                 out.push(Placement {
                     id: c.id,
                     text: c.name.clone(),
+                    lines: set,
                     centre_mm: centre,
                     size_mm: sizes[0],
                     box_mm: b,
@@ -425,7 +456,8 @@ pub fn place(
             x,
             y - MARKER_RADIUS_MM - 1.0 - BASELINE_BELOW_CENTRE_EM * size,
         ];
-        let b = label_box(centre, name, size);
+        let set = vec![name.to_string()];
+        let b = label_box(centre, &set, size);
         if collides(&placed, &b) {
             report.left_out.push(name.to_string());
             continue;
@@ -437,6 +469,7 @@ pub fn place(
         out.push(Placement {
             id: *id,
             text: name.to_string(),
+            lines: set,
             centre_mm: centre,
             size_mm: size,
             box_mm: b,
@@ -481,48 +514,54 @@ fn inks(c: &Candidate) -> (Rgb, Rgb) {
     }
 }
 
-fn place_inside(c: &Candidate, sizes: &[f64; 3], placed: &Placed) -> Option<(Point, f64, BoxMm)> {
+/// Where a name goes inside its region: centre, size, box and lines.
+type Inside = (Point, f64, BoxMm, Vec<String>);
+
+fn place_inside(c: &Candidate, sizes: &[f64; 3], placed: &Placed) -> Option<Inside> {
     let (pole, distance) = c.pole?;
     let step = size_step(c.area_mm2);
+    let sets = layouts(&c.name);
     for &size in sizes[..=step].iter().rev() {
-        let b0 = label_box([0.0, 0.0], &c.name, size);
-        let (w, h) = (b0[1][0] - b0[0][0], b0[1][1] - b0[0][1]);
-        // A box inside the region keeps its centre at least half its height from the outline, so
-        // when even the pole is closer than that, no position can work.
-        if distance < h / 2.0 + INSIDE_MARGIN_MM {
-            continue;
-        }
-        // Near the pole first (in steps of a quarter of the box's width and half its height),
-        // then anywhere in the largest part on a grid of at most about 600 points, nearest the
-        // pole first: a long name may fit only along a part's widest stretch.
-        let mut centres: Vec<Point> = Vec::new();
-        for dy in [0.0, -0.5, 0.5, -1.0, 1.0, -1.5, 1.5] {
-            for dx in [0.0, -0.25, 0.25, -0.5, 0.5] {
-                centres.push([pole[0] + dx * w, pole[1] + dy * h]);
+        for set in &sets {
+            let b0 = label_box([0.0, 0.0], set, size);
+            let (w, h) = (b0[1][0] - b0[0][0], b0[1][1] - b0[0][1]);
+            // A box inside the region keeps its centre at least half its smaller side from the
+            // outline, so when even the pole is closer than that, no position can work.
+            if distance < w.min(h) / 2.0 + INSIDE_MARGIN_MM {
+                continue;
             }
-        }
-        let pb = &c.part_box;
-        let span = [pb[1][0] - pb[0][0] - w, pb[1][1] - pb[0][1] - h];
-        if span[0] > 0.0 && span[1] > 0.0 {
-            let cell = (span[0] * span[1] / 600.0).sqrt().max(h / 2.0);
-            let mut grid = Vec::new();
-            let (nx, ny) = ((span[0] / cell) as usize, (span[1] / cell) as usize);
-            for i in 0..=nx {
-                for j in 0..=ny {
-                    grid.push([
-                        pb[0][0] + w / 2.0 + i as f64 * cell,
-                        pb[0][1] + h / 2.0 + j as f64 * cell,
-                    ]);
+            // Near the pole first (in steps of a quarter of the box's width and half its height),
+            // then anywhere in the largest part on a grid of at most about 600 points, nearest the
+            // pole first: a long name may fit only along a part's widest stretch.
+            let mut centres: Vec<Point> = Vec::new();
+            for dy in [0.0, -0.5, 0.5, -1.0, 1.0, -1.5, 1.5] {
+                for dx in [0.0, -0.25, 0.25, -0.5, 0.5] {
+                    centres.push([pole[0] + dx * w, pole[1] + dy * h]);
                 }
             }
-            let d2 = |p: &Point| (p[0] - pole[0]).powi(2) + (p[1] - pole[1]).powi(2);
-            grid.sort_by(|a, b| d2(a).total_cmp(&d2(b)));
-            centres.extend(grid);
-        }
-        for centre in centres {
-            let b = label_box(centre, &c.name, size);
-            if !collides(placed, &b) && box_inside(&c.rings, &grown(&b, INSIDE_MARGIN_MM)) {
-                return Some((centre, size, b));
+            let pb = &c.part_box;
+            let span = [pb[1][0] - pb[0][0] - w, pb[1][1] - pb[0][1] - h];
+            if span[0] > 0.0 && span[1] > 0.0 {
+                let cell = (span[0] * span[1] / 600.0).sqrt().max(h / 2.0);
+                let mut grid = Vec::new();
+                let (nx, ny) = ((span[0] / cell) as usize, (span[1] / cell) as usize);
+                for i in 0..=nx {
+                    for j in 0..=ny {
+                        grid.push([
+                            pb[0][0] + w / 2.0 + i as f64 * cell,
+                            pb[0][1] + h / 2.0 + j as f64 * cell,
+                        ]);
+                    }
+                }
+                let d2 = |p: &Point| (p[0] - pole[0]).powi(2) + (p[1] - pole[1]).powi(2);
+                grid.sort_by(|a, b| d2(a).total_cmp(&d2(b)));
+                centres.extend(grid);
+            }
+            for centre in centres {
+                let b = label_box(centre, set, size);
+                if !collides(placed, &b) && box_inside(&c.rings, &grown(&b, INSIDE_MARGIN_MM)) {
+                    return Some((centre, size, b, set.clone()));
+                }
             }
         }
     }
@@ -592,10 +631,35 @@ fn place_with_leader(
     land: &LandIndex,
     page: &BoxMm,
     leaders: &[[[f64; 2]; 2]],
-) -> Option<(Point, BoxMm, [[f64; 2]; 2])> {
+) -> Option<Outside> {
     // Start the line at the pole (inside the region by construction).
     let (start, _) = c.pole?;
-    let b0 = label_box([0.0, 0.0], &c.name, size);
+    for set in layouts(&c.name) {
+        if let Some(found) =
+            place_set_with_leader(c, &set, start, size, host, placed, land, page, leaders)
+        {
+            return Some(found);
+        }
+    }
+    None
+}
+
+/// Where a name with a leader line goes: centre, box, the line, and the lines of the name.
+type Outside = (Point, BoxMm, [[f64; 2]; 2], Vec<String>);
+
+#[allow(clippy::too_many_arguments)]
+fn place_set_with_leader(
+    c: &Candidate,
+    set: &[String],
+    start: Point,
+    size: f64,
+    host: Option<&[Vec<Point>]>,
+    placed: &Placed,
+    land: &LandIndex,
+    page: &BoxMm,
+    leaders: &[[[f64; 2]; 2]],
+) -> Option<Outside> {
+    let b0 = label_box([0.0, 0.0], set, size);
     let (half_w, half_h) = ((b0[1][0] - b0[0][0]) / 2.0, (b0[1][1] - b0[0][1]) / 2.0);
     // Sixteen directions, right and left first (a name beside its place reads best), at growing
     // distances from the region.
@@ -609,7 +673,7 @@ fn place_with_leader(
             // From the pole to the box's near side: the gap plus the half-extent along the ray.
             let reach = gap + half_w * dx.abs() + half_h * dy.abs();
             let centre = [start[0] + dx * reach, start[1] + dy * reach];
-            let b = label_box(centre, &c.name, size);
+            let b = label_box(centre, set, size);
             let inside_page = b[0][0] >= page[0][0]
                 && b[0][1] >= page[0][1]
                 && b[1][0] <= page[1][0]
@@ -645,7 +709,7 @@ fn place_with_leader(
             if crosses_label || crosses_leader {
                 continue;
             }
-            return Some((centre, b, line));
+            return Some((centre, b, line, set.to_vec()));
         }
     }
     None
@@ -685,6 +749,21 @@ mod tests {
         assert!(char_width_em('i') >= 0.278);
         assert!(char_width_em('é') >= 1.0);
         assert!((text_width_mm("ii", 2.0) - 2.0 * 2.0 * 0.28).abs() < 1e-12);
+    }
+
+    #[test]
+    fn names_of_several_words_may_take_two_lines_broken_where_the_longer_line_is_shortest() {
+        assert_eq!(layouts("Texas"), vec![vec!["Texas".to_string()]]);
+        let two = layouts("Lake and Peninsula");
+        // By hand from the width table: "Lake and" is 4.60 em and "Peninsula" 4.86 em, while
+        // "Lake" and "and Peninsula" would make a 7.08 em line.
+        assert_eq!(
+            two[1],
+            vec!["Lake and".to_string(), "Peninsula".to_string()]
+        );
+        let b1 = label_box([0.0, 0.0], &two[0], 2.0);
+        let b2 = label_box([0.0, 0.0], &two[1], 2.0);
+        assert!(b2[1][0] < b1[1][0] && b2[1][1] > b1[1][1]);
     }
 
     #[test]

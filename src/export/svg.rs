@@ -20,7 +20,9 @@ use std::fmt::Write as _;
 use crate::doc::{Document, Point, RegionId, Role, Units};
 
 use super::ExportError;
-use super::labels::{self, BASELINE_BELOW_CENTRE_EM, HALO_MM, LabelReport, MARKER_RADIUS_MM};
+use super::labels::{
+    self, BASELINE_BELOW_CENTRE_EM, HALO_MM, LINE_ADVANCE_EM, LabelReport, MARKER_RADIUS_MM,
+};
 use super::lines::{self, LineClass};
 
 /// Fill of land regions without a colour (or with a slot the palette lacks).
@@ -573,7 +575,35 @@ pub(crate) fn render_with(
         );
         for p in &placements {
             let [x, y] = to_units(p.centre_mm);
-            let baseline = y + frame.units(BASELINE_BELOW_CENTRE_EM * p.size_mm);
+            // The first baseline: the block of lines is centred on the label's centre.
+            let advance = frame.units(LINE_ADVANCE_EM * p.size_mm);
+            let extra_lines = p.lines.len().saturating_sub(1) as f64;
+            let baseline =
+                y + frame.units(BASELINE_BELOW_CENTRE_EM * p.size_mm) - extra_lines * advance / 2.0;
+            let line_x = if p.italic && synthetic_oblique {
+                "0".to_string()
+            } else {
+                num.f(x)
+            };
+            let body = if p.lines.len() > 1 {
+                p.lines
+                    .iter()
+                    .enumerate()
+                    .map(|(i, l)| {
+                        format!(
+                            r#"<tspan x="{line_x}" dy="{}">{}</tspan>"#,
+                            if i == 0 {
+                                "0".to_string()
+                            } else {
+                                num.f(advance)
+                            },
+                            escape(l)
+                        )
+                    })
+                    .collect::<String>()
+            } else {
+                escape(&p.text)
+            };
             let position = if p.italic && synthetic_oblique {
                 // 12 degrees, about the slant of a typical italic.
                 format!(
@@ -592,12 +622,11 @@ pub(crate) fn render_with(
             };
             let _ = writeln!(
                 out,
-                r#"<text id="label-{}" {position} font-size="{}" fill="{}" stroke="{}">{}</text>"#,
+                r#"<text id="label-{}" {position} font-size="{}" fill="{}" stroke="{}">{body}</text>"#,
                 p.id,
                 mm(p.size_mm),
                 p.ink.to_hex(),
                 p.halo.to_hex(),
-                escape(&p.text)
             );
         }
         let _ = writeln!(out, "</g>");

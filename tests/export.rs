@@ -31,6 +31,7 @@ fn svg_is_well_formed_xml_with_every_region_and_escaped_names() {
     .unwrap();
     let options = SvgOptions {
         labels: true,
+        legend: true,
         ..SvgOptions::default()
     };
     let svg = export::to_svg(&doc, &options).expect("svg");
@@ -59,7 +60,7 @@ fn svg_is_well_formed_xml_with_every_region_and_escaped_names() {
         .and_then(|n| n.children().find(|c| c.has_tag_name("title")))
         .and_then(|t| t.text());
     assert_eq!(title, Some("Fenn & <Marsh> \"Old\" 'Mill'"));
-    // The legend lists every slot in use, with its count.
+    // The legend (asked for: it is off by default) lists every slot in use.
     let used: std::collections::BTreeSet<u32> = doc.colouring().values().copied().collect();
     let legend = tree
         .descendants()

@@ -8,6 +8,7 @@ mod colouring;
 mod editor_random;
 mod edits;
 mod export;
+mod export_labels;
 mod geo;
 mod gis_export;
 mod graph_formats;

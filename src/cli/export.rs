@@ -66,11 +66,26 @@ pub struct ExportArgs {
     /// Print width of the SVG (and of the PNG at --dpi), in millimetres.
     #[arg(long = "width-mm", value_name = "MM", default_value_t = 180.0)]
     pub width_mm: f64,
-    /// Write region names on the map.
+    /// Write region names on the map (names that do not fit are left out, and counted).
     #[arg(long)]
     pub labels: bool,
-    /// Leave out the legend.
-    #[arg(long = "no-legend")]
+    /// A title above the map.
+    #[arg(long, value_name = "TEXT")]
+    pub title: Option<String>,
+    /// A source line under the map, printed as "Source: TEXT".
+    #[arg(long, value_name = "TEXT")]
+    pub source: Option<String>,
+    /// A scale bar under the map (maps in metres only, such as imported longitude/latitude data).
+    #[arg(long = "scale-bar")]
+    pub scale_bar: bool,
+    /// A legend under the map: a swatch and the palette slot's name for each colour in use.
+    #[arg(long)]
+    pub legend: bool,
+    /// The legend's heading (with --legend).
+    #[arg(long = "legend-heading", value_name = "TEXT", requires = "legend")]
+    pub legend_heading: Option<String>,
+    /// Accepted for older scripts: the legend is now off unless --legend is given.
+    #[arg(long = "no-legend", hide = true, conflicts_with = "legend")]
     pub no_legend: bool,
 }
 
@@ -85,9 +100,21 @@ pub fn run_export(file: &Path, args: &ExportArgs, geo: &super::import::GeoArgs) 
     let options = SvgOptions {
         width_mm: args.width_mm,
         labels: args.labels,
-        legend: !args.no_legend,
+        legend: args.legend,
+        legend_heading: args.legend_heading.clone().unwrap_or_default(),
+        title: args.title.clone(),
+        source: args.source.clone(),
+        scale_bar: args.scale_bar,
         ..SvgOptions::default()
     };
+    let mut notes = Vec::new();
+    if args.scale_bar && doc.settings().units != crate::doc::Units::Metres {
+        notes.push(
+            "no scale bar: the map's units are not metres (only maps imported from \
+             longitude/latitude or a projected file have a true scale)"
+                .to_string(),
+        );
+    }
     let size = match (args.width, args.dpi) {
         (Some(px), _) => PngSize::WidthPx(px),
         (None, Some(dpi)) => PngSize::Dpi(dpi),
@@ -95,6 +122,7 @@ pub fn run_export(file: &Path, args: &ExportArgs, geo: &super::import::GeoArgs) 
     };
     // Make every requested output first, so bad input writes nothing.
     let mut files: Vec<(PathBuf, Vec<u8>)> = Vec::new();
+    let mut label_report = None;
     let o = &args.outputs;
     let wanted = [
         (&o.svg, ExportFormat::Svg),
@@ -106,18 +134,49 @@ pub fn run_export(file: &Path, args: &ExportArgs, geo: &super::import::GeoArgs) 
     ];
     for (path, format) in wanted {
         if let Some(path) = path {
-            let made = export::export_files(doc, format, &options, path)
+            let (made, report) = export::export_files_with_report(doc, format, &options, path)
                 .map_err(|e| anyhow!("{}: {e}", file.display()))
                 .bad_input()?;
             files.extend(made);
+            label_report = label_report.or(report);
         }
     }
-    let mut notes = Vec::new();
+    if let (true, Some(r)) = (args.labels, &label_report) {
+        notes.push(label_note(r));
+    }
     for (path, bytes) in files {
         write(&path, &bytes).cannot_write()?;
         notes.push(format!("wrote {}", path.display()));
     }
     Ok(Outcome::notes(notes))
+}
+
+/// What label placement did, in one line: "labels: 40 of 49 placed (3 with a leader line); 9 left
+/// out because they do not fit: A, B, ...".
+pub fn label_note(r: &export::LabelReport) -> String {
+    let placed = r.inside + r.with_leader + r.beside_marker;
+    let mut note = format!("labels: {placed} of {} placed", r.named);
+    if r.with_leader > 0 {
+        note.push_str(&format!(" ({} with a leader line)", r.with_leader));
+    }
+    if r.left_out.is_empty() {
+        note.push_str("; none left out");
+    } else {
+        const SHOWN: usize = 8;
+        let names: Vec<&str> = r.left_out.iter().take(SHOWN).map(String::as_str).collect();
+        let more = r.left_out.len().saturating_sub(SHOWN);
+        note.push_str(&format!(
+            "; {} left out because they do not fit: {}{}",
+            r.left_out.len(),
+            names.join(", "),
+            if more > 0 {
+                format!(" and {more} more")
+            } else {
+                String::new()
+            }
+        ));
+    }
+    note
 }
 
 /// Options of `tinct palette`.

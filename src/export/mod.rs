@@ -5,20 +5,25 @@
 //! command line and the editor write them where the user asked. Beside `formats` in the layering:
 //! uses `doc`, `colour` and `geo` (for the inverse projection), and nothing above.
 
+pub mod contrast;
 pub mod csv;
 pub mod geojson;
 pub mod gis;
 pub mod gpkg;
+pub mod labels;
+pub mod lines;
 pub mod png;
+pub mod polylabel;
 pub mod shp;
 pub mod svg;
 
 pub use csv::to_csv;
 pub use geojson::to_geojson;
 pub use gpkg::to_geopackage;
+pub use labels::LabelReport;
 pub use png::{PngSize, to_png};
 pub use shp::to_shapefile;
-pub use svg::{MapFrame, SvgOptions, to_svg};
+pub use svg::{MapFrame, SvgExport, SvgOptions, to_svg};
 
 /// Why an export could not be made.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -81,9 +86,31 @@ pub fn export_files(
     options: &SvgOptions,
     path: &std::path::Path,
 ) -> Result<Vec<(std::path::PathBuf, Vec<u8>)>, ExportError> {
-    Ok(match format {
-        ExportFormat::Svg => vec![(path.to_path_buf(), to_svg(doc, options)?.into_bytes())],
-        ExportFormat::Png(size) => vec![(path.to_path_buf(), to_png(doc, options, size)?)],
+    export_files_with_report(doc, format, options, path).map(|(files, _)| files)
+}
+
+/// The files of one export: where each goes and its bytes.
+pub type Files = Vec<(std::path::PathBuf, Vec<u8>)>;
+
+/// [`export_files`], with what label placement did for a picture (`None` for the other formats).
+pub fn export_files_with_report(
+    doc: &crate::doc::Document,
+    format: ExportFormat,
+    options: &SvgOptions,
+    path: &std::path::Path,
+) -> Result<(Files, Option<LabelReport>), ExportError> {
+    let files = match format {
+        ExportFormat::Svg => {
+            let made = svg::render(doc, options)?;
+            return Ok((
+                vec![(path.to_path_buf(), made.svg.into_bytes())],
+                Some(made.labels),
+            ));
+        }
+        ExportFormat::Png(size) => {
+            let (bytes, report) = png::to_png_with_report(doc, options, size)?;
+            return Ok((vec![(path.to_path_buf(), bytes)], Some(report)));
+        }
         ExportFormat::GeoJson => vec![(path.to_path_buf(), to_geojson(doc)?.into_bytes())],
         ExportFormat::Csv => vec![(path.to_path_buf(), to_csv(doc).into_bytes())],
         ExportFormat::GeoPackage => {
@@ -100,5 +127,6 @@ pub fn export_files(
             .into_iter()
             .map(|(extension, bytes)| (path.with_extension(extension), bytes))
             .collect(),
-    })
+    };
+    Ok((files, None))
 }

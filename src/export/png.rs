@@ -10,7 +10,8 @@ use resvg::{tiny_skia, usvg};
 use crate::doc::Document;
 
 use super::ExportError;
-use super::svg::{SvgOptions, to_svg};
+use super::labels::LabelReport;
+use super::svg::{SvgOptions, render_with};
 
 /// The largest width or height we render, in pixels (a 2 m print at 600 dpi is about 47,000).
 pub const MAX_SIDE_PX: u64 = 30_000;
@@ -24,7 +25,9 @@ pub enum PngSize {
     Dpi(f64),
 }
 
-fn font_database() -> usvg::fontdb::Database {
+/// The fonts the PNG export renders with: the embedded Ubuntu Light, standing for every generic
+/// family.
+pub fn font_database() -> usvg::fontdb::Database {
     let mut db = usvg::fontdb::Database::new();
     db.load_font_data(epaint_default_fonts::UBUNTU_LIGHT.to_vec());
     // The SVG asks for the generic family; map it to the one font we carry.
@@ -89,11 +92,22 @@ pub fn render_svg(
     Ok(pixmap)
 }
 
-/// The map as PNG bytes: [`to_svg`] with `options`, rendered at `size`.
+/// The map as PNG bytes: [`super::svg::to_svg`] with `options`, rendered at `size`.
 pub fn to_png(doc: &Document, options: &SvgOptions, size: PngSize) -> Result<Vec<u8>, ExportError> {
-    let svg = to_svg(doc, options)?;
-    let pixmap = render_svg(&svg, size, options.width_mm)?;
-    pixmap
+    to_png_with_report(doc, options, size).map(|(bytes, _)| bytes)
+}
+
+/// [`to_png`], with what label placement did.
+pub fn to_png_with_report(
+    doc: &Document,
+    options: &SvgOptions,
+    size: PngSize,
+) -> Result<(Vec<u8>, LabelReport), ExportError> {
+    // Ubuntu Light has no italic face: slant water names with a skew instead.
+    let made = render_with(doc, options, true)?;
+    let pixmap = render_svg(&made.svg, size, options.width_mm)?;
+    let bytes = pixmap
         .encode_png()
-        .map_err(|e| ExportError::Render(e.to_string()))
+        .map_err(|e| ExportError::Render(e.to_string()))?;
+    Ok((bytes, made.labels))
 }

@@ -34,6 +34,7 @@ use tinct::ui::App;
 use tinct::ui::commands::{Command, Tool};
 use tinct::ui::state::PathPurpose;
 
+use super::support::gui::click_at;
 use super::support::root;
 
 /// One thing a user does.
@@ -239,19 +240,6 @@ fn press(h: &mut Harness<'static, App>, modifiers: egui::Modifiers, key: egui::K
 fn type_text(h: &mut Harness<'static, App>, text: &str) {
     h.event(egui::Event::Text(text.to_string()));
     frames(h, 1);
-}
-
-fn click_at(h: &mut Harness<'static, App>, p: egui::Pos2) {
-    h.hover_at(p);
-    for pressed in [true, false] {
-        h.event(egui::Event::PointerButton {
-            pos: p,
-            button: egui::PointerButton::Primary,
-            pressed,
-            modifiers: egui::Modifiers::NONE,
-        });
-    }
-    frames(h, 2);
 }
 
 /// When the path window is open, answers it as a user types a path: inside the temporary
@@ -527,6 +515,17 @@ fn check(h: &Harness<'static, App>, model: &mut Model) -> Result<(), String> {
 }
 
 /// The checks at the end of a sequence.
+/// The four latest messages, newest first, for error reports.
+fn latest_messages(h: &Harness<'static, App>) -> Vec<String> {
+    h.state()
+        .messages
+        .iter()
+        .rev()
+        .take(4)
+        .map(|m| m.text.clone())
+        .collect()
+}
+
 fn check_end(h: &mut Harness<'static, App>, model: &Model) -> Result<(), String> {
     let final_doc = h.state().session.doc().clone();
     let steps_kept = h.state().session.history().undo_count();
@@ -551,16 +550,9 @@ fn check_end(h: &mut Harness<'static, App>, model: &Model) -> Result<(), String>
         // Each undo adds one redo step; anything else changed the document on its own.
         let redo_after = h.state().session.history().redo_count();
         if redo_after != redo_before + 1 {
-            let messages: Vec<String> = h
-                .state()
-                .messages
-                .iter()
-                .rev()
-                .take(4)
-                .map(|m| m.text.clone())
-                .collect();
             return Err(format!(
-                "an undo left {redo_after} redo steps after {redo_before}; latest messages: {messages:?}"
+                "an undo left {redo_after} redo steps after {redo_before}; latest messages: {:?}",
+                latest_messages(h)
             ));
         }
         undone += 1;
@@ -605,17 +597,10 @@ fn check_end(h: &mut Harness<'static, App>, model: &Model) -> Result<(), String>
         }
     }
     if !before_undo.is_empty() {
-        let messages: Vec<String> = h
-            .state()
-            .messages
-            .iter()
-            .rev()
-            .take(4)
-            .map(|m| m.text.clone())
-            .collect();
         return Err(format!(
-            "the redo steps ran out with {} still to redo; latest messages: {messages:?}",
-            before_undo.len()
+            "the redo steps ran out with {} still to redo; latest messages: {:?}",
+            before_undo.len(),
+            latest_messages(h)
         ));
     }
     let redone = h.state().session.doc();

@@ -371,16 +371,17 @@ fn palette_report_and_slot_assignment_on_a_document() {
     );
     // By hand: the only bordering class pair is {class 0, class 1}, so it should take the most
     // distinct pair of slots. Slot 2 (very light) is farther from the darker slot 0 than from slot
-    // 1 (a larger lightness step), so that pair is {0, 2}; of the two ways to use it, keeping class
-    // 0 where it is (the third criterion) wins, so B's class moves to slot 2.
+    // 1 (a larger lightness step), so that pair is {0, 2}. Of the two ways to use it, the heavy
+    // green of slot 0 may not go to class 0, which has the most regions (A and C; the rule on the
+    // heaviest fill comes first), so class 0 moves to slot 2 and B's class to slot 0.
     let edit = slot_assignment_edit(&doc, &t)
         .unwrap()
         .expect("a better assignment");
     let before = doc.clone();
     let undo = doc.apply(edit).unwrap();
-    assert_eq!(doc.colouring()[&RegionId(1)], 0);
-    assert_eq!(doc.colouring()[&RegionId(2)], 2);
-    assert_eq!(doc.colouring()[&RegionId(3)], 0);
+    assert_eq!(doc.colouring()[&RegionId(1)], 2);
+    assert_eq!(doc.colouring()[&RegionId(2)], 0);
+    assert_eq!(doc.colouring()[&RegionId(3)], 2);
     assert!(
         palette_report(&doc, &t)
             .warnings

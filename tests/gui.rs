@@ -6,6 +6,7 @@ use egui_kittest::kittest::Queryable;
 use tinct::doc::{self, RegionId, RegionPair};
 use tinct::ui::App;
 
+use super::support::gui::click_at;
 use super::support::root;
 
 fn harness(app: App) -> Harness<'static, App> {
@@ -22,16 +23,7 @@ fn click_region(h: &mut Harness<'static, App>, id: RegionId) {
         .state()
         .screen_of(anchor)
         .expect("the canvas has been drawn");
-    h.hover_at(p);
-    for pressed in [true, false] {
-        h.event(egui::Event::PointerButton {
-            pos: p,
-            button: egui::PointerButton::Primary,
-            pressed,
-            modifiers: egui::Modifiers::NONE,
-        });
-    }
-    h.run_steps(2);
+    click_at(h, p);
 }
 
 /// The newest message the editor showed, or an empty string.
@@ -420,8 +412,9 @@ fn the_palette_window_edits_a_colour_warns_about_a_look_alike_and_undo_restores_
     h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::A);
     text_input_with_value(&h, &second).type_text(&first);
     h.run_steps(2);
-    // Identical colours look alike in every view: normal vision, three simulations, greyscale.
-    assert_eq!(h.query_all_by_label_contains("look alike").count(), 5);
+    // Identical colours look alike in every view checked: normal vision and three simulations
+    // (greyscale is checked only for projects that expect greyscale copies).
+    assert_eq!(h.query_all_by_label_contains("look alike").count(), 4);
     h.get_by_label("Apply to the project").click();
     h.run_steps(2);
     let after = &h.state().session.doc().palette();
@@ -974,7 +967,7 @@ fn starting_from_one_of_our_palettes_asks_before_replacing_changes_and_the_picke
     // Choosing one of ours now asks first; keeping the changes keeps them.
     h.get_by_label("Start from one of ours:").click();
     h.run_steps(2);
-    h.get_by_label_contains("Tinct 3").click();
+    h.get_by_label("Tinct 3 (3 colours)").click();
     h.run_steps(2);
     assert!(
         h.query_by_label_contains("replaces the changes made here")
@@ -992,7 +985,7 @@ fn starting_from_one_of_our_palettes_asks_before_replacing_changes_and_the_picke
     );
     h.get_by_label("Start from one of ours:").click();
     h.run_steps(2);
-    h.get_by_label_contains("Tinct 3").click();
+    h.get_by_label("Tinct 3 (3 colours)").click();
     h.run_steps(2);
     h.get_by_label("Replace them").click();
     h.run_steps(2);
@@ -1079,6 +1072,35 @@ fn project_settings_change_the_rule_and_the_tolerance_in_one_undoable_step() {
     assert_eq!(active(&h), rook + 2, "{}", last_message(&h));
     press(&mut h, egui::Modifiers::COMMAND, egui::Key::Z);
     assert_eq!(*h.state().session.doc(), before);
+}
+
+#[test]
+fn greyscale_copies_in_the_project_settings_make_the_palette_check_ask_for_lightness_steps() {
+    // The embedded map with Tinct's colour palette: clear in colour, but its fills of equal
+    // weight are too close in lightness for a photocopy.
+    let mut h = harness(App::new(None, None));
+    h.run_steps(3);
+    let warnings = |h: &Harness<'static, App>| h.state().palette_warnings.warnings.clone();
+    assert!(warnings(&h).is_empty(), "{:?}", warnings(&h));
+    h.get_by_label("Edit").click();
+    h.run_steps(2);
+    h.get_by_label_contains("Project settings…").click();
+    h.run_steps(3);
+    h.get_by_label("The map will also be copied in greyscale")
+        .click();
+    h.run_steps(1);
+    h.get_by_label("Apply").click();
+    h.run_steps(3);
+    assert!(h.state().session.doc().settings().greyscale_copies);
+    assert!(
+        warnings(&h).iter().any(|w| w.contains("greyscale copy")),
+        "{:?}",
+        warnings(&h)
+    );
+    // Undo takes the setting back, and the warnings go with it.
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::Z);
+    assert!(!h.state().session.doc().settings().greyscale_copies);
+    assert!(warnings(&h).is_empty());
 }
 
 #[test]

@@ -76,6 +76,8 @@ pub fn rust_files(dir: &Path) -> Vec<PathBuf> {
 
 /// Seeded generators (graphs, triangulations, synthetic maps), shared with the benchmarks.
 pub mod generators;
+#[cfg(feature = "gui")]
+pub mod gui;
 
 pub mod arb {
     //! Random documents and edits for property tests, built only through edits.
@@ -144,6 +146,7 @@ pub mod arb {
             metres: bool,
             /// Which projection a geographic map records (0 to 2).
             projection: u8,
+            greyscale: bool,
         },
         Palette(Vec<(String, [u8; 3])>),
         Title(String),
@@ -187,8 +190,8 @@ pub mod arb {
             1 => (idx.clone(), any::<bool>()).prop_map(|(i, water)| Op::Role { i, water }),
             1 => idx.clone().prop_map(Op::DeleteRegion),
             1 => (0usize..3).prop_map(Op::DeleteGroup),
-            1 => (any::<bool>(), 0.0..50.0f64, 0.0..5.0f64, any::<bool>(), 0u8..3)
-                .prop_map(|(corners, min, tol, metres, projection)| Op::Settings { corners, min, tol, metres, projection }),
+            1 => (any::<bool>(), 0.0..50.0f64, 0.0..5.0f64, any::<bool>(), 0u8..3, any::<bool>())
+                .prop_map(|(corners, min, tol, metres, projection, greyscale)| Op::Settings { corners, min, tol, metres, projection, greyscale }),
             1 => proptest::collection::vec((name(), any::<[u8; 3]>()), 1..8).prop_map(Op::Palette),
             1 => name().prop_map(Op::Title),
             1 => proptest::collection::vec((idx, 0u32..6), 0..6).prop_map(Op::Recolour),
@@ -325,6 +328,7 @@ pub mod arb {
                 tol,
                 metres,
                 projection,
+                greyscale,
             } => Edit::SetSettings(Settings {
                 corners_count: *corners,
                 min_border_length: *min,
@@ -349,6 +353,7 @@ pub mod arb {
                     },
                     _ => Projection::EqualEarth { lon0: 150.0 },
                 }),
+                greyscale_copies: *greyscale,
             }),
             Op::Palette(slots) => Edit::SetPalette(Palette {
                 name: "random".into(),

@@ -345,7 +345,21 @@ pub fn colour_graph(
             format!("an exhaustive search ruled out {colours} colours")
         }
     };
-    verdict.colouring = report.colouring.as_ref().map(|c| {
+    let mut colouring = report.colouring.clone();
+    let mut changed = report.changed;
+    if let Some(c) = &mut colouring
+        && heaviest_fill_off_most(doc, cg, c)
+        && has_previous
+    {
+        // The classes moved: count again the regions' groups whose colour is not what it was.
+        changed = Some(
+            c.iter()
+                .zip(&current)
+                .filter(|(new, old)| old.is_some_and(|o| o != **new))
+                .count(),
+        );
+    }
+    verdict.colouring = colouring.as_ref().map(|c| {
         let per_vertex: Vec<Option<u32>> = c.iter().map(|&s| Some(s)).collect();
         cg.to_region_colouring(&per_vertex)
     });
@@ -354,6 +368,43 @@ pub fn colour_graph(
         .as_ref()
         .and_then(|c| c.iter().max())
         .map_or(0, |&top| (top + 1).saturating_sub(problem.max_colours));
-    verdict.changed = report.changed;
+    verdict.changed = changed;
     verdict
+}
+
+/// Keeps the heaviest fill off the most regions ([`crate::colour::heaviest_off_most`]): swaps
+/// its class with the smallest unpinned one when it colours at least as many regions as any
+/// other. Returns whether classes moved.
+fn heaviest_fill_off_most(doc: &Document, cg: &ConstraintGraph, colouring: &mut [u32]) -> bool {
+    let slots = doc.palette().slots.len();
+    let mut counts = vec![0usize; slots];
+    let mut pinned = vec![false; slots];
+    for (v, &s) in colouring.iter().enumerate() {
+        if let Some(n) = counts.get_mut(s as usize) {
+            *n += cg.members(v as u32).len().max(1);
+        }
+    }
+    for &s in cg.pins.iter().flatten() {
+        if let Some(p) = pinned.get_mut(s as usize) {
+            *p = true;
+        }
+    }
+    let weights: Vec<f64> = doc
+        .palette()
+        .slots
+        .iter()
+        .map(|s| crate::colour::visual_weight(s.colour.0))
+        .collect();
+    let Some((a, b)) = crate::colour::heaviest_off_most(&counts, &weights, &pinned) else {
+        return false;
+    };
+    let (a, b) = (a as u32, b as u32);
+    for s in colouring.iter_mut() {
+        if *s == a {
+            *s = b;
+        } else if *s == b {
+            *s = a;
+        }
+    }
+    true
 }

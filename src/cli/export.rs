@@ -185,9 +185,14 @@ pub struct PaletteArgs {
     /// Print machine-readable JSON (shape in src/cli/export.rs and the README).
     #[arg(long)]
     pub json: bool,
-    /// Switch to Tinct's default palette for this many colours (3 to 8) before checking.
+    /// Switch to Tinct's default palette for this many colours (3 to 8) before checking: fills
+    /// of equal weight for colour output, or with --greyscale-safe the one that survives a
+    /// greyscale copy (one of its fills is dark).
     #[arg(long = "default-palette", value_name = "COLOURS")]
     pub default_palette: Option<usize>,
+    /// With --default-palette: the greyscale-safe palette.
+    #[arg(long = "greyscale-safe", requires = "default_palette")]
+    pub greyscale_safe: bool,
     /// Give the colour classes that share the most borders the most distinct slots (pinned
     /// colours keep theirs) before checking.
     #[arg(long)]
@@ -271,6 +276,11 @@ pub fn report_json(doc: &Document, thresholds: &Thresholds) -> serde_json::Value
         "pairs": pairs,
         "warnings": warnings,
         "missing_slots": report.missing_slots,
+        "fill_warnings": report.fills.iter().map(|w| json!({
+            "slot": w.slot,
+            "problem": w.problem.as_str(),
+            "message": w.message,
+        })).collect::<Vec<_>>(),
     })
 }
 
@@ -309,8 +319,13 @@ pub fn report_text(doc: &Document, thresholds: &Thresholds) -> String {
     });
     out.push_str(&format!(
         "Thresholds: ΔE00 {} under normal vision and simulated protanopia, deuteranopia and \
-         tritanopia (Machado et al. 2009); {} L* in greyscale.\n",
-        thresholds.delta_e00, thresholds.grey_delta_l
+         tritanopia (Machado et al. 2009); {}.\n",
+        thresholds.delta_e00,
+        if thresholds.greyscale {
+            format!("{} L* in greyscale", thresholds.grey_delta_l)
+        } else {
+            "greyscale not checked (the project does not expect greyscale copies)".to_string()
+        }
     ));
     for s in &report.missing_slots {
         out.push_str(&format!(
@@ -325,6 +340,9 @@ pub fn report_text(doc: &Document, thresholds: &Thresholds) -> String {
             out.push_str(&format!("Warning: {}.\n", w.message));
         }
     }
+    for w in &report.fills {
+        out.push_str(&format!("Warning: {}.\n", w.message));
+    }
     out.push_str(
         "Simulations approximate typical readers; check a printed proof by eye before publishing.\n",
     );
@@ -335,7 +353,7 @@ pub fn report_text(doc: &Document, thresholds: &Thresholds) -> String {
 pub fn run_palette(file: &Path, args: &PaletteArgs) -> CommandResult {
     let loaded = crate::formats::load(file, &crate::geo::ImportOptions::default()).bad_input()?;
     let mut doc = loaded.doc;
-    let thresholds = Thresholds::default();
+    let thresholds = crate::doc::palette_check::thresholds(&doc);
     let changes = args.default_palette.is_some() || args.assign;
     if changes != args.out.is_some() {
         return Err(Failure::BadInput(anyhow!(
@@ -344,9 +362,14 @@ pub fn run_palette(file: &Path, args: &PaletteArgs) -> CommandResult {
     }
     let mut notes = Vec::new();
     if let Some(colours) = args.default_palette {
+        let purpose = if args.greyscale_safe {
+            colour::Purpose::Greyscale
+        } else {
+            colour::Purpose::Colour
+        };
         let Some(index) = colour::DEFAULT_PALETTES
             .iter()
-            .position(|p| p.slots.len() == colours)
+            .position(|p| p.slots.len() == colours && p.purpose == purpose)
         else {
             return Err(Failure::BadInput(anyhow!(
                 "there are default palettes for 3 to 8 colours, not {colours}"

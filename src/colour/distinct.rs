@@ -26,6 +26,17 @@ pub struct Thresholds {
     pub delta_e00: f64,
     /// Minimum difference in CIE lightness L\* for a greyscale copy.
     pub grey_delta_l: f64,
+    /// Whether greyscale is checked at all (a map that will be copied in greyscale).
+    pub greyscale: bool,
+}
+
+impl Thresholds {
+    /// The views these thresholds check: every colour view, and greyscale when asked.
+    pub fn views(&self) -> impl Iterator<Item = View> + '_ {
+        View::ALL
+            .into_iter()
+            .filter(|v| self.greyscale || *v != View::Greyscale)
+    }
 }
 
 impl Default for Thresholds {
@@ -33,6 +44,7 @@ impl Default for Thresholds {
         Thresholds {
             delta_e00: 10.0,
             grey_delta_l: 15.0,
+            greyscale: true,
         }
     }
 }
@@ -94,9 +106,9 @@ impl PairDifference {
     /// The worst case over all views, as a fraction of each view's threshold: 1 or more means
     /// the pair passes every check; 0.5 means some view shows only half the required difference.
     pub fn worst_ratio(&self, thresholds: &Thresholds) -> f64 {
-        View::ALL
-            .iter()
-            .map(|&v| self.in_view(v) / Self::threshold(v, thresholds).max(f64::MIN_POSITIVE))
+        thresholds
+            .views()
+            .map(|v| self.in_view(v) / Self::threshold(v, thresholds).max(f64::MIN_POSITIVE))
             .fold(f64::INFINITY, f64::min)
     }
 }
@@ -174,7 +186,7 @@ pub fn distinctness_warnings(
     for (i, j) in sorted {
         let (a, b) = (&palette[i], &palette[j]);
         let difference = pair_difference(a.rgb, b.rgb);
-        for view in View::ALL {
+        for view in thresholds.views() {
             let value = difference.in_view(view);
             let threshold = PairDifference::threshold(view, thresholds);
             if value >= threshold {

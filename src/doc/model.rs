@@ -414,17 +414,17 @@ pub struct Palette {
 
 impl Default for Palette {
     /// Tinct's own default, listed in the order the colouring uses them: the four colours of the
-    /// "Tinct 4" palette (every pair passes the distinctness checks of `crate::colour`, in normal
-    /// vision, the three simulated dichromacies and greyscale), then two reserves for maps that
-    /// need more than four (less distinct; the palette check says when they are used).
+    /// "Tinct 4" palette (fills of equal visual weight for maps in colour; every pair passes the
+    /// distinctness checks of `crate::colour` in normal vision and the three simulated
+    /// dichromacies), then two reserves of the same weight for maps that need more than four.
     fn default() -> Palette {
-        let reserves = [("Lagoon", [0x22, 0x99, 0x99]), ("Reed", [0xbb, 0xbb, 0x88])];
-        let four = crate::colour::default_palette_for(4).map_or(&[][..], |p| p.slots);
+        use crate::colour::{Purpose, TINCT_4_RESERVES, default_palette_for};
+        let four = default_palette_for(4, Purpose::Colour).map_or(&[][..], |p| p.slots);
         Palette {
             name: "Tinct 4 with two reserves".to_string(),
             slots: four
                 .iter()
-                .chain(reserves.iter())
+                .chain(TINCT_4_RESERVES.iter())
                 .map(|(n, c)| Slot {
                     name: n.to_string(),
                     colour: Rgb(*c),
@@ -525,6 +525,11 @@ pub struct Settings {
     /// projects saved before Tinct recorded it. (Projects saved before Tinct chose among several
     /// projections recorded only the centre of a Lambert azimuthal one; they load as that.)
     pub projection: Option<Projection>,
+    /// The map will also be copied in greyscale (photocopied, or printed in black): the palette
+    /// check then also asks for lightness steps between neighbouring fills. Off by default: a
+    /// map meant for colour should not pay for a copy it will never get (a greyscale-safe
+    /// palette needs one dark fill, which outweighs the rest in colour).
+    pub greyscale_copies: bool,
 }
 
 impl Default for Settings {
@@ -535,6 +540,7 @@ impl Default for Settings {
             tolerance: 0.0,
             units: Units::Unitless,
             projection: None,
+            greyscale_copies: false,
         }
     }
 }
@@ -770,16 +776,24 @@ mod default_palette_tests {
     #[test]
     fn the_first_four_default_colours_pass_every_distinctness_check() {
         // Four colours suffice for any planar map without pins (the four colour theorem), so
-        // these four must be told apart in every view the palette check knows.
+        // these four must be told apart in every colour view the palette check knows. The
+        // default is for maps in colour: greyscale is checked only for projects that expect
+        // greyscale copies (the greyscale-safe palettes are for those).
         let named = crate::doc::palette_check::named_colours(&Palette::default());
         let pairs: Vec<(usize, usize)> = (0..4)
             .flat_map(|i| (i + 1..4).map(move |j| (i, j)))
             .collect();
-        let warnings = crate::colour::distinctness_warnings(
-            &named,
-            &pairs,
-            &crate::colour::Thresholds::default(),
-        );
+        let thresholds = crate::colour::Thresholds {
+            greyscale: false,
+            ..Default::default()
+        };
+        let warnings = crate::colour::distinctness_warnings(&named, &pairs, &thresholds);
+        assert!(warnings.is_empty(), "{warnings:#?}");
+        // And the reserves too, against each other and the four.
+        let all: Vec<(usize, usize)> = (0..6)
+            .flat_map(|i| (i + 1..6).map(move |j| (i, j)))
+            .collect();
+        let warnings = crate::colour::distinctness_warnings(&named, &all, &thresholds);
         assert!(warnings.is_empty(), "{warnings:#?}");
     }
 }

@@ -9,7 +9,7 @@ use std::collections::{BTreeMap, BTreeSet};
 use crate::colour::{self, NamedColour, Thresholds, Vision, Warning};
 
 use super::edit::Edit;
-use super::model::{Document, Palette, RegionId, Rgb};
+use super::model::{Document, Palette, RegionId, Rgb, Role};
 
 /// How many active borders join regions of each pair of slots `(smaller, larger)` in the current
 /// colouring. Borders between two regions of one slot (clashes) are not counted here.
@@ -56,12 +56,42 @@ pub struct PaletteReport {
     pub warnings: Vec<Warning>,
     /// Slots the colouring uses that the palette does not have (their regions cannot be drawn).
     pub missing_slots: Vec<u32>,
+    /// Fills that mislead on this map in colour: land that reads as water, a fill that outweighs
+    /// the rest.
+    pub fills: Vec<FillWarning>,
+}
+
+/// How a fill misleads (see [`crate::colour::weight`]).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum FillProblem {
+    /// A land fill that reads as water, on a map with water.
+    ReadsAsWater,
+    /// A fill much heavier than the others: its regions look highlighted.
+    Dominant,
+}
+
+impl FillProblem {
+    /// The word used in JSON.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            FillProblem::ReadsAsWater => "reads_as_water",
+            FillProblem::Dominant => "dominant",
+        }
+    }
+}
+
+/// One fill that misleads, in words.
+#[derive(Clone, Debug, PartialEq)]
+pub struct FillWarning {
+    pub slot: usize,
+    pub problem: FillProblem,
+    pub message: String,
 }
 
 impl PaletteReport {
     /// True when no pair falls short and every used slot exists.
     pub fn is_clear(&self) -> bool {
-        self.warnings.is_empty() && self.missing_slots.is_empty()
+        self.warnings.is_empty() && self.missing_slots.is_empty() && self.fills.is_empty()
     }
 }
 
@@ -83,13 +113,81 @@ pub fn named_colours(palette: &Palette) -> Vec<NamedColour> {
 pub fn palette_report(doc: &Document, thresholds: &Thresholds) -> PaletteReport {
     let (pairs_checked, pairs, missing_slots) = checked_pairs(doc, doc.palette.slots.len());
     let warnings = pair_warnings(&doc.palette, &pairs, thresholds);
+    let fills = fill_warnings(doc, &doc.palette);
     PaletteReport {
         thresholds: *thresholds,
         pairs_checked,
         pairs,
         warnings,
         missing_slots,
+        fills,
     }
+}
+
+/// The thresholds the palette check uses for `doc`: the defaults (ΔE00 10, greyscale ΔL\* 15),
+/// with greyscale checked only when the project says the map will be copied in greyscale.
+pub fn thresholds(doc: &Document) -> Thresholds {
+    Thresholds {
+        greyscale: doc.settings().greyscale_copies,
+        ..Thresholds::default()
+    }
+}
+
+/// Whether the map has water (regions that take no colour and are drawn as water).
+pub fn has_water(doc: &Document) -> bool {
+    doc.regions().values().any(|r| r.role == Role::Water)
+}
+
+/// The fills of `palette` (which need not be the document's) that mislead on this map in colour,
+/// among the slots land regions use (every slot before anything is coloured):
+/// - on a map with water, a land fill that reads as water (a blue or cyan hue, or close to the
+///   blue of the water pattern);
+/// - a fill much heavier than the others (more than [`colour::weight::DOMINANT_MARGIN`] above
+///   the median weight of the rest), whose regions look highlighted.
+pub fn fill_warnings(doc: &Document, palette: &Palette) -> Vec<FillWarning> {
+    let used: BTreeSet<usize> = doc
+        .land_regions()
+        .filter_map(|(id, _)| doc.colouring().get(&id).map(|&s| s as usize))
+        .filter(|&s| s < palette.slots.len())
+        .collect();
+    let slots: Vec<usize> = if used.is_empty() {
+        (0..palette.slots.len()).collect()
+    } else {
+        used.into_iter().collect()
+    };
+    let mut out = Vec::new();
+    if has_water(doc) {
+        for &s in &slots {
+            let slot = &palette.slots[s];
+            if colour::fill_reads_as_water(slot.colour.0) {
+                out.push(FillWarning {
+                    slot: s,
+                    problem: FillProblem::ReadsAsWater,
+                    message: format!(
+                        "{} reads as water (a blue or cyan): on this map, which has water, land \
+                         in it looks like sea or lake; choose a warm, green or violet fill",
+                        slot.name
+                    ),
+                });
+            }
+        }
+    }
+    let colours: Vec<colour::Srgb8> = slots.iter().map(|&s| palette.slots[s].colour.0).collect();
+    for (i, weight, median) in colour::dominant_fills(&colours) {
+        let s = slots[i];
+        out.push(FillWarning {
+            slot: s,
+            problem: FillProblem::Dominant,
+            message: format!(
+                "{} weighs much more than the other fills ({weight:.0} against {median:.0}, as \
+                 ΔE00 from white paper): in colour its regions look highlighted. A greyscale-safe \
+                 palette needs one dark fill; for a map in colour choose fills of equal weight",
+                palette.slots[s].name
+            ),
+        });
+    }
+    out.sort_by_key(|w| w.slot);
+    out
 }
 
 /// The slot pairs a palette of `slots` colours must keep apart on this map: the pairs that
@@ -212,7 +310,16 @@ pub fn slot_assignment_edit(
     }
     let colours: Vec<colour::Srgb8> = doc.palette.slots.iter().map(|s| s.colour.0).collect();
     let distinctness = colour::distinctness_matrix(&colours, thresholds);
-    let map = colour::assign_slots(&borders, &distinctness, &fixed)?;
+    // Regions per class (land only), and the fills' weights: the heaviest fill never goes to
+    // the class with the most regions.
+    let mut sizes = vec![0usize; n];
+    for (id, _) in doc.land_regions() {
+        if let Some(&slot) = doc.colouring().get(&id) {
+            sizes[slot as usize] += 1;
+        }
+    }
+    let weights: Vec<f64> = colours.iter().map(|&c| colour::visual_weight(c)).collect();
+    let map = colour::assign_slots(&borders, &distinctness, &fixed, Some((&sizes, &weights)))?;
     if map.iter().enumerate().all(|(c, s)| c == *s) {
         return Ok(None);
     }

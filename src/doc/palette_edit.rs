@@ -90,16 +90,15 @@ pub fn add_slot(doc: &Document, name: &str, hex: &str) -> Result<Edit, PaletteEd
 }
 
 /// Adds `count` slots at the end of the palette, each as distinct as possible from every colour
-/// already in it (by the palette check's own measures; see [`crate::colour::extend_palette`]),
+/// already in it (by the palette check's own measures; see [`crate::colour::extend_palette`])
+/// and suited to what the palette serves (fills of equal weight, or greyscale-safe steps),
 /// named "Slot N" after their position. Used when a map needs more colours than the palette has.
 pub fn grow_palette(doc: &Document, count: u32) -> Edit {
     let mut palette = doc.palette.clone();
     let existing: Vec<[u8; 3]> = palette.slots.iter().map(|s| s.colour.0).collect();
-    let added = crate::colour::extend_palette(
-        &existing,
-        count as usize,
-        &crate::colour::Thresholds::default(),
-    );
+    let thresholds = crate::colour::Thresholds::default();
+    let purpose = crate::colour::Purpose::of(&existing, &thresholds);
+    let added = crate::colour::extend_palette(&existing, count as usize, &thresholds, purpose);
     for colour in added {
         palette.slots.push(Slot {
             name: format!("Slot {}", palette.slots.len() + 1),
@@ -149,7 +148,8 @@ pub fn remove_slot(doc: &Document, slot: usize) -> Result<Edit, PaletteEditError
     })
 }
 
-/// Default palette `index` of [`DEFAULT_PALETTES`] (0 is the three-colour one) as a document palette.
+/// Default palette `index` of [`DEFAULT_PALETTES`] (0 is the three-colour one for colour, 6 the
+/// three-colour greyscale-safe one) as a document palette.
 pub fn default_palette(index: usize) -> Option<Palette> {
     let p = DEFAULT_PALETTES.get(index)?;
     Some(Palette {
@@ -275,6 +275,10 @@ mod tests {
             panic!("a palette edit")
         };
         assert_eq!(p.slots.len(), 4);
-        assert!(use_default_palette(&doc, 6).is_err());
+        let Edit::SetPalette(p) = use_default_palette(&doc, 7).unwrap() else {
+            panic!("a palette edit")
+        };
+        assert_eq!(p.name, "Tinct 4 greyscale-safe");
+        assert!(use_default_palette(&doc, 12).is_err());
     }
 }

@@ -30,7 +30,8 @@ pub const UNCOLOURED_FILL: &str = "#f4f4f2";
 /// Water is drawn as fine horizontal lines on a pale ground (the `water` pattern), so it never
 /// looks like a palette colour, whatever the palette; this is the ground colour.
 pub const WATER_GROUND: &str = "#f3f7fa";
-const WATER_PATTERN_LINE: &str = "#8fb3cc";
+/// The water pattern's lines: the blue the palette check keeps land fills away from.
+const WATER_PATTERN_LINE: crate::doc::Rgb = crate::doc::Rgb(crate::colour::WATER_BLUE);
 const WATER_FILL: &str = "url(#water)";
 /// Coast and outer boundary.
 const COAST_INK: &str = "#262626";
@@ -408,9 +409,10 @@ pub(crate) fn render_with(
     let tile = mm(1.2);
     let _ = writeln!(
         out,
-        r#"<defs><pattern id="water" patternUnits="userSpaceOnUse" width="{tile}" height="{tile}"><rect width="{tile}" height="{tile}" fill="{WATER_GROUND}"/><rect y="{}" width="{tile}" height="{}" fill="{WATER_PATTERN_LINE}"/></pattern></defs>"#,
+        r#"<defs><pattern id="water" patternUnits="userSpaceOnUse" width="{tile}" height="{tile}"><rect width="{tile}" height="{tile}" fill="{WATER_GROUND}"/><rect y="{}" width="{tile}" height="{}" fill="{}"/></pattern></defs>"#,
         mm(0.475),
-        mm(0.25)
+        mm(0.25),
+        WATER_PATTERN_LINE.to_hex()
     );
 
     // Region fills, one element each; their lines are drawn after, once per shared boundary.

@@ -37,6 +37,7 @@ impl ImportedMap {
                 Units::MapUnits => doc::Units::Unitless,
             },
             projection: self.projection,
+            greyscale_copies: false,
         });
         document.reserve(self.regions.len(), self.borders.len() + self.excluded.len());
         document.crs(self.crs);

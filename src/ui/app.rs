@@ -1135,7 +1135,7 @@ impl App {
                 }
             }
             Command::AssignSlots => {
-                let thresholds = crate::colour::Thresholds::default();
+                let thresholds = doc::palette_check::thresholds(self.session.doc());
                 match doc::palette_check::slot_assignment_edit(self.session.doc(), &thresholds) {
                     Ok(Some(edit)) => {
                         self.edit(edit);

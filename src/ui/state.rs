@@ -20,14 +20,16 @@ impl PaletteWarnings {
     pub fn of(doc: &Document) -> PaletteWarnings {
         PaletteWarnings {
             revision: doc.revision(),
-            warnings: doc::palette_check::palette_report(
-                doc,
-                &crate::colour::Thresholds::default(),
-            )
-            .warnings
-            .into_iter()
-            .map(|w| w.message)
-            .collect(),
+            warnings: {
+                let report =
+                    doc::palette_check::palette_report(doc, &doc::palette_check::thresholds(doc));
+                report
+                    .warnings
+                    .into_iter()
+                    .map(|w| w.message)
+                    .chain(report.fills.into_iter().map(|w| w.message))
+                    .collect()
+            },
         }
     }
 }

@@ -112,6 +112,10 @@ struct SettingsV1 {
     /// imported file named it.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     coordinate_system: Option<CrsV1>,
+    /// Added within version 1 (optional, written only when true): the map will also be copied
+    /// in greyscale, so the palette check asks for lightness steps too.
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    greyscale_copies: bool,
 }
 
 /// A map projection; every angle in degrees (see [`crate::projection::Projection`]).
@@ -482,6 +486,7 @@ fn to_records(doc: &Document) -> ProjectOut<'_> {
                 epsg: c.epsg,
                 wkt: c.wkt.clone(),
             }),
+            greyscale_copies: doc.settings.greyscale_copies,
         },
         palette_name: &doc.palette.name,
         palette: doc
@@ -698,6 +703,7 @@ fn from_records(r: ProjectV1) -> Result<Document, FileError> {
             UnitsV1::Unitless => Units::Unitless,
         },
         projection,
+        greyscale_copies: r.settings.greyscale_copies,
     });
     doc.crs(r.settings.coordinate_system.map(|c| crate::doc::Crs {
         name: c.name,

@@ -4,7 +4,7 @@
 
 use egui::RichText;
 
-use crate::colour::{DEFAULT_PALETTES, Thresholds, Warning};
+use crate::colour::{DEFAULT_PALETTES, Warning};
 use crate::doc::palette_check::{self, PairsChecked, SlotPairUse};
 use crate::doc::palette_edit;
 use crate::doc::{Edit, Palette, Rgb, Slot};
@@ -117,6 +117,7 @@ pub fn distinctness_lines(
     checked: PairsChecked,
     pairs: &[SlotPairUse],
     warnings: &[Warning],
+    greyscale: bool,
 ) -> Vec<String> {
     if !warnings.is_empty() {
         return warnings.iter().map(|w| w.message.clone()).collect();
@@ -128,9 +129,12 @@ pub fn distinctness_lines(
         ),
         PairsChecked::AllSlots => "every pair of slots (nothing is coloured yet)".to_string(),
     };
-    vec![format!(
-        "All clear: {scope} stay distinct in normal vision, for the three colour-vision deficiencies and in greyscale."
-    )]
+    let views = if greyscale {
+        "in normal vision, for the three colour-vision deficiencies and in greyscale"
+    } else {
+        "in normal vision and for the three colour-vision deficiencies"
+    };
+    vec![format!("All clear: {scope} stay distinct {views}.")]
 }
 
 /// Draws the palette window while it is open.
@@ -152,7 +156,7 @@ pub fn show(frame: &Frame, window: &mut Option<PaletteEditor>, ctx: &egui::Conte
         }
         editor.pairs = Some((key, checked, pairs, in_use));
     }
-    let thresholds = Thresholds::default();
+    let thresholds = palette_check::thresholds(doc);
     let in_use = editor
         .pairs
         .as_ref()
@@ -282,7 +286,7 @@ pub fn show(frame: &Frame, window: &mut Option<PaletteEditor>, ctx: &egui::Conte
             if let Some((_, checked, pairs, _)) = &editor.pairs {
                 let warnings = palette_check::pair_warnings(&editor.draft, pairs, &thresholds);
                 let good = warnings.is_empty();
-                for line in distinctness_lines(*checked, pairs, &warnings) {
+                for line in distinctness_lines(*checked, pairs, &warnings, thresholds.greyscale) {
                     let colour = if good {
                         style::GOOD
                     } else {
@@ -290,10 +294,22 @@ pub fn show(frame: &Frame, window: &mut Option<PaletteEditor>, ctx: &egui::Conte
                     };
                     ui.label(RichText::new(line).color(colour));
                 }
+                for w in palette_check::fill_warnings(doc, &editor.draft) {
+                    ui.label(RichText::new(w.message).color(style::WARNING));
+                }
+                let greyscale = if thresholds.greyscale {
+                    format!(
+                        "lightness difference of at least {:.0} L* in greyscale",
+                        thresholds.grey_delta_l
+                    )
+                } else {
+                    "greyscale not checked (turn on greyscale copies in the project settings)"
+                        .to_string()
+                };
                 ui.label(
                     RichText::new(format!(
-                        "Thresholds: colour difference ΔE00 of at least {:.0}, lightness difference of at least {:.0} L* in greyscale. Simulations approximate; check a printed proof by eye.",
-                        thresholds.delta_e00, thresholds.grey_delta_l
+                        "Thresholds: colour difference ΔE00 of at least {:.0}; {greyscale}. Simulations approximate; check a printed proof by eye.",
+                        thresholds.delta_e00
                     ))
                     .small(),
                 );
@@ -354,11 +370,16 @@ mod tests {
             slots: (0, 1),
             borders: 3,
         }];
-        let clear = distinctness_lines(PairsChecked::Colouring, &pairs, &[]);
+        let clear = distinctness_lines(PairsChecked::Colouring, &pairs, &[], true);
         assert_eq!(clear.len(), 1);
         assert!(clear[0].contains("the 1 slot pair that neighbouring regions use"));
-        let none_coloured = distinctness_lines(PairsChecked::AllSlots, &[], &[]);
+        let none_coloured = distinctness_lines(PairsChecked::AllSlots, &[], &[], false);
         assert!(none_coloured[0].contains("nothing is coloured yet"));
+        assert!(clear[0].contains("in greyscale"));
+        assert!(
+            !none_coloured[0].contains("greyscale"),
+            "greyscale is not claimed when it was not checked"
+        );
         let warning = Warning {
             slots: (0, 1),
             view: View::Colour(Vision::Deuteranopia),
@@ -367,7 +388,7 @@ mod tests {
             message: "Slots 1 'A' and 2 'B' look alike".into(),
         };
         assert_eq!(
-            distinctness_lines(PairsChecked::Colouring, &pairs, &[warning]),
+            distinctness_lines(PairsChecked::Colouring, &pairs, &[warning], true),
             vec!["Slots 1 'A' and 2 'B' look alike".to_string()]
         );
     }

@@ -13,6 +13,7 @@ pub struct SettingsDraft {
     pub corners_count: bool,
     pub min_border_length: f64,
     pub tolerance: f64,
+    pub greyscale_copies: bool,
 }
 
 impl SettingsDraft {
@@ -21,6 +22,7 @@ impl SettingsDraft {
             corners_count: settings.corners_count,
             min_border_length: settings.min_border_length,
             tolerance: settings.tolerance,
+            greyscale_copies: settings.greyscale_copies,
         }
     }
 }
@@ -31,6 +33,7 @@ pub fn settings_edit(doc: &crate::doc::Document, draft: &SettingsDraft) -> Optio
     let settings = Settings {
         corners_count: draft.corners_count,
         min_border_length: draft.min_border_length.max(0.0),
+        greyscale_copies: draft.greyscale_copies,
         ..old
     };
     let mut edits = Vec::new();
@@ -117,6 +120,17 @@ pub fn show(frame: &Frame, window: &mut Option<SettingsDraft>, ctx: &egui::Conte
                     .small(),
                 );
             });
+            ui.separator();
+            ui.checkbox(
+                &mut draft.greyscale_copies,
+                "The map will also be copied in greyscale",
+            );
+            ui.label(
+                egui::RichText::new(
+                    "Photocopies and black-and-white prints keep only lightness. With this on, the palette check also asks neighbouring fills to differ in lightness; the greyscale-safe palettes do, at the cost of one dark fill that stands out in colour.",
+                )
+                .small(),
+            );
             ui.separator();
             // The projection is chosen at import for the data's extent (and saved with it).
             ui.label(match &doc.settings().projection {

@@ -441,6 +441,54 @@ fn export_from_menu(h: &mut Harness<'static, App>, item: &str, path: &std::path:
 }
 
 #[test]
+fn a_print_export_takes_a_title_source_and_scale_bar_and_says_how_many_names_fit() {
+    // Real longitude/latitude data in metres (14 US states from npm us-atlas 3.0.1, see
+    // tests/data/geo/PROVENANCE.md), so the scale bar is offered.
+    let dir = tempfile::tempdir().unwrap();
+    let states = root().join("tests/data/geo/us_states_subset.geojson");
+    let mut h = harness(App::new(None, Some(states)));
+    h.run_steps(3);
+    h.state_mut()
+        .emit(tinct::ui::commands::Command::ColourFewest);
+    h.run_steps(4);
+    h.get_by_label("Export").click();
+    h.run_steps(2);
+    h.get_by_label_contains("Picture for print (SVG)…").click();
+    h.run_steps(3);
+    let path = dir.path().join("states.svg");
+    replace_text(&mut h, "File path", &path.display().to_string());
+    replace_text(&mut h, "Title", "Fourteen states");
+    replace_text(&mut h, "Source", "us-atlas 3.0.1");
+    // The legend is off by default: the fills of a map colouring carry no meaning.
+    assert!(h.query_by_label("Legend heading").is_none());
+    h.get_all_by_label("Export").last().unwrap().click();
+    h.run_steps(3);
+    let message = last_message(&h);
+    assert!(message.starts_with("Wrote the"), "{message}");
+    assert!(message.contains("labels: "), "{message}");
+    let svg = std::fs::read_to_string(&path).unwrap();
+    let tree = roxmltree::Document::parse(&svg).unwrap();
+    let texts: Vec<&str> = tree
+        .descendants()
+        .filter(|n| n.has_tag_name("text"))
+        .filter_map(|n| n.text())
+        .collect();
+    assert!(texts.contains(&"Fourteen states"), "{texts:?}");
+    assert!(
+        texts.iter().any(|t| t.contains("us-atlas 3.0.1")),
+        "{texts:?}"
+    );
+    assert!(
+        texts.iter().any(|t| t.ends_with(" km")),
+        "a scale bar in kilometres: {texts:?}"
+    );
+    assert!(
+        tree.descendants()
+            .all(|n| n.attribute("id") != Some("legend"))
+    );
+}
+
+#[test]
 fn every_export_is_reachable_from_the_export_menu_and_written_where_asked() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness(App::new(None, None));

@@ -142,41 +142,13 @@ pub fn run_export(file: &Path, args: &ExportArgs, geo: &super::import::GeoArgs) 
         }
     }
     if let (true, Some(r)) = (args.labels, &label_report) {
-        notes.push(label_note(r));
+        notes.push(r.summary());
     }
     for (path, bytes) in files {
         write(&path, &bytes).cannot_write()?;
         notes.push(format!("wrote {}", path.display()));
     }
     Ok(Outcome::notes(notes))
-}
-
-/// What label placement did, in one line: "labels: 40 of 49 placed (3 with a leader line); 9 left
-/// out because they do not fit: A, B, ...".
-pub fn label_note(r: &export::LabelReport) -> String {
-    let placed = r.inside + r.with_leader + r.beside_marker;
-    let mut note = format!("labels: {placed} of {} placed", r.named);
-    if r.with_leader > 0 {
-        note.push_str(&format!(" ({} with a leader line)", r.with_leader));
-    }
-    if r.left_out.is_empty() {
-        note.push_str("; none left out");
-    } else {
-        const SHOWN: usize = 8;
-        let names: Vec<&str> = r.left_out.iter().take(SHOWN).map(String::as_str).collect();
-        let more = r.left_out.len().saturating_sub(SHOWN);
-        note.push_str(&format!(
-            "; {} left out because they do not fit: {}{}",
-            r.left_out.len(),
-            names.join(", "),
-            if more > 0 {
-                format!(" and {more} more")
-            } else {
-                String::new()
-            }
-        ));
-    }
-    note
 }
 
 /// Options of `tinct palette`.

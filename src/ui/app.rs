@@ -301,14 +301,15 @@ impl App {
             JobResult::Exported {
                 format,
                 path,
-                result: Ok(bytes),
+                result: Ok((bytes, labels)),
             } => self.say(
                 Level::Info,
                 format!(
-                    "Wrote the {} to {} ({})",
+                    "Wrote the {} to {} ({}){}",
                     format.name(),
                     path.display(),
-                    human_size(bytes)
+                    human_size(bytes),
+                    labels.map(|l| format!("; {l}")).unwrap_or_default()
                 ),
             ),
             JobResult::Exported {
@@ -605,19 +606,19 @@ impl App {
             }
         };
         let snapshot = crate::worker::snapshot(self.session.doc());
-        let options = self.dialogs.path.export_options;
+        let options = self.dialogs.path.export_options.clone();
         let revision = self.session.doc().revision();
         let job = move |_: &crate::worker::JobContext| {
-            let result = export_files(&snapshot, format, options, &path)
+            let result = export_files(&snapshot, format, &options, &path)
                 .map_err(|e| e.to_string())
-                .and_then(|files| {
+                .and_then(|(files, labels)| {
                     let mut total = 0;
                     for (file, bytes) in &files {
                         crate::atomic::write_atomically(file, bytes)
                             .map_err(|e| format!("cannot write {}: {e}", file.display()))?;
                         total += bytes.len();
                     }
-                    Ok(total)
+                    Ok((total, labels.map(|r| r.summary())))
                 });
             JobResult::Exported {
                 format,

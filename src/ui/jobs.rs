@@ -24,7 +24,8 @@ pub enum JobResult {
     Exported {
         format: ExportFormat,
         path: PathBuf,
-        result: Result<usize, String>,
+        /// The bytes written, and for a picture what label placement did (in one line).
+        result: Result<(usize, Option<String>), String>,
     },
     /// The project saved (as of `revision`) to `path`, or why not.
     Saved {
@@ -61,13 +62,19 @@ pub fn human_size(bytes: usize) -> String {
 pub fn export_files(
     doc: &Document,
     format: ExportFormat,
-    options: ExportOptions,
+    options: &ExportOptions,
     path: &Path,
-) -> Result<Vec<(PathBuf, Vec<u8>)>, crate::export::ExportError> {
+) -> Result<(crate::export::Files, Option<crate::export::LabelReport>), crate::export::ExportError>
+{
+    let text = |s: &str| (!s.trim().is_empty()).then(|| s.trim().to_string());
     let svg = crate::export::SvgOptions {
         width_mm: options.width_mm,
         labels: options.labels,
         legend: options.legend,
+        legend_heading: options.legend_heading.trim().to_string(),
+        title: text(&options.title),
+        source: text(&options.source),
+        scale_bar: options.scale_bar,
         ..Default::default()
     };
     let format = match format {
@@ -80,5 +87,5 @@ pub fn export_files(
         ExportFormat::Shapefile => crate::export::ExportFormat::Shapefile,
         ExportFormat::Csv => crate::export::ExportFormat::Csv,
     };
-    crate::export::export_files(doc, format, &svg, path)
+    crate::export::export_files_with_report(doc, format, &svg, path)
 }

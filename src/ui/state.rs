@@ -73,12 +73,21 @@ pub enum PathPurpose {
 }
 
 /// How pictures are exported (kept for the session, not in the project).
-#[derive(Clone, Copy, Debug, PartialEq)]
+#[derive(Clone, Debug, PartialEq)]
 pub struct ExportOptions {
     /// Region names on the picture.
     pub labels: bool,
-    /// A legend of the colours in use.
+    /// A legend of the colours in use; off by default, since in a plain map colouring the fills
+    /// carry no meaning.
     pub legend: bool,
+    /// The legend's heading (empty for none).
+    pub legend_heading: String,
+    /// A title above the map (empty for none).
+    pub title: String,
+    /// A source line under the map (empty for none).
+    pub source: String,
+    /// A scale bar, for maps in true units.
+    pub scale_bar: bool,
     /// Page width in millimetres (SVG and PNG).
     pub width_mm: f64,
     /// Resolution of a PNG, in dots per inch at that page width.
@@ -89,7 +98,11 @@ impl Default for ExportOptions {
     fn default() -> ExportOptions {
         ExportOptions {
             labels: true,
-            legend: true,
+            legend: false,
+            legend_heading: String::new(),
+            title: String::new(),
+            source: String::new(),
+            scale_bar: true,
             width_mm: 180.0,
             dpi: 300,
         }

@@ -78,7 +78,8 @@ pub fn show(frame: &Frame, window: &mut PathWindow, ctx: &egui::Context) {
                 choice = Some(Choice::Go);
             }
             if let PathPurpose::Export(format) = prompt.purpose {
-                export_options_ui(ui, format, export_options);
+                let true_units = frame.doc().settings().units == crate::doc::Units::Metres;
+                export_options_ui(ui, format, export_options, true_units);
             }
             if prompt.purpose == PathPurpose::Open
                 && crate::geo::is_boundary_file(std::path::Path::new(prompt.text.trim()))
@@ -119,14 +120,43 @@ pub fn show(frame: &Frame, window: &mut PathWindow, ctx: &egui::Context) {
 }
 
 /// The choices that shape an exported picture (pictures only; data exports have none).
-fn export_options_ui(ui: &mut egui::Ui, format: ExportFormat, options: &mut ExportOptions) {
+fn export_options_ui(
+    ui: &mut egui::Ui,
+    format: ExportFormat,
+    options: &mut ExportOptions,
+    true_units: bool,
+) {
     if !matches!(format, ExportFormat::Svg | ExportFormat::Png) {
         return;
     }
+    let text_row = |ui: &mut egui::Ui, label: &str, value: &mut String, hint: &str| {
+        ui.horizontal(|ui| {
+            let l = ui.label(label);
+            ui.add(egui::TextEdit::singleline(value).hint_text(hint))
+                .labelled_by(l.id);
+        });
+    };
+    text_row(ui, "Title", &mut options.title, "none");
+    text_row(
+        ui,
+        "Source",
+        &mut options.source,
+        "none (written as \"Source: …\")",
+    );
     ui.horizontal(|ui| {
         ui.checkbox(&mut options.labels, "Region names");
-        ui.checkbox(&mut options.legend, "Legend");
+        ui.add_enabled(
+            true_units,
+            egui::Checkbox::new(&mut options.scale_bar, "Scale bar"),
+        )
+        .on_disabled_hover_text("This map is in free units: a length would mean nothing");
+        ui.checkbox(&mut options.legend, "Legend").on_hover_text(
+            "The fills of a map colouring carry no meaning, so it is off unless you want one",
+        );
     });
+    if options.legend {
+        text_row(ui, "Legend heading", &mut options.legend_heading, "none");
+    }
     ui.horizontal(|ui| {
         ui.label("Page width");
         ui.add(

@@ -82,7 +82,7 @@ fn png_shows_each_region_in_its_fill_at_its_label_point() {
     // Decoded by tiny-skia's PNG reader (the png crate), independent of our encoder call.
     let pixmap = resvg::tiny_skia::Pixmap::decode_png(&png).expect("a valid PNG");
     assert_eq!(pixmap.width(), width_px);
-    let frame = MapFrame::new(&doc, &options).unwrap();
+    let frame = MapFrame::new(&doc, &options, None).unwrap();
     let px_per_mm = f64::from(width_px) / options.width_mm;
     let mut checked = 0;
     for (id, region) in doc.land_regions() {

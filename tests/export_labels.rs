@@ -449,7 +449,11 @@ fn line_hierarchy_coast_heavier_than_borders_and_borders_match_the_derived_lengt
     // edge, src/geo/adjacency.rs); the exporter's border lines must add up to the same total.
     for file in ["us_states_subset.geojson", "columbus.shp"] {
         let doc = imported(file);
-        let options = SvgOptions::default();
+        // Everything where it lies (no inset for Alaska), so that lengths compare directly.
+        let options = SvgOptions {
+            insets: false,
+            ..SvgOptions::default()
+        };
         let svg = render(&doc, &options).unwrap().svg;
         let (coast_ink, coast_w, coast) = polylines(&svg, "coast");
         let (border_ink, border_w, borders) = polylines(&svg, "borders");
@@ -457,7 +461,7 @@ fn line_hierarchy_coast_heavier_than_borders_and_borders_match_the_derived_lengt
         assert_ne!(coast_ink, border_ink);
         // Widths are the options' millimetres at print size (the SVG units are map units, so a
         // millimetre is the page width in units over the width in millimetres).
-        let frame = tinct::export::MapFrame::new(&doc, &options).unwrap();
+        let frame = tinct::export::MapFrame::new(&doc, &options, None).unwrap();
         let unit = 1.0 / frame.mm_per_unit;
         assert!((coast_w.unwrap() - options.coast_mm * unit).abs() <= 0.01 * unit);
         assert!((border_w.unwrap() - options.border_mm * unit).abs() <= 0.01 * unit);
@@ -661,4 +665,126 @@ fn the_same_map_exports_to_the_same_bytes() {
     .unwrap();
     assert!(resvg::tiny_skia::Pixmap::decode_png(&png).is_ok());
     assert_eq!(report, first.labels);
+}
+
+/// The `d` of each region's path in an exported SVG, as points (SVG units), by region id.
+fn region_points(svg: &str) -> BTreeMap<String, Vec<[f64; 2]>> {
+    let xml = roxmltree::Document::parse(svg).unwrap();
+    xml.descendants()
+        .filter(|n| n.has_tag_name("path"))
+        .filter_map(|n| Some((n.attribute("id")?.to_string(), n.attribute("d")?)))
+        .filter(|(id, _)| id.starts_with("region-"))
+        .map(|(id, d)| {
+            let numbers: Vec<f64> = d
+                .split(|c: char| c.is_whitespace() || c == 'M' || c == 'L' || c == 'Z')
+                .filter(|t| !t.is_empty())
+                .map(|t| t.parse().unwrap())
+                .collect();
+            (id, numbers.chunks_exact(2).map(|p| [p[0], p[1]]).collect())
+        })
+        .collect()
+}
+
+#[test]
+fn far_parts_go_into_inset_frames_that_cover_no_land_and_hold_their_names() {
+    // Alaska beside twelve conterminous states (us-atlas 3.0.1, see PROVENANCE.md): drawn where
+    // it lies, it takes the page's north-west and shrinks the rest. Inset frames are common atlas
+    // practice for it.
+    let doc = imported("us_states_subset.geojson");
+    let alaska = doc.region_by_name("Alaska").unwrap();
+    let arranged = tinct::export::insets::arrange(&doc).expect("an inset for Alaska");
+    assert_eq!(arranged.insets.len(), 1);
+    let inset = &arranged.insets[0];
+    assert_eq!(inset.regions, [alaska]);
+    assert!(
+        inset.scale < 1.0,
+        "Alaska is shrunk to fit: {}",
+        inset.scale
+    );
+    // The main map is drawn larger than without the inset.
+    let options = SvgOptions {
+        labels: true,
+        ..SvgOptions::default()
+    };
+    let plain = SvgOptions {
+        insets: false,
+        ..options.clone()
+    };
+    let with = tinct::export::MapFrame::new(&arranged.doc, &options, arranged.extent()).unwrap();
+    let without = tinct::export::MapFrame::new(&doc, &plain, None).unwrap();
+    assert!(
+        with.mm_per_unit > 1.3 * without.mm_per_unit,
+        "{} against {}",
+        with.mm_per_unit,
+        without.mm_per_unit
+    );
+    // In the SVG: one frame; Alaska inside it, every other state outside it; the caption gives
+    // Alaska's scale; its name lies in the frame.
+    let made = render(&doc, &options).unwrap();
+    let xml = roxmltree::Document::parse(&made.svg).unwrap();
+    let group = xml
+        .descendants()
+        .find(|n| n.attribute("id") == Some("insets"))
+        .expect("an insets group");
+    let rects: Vec<[f64; 4]> = group
+        .children()
+        .filter(|c| c.has_tag_name("rect"))
+        .map(|r| {
+            let a = |k| r.attribute(k).unwrap().parse::<f64>().unwrap();
+            [a("x"), a("y"), a("x") + a("width"), a("y") + a("height")]
+        })
+        .collect();
+    assert_eq!(rects.len(), 1);
+    let [x0, y0, x1, y1] = rects[0];
+    let inside = |p: &[f64; 2]| p[0] >= x0 && p[0] <= x1 && p[1] >= y0 && p[1] <= y1;
+    let strictly_out = |p: &[f64; 2]| p[0] < x0 || p[0] > x1 || p[1] < y0 || p[1] > y1;
+    for (id, points) in region_points(&made.svg) {
+        if id == format!("region-{alaska}") {
+            assert!(points.iter().all(inside), "Alaska lies in its frame");
+        } else {
+            assert!(
+                points.iter().all(strictly_out),
+                "{id} lies outside the frame"
+            );
+        }
+    }
+    let caption = group
+        .descendants()
+        .find(|n| n.has_tag_name("text"))
+        .and_then(|t| t.text())
+        .unwrap();
+    assert!(caption.starts_with("scale ×0."), "{caption}");
+    assert!(made.labels.left_out.iter().all(|n| n != "Alaska"));
+    // Without insets, nothing moves.
+    assert!(!render(&doc, &plain).unwrap().svg.contains(r#"id="insets""#));
+}
+
+#[test]
+fn maps_without_far_parts_or_without_a_place_on_the_globe_get_no_insets() {
+    // Columbus (one city, no far parts; GeoDa sample data via libpysal) and the invented sample
+    // maps (no projection) are drawn as they are.
+    assert!(tinct::export::insets::arrange(&imported("columbus.shp")).is_none());
+    for name in ["three-valleys", "vessland-province", "exclave-coast"] {
+        let doc =
+            tinct::doc::file::load(&root().join(format!("sample-maps/{name}.tinct"))).unwrap();
+        assert!(tinct::export::insets::arrange(&doc).is_none(), "{name}");
+    }
+    // Russia and its neighbours with Fiji (world-atlas 2.0.2): Russia runs across the
+    // 180-degree meridian and stays whole in the main map; only Fiji, far away in the south
+    // Pacific, goes into an inset.
+    let world = imported("world_subset.topojson");
+    let a = tinct::export::insets::arrange(&world).expect("an inset for Fiji");
+    let fiji = world.region_by_name("Fiji").unwrap();
+    assert_eq!(a.insets.len(), 1);
+    assert_eq!(a.insets[0].regions, [fiji]);
+}
+
+#[test]
+fn inset_captions_give_the_scale_as_a_factor() {
+    use tinct::export::svg::inset_caption;
+    assert_eq!(inset_caption(0.41), "scale ×0.41");
+    assert_eq!(inset_caption(0.4123), "scale ×0.41");
+    assert_eq!(inset_caption(3.06), "scale ×3.1");
+    assert_eq!(inset_caption(2.0), "scale ×2");
+    assert_eq!(inset_caption(0.085), "scale ×0.085");
 }

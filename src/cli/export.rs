@@ -84,6 +84,10 @@ pub struct ExportArgs {
     /// The legend's heading (with --legend).
     #[arg(long = "legend-heading", value_name = "TEXT", requires = "legend")]
     pub legend_heading: Option<String>,
+    /// Draw regions far from the main mass where they lie, instead of in inset frames beside it
+    /// (inset frames are used for maps imported from longitude/latitude when they save room).
+    #[arg(long = "no-insets")]
+    pub no_insets: bool,
     /// Accepted for older scripts: the legend is now off unless --legend is given.
     #[arg(long = "no-legend", hide = true, conflicts_with = "legend")]
     pub no_legend: bool,
@@ -105,6 +109,7 @@ pub fn run_export(file: &Path, args: &ExportArgs, geo: &super::import::GeoArgs) 
         title: args.title.clone(),
         source: args.source.clone(),
         scale_bar: args.scale_bar,
+        insets: !args.no_insets,
         ..SvgOptions::default()
     };
     let mut notes = Vec::new();

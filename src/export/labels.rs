@@ -316,12 +316,24 @@ pub fn land_fill(doc: &Document, id: RegionId) -> Rgb {
         .map_or(Rgb([0xf4, 0xf4, 0xf2]), |s| s.colour)
 }
 
-/// Places the names of `doc`'s outlined regions for a page laid out as `frame`.
+/// An inset frame on the page: the names of its regions stay inside it, and no other name or
+/// leader line enters it.
+#[derive(Clone, Debug)]
+pub struct InsetBox {
+    pub box_mm: BoxMm,
+    pub regions: std::collections::BTreeSet<RegionId>,
+    /// Where the inset's scale caption is written, if it has one: no name may cover it.
+    pub caption_mm: Option<BoxMm>,
+}
+
+/// Places the names of `doc`'s outlined regions for a page laid out as `frame`, keeping the
+/// names of inset regions inside their `insets` frames and every other name out of them.
 pub fn place(
     doc: &Document,
     frame: &MapFrame,
     options: &SvgOptions,
     lines: &Lines,
+    insets: &[InsetBox],
 ) -> (Vec<Placement>, LabelReport) {
     let mut report = LabelReport::default();
     let mm2_per_unit2 = frame.mm_per_unit * frame.mm_per_unit;
@@ -386,6 +398,12 @@ pub fn place(
             usize::MAX,
         ));
     }
+    for caption in insets.iter().filter_map(|i| i.caption_mm) {
+        placed.insert(GeomWithData::new(
+            Rectangle::from_corners(caption[0], caption[1]),
+            usize::MAX,
+        ));
+    }
     let mut out: Vec<Placement> = Vec::new();
     let mut pending: Vec<&Candidate> = Vec::new();
     for c in &candidates {
@@ -417,6 +435,7 @@ pub fn place(
     // Leader lines, for what is left, largest first again.
     let land = LandIndex::new(&candidates);
     let page_box: BoxMm = frame.map_box_mm();
+    let inset_boxes: Vec<BoxMm> = insets.iter().map(|i| i.box_mm).collect();
     let mut leaders: Vec<[[f64; 2]; 2]> = Vec::new();
     // Coastal regions (not islands or enclaves) take leader lines only on a map where at least a
     // quarter of the names went inside: there a few small coastal names finish the picture, while
@@ -442,7 +461,13 @@ pub fn place(
                 })
                 .and_then(|host| {
                     let rings = host.map(|h| h.rings.as_slice());
-                    place_with_leader(c, sizes[0], rings, &placed, &land, &page_box, &leaders)
+                    // An inset region's name stays in its frame; others keep out of every frame.
+                    let (page, avoid) = match insets.iter().find(|i| i.regions.contains(&c.id)) {
+                        Some(inset) => (inset.box_mm, &[][..]),
+                        None => (page_box, inset_boxes.as_slice()),
+                    };
+                    let bounds = Bounds { page: &page, avoid };
+                    place_with_leader(c, sizes[0], rings, &placed, &land, &bounds, &leaders)
                         .map(|found| (found, host))
                 })
         } else {
@@ -654,13 +679,19 @@ impl<'a> LandIndex<'a> {
     }
 }
 
+/// Where a name with a leader line may go: inside `page`, clear of every `avoid` box.
+struct Bounds<'a> {
+    page: &'a BoxMm,
+    avoid: &'a [BoxMm],
+}
+
 fn place_with_leader(
     c: &Candidate,
     size: f64,
     host: Option<&[Vec<Point>]>,
     placed: &Placed,
     land: &LandIndex,
-    page: &BoxMm,
+    page: &Bounds,
     leaders: &[[[f64; 2]; 2]],
 ) -> Option<Outside> {
     // Start the line at the pole (inside the region by construction).
@@ -687,9 +718,10 @@ fn place_set_with_leader(
     host: Option<&[Vec<Point>]>,
     placed: &Placed,
     land: &LandIndex,
-    page: &BoxMm,
+    bounds: &Bounds,
     leaders: &[[[f64; 2]; 2]],
 ) -> Option<Outside> {
+    let page = bounds.page;
     let b0 = label_box([0.0, 0.0], set, size);
     let (half_w, half_h) = ((b0[1][0] - b0[0][0]) / 2.0, (b0[1][1] - b0[0][1]) / 2.0);
     // Sixteen directions, right and left first (a name beside its place reads best), at growing
@@ -709,7 +741,10 @@ fn place_set_with_leader(
                 && b[0][1] >= page[0][1]
                 && b[1][0] <= page[1][0]
                 && b[1][1] <= page[1][1];
-            if !inside_page || collides(placed, &b) {
+            let in_an_inset = bounds.avoid.iter().any(|a| {
+                b[0][0] < a[1][0] && a[0][0] < b[1][0] && b[0][1] < a[1][1] && a[0][1] < b[1][1]
+            });
+            if !inside_page || in_an_inset || collides(placed, &b) {
                 continue;
             }
             let ok_ground = match host {
@@ -737,7 +772,11 @@ fn place_set_with_leader(
             let crosses_leader = leaders
                 .iter()
                 .any(|l| crate::geometry::segments_intersect(l[0], l[1], start, end));
-            if crosses_label || crosses_leader {
+            let crosses_inset = bounds
+                .avoid
+                .iter()
+                .any(|a| segment_meets_box(start, end, a));
+            if crosses_label || crosses_leader || crosses_inset {
                 continue;
             }
             return Some((centre, b, line, set.to_vec()));

@@ -10,6 +10,7 @@ pub mod csv;
 pub mod geojson;
 pub mod gis;
 pub mod gpkg;
+pub mod insets;
 pub mod labels;
 pub mod lines;
 pub mod png;

@@ -76,6 +76,10 @@ pub struct SvgOptions {
     /// Small islands, enclaves and coastal regions whose name does not fit inside may have it
     /// placed nearby with a leader line.
     pub leaders: bool,
+    /// Regions far from the main mass of a map imported from longitude/latitude (Alaska and
+    /// Hawaii beside the conterminous US) drawn in inset frames beside it, when that saves room
+    /// (see [`super::insets`]).
+    pub insets: bool,
 }
 
 impl Default for SvgOptions {
@@ -95,6 +99,7 @@ impl Default for SvgOptions {
             label_min_mm: 2.1,
             label_max_mm: 3.5,
             leaders: true,
+            insets: true,
         }
     }
 }
@@ -144,9 +149,14 @@ pub struct MapFrame {
 }
 
 impl MapFrame {
-    /// Lays out `doc` for `options`; `None` for an empty map.
-    pub fn new(doc: &Document, options: &SvgOptions) -> Option<MapFrame> {
-        let bounds = doc.bounds()?;
+    /// Lays out `doc` for `options`, over `bounds` when given (else the document's); `None` for
+    /// an empty map.
+    pub fn new(
+        doc: &Document,
+        options: &SvgOptions,
+        bounds: Option<[Point; 2]>,
+    ) -> Option<MapFrame> {
+        let bounds = bounds.or_else(|| doc.bounds())?;
         let size = [bounds[1][0] - bounds[0][0], bounds[1][1] - bounds[0][1]];
         let content_mm = (options.width_mm - 2.0 * MARGIN_MM).max(1.0);
         // A single point or a line has no width: give it a nominal one so the scale is finite.
@@ -381,7 +391,16 @@ pub(crate) fn render_with(
     synthetic_oblique: bool,
 ) -> Result<SvgExport, ExportError> {
     check_options(options)?;
-    let frame = MapFrame::new(doc, options).ok_or(ExportError::EmptyMap)?;
+    let arranged = if options.insets {
+        super::insets::arrange(doc)
+    } else {
+        None
+    };
+    let (doc, insets, bounds) = match &arranged {
+        Some(a) => (&a.doc, &a.insets[..], a.extent()),
+        None => (doc, &[][..], None),
+    };
+    let frame = MapFrame::new(doc, options, bounds).ok_or(ExportError::EmptyMap)?;
     // Hundredths of a millimetre are finer than any printer resolves.
     let step = 0.01 / frame.mm_per_unit;
     let num = Num((-step.log10()).ceil().clamp(0.0, 12.0) as usize);
@@ -538,9 +557,56 @@ pub(crate) fn render_with(
         let _ = writeln!(out, "</g>");
     }
 
+    // Inset frames, with their scale when it is not the main map's.
+    if !insets.is_empty() {
+        let _ = writeln!(
+            out,
+            r#"<g id="insets" fill="none" stroke="{BORDER_INK}" stroke-width="{}">"#,
+            mm(0.25)
+        );
+        for inset in insets {
+            let [a, b] = [
+                frame.to_svg([inset.frame[0][0], inset.frame[1][1]]),
+                frame.to_svg([inset.frame[1][0], inset.frame[0][1]]),
+            ];
+            let _ = writeln!(
+                out,
+                r#"<rect x="{}" y="{}" width="{}" height="{}"/>"#,
+                num.f(a[0]),
+                num.f(a[1]),
+                num.f(b[0] - a[0]),
+                num.f(b[1] - a[1])
+            );
+            if inset_caption_box(inset, [0.0; 2], [0.0; 2]).is_some() {
+                let _ = writeln!(
+                    out,
+                    r#"<text x="{}" y="{}" stroke="none" fill="{SOURCE_INK}" font-family="sans-serif" font-size="{}">{}</text>"#,
+                    num.f(a[0] + frame.units(CAPTION_INSET_MM)),
+                    num.f(b[1] - frame.units(CAPTION_INSET_MM)),
+                    mm(CAPTION_SIZE_MM),
+                    escape(&inset_caption(inset.scale))
+                );
+            }
+        }
+        let _ = writeln!(out, "</g>");
+    }
+
     let mut report = LabelReport::default();
     if options.labels {
-        let (placements, r) = labels::place(doc, &frame, options, &lines);
+        let boxes: Vec<labels::InsetBox> = insets
+            .iter()
+            .map(|inset| {
+                let a = frame.to_page_mm([inset.frame[0][0], inset.frame[1][1]]);
+                let b = frame.to_page_mm([inset.frame[1][0], inset.frame[0][1]]);
+                let inner = 0.4;
+                labels::InsetBox {
+                    box_mm: [[a[0] + inner, a[1] + inner], [b[0] - inner, b[1] - inner]],
+                    regions: inset.regions.iter().copied().collect(),
+                    caption_mm: inset_caption_box(inset, a, b),
+                }
+            })
+            .collect();
+        let (placements, r) = labels::place(doc, &frame, options, &lines, &boxes);
         report = r;
         let to_units = |p: [f64; 2]| [frame.units(p[0]), frame.units(p[1])];
         let leaders: Vec<_> = placements
@@ -640,6 +706,38 @@ pub(crate) fn render_with(
         svg: out,
         labels: report,
     })
+}
+
+/// The caption of an inset drawn at another scale than the main map, as a factor of the main
+/// map's scale to two significant figures: "scale ×0.41", "scale ×3".
+pub fn inset_caption(scale: f64) -> String {
+    let digits = (1 - scale.abs().max(1e-9).log10().floor() as i32).max(0) as usize;
+    let text = format!("{scale:.digits$}");
+    let text = if text.contains('.') {
+        text.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        text
+    };
+    format!("scale ×{text}")
+}
+
+const CAPTION_SIZE_MM: f64 = 2.0;
+const CAPTION_INSET_MM: f64 = 0.8;
+
+/// The page box (mm) of an inset's scale caption, bottom left inside its frame whose top-left and
+/// bottom-right corners on the page are `a` and `b`; `None` when the inset keeps the map's scale.
+fn inset_caption_box(
+    inset: &super::insets::Inset,
+    a: [f64; 2],
+    b: [f64; 2],
+) -> Option<[[f64; 2]; 2]> {
+    if (inset.scale - 1.0).abs() <= 0.005 {
+        return None;
+    }
+    let width = labels::text_width_mm(&inset_caption(inset.scale), CAPTION_SIZE_MM);
+    let x = a[0] + CAPTION_INSET_MM;
+    let y = b[1] - CAPTION_INSET_MM;
+    Some([[x - 0.3, y - CAPTION_SIZE_MM], [x + width + 0.3, y + 0.5]])
 }
 
 /// The title, the scale bar, the source line and the legend.

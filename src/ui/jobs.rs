@@ -75,6 +75,7 @@ pub fn export_files(
         title: text(&options.title),
         source: text(&options.source),
         scale_bar: options.scale_bar,
+        insets: options.insets,
         ..Default::default()
     };
     let format = match format {

@@ -88,6 +88,8 @@ pub struct ExportOptions {
     pub source: String,
     /// A scale bar, for maps in true units.
     pub scale_bar: bool,
+    /// Regions far from the main mass in inset frames (maps imported from longitude/latitude).
+    pub insets: bool,
     /// Page width in millimetres (SVG and PNG).
     pub width_mm: f64,
     /// Resolution of a PNG, in dots per inch at that page width.
@@ -103,6 +105,7 @@ impl Default for ExportOptions {
             title: String::new(),
             source: String::new(),
             scale_bar: true,
+            insets: true,
             width_mm: 180.0,
             dpi: 300,
         }

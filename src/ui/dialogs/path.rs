@@ -150,6 +150,11 @@ fn export_options_ui(
             egui::Checkbox::new(&mut options.scale_bar, "Scale bar"),
         )
         .on_disabled_hover_text("This map is in free units: a length would mean nothing");
+        ui.add_enabled(
+            true_units,
+            egui::Checkbox::new(&mut options.insets, "Far parts in inset frames"),
+        )
+        .on_hover_text("Regions far from the main mass (Alaska beside the other states) are drawn in framed boxes beside it");
         ui.checkbox(&mut options.legend, "Legend").on_hover_text(
             "The fills of a map colouring carry no meaning, so it is off unless you want one",
         );

@@ -247,7 +247,18 @@ impl MainMass {
                 count += 1;
             }
             if count > 1 {
-                area += edge(previous, first, &mut cells).0;
+                let (a, d_lon) = edge(previous, first, &mut cells);
+                area += a;
+                lon += d_lon;
+            }
+            // A ring that goes right round a pole (Antarctica, cut at the 180-degree meridian
+            // and closed along the pole) winds once: the trapezoids then measure the area between
+            // it and the equator. Its own area lies between it and the pole:
+            // 2 (s W - S) for winding W (radians), pole s = +-1 and trapezoid sum 2 S.
+            let winding = (lon - normalise_lon(first[0])).to_radians();
+            if winding.abs() > std::f64::consts::PI {
+                let pole = if area / winding < 0.0 { -1.0 } else { 1.0 };
+                area = 2.0 * pole * winding - area;
             }
             if lon_max - lon_min > 0.0 && lon_max - lon_min < 360.0 {
                 let start = normalise_lon(lon_min);
@@ -439,6 +450,32 @@ mod tests {
             lon_lat_box(113.0, 153.0, -39.0, -11.0),  // Australia
             lon_lat_box(-180.0, 180.0, -90.0, -63.0), // Antarctica
         ]
+    }
+
+    #[test]
+    fn a_ring_round_the_pole_weighs_its_own_area() {
+        // Antarctica as world data sets draw it: along its coast from -180 to 180 degrees, then
+        // down to the pole and straight back, an edge of no length on the sphere. Its weight is
+        // the cap south of 75 degrees, 2 pi (1 - sin 75) = 0.21 on the (lon, sin lat) plane (the
+        // area of a spherical cap, common knowledge), not the band from 75 S to the equator (6.07).
+        let mut ring: Vec<LonLat> = (0..=360).map(|k| [k as f64 - 180.0, -75.0]).collect();
+        ring.push([180.0, -90.0]);
+        ring.push([-180.0, -90.0]);
+        let europe = lon_lat_box(-10.0, 40.0, 35.0, 70.0);
+        let m = MainMass::find(&[ring, europe]).unwrap();
+        // Europe, 50 degrees by 35 (0.873 (sin 70 - sin 35) = 0.32), outweighs the cap.
+        assert_eq!(m.outlying, [true, false]);
+        // And a real world keeps Equal Earth with such an Antarctica.
+        let mut parts = world();
+        parts.pop();
+        let mut antarctica: Vec<LonLat> = (0..=360).map(|k| [k as f64 - 180.0, -66.0]).collect();
+        antarctica.push([180.0, -90.0]);
+        antarctica.push([-180.0, -90.0]);
+        parts.push(antarctica);
+        assert!(matches!(
+            Projection::choose(&parts),
+            Some(Projection::EqualEarth { .. })
+        ));
     }
 
     #[test]

@@ -165,8 +165,21 @@ impl Projection {
 
     /// Projects `[lon, lat]` in degrees to `[x, y]` in metres.
     pub fn project(&self, [lon, lat]: LonLat) -> LonLat {
+        // A point on the meridian opposite the central one keeps the side its longitude names.
+        let offset = lon - self.lon0();
+        let dl = if (-180.0..=180.0).contains(&offset) {
+            offset
+        } else {
+            normalise_lon(offset)
+        };
+        self.project_offset(dl, lat)
+    }
+
+    /// Projects the point `dl` degrees east of the central meridian (in `[-180, 180]`) at
+    /// latitude `lat`.
+    fn project_offset(&self, dl: f64, lat: f64) -> LonLat {
         let r = AUTHALIC_RADIUS_M;
-        let dl = normalise_lon(lon - self.lon0()).to_radians();
+        let dl = dl.to_radians();
         let phi = lat.to_radians();
         match *self {
             Projection::LambertAzimuthal { lat0, .. } => {
@@ -273,8 +286,20 @@ impl Projection {
 
     /// Projects a ring in place.
     pub fn project_ring(&self, ring: &mut [LonLat]) {
+        // Points on the meridian opposite the central one (the edge of a world map) go to the
+        // side of the edge the ring comes from. World data sets cut rings there, but write the
+        // cut as +180 in some points and -180 in others of one ring (Russia and Fiji in Natural
+        // Earth's 1:50m countries); taken at their word, the ring would cross the whole map.
+        let lon0 = self.lon0();
+        let off_edge = |lon: f64| {
+            let d = normalise_lon(lon - lon0);
+            (d > -180.0 + 1e-9).then_some(d)
+        };
+        let mut previous = ring.iter().find_map(|p| off_edge(p[0])).unwrap_or(-180.0);
         for p in ring {
-            *p = self.project(*p);
+            let dl = off_edge(p[0]).unwrap_or(if previous > 0.0 { 180.0 } else { -180.0 });
+            previous = dl;
+            *p = self.project_offset(dl, p[1]);
         }
     }
 
@@ -342,6 +367,29 @@ fn degrees(value: f64, positive: &str, negative: &str) -> String {
 mod tests {
     use super::*;
     use proptest::prelude::*;
+
+    #[test]
+    fn points_on_the_edge_of_a_world_map_stay_on_their_rings_side() {
+        // Natural Earth's 1:50m countries (world-atlas 2.0.2) write the cut at 180 degrees as
+        // -180 in places: Russia's ring runs 179.87 E, then -180 twice, then 179.83 E. Those
+        // points belong on the east edge, beside their neighbours, not across the map.
+        let p = Projection::EqualEarth { lon0: 0.0 };
+        let mut ring = vec![
+            [179.87, 69.0],
+            [-180.0, 68.98],
+            [-180.0, 65.07],
+            [179.83, 65.03],
+        ];
+        p.project_ring(&mut ring);
+        assert!(ring.iter().all(|q| q[0] > 0.0), "{ring:?}");
+        // A ring on the west side keeps -180 (and a ring that starts on the edge looks ahead).
+        let mut west = vec![[-180.0, -16.5], [-179.9, -16.6], [-180.0, -16.7]];
+        p.project_ring(&mut west);
+        assert!(west.iter().all(|q| q[0] < 0.0), "{west:?}");
+        // A single point takes the side its longitude names.
+        assert!(p.project([180.0, 0.0])[0] > 0.0);
+        assert!(p.project([-180.0, 0.0])[0] < 0.0);
+    }
 
     /// Signed area of an open ring (the shoelace formula).
     fn shoelace(ring: &[LonLat]) -> f64 {

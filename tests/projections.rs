@@ -289,3 +289,98 @@ fn the_us_states_fixture_centres_on_its_conterminous_states() {
     };
     assert!((-165.0..=-145.0).contains(&lon0), "{projection:?}");
 }
+
+#[test]
+fn the_whole_world_gets_equal_earth_and_nothing_is_drawn_across_its_edge() {
+    // Natural Earth 1:110m countries (npm world-atlas 2.0.2, tests/data/geo/PROVENANCE.md). A
+    // world map takes Equal Earth (Šavrič, Patterson and Jenny 2018), the projection made for
+    // world maps; Antarctica, whose ring runs round the south pole, must not pass for the main
+    // mass (it once did, and the world came out as one polar disc).
+    let doc = tinct::geo::import_path(&data("geo/world110m.topojson"), &Default::default())
+        .unwrap()
+        .into_document("world");
+    let projection = doc.settings().projection.unwrap();
+    assert!(
+        matches!(projection, Projection::EqualEarth { .. }),
+        "{projection:?}"
+    );
+    // No outline has an edge spanning half the map: nothing runs from one side to the other,
+    // but along a pole line (Equal Earth draws the poles as lines; Antarctica closes along the
+    // south one).
+    let [lo, hi] = doc.bounds().unwrap();
+    let width = hi[0] - lo[0];
+    let poles = [
+        projection.project([0.0, 90.0])[1],
+        projection.project([0.0, -90.0])[1],
+    ];
+    let on_pole_line = |p: [f64; 2]| poles.iter().any(|y| (p[1] - y).abs() < 1.0);
+    for region in doc.regions().values() {
+        let Some(g) = &region.geometry else { continue };
+        for polygon in &g.polygons {
+            let ring = &polygon.exterior;
+            for i in 0..ring.len() {
+                let (a, b) = (ring[i], ring[(i + 1) % ring.len()]);
+                assert!(
+                    (a[0] - b[0]).abs() < width / 2.0 || (on_pole_line(a) && on_pole_line(b)),
+                    "{}: an edge from {a:?} to {b:?} crosses the map",
+                    region.name
+                );
+            }
+        }
+    }
+}
+
+#[test]
+fn rings_across_the_edge_of_a_world_map_are_cut_there() {
+    // Fiji at 1:50m (world-atlas 2.0.2): some of its rings cross the 180-degree meridian. Read
+    // as plain coordinates (longitude, latitude), then cut at a world map's edge.
+    let options = tinct::geo::ImportOptions {
+        coordinates: tinct::geo::CoordinateMode::Planar,
+        ..Default::default()
+    };
+    let fiji = tinct::geo::import_path(&data("geo/world50m_fiji.topojson"), &options).unwrap();
+    let mut crossing = 0;
+    for region in &fiji.regions {
+        for polygon in &region.parts {
+            let ring = &polygon.exterior;
+            let pieces = tinct::projection::split_at_edge(ring, 0.0);
+            // Unwrapped the short way round, the ring's area on the (lon, lat) plane; the pieces
+            // must add up to it.
+            let mut unwrapped = vec![ring[0]];
+            for p in &ring[1..] {
+                let last = unwrapped[unwrapped.len() - 1];
+                let step = (p[0] - last[0] + 180.0).rem_euclid(360.0) - 180.0;
+                unwrapped.push([last[0] + step, p[1]]);
+            }
+            let area = |r: &[LonLat]| {
+                (0..r.len())
+                    .map(|i| {
+                        let (a, b) = (r[i], r[(i + 1) % r.len()]);
+                        a[0] * b[1] - b[0] * a[1]
+                    })
+                    .sum::<f64>()
+                    / 2.0
+            };
+            let crosses = unwrapped.iter().any(|p| p[0].abs() > 180.0 + 1e-9)
+                && unwrapped.iter().any(|p| p[0].abs() < 180.0 - 1e-9);
+            if !crosses {
+                continue;
+            }
+            crossing += 1;
+            assert!(pieces.len() >= 2);
+            let total: f64 = pieces.iter().map(|p| area(p)).sum();
+            assert!(
+                (total - area(&unwrapped)).abs() < 1e-9 * area(&unwrapped).abs().max(1.0),
+                "{total} against {}",
+                area(&unwrapped)
+            );
+            for piece in &pieces {
+                assert!(piece.iter().all(|p| p[0].abs() <= 180.0));
+                let east = piece.iter().all(|p| p[0] >= 0.0);
+                let west = piece.iter().all(|p| p[0] <= 0.0);
+                assert!(east || west, "a piece on one side: {piece:?}");
+            }
+        }
+    }
+    assert!(crossing > 0, "the fixture has rings across the meridian");
+}

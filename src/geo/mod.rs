@@ -661,6 +661,12 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
     } else {
         None
     };
+    // On a world map, rings across its edge are cut there (see `projection::split_at_edge`).
+    if let Some(Projection::EqualEarth { lon0 }) = projection {
+        for (parts, arcs, _) in &mut cleaned {
+            cut_at_edge(parts, arcs, lon0);
+        }
+    }
     if let Some(proj) = &projection {
         for (parts, _, _) in &mut cleaned {
             for polygon in parts.iter_mut() {
@@ -793,6 +799,59 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
 /// Projects a cleaned (open) ring and keeps it open: positions that differ in longitude/latitude
 /// but are one place on the globe (180 and -180 degrees on the same parallel, as data cut at the
 /// 180-degree meridian has them) project to one point, so repeats are dropped.
+/// Cuts the parts of one feature that cross the edge of a world map centred on `lon0` into
+/// pieces on either side; each piece keeps its part's arcs (for borders), and a hole goes with
+/// the piece on its side.
+fn cut_at_edge(parts: &mut MultiPolygon, arcs: &mut Vec<Vec<usize>>, lon0: f64) {
+    let aligned = arcs.len() == parts.len();
+    let mut new_parts = Vec::with_capacity(parts.len());
+    let mut new_arcs = Vec::with_capacity(arcs.len());
+    for (i, polygon) in std::mem::take(parts).into_iter().enumerate() {
+        let pieces: Vec<Ring> = crate::projection::split_at_edge(&polygon.exterior, lon0)
+            .into_iter()
+            .filter(|p| p.len() >= 3 && crate::geometry::signed_area(p) != 0.0)
+            .collect();
+        if pieces.len() <= 1 {
+            // Unchanged, or a ring round a pole now closed along the pole.
+            let mut polygon = polygon;
+            if let Some(piece) = pieces.into_iter().next() {
+                polygon.exterior = piece;
+            }
+            new_parts.push(polygon);
+            if aligned {
+                new_arcs.push(arcs[i].clone());
+            }
+            continue;
+        }
+        // Which side of the edge a ring lies on: the sign of its mean offset.
+        let side = |ring: &[Point]| {
+            ring.iter()
+                .map(|p| crate::projection::normalise_lon(p[0] - lon0))
+                .sum::<f64>()
+                >= 0.0
+        };
+        let sides: Vec<bool> = pieces.iter().map(|p| side(p)).collect();
+        let mut holes: Vec<Vec<Ring>> = vec![Vec::new(); pieces.len()];
+        for hole in polygon.holes {
+            let k = sides.iter().position(|&s| s == side(&hole)).unwrap_or(0);
+            holes[k].push(hole);
+        }
+        for (piece, holes) in pieces.into_iter().zip(holes) {
+            new_parts.push(Polygon {
+                exterior: piece,
+                holes,
+            });
+            if aligned {
+                new_arcs.push(arcs[i].clone());
+            }
+        }
+    }
+    *parts = new_parts;
+    if aligned {
+        *arcs = new_arcs;
+    }
+}
+
 fn project_open_ring(projection: &Projection, ring: &mut Ring) {
     projection.project_ring(ring);
     ring.dedup();

@@ -22,8 +22,10 @@
 //! it uses nothing else in the crate (the document records a [`Projection`]; the importers choose one).
 
 mod choose;
+mod edge;
 
 pub use choose::{Extent, MainMass, REACH_DEG, outlying_parts};
+pub use edge::split_at_edge;
 
 /// `[longitude, latitude]` in degrees, or `[x, y]` in metres once projected.
 pub type LonLat = [f64; 2];
@@ -85,7 +87,7 @@ const EE_A4: f64 = 0.003796;
 const EE_M: f64 = 0.866_025_403_784_438_6;
 
 /// Longitude difference in `[-180, 180)` degrees.
-pub(crate) fn normalise_lon(lon: f64) -> f64 {
+pub fn normalise_lon(lon: f64) -> f64 {
     (lon + 180.0).rem_euclid(360.0) - 180.0
 }
 

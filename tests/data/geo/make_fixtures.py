@@ -15,6 +15,11 @@ Outputs (all in tests/data/geo/):
                              countries-50m.json (each of the first two holds enclaves of the
                              other). `python3 make_fixtures.py caucasus` writes only this file and
                              needs nothing but the unpacked world-atlas package.
+  world110m.topojson         world-atlas countries-110m.json, unchanged (the whole world, for
+                             the choice of a world projection).
+  world50m_fiji.topojson     Fiji from world-atlas countries-50m.json: rings that cross the
+                             180-degree meridian. `python3 make_fixtures.py edge` writes these two
+                             and needs nothing but the unpacked world-atlas package.
   columbus.shp/.shx/.dbf/.gal  copied unchanged from libpysal's bundled example.
   reference_edges.txt        rook and queen edges computed by libpysal (a general-purpose
                              spatial-weights library) for each fixture: "<fixture> <rule> <a>|<b>".
@@ -116,12 +121,22 @@ def caucasus():
         json.dump(sub, f, separators=(",", ":"))
 
 
+def edge():
+    shutil.copy(os.path.join(os.environ["WORLD_ATLAS"], "countries-110m.json"),
+                os.path.join(HERE, "world110m.topojson"))
+    world = json.load(open(os.path.join(os.environ["WORLD_ATLAS"], "countries-50m.json")))
+    sub = subset_topology(world, "countries", ["Fiji"])
+    with open(os.path.join(HERE, "world50m_fiji.topojson"), "w") as f:
+        json.dump(sub, f, separators=(",", ":"))
+
+
 def main():
     import geopandas as gpd
     import libpysal
 
     lines = []
     caucasus()
+    edge()
 
     us = json.load(open(os.path.join(os.environ["US_ATLAS"], "states-10m.json")))
     keep = ["Utah", "Colorado", "Arizona", "New Mexico", "Nevada", "California", "Oregon", "Idaho",
@@ -166,5 +181,7 @@ def main():
 if __name__ == "__main__":
     if sys.argv[1:] == ["caucasus"]:
         caucasus()
+    elif sys.argv[1:] == ["edge"]:
+        edge()
     else:
         main()

@@ -1152,6 +1152,42 @@ fn greyscale_copies_in_the_project_settings_make_the_palette_check_ask_for_light
 }
 
 #[test]
+fn the_projection_is_changed_in_the_project_settings_in_one_undoable_step() {
+    // 14 US states (npm us-atlas 3.0.1, see tests/data/geo/PROVENANCE.md), imported in Albers.
+    let states = root().join("tests/data/geo/us_states_subset.geojson");
+    let mut h = harness(App::new(None, Some(states)));
+    h.run_steps(3);
+    let before = h.state().session.doc().clone();
+    h.get_by_label("Edit").click();
+    h.run_steps(2);
+    h.get_by_label_contains("Project settings…").click();
+    h.run_steps(3);
+    h.get_by_label("Projection").click();
+    h.run_steps(2);
+    h.get_by_label_contains("Lambert azimuthal equal-area")
+        .click();
+    h.run_steps(2);
+    h.get_by_label("Apply").click();
+    h.run_steps(3);
+    let projection = h.state().session.doc().settings().projection.unwrap();
+    assert!(
+        matches!(
+            projection,
+            tinct::projection::Projection::LambertAzimuthal { .. }
+        ),
+        "{projection:?}: {}",
+        last_message(&h)
+    );
+    assert_ne!(
+        h.state().session.doc().regions(),
+        before.regions(),
+        "the outlines moved"
+    );
+    press(&mut h, egui::Modifiers::COMMAND, egui::Key::Z);
+    assert_eq!(*h.state().session.doc(), before);
+}
+
+#[test]
 fn opening_a_boundary_file_offers_the_import_options() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness(App::new_with(None, None, Some(dir.path().join("state"))));

@@ -384,3 +384,69 @@ fn rings_across_the_edge_of_a_world_map_are_cut_there() {
     }
     assert!(crossing > 0, "the fixture has rings across the meridian");
 }
+
+#[test]
+fn a_map_can_be_drawn_in_another_projection_and_undo_takes_it_back() {
+    // 14 US states (us-atlas 3.0.1, tests/data/geo/PROVENANCE.md), imported in Albers.
+    let mut doc =
+        tinct::geo::import_path(&data("geo/us_states_subset.geojson"), &Default::default())
+            .unwrap()
+            .into_document("states");
+    let before = doc.clone();
+    let albers = doc.settings().projection.unwrap();
+    assert!(matches!(albers, Projection::AlbersEqualArea { .. }));
+    let choices = tinct::geo::document::projection_choices(&doc);
+    assert_eq!(choices.len(), 3);
+    assert!(
+        choices.contains(&albers),
+        "the chosen one is among the choices"
+    );
+    let lambert = *choices
+        .iter()
+        .find(|p| matches!(p, Projection::LambertAzimuthal { .. }))
+        .unwrap();
+    let undo = doc
+        .apply(tinct::geo::document::reproject(&doc, lambert).unwrap())
+        .unwrap();
+    assert_eq!(doc.settings().projection, Some(lambert));
+    // Every vertex is the same place on the globe: back through each projection's inverse
+    // (the inverses agree with PROJ, see above), within a micro-degree.
+    let utah = doc.region_by_name("Utah").unwrap();
+    let (old, new) = (
+        before.regions()[&utah].geometry.clone().unwrap(),
+        doc.regions()[&utah].geometry.clone().unwrap(),
+    );
+    assert_ne!(old, new);
+    for (a, b) in old.polygons[0]
+        .exterior
+        .iter()
+        .zip(&new.polygons[0].exterior)
+    {
+        let (p, q) = (albers.unproject(*a), lambert.unproject(*b));
+        assert!(
+            (p[0] - q[0]).abs() < 1e-6 && (p[1] - q[1]).abs() < 1e-6,
+            "{p:?} {q:?}"
+        );
+    }
+    // Borders, their lengths (on the sphere) and the tolerances stay.
+    assert_eq!(doc.borders(), before.borders());
+    // Saved and read back, the projection is kept.
+    let text = tinct::doc::file::to_string(&doc);
+    assert_eq!(
+        tinct::doc::file::from_str(&text)
+            .unwrap()
+            .settings()
+            .projection,
+        Some(lambert)
+    );
+    // One undo step restores the map exactly.
+    doc.apply(undo).unwrap();
+    assert_eq!(doc, before);
+    // Nothing to do for the projection it already has, or for a map without one.
+    assert!(tinct::geo::document::reproject(&before, albers).is_none());
+    let sketch =
+        tinct::doc::file::load(&super::support::root().join("sample-maps/three-valleys.tinct"))
+            .unwrap();
+    assert!(tinct::geo::document::projection_choices(&sketch).is_empty());
+    assert!(tinct::geo::document::reproject(&sketch, lambert).is_none());
+}

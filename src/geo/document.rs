@@ -344,6 +344,72 @@ pub fn rederive_borders(doc: &Document, tolerance: f64) -> Option<doc::Edit> {
     })
 }
 
+/// The projections offered for `doc` (a map imported from longitude/latitude): Albers, Lambert
+/// azimuthal and Equal Earth fitted to its main mass (see [`crate::projection::MainMass::choices`]).
+/// Empty for a map without a projection.
+pub fn projection_choices(doc: &Document) -> Vec<crate::projection::Projection> {
+    let Some(current) = doc.settings().projection else {
+        return Vec::new();
+    };
+    let parts: Vec<Vec<[f64; 2]>> = doc
+        .regions()
+        .values()
+        .flat_map(|r| match &r.geometry {
+            Some(g) if !g.polygons.is_empty() => g
+                .polygons
+                .iter()
+                .map(|p| p.exterior.iter().map(|&q| current.unproject(q)).collect())
+                .collect::<Vec<_>>(),
+            _ => vec![vec![current.unproject(r.anchor)]],
+        })
+        .collect();
+    crate::projection::MainMass::find(&parts).map_or_else(Vec::new, |m| m.choices().to_vec())
+}
+
+/// The edit that draws `doc` (a map imported from longitude/latitude) in the projection `to`:
+/// every outline and marker taken back to longitude/latitude with the current projection and
+/// projected again, and the projection recorded; one undoable step. Shared border lengths are
+/// measured on the sphere and the tolerances are in metres on the ground, so they stay. On a
+/// world projection, rings are kept on their side of the map's edge as at import, but a ring that
+/// comes to cross the new edge is not cut (import the file again for that). `None` when the map
+/// has no projection, the projection is already `to`, or `to` is not a valid projection.
+pub fn reproject(doc: &Document, to: crate::projection::Projection) -> Option<doc::Edit> {
+    let from = doc.settings().projection?;
+    if from == to || to.check().is_err() {
+        return None;
+    }
+    let mut edits = Vec::new();
+    for (id, region) in doc.regions() {
+        if let Some(g) = &region.geometry {
+            let mut moved: doc::Geometry = (**g).clone();
+            for polygon in &mut moved.polygons {
+                for ring in std::iter::once(&mut polygon.exterior).chain(polygon.holes.iter_mut()) {
+                    for p in ring.iter_mut() {
+                        *p = from.unproject(*p);
+                    }
+                    to.project_ring(ring);
+                }
+            }
+            edits.push(doc::Edit::UpdateRegion {
+                id: *id,
+                change: doc::RegionChange::Geometry(Some(Arc::new(moved))),
+            });
+        }
+        edits.push(doc::Edit::UpdateRegion {
+            id: *id,
+            change: doc::RegionChange::Anchor(to.project(from.unproject(region.anchor))),
+        });
+    }
+    edits.push(doc::Edit::SetSettings(doc::Settings {
+        projection: Some(to),
+        ..*doc.settings()
+    }));
+    Some(doc::Edit::Batch {
+        label: format!("Change the projection to {}", to.name()),
+        edits,
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -373,6 +373,38 @@ impl MainMass {
         })
     }
 
+    /// The three projections a user may choose among for this data, each fitted to the main
+    /// mass as the rules in the module documentation would fit it: Albers equal-area conic
+    /// (standard parallels at one sixth and five sixths of the latitude span), Lambert azimuthal
+    /// equal-area centred on the main mass, and Equal Earth (its edge where a world map would
+    /// have it). [`MainMass::projection`] picks one of them, or a polar azimuthal.
+    pub fn choices(&self) -> [Projection; 3] {
+        let e = &self.extent;
+        let [lon0, lat0] = e.centre();
+        let mut albers = Projection::AlbersEqualArea {
+            lon0,
+            lat0,
+            lat1: e.south + e.lat_span() / 6.0,
+            lat2: e.south + e.lat_span() * 5.0 / 6.0,
+        };
+        // A span symmetric about the equator has no conic; nudge its parallels north.
+        if albers.check().is_err() {
+            albers = Projection::AlbersEqualArea {
+                lon0,
+                lat0,
+                lat1: e.south + e.lat_span() / 6.0 + 1.0,
+                lat2: e.south + e.lat_span() * 5.0 / 6.0,
+            };
+        }
+        [
+            albers,
+            Projection::LambertAzimuthal { lon0, lat0 },
+            Projection::EqualEarth {
+                lon0: self.world_lon0,
+            },
+        ]
+    }
+
     /// The projection for the main mass's extent (the rules are in the module documentation).
     pub fn projection(&self) -> Projection {
         let e = &self.extent;

@@ -1124,9 +1124,9 @@ impl App {
                 }
             }
             Command::ProjectSettings => {
-                self.dialogs.settings = Some(super::dialogs::settings::SettingsDraft::new(
-                    self.session.doc().settings(),
-                ));
+                self.dialogs.settings = Some(
+                    super::dialogs::settings::SettingsDraft::for_document(self.session.doc()),
+                );
             }
             Command::PaletteWindow => {
                 if self.dialogs.palette.is_none() {

@@ -4,6 +4,7 @@
 //! outlines (borders added by hand and suppressed ones keep what the user made of them).
 
 use crate::doc::{Edit, Settings, Units};
+use crate::projection::Projection;
 
 use crate::ui::frame::{Action, Frame};
 use crate::ui::state::Level;
@@ -14,36 +15,66 @@ pub struct SettingsDraft {
     pub min_border_length: f64,
     pub tolerance: f64,
     pub greyscale_copies: bool,
+    /// The projection (maps imported from longitude/latitude only).
+    pub projection: Option<Projection>,
+    /// The projections offered: the current one and those fitted to the map's main mass.
+    pub choices: Vec<Projection>,
 }
 
 impl SettingsDraft {
+    /// The draft of `settings`, without projection choices (see [`SettingsDraft::for_document`]).
     pub fn new(settings: &Settings) -> SettingsDraft {
         SettingsDraft {
             corners_count: settings.corners_count,
             min_border_length: settings.min_border_length,
             tolerance: settings.tolerance,
             greyscale_copies: settings.greyscale_copies,
+            projection: settings.projection,
+            choices: settings.projection.into_iter().collect(),
         }
+    }
+
+    /// The draft of `doc`'s settings, with the projections it may be drawn in.
+    pub fn for_document(doc: &crate::doc::Document) -> SettingsDraft {
+        let mut draft = SettingsDraft::new(doc.settings());
+        for p in crate::geo::document::projection_choices(doc) {
+            if !draft.choices.contains(&p) {
+                draft.choices.push(p);
+            }
+        }
+        draft
     }
 }
 
 /// The edit that makes the project's settings `draft`, or `None` when nothing changes.
 pub fn settings_edit(doc: &crate::doc::Document, draft: &SettingsDraft) -> Option<Edit> {
     let old = *doc.settings();
+    let mut edits = Vec::new();
+    // A new projection moves every outline (and records itself); the other settings follow.
+    let projection = match draft.projection {
+        Some(p) if Some(p) != old.projection => match crate::geo::document::reproject(doc, p) {
+            Some(edit) => {
+                edits.push(edit);
+                Some(p)
+            }
+            None => old.projection,
+        },
+        _ => old.projection,
+    };
     let settings = Settings {
         corners_count: draft.corners_count,
         min_border_length: draft.min_border_length.max(0.0),
         greyscale_copies: draft.greyscale_copies,
+        projection,
         ..old
     };
-    let mut edits = Vec::new();
-    if settings != old {
+    if settings != (Settings { projection, ..old }) {
         edits.push(Edit::SetSettings(settings));
     }
     if draft.tolerance.max(0.0) != old.tolerance {
         // Derived against the settings as they will be (the tolerance edit records them).
         let mut with = doc.clone();
-        if let Some(e) = edits.first() {
+        for e in &edits {
             let _ = with.apply(e.clone());
         }
         match crate::geo::document::rederive_borders(&with, draft.tolerance) {
@@ -132,17 +163,34 @@ pub fn show(frame: &Frame, window: &mut Option<SettingsDraft>, ctx: &egui::Conte
                 .small(),
             );
             ui.separator();
-            // The projection is chosen at import for the data's extent (and saved with it).
-            ui.label(match &doc.settings().projection {
-                Some(p) => format!("Projection: {}", p.name()),
-                None => "Projection: none (the map's own coordinates)".to_string(),
-            });
-            ui.label(
-                egui::RichText::new(
-                    "Chosen when the map was imported, for the extent of its main land mass; shapes and sizes on screen and in exports follow it.",
-                )
-                .small(),
-            );
+            // The projection is chosen at import for the data's extent (and saved with it); a
+            // map imported from longitude/latitude may be drawn in another.
+            match draft.projection {
+                Some(current) => {
+                    ui.horizontal(|ui| {
+                        let label = ui.label("Projection");
+                        egui::ComboBox::from_id_salt("projection")
+                            .selected_text(current.name())
+                            .width(360.0)
+                            .show_ui(ui, |ui| {
+                                for p in &draft.choices {
+                                    ui.selectable_value(&mut draft.projection, Some(*p), p.name());
+                                }
+                            })
+                            .response
+                            .labelled_by(label.id);
+                    });
+                    ui.label(
+                        egui::RichText::new(
+                            "Chosen at import for the extent of the map's main land mass. All three keep areas true; they differ in how they bend shapes: the conic suits mid-latitude lands wider east to west, the azimuthal compact or polar ones, Equal Earth the whole world. Applying moves every outline (one undoable step).",
+                        )
+                        .small(),
+                    );
+                }
+                None => {
+                    ui.label("Projection: none (the map's own coordinates)");
+                }
+            }
             ui.horizontal(|ui| {
                 if ui.button("Apply").clicked() {
                     apply = true;

@@ -79,10 +79,14 @@ pub struct ExportOptions {
     pub labels: bool,
     /// A legend of the colours in use.
     pub legend: bool,
-    /// Page width in millimetres (SVG and PNG).
+    /// Page width in millimetres (SVG and PNG; a PDF's follows from its paper).
     pub width_mm: f64,
     /// Resolution of a PNG, in dots per inch at that page width.
     pub dpi: u32,
+    /// The paper of a PDF, which way up (`None`: whichever gives the larger map), and its margin.
+    pub paper: crate::export::PageSize,
+    pub orientation: Option<crate::export::Orientation>,
+    pub margin_mm: f64,
 }
 
 impl Default for ExportOptions {
@@ -92,6 +96,9 @@ impl Default for ExportOptions {
             legend: true,
             width_mm: 180.0,
             dpi: 300,
+            paper: crate::export::PageSize::A4,
+            orientation: None,
+            margin_mm: 15.0,
         }
     }
 }

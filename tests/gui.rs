@@ -498,6 +498,7 @@ fn every_export_is_reachable_from_the_export_menu_and_written_where_asked() {
     for (item, file) in [
         ("Picture for print (SVG)…", "map.svg"),
         ("Picture (PNG)…", "map.png"),
+        ("Page for print (PDF)…", "map.pdf"),
         ("Table of regions (CSV)…", "regions.csv"),
     ] {
         let path = dir.path().join(file);
@@ -510,6 +511,9 @@ fn every_export_is_reachable_from_the_export_menu_and_written_where_asked() {
     assert!(svg.contains("<svg"));
     let png = std::fs::read(dir.path().join("map.png")).unwrap();
     assert_eq!(&png[..8], b"\x89PNG\r\n\x1a\n", "PNG signature (RFC 2083)");
+    // A4 by default (checked in depth in tests/export_pdf.rs); the header of ISO 32000-1, 7.5.2.
+    let pdf = std::fs::read(dir.path().join("map.pdf")).unwrap();
+    assert!(pdf.starts_with(b"%PDF-"));
     let csv = std::fs::read_to_string(dir.path().join("regions.csv")).unwrap();
     assert_eq!(
         csv.lines().count(),
@@ -876,6 +880,44 @@ fn the_command_list_runs_the_best_match_on_enter_and_the_arrows_move_the_choice(
         other => panic!("unexpected second match {other:?}"),
     };
     assert!(h.query_by_label(title).is_some());
+}
+
+#[test]
+fn a_pdf_is_exported_on_the_paper_chosen_in_the_export_window() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut h = harness(App::new(None, None));
+    h.get_by_label("Export").click();
+    h.run_steps(2);
+    h.get_by_label_contains("Page for print (PDF)…").click();
+    h.run_steps(3);
+    // A3 instead of the A4 offered, turned landscape.
+    h.get_by_label("Paper").click();
+    h.run_steps(2);
+    h.get_by_label("A3").click();
+    h.run_steps(2);
+    h.get_by_label("Landscape").click();
+    h.run_steps(2);
+    let path = dir.path().join("sheet.pdf");
+    replace_text(&mut h, "File path", &path.display().to_string());
+    h.get_all_by_label("Export").last().unwrap().click();
+    h.run_steps(3);
+    let message = last_message(&h);
+    assert!(message.starts_with("Wrote the"), "{message}");
+    // ISO 216 A3 landscape, 420 × 297 mm, in points (1 in = 25.4 mm = 72 pt), read by lopdf.
+    let pdf = lopdf::Document::load_mem(&std::fs::read(&path).unwrap()).unwrap();
+    let page = pdf.get_pages()[&1];
+    let media_box: Vec<f32> = pdf
+        .get_dictionary(page)
+        .unwrap()
+        .get(b"MediaBox")
+        .unwrap()
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|n| n.as_float().unwrap())
+        .collect();
+    assert!((media_box[2] - 1190.551).abs() < 0.01, "{media_box:?}");
+    assert!((media_box[3] - 841.890).abs() < 0.01, "{media_box:?}");
 }
 
 #[test]

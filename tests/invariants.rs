@@ -233,6 +233,27 @@ fn export_looks_only_down() {
 }
 
 #[test]
+fn only_export_knows_the_picture_crates() {
+    // The PNG and PDF writers (resvg, svg2pdf, pdf-writer) are export's business: the editor and
+    // the command line ask for bytes through `export`.
+    let mut found = Vec::new();
+    for folder in [
+        "engine", "colour", "doc", "geo", "analysis", "worker", "ui", "cli",
+    ] {
+        found.extend(offences(
+            folder,
+            &["resvg", "usvg", "svg2pdf", "pdf_writer", "tiny_skia"],
+            &[],
+        ));
+    }
+    assert!(
+        found.is_empty(),
+        "picture crates belong in src/export only:\n{}",
+        found.join("\n")
+    );
+}
+
+#[test]
 fn analysis_looks_only_down_and_the_command_line_does_not_use_the_worker() {
     // One analysis for both front ends: it uses doc, engine and colour, and knows nothing of
     // threads, the GUI, the worker or the command line; the command line calls it directly.

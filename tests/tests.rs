@@ -9,6 +9,7 @@ mod editor_random;
 mod edits;
 mod export;
 mod export_labels;
+mod export_pdf;
 mod geo;
 mod gis_export;
 mod graph_formats;

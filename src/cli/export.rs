@@ -1,4 +1,4 @@
-//! `tinct export` (SVG, PNG, GeoJSON, CSV) and `tinct palette` (the distinctness report; a
+//! `tinct export` (SVG, PNG, PDF, GeoJSON, GeoPackage, Shapefile, CSV) and `tinct palette` (the distinctness report; a
 //! default palette and the slot assignment, written to a project).
 //!
 //! `tinct palette --json` prints an object that only ever grows:
@@ -24,7 +24,7 @@ use crate::doc::palette_check::{
     PairsChecked, palette_report, simulated_palettes, slot_assignment_edit,
 };
 use crate::doc::{Document, palette_edit};
-use crate::export::{self, ExportFormat, PngSize, SvgOptions};
+use crate::export::{self, ExportFormat, Orientation, PageSize, PdfOptions, PngSize, SvgOptions};
 
 /// What `tinct export` writes; at least one output is required.
 #[derive(Args, Debug, Clone)]
@@ -36,6 +36,10 @@ pub struct Outputs {
     /// Write a PNG picture (see --dpi and --width).
     #[arg(long, value_name = "OUT")]
     pub png: Option<PathBuf>,
+    /// Write a PDF for print (see --page, --landscape, --portrait and --margin-mm): vector, with
+    /// the font embedded and names kept as text.
+    #[arg(long, value_name = "OUT")]
+    pub pdf: Option<PathBuf>,
     /// Write GeoJSON (RFC 7946, longitude/latitude) with the colours as properties.
     #[arg(long, value_name = "OUT")]
     pub geojson: Option<PathBuf>,
@@ -63,9 +67,23 @@ pub struct ExportArgs {
     /// PNG width in pixels (instead of --dpi).
     #[arg(long, value_name = "PX")]
     pub width: Option<u32>,
-    /// Print width of the SVG (and of the PNG at --dpi), in millimetres.
+    /// Print width of the SVG (and of the PNG at --dpi), in millimetres. The PDF's drawing is as
+    /// wide as its page allows.
     #[arg(long = "width-mm", value_name = "MM", default_value_t = 180.0)]
     pub width_mm: f64,
+    /// The PDF's paper: a4, a3, letter, or WIDTHxHEIGHT in millimetres (such as 500x700).
+    #[arg(long, value_name = "SIZE", default_value = "a4", value_parser = parse_page)]
+    pub page: PageSize,
+    /// Lay the PDF's paper landscape (wider than tall); by default, whichever way gives the
+    /// larger map.
+    #[arg(long, conflicts_with = "portrait")]
+    pub landscape: bool,
+    /// Lay the PDF's paper portrait (taller than wide).
+    #[arg(long)]
+    pub portrait: bool,
+    /// The white space around the PDF's drawing, in millimetres.
+    #[arg(long = "margin-mm", value_name = "MM", default_value_t = 15.0)]
+    pub margin_mm: f64,
     /// Write region names on the map (names that do not fit are left out, and counted).
     #[arg(long)]
     pub labels: bool,
@@ -91,6 +109,11 @@ pub struct ExportArgs {
     /// Accepted for older scripts: the legend is now off unless --legend is given.
     #[arg(long = "no-legend", hide = true, conflicts_with = "legend")]
     pub no_legend: bool,
+}
+
+/// Reads `--page` (clap reports the message and exits with the usage status, 2).
+fn parse_page(text: &str) -> Result<PageSize, String> {
+    PageSize::parse(text).map_err(|e| e.to_string())
 }
 
 fn write(path: &Path, bytes: &[u8]) -> anyhow::Result<()> {
@@ -125,6 +148,17 @@ pub fn run_export(file: &Path, args: &ExportArgs, geo: &super::import::GeoArgs) 
         (None, Some(dpi)) => PngSize::Dpi(dpi),
         (None, None) => PngSize::Dpi(150.0),
     };
+    let paper = PdfOptions {
+        page: args.page,
+        orientation: if args.landscape {
+            Some(Orientation::Landscape)
+        } else if args.portrait {
+            Some(Orientation::Portrait)
+        } else {
+            None
+        },
+        margin_mm: args.margin_mm,
+    };
     // Make every requested output first, so bad input writes nothing.
     let mut files: Vec<(PathBuf, Vec<u8>)> = Vec::new();
     let mut label_report = None;
@@ -132,6 +166,7 @@ pub fn run_export(file: &Path, args: &ExportArgs, geo: &super::import::GeoArgs) 
     let wanted = [
         (&o.svg, ExportFormat::Svg),
         (&o.png, ExportFormat::Png(size)),
+        (&o.pdf, ExportFormat::Pdf(paper)),
         (&o.geojson, ExportFormat::GeoJson),
         (&o.gpkg, ExportFormat::GeoPackage),
         (&o.shp, ExportFormat::Shapefile),

@@ -122,12 +122,13 @@ pub enum Command {
         #[command(flatten)]
         geo: import::GeoArgs,
     },
-    /// Export a map as SVG or PNG (for print), GeoJSON (for GIS) or CSV (for spreadsheets).
+    /// Export a map as SVG, PNG or PDF (for print), GeoJSON, GeoPackage or Shapefile (for GIS) or
+    /// CSV (for spreadsheets).
     Export {
         /// The file to export (any file `analyse` reads; usually a coloured .tinct project).
         file: PathBuf,
         #[command(flatten)]
-        args: export::ExportArgs,
+        args: Box<export::ExportArgs>,
         /// How a boundary file is imported (ignored for projects and graph files).
         #[command(flatten)]
         geo: import::GeoArgs,

@@ -1,4 +1,4 @@
-//! Export: SVG and PNG pictures for print, GeoJSON, GeoPackage and Shapefile for GIS, CSV for
+//! Export: SVG, PNG and PDF pictures for print, GeoJSON, GeoPackage and Shapefile for GIS, CSV for
 //! spreadsheets.
 //!
 //! Pure functions over a [`Document`](crate::doc::Document) that return text or bytes; the
@@ -13,6 +13,7 @@ pub mod gpkg;
 pub mod insets;
 pub mod labels;
 pub mod lines;
+pub mod pdf;
 pub mod png;
 pub mod polylabel;
 pub mod shp;
@@ -22,6 +23,7 @@ pub use csv::to_csv;
 pub use geojson::to_geojson;
 pub use gpkg::to_geopackage;
 pub use labels::LabelReport;
+pub use pdf::{Orientation, PageSize, PdfOptions, to_pdf};
 pub use png::{PngSize, to_png};
 pub use shp::to_shapefile;
 pub use svg::{MapFrame, SvgExport, SvgOptions, to_svg};
@@ -46,6 +48,7 @@ pub enum ExportError {
 pub enum ExportFormat {
     Svg,
     Png(PngSize),
+    Pdf(PdfOptions),
     GeoJson,
     GeoPackage,
     Shapefile,
@@ -58,6 +61,7 @@ impl ExportFormat {
         match self {
             ExportFormat::Svg => "svg",
             ExportFormat::Png(_) => "png",
+            ExportFormat::Pdf(_) => "pdf",
             ExportFormat::GeoJson => "geojson",
             ExportFormat::GeoPackage => "gpkg",
             ExportFormat::Shapefile => "shp",
@@ -70,6 +74,7 @@ impl ExportFormat {
         match self {
             ExportFormat::Svg => "SVG picture",
             ExportFormat::Png(_) => "PNG picture",
+            ExportFormat::Pdf(_) => "PDF for print",
             ExportFormat::GeoJson => "GeoJSON for GIS",
             ExportFormat::GeoPackage => "GeoPackage for GIS",
             ExportFormat::Shapefile => "Shapefile for GIS",
@@ -80,7 +85,7 @@ impl ExportFormat {
 
 /// The files of one export to `path`: one file, except for a shapefile, which is the `.shp`
 /// at `path` with its `.shx`, `.dbf`, `.cpg` and (when the coordinate system is known) `.prj`
-/// beside it. `options` matter only to SVG and PNG. Nothing is written here.
+/// beside it. `options` matter only to SVG, PNG and PDF. Nothing is written here.
 pub fn export_files(
     doc: &crate::doc::Document,
     format: ExportFormat,
@@ -110,6 +115,10 @@ pub fn export_files_with_report(
         }
         ExportFormat::Png(size) => {
             let (bytes, report) = png::to_png_with_report(doc, options, size)?;
+            return Ok((vec![(path.to_path_buf(), bytes)], Some(report)));
+        }
+        ExportFormat::Pdf(paper) => {
+            let (bytes, report) = pdf::to_pdf_with_report(doc, options, &paper)?;
             return Ok((vec![(path.to_path_buf(), bytes)], Some(report)));
         }
         ExportFormat::GeoJson => vec![(path.to_path_buf(), to_geojson(doc)?.into_bytes())],

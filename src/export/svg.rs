@@ -112,7 +112,8 @@ pub struct SvgExport {
     pub labels: LabelReport,
 }
 
-const MARGIN_MM: f64 = 6.0;
+/// The white space the SVG leaves around its drawing, in millimetres.
+pub const MARGIN_MM: f64 = 6.0;
 const TITLE_SIZE_MM: f64 = 5.0;
 const TITLE_BLOCK_MM: f64 = 9.0;
 const FOOTER_SIZE_MM: f64 = 2.4;
@@ -121,7 +122,7 @@ const LEGEND_ROW_MM: f64 = 6.0;
 const LEGEND_COLUMN_MM: f64 = 58.0;
 const LEGEND_SIZE_MM: f64 = 2.8;
 
-fn nonempty(text: &Option<String>) -> Option<&str> {
+pub(crate) fn nonempty(text: &Option<String>) -> Option<&str> {
     text.as_deref().map(str::trim).filter(|t| !t.is_empty())
 }
 

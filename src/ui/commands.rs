@@ -71,6 +71,8 @@ pub enum ExportFormat {
     Svg,
     /// A raster picture at a chosen resolution.
     Png,
+    /// A vector page for print on a chosen paper size, with the font embedded.
+    Pdf,
     /// The regions with their colours, for a GIS.
     GeoJson,
     /// The same as a GeoPackage layer.
@@ -82,9 +84,10 @@ pub enum ExportFormat {
 }
 
 impl ExportFormat {
-    pub const ALL: [ExportFormat; 6] = [
+    pub const ALL: [ExportFormat; 7] = [
         ExportFormat::Svg,
         ExportFormat::Png,
+        ExportFormat::Pdf,
         ExportFormat::GeoJson,
         ExportFormat::GeoPackage,
         ExportFormat::Shapefile,
@@ -96,6 +99,7 @@ impl ExportFormat {
         match self {
             ExportFormat::Svg => "map.svg",
             ExportFormat::Png => "map.png",
+            ExportFormat::Pdf => "map.pdf",
             ExportFormat::GeoJson => "map.geojson",
             ExportFormat::GeoPackage => "map.gpkg",
             ExportFormat::Shapefile => "map.shp",
@@ -108,6 +112,7 @@ impl ExportFormat {
         match self {
             ExportFormat::Svg => &["svg"],
             ExportFormat::Png => &["png"],
+            ExportFormat::Pdf => &["pdf"],
             ExportFormat::GeoJson => &["geojson", "json"],
             ExportFormat::GeoPackage => &["gpkg"],
             ExportFormat::Shapefile => &["shp"],
@@ -120,6 +125,7 @@ impl ExportFormat {
         match self {
             ExportFormat::Svg => "SVG picture",
             ExportFormat::Png => "PNG picture",
+            ExportFormat::Pdf => "PDF for print",
             ExportFormat::GeoJson => "GeoJSON",
             ExportFormat::GeoPackage => "GeoPackage",
             ExportFormat::Shapefile => "Shapefile",
@@ -277,6 +283,7 @@ impl Command {
             Command::AssignSlots => "Most distinct colours for most borders".into(),
             Command::Export(ExportFormat::Svg) => "Picture for print (SVG)…".into(),
             Command::Export(ExportFormat::Png) => "Picture (PNG)…".into(),
+            Command::Export(ExportFormat::Pdf) => "Page for print (PDF)…".into(),
             Command::Export(ExportFormat::GeoJson) => "Regions for GIS (GeoJSON)…".into(),
             Command::Export(ExportFormat::GeoPackage) => "Regions for GIS (GeoPackage)…".into(),
             Command::Export(ExportFormat::Shapefile) => "Regions for GIS (Shapefile)…".into(),
@@ -329,6 +336,9 @@ impl Command {
             }
             Command::Export(ExportFormat::Png) => {
                 "Write the coloured map with a legend as a PNG image at the chosen resolution"
+            }
+            Command::Export(ExportFormat::Pdf) => {
+                "Write the coloured map with a legend as a PDF page (A4, A3, Letter or your own size) for print, with the font embedded and names kept as text"
             }
             Command::Export(ExportFormat::GeoJson) => {
                 "Write the regions with their colour number and fill as GeoJSON (longitude and latitude) for a GIS"

@@ -83,6 +83,11 @@ pub fn export_files(
         ExportFormat::Png => {
             crate::export::ExportFormat::Png(crate::export::PngSize::Dpi(options.dpi as f64))
         }
+        ExportFormat::Pdf => crate::export::ExportFormat::Pdf(crate::export::PdfOptions {
+            page: options.paper,
+            orientation: options.orientation,
+            margin_mm: options.margin_mm,
+        }),
         ExportFormat::GeoJson => crate::export::ExportFormat::GeoJson,
         ExportFormat::GeoPackage => crate::export::ExportFormat::GeoPackage,
         ExportFormat::Shapefile => crate::export::ExportFormat::Shapefile,

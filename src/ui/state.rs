@@ -90,10 +90,14 @@ pub struct ExportOptions {
     pub scale_bar: bool,
     /// Regions far from the main mass in inset frames (maps imported from longitude/latitude).
     pub insets: bool,
-    /// Page width in millimetres (SVG and PNG).
+    /// Page width in millimetres (SVG and PNG; a PDF's follows from its paper).
     pub width_mm: f64,
     /// Resolution of a PNG, in dots per inch at that page width.
     pub dpi: u32,
+    /// The paper of a PDF, which way up (`None`: whichever gives the larger map), and its margin.
+    pub paper: crate::export::PageSize,
+    pub orientation: Option<crate::export::Orientation>,
+    pub margin_mm: f64,
 }
 
 impl Default for ExportOptions {
@@ -108,6 +112,9 @@ impl Default for ExportOptions {
             insets: true,
             width_mm: 180.0,
             dpi: 300,
+            paper: crate::export::PageSize::A4,
+            orientation: None,
+            margin_mm: 15.0,
         }
     }
 }

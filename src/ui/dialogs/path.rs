@@ -126,7 +126,10 @@ fn export_options_ui(
     options: &mut ExportOptions,
     true_units: bool,
 ) {
-    if !matches!(format, ExportFormat::Svg | ExportFormat::Png) {
+    if !matches!(
+        format,
+        ExportFormat::Svg | ExportFormat::Png | ExportFormat::Pdf
+    ) {
         return;
     }
     let text_row = |ui: &mut egui::Ui, label: &str, value: &mut String, hint: &str| {
@@ -162,6 +165,10 @@ fn export_options_ui(
     if options.legend {
         text_row(ui, "Legend heading", &mut options.legend_heading, "none");
     }
+    if format == ExportFormat::Pdf {
+        paper_ui(ui, options);
+        return;
+    }
     ui.horizontal(|ui| {
         ui.label("Page width");
         ui.add(
@@ -181,6 +188,43 @@ fn export_options_ui(
             let px = options.width_mm / 25.4 * options.dpi as f64;
             ui.label(format!("({px:.0} pixels wide)"));
         }
+    });
+}
+
+/// A PDF's paper: its size, which way up, and the margin; the map fills what is left.
+fn paper_ui(ui: &mut egui::Ui, options: &mut ExportOptions) {
+    use crate::export::{Orientation, PageSize};
+    ui.horizontal(|ui| {
+        let label = ui.label("Paper");
+        egui::ComboBox::from_id_salt("export-paper")
+            .selected_text(options.paper.name())
+            .show_ui(ui, |ui| {
+                for page in PageSize::NAMED {
+                    ui.selectable_value(&mut options.paper, page, page.name());
+                }
+            })
+            .response
+            .labelled_by(label.id);
+        let label = ui.label("Margin");
+        ui.add(
+            egui::DragValue::new(&mut options.margin_mm)
+                .range(0.0..=100.0)
+                .suffix(" mm"),
+        )
+        .labelled_by(label.id);
+    });
+    ui.horizontal(|ui| {
+        ui.radio_value(&mut options.orientation, None, "Whichever fits best");
+        ui.radio_value(
+            &mut options.orientation,
+            Some(Orientation::Portrait),
+            "Portrait",
+        );
+        ui.radio_value(
+            &mut options.orientation,
+            Some(Orientation::Landscape),
+            "Landscape",
+        );
     });
 }
 

@@ -366,6 +366,37 @@ fn all_maps(k: usize, n: usize, fixed: &[Option<usize>]) -> Vec<Vec<usize>> {
     out
 }
 
+/// A random slot-assignment case: `k` classes with border counts from `weights`, `n` slots with
+/// distinctness from `scores` (both read as 6 x 6 tables), and at most one pinned class.
+#[allow(clippy::type_complexity)]
+fn assignment_case(
+    k: usize,
+    n: usize,
+    weights: &[u64],
+    scores: &[u32],
+    pin: Option<(usize, usize)>,
+) -> (Vec<Vec<u64>>, Vec<Vec<f64>>, Vec<Option<usize>>) {
+    let mut borders = vec![vec![0u64; k]; k];
+    let mut d = vec![vec![f64::INFINITY; n]; n];
+    for i in 0..k {
+        for j in i + 1..k {
+            borders[i][j] = weights[i * 6 + j];
+            borders[j][i] = borders[i][j];
+        }
+    }
+    for i in 0..n {
+        for j in i + 1..n {
+            d[i][j] = f64::from(scores[i * 6 + j]) / 4.0;
+            d[j][i] = d[i][j];
+        }
+    }
+    let mut fixed = vec![None; k];
+    if let Some((c, s)) = pin.filter(|&(c, s)| c < k && s < n) {
+        fixed[c] = Some(s);
+    }
+    (borders, d, fixed)
+}
+
 proptest::proptest! {
     #![proptest_config(proptest::prelude::ProptestConfig::with_cases(64))]
     #[test]
@@ -377,24 +408,7 @@ proptest::proptest! {
         pin in proptest::option::of((0usize..4, 0usize..6)),
     ) {
         let n = k + extra;
-        let mut borders = vec![vec![0u64; k]; k];
-        let mut d = vec![vec![f64::INFINITY; n]; n];
-        for i in 0..k {
-            for j in i + 1..k {
-                borders[i][j] = weights[i * 6 + j];
-                borders[j][i] = borders[i][j];
-            }
-        }
-        for i in 0..n {
-            for j in i + 1..n {
-                d[i][j] = f64::from(scores[i * 6 + j]) / 4.0;
-                d[j][i] = d[i][j];
-            }
-        }
-        let mut fixed = vec![None; k];
-        if let Some((c, s)) = pin.filter(|&(c, s)| c < k && s < n) {
-            fixed[c] = Some(s);
-        }
+        let (borders, d, fixed) = assignment_case(k, n, &weights, &scores, pin);
         let map = assign_slots(&borders, &d, &fixed, None).expect("an assignment");
         proptest::prop_assert_eq!(map.len(), k);
         for (c, f) in fixed.iter().enumerate() {
@@ -451,24 +465,7 @@ proptest::proptest! {
         let n = k + extra;
         let sizes = &sizes[..k];
         let fill: Vec<f64> = fill[..n].iter().map(|&w| f64::from(w)).collect();
-        let mut borders = vec![vec![0u64; k]; k];
-        let mut d = vec![vec![f64::INFINITY; n]; n];
-        for i in 0..k {
-            for j in i + 1..k {
-                borders[i][j] = weights[i * 6 + j];
-                borders[j][i] = borders[i][j];
-            }
-        }
-        for i in 0..n {
-            for j in i + 1..n {
-                d[i][j] = f64::from(scores[i * 6 + j]) / 4.0;
-                d[j][i] = d[i][j];
-            }
-        }
-        let mut fixed = vec![None; k];
-        if let Some((c, s)) = pin.filter(|&(c, s)| c < k && s < n) {
-            fixed[c] = Some(s);
-        }
+        let (borders, d, fixed) = assignment_case(k, n, &weights, &scores, pin);
         let map = assign_slots(&borders, &d, &fixed, Some((sizes, &fill))).expect("an assignment");
         let keeping: Vec<Vec<usize>> = all_maps(k, n, &fixed)
             .into_iter()

@@ -1137,6 +1137,14 @@ fn the_region_list_is_by_name_or_file_order_and_tells_shared_names_apart() {
     assert_eq!(rows(&h), [1, 2, 3, 4].map(RegionId));
 }
 
+/// Opens *Edit → Project settings…* as a user does.
+fn open_project_settings(h: &mut Harness<'static, App>) {
+    h.get_by_label("Edit").click();
+    h.run_steps(2);
+    h.get_by_label_contains("Project settings…").click();
+    h.run_steps(3);
+}
+
 #[test]
 fn project_settings_change_the_rule_and_the_tolerance_in_one_undoable_step() {
     let states = root().join("tests/data/geo/us_states_subset.geojson");
@@ -1146,10 +1154,7 @@ fn project_settings_change_the_rule_and_the_tolerance_in_one_undoable_step() {
     assert!(!before.settings().corners_count);
     let active = |h: &Harness<'static, App>| h.state().session.doc().active_borders().count();
     let rook = active(&h);
-    h.get_by_label("Edit").click();
-    h.run_steps(2);
-    h.get_by_label_contains("Project settings…").click();
-    h.run_steps(3);
+    open_project_settings(&mut h);
     h.get_by_label_contains("queen contiguity").click();
     h.run_steps(1);
     replace_text(&mut h, "Tolerance", "500");
@@ -1172,10 +1177,7 @@ fn greyscale_copies_in_the_project_settings_make_the_palette_check_ask_for_light
     h.run_steps(3);
     let warnings = |h: &Harness<'static, App>| h.state().palette_warnings.warnings.clone();
     assert!(warnings(&h).is_empty(), "{:?}", warnings(&h));
-    h.get_by_label("Edit").click();
-    h.run_steps(2);
-    h.get_by_label_contains("Project settings…").click();
-    h.run_steps(3);
+    open_project_settings(&mut h);
     h.get_by_label("The map will also be copied in greyscale")
         .click();
     h.run_steps(1);
@@ -1200,10 +1202,7 @@ fn the_projection_is_changed_in_the_project_settings_in_one_undoable_step() {
     let mut h = harness(App::new(None, Some(states)));
     h.run_steps(3);
     let before = h.state().session.doc().clone();
-    h.get_by_label("Edit").click();
-    h.run_steps(2);
-    h.get_by_label_contains("Project settings…").click();
-    h.run_steps(3);
+    open_project_settings(&mut h);
     h.get_by_label("Projection").click();
     h.run_steps(2);
     h.get_by_label_contains("Lambert azimuthal equal-area")

@@ -180,18 +180,8 @@ pub fn split_at_edge(ring: &[LonLat], lon0: f64) -> Vec<Vec<LonLat>> {
 
 #[cfg(test)]
 mod tests {
+    use super::super::tests::shoelace as area;
     use super::*;
-
-    fn area(ring: &[LonLat]) -> f64 {
-        let n = ring.len();
-        (0..n)
-            .map(|i| {
-                let (a, b) = (ring[i], ring[(i + 1) % n]);
-                a[0] * b[1] - b[0] * a[1]
-            })
-            .sum::<f64>()
-            / 2.0
-    }
 
     #[test]
     fn a_box_across_180_degrees_becomes_two_boxes() {

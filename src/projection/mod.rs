@@ -394,7 +394,7 @@ mod tests {
     }
 
     /// Signed area of an open ring (the shoelace formula).
-    fn shoelace(ring: &[LonLat]) -> f64 {
+    pub(super) fn shoelace(ring: &[LonLat]) -> f64 {
         let n = ring.len();
         (0..n)
             .map(|i| {

@@ -425,14 +425,19 @@ fn the_palette_window_edits_a_colour_warns_about_a_look_alike_and_undo_restores_
     assert_eq!(*h.state().session.doc().palette(), before);
 }
 
-/// Exports through the Export menu and the path window, as a user does; returns the message.
-fn export_from_menu(h: &mut Harness<'static, App>, item: &str, path: &std::path::Path) -> String {
+/// Opens the export window for the Export menu's `item`, as a user does.
+fn open_export_window(h: &mut Harness<'static, App>, item: &str) {
     h.get_by_label("Export").click();
     h.run_steps(2);
     // A menu entry's accessible label also carries its shortcut, if any.
     h.get_by_label_contains(item).click();
     // The command runs at the end of the frame; a new window is measured on its first frame.
     h.run_steps(3);
+}
+
+/// Exports through the Export menu and the path window, as a user does; returns the message.
+fn export_from_menu(h: &mut Harness<'static, App>, item: &str, path: &std::path::Path) -> String {
+    open_export_window(h, item);
     replace_text(h, "File path", &path.display().to_string());
     // The menu is also called Export: the window's button comes last.
     h.get_all_by_label("Export").last().unwrap().click();
@@ -451,10 +456,7 @@ fn a_print_export_takes_a_title_source_and_scale_bar_and_says_how_many_names_fit
     h.state_mut()
         .emit(tinct::ui::commands::Command::ColourFewest);
     h.run_steps(4);
-    h.get_by_label("Export").click();
-    h.run_steps(2);
-    h.get_by_label_contains("Picture for print (SVG)…").click();
-    h.run_steps(3);
+    open_export_window(&mut h, "Picture for print (SVG)…");
     let path = dir.path().join("states.svg");
     replace_text(&mut h, "File path", &path.display().to_string());
     replace_text(&mut h, "Title", "Fourteen states");
@@ -886,10 +888,7 @@ fn the_command_list_runs_the_best_match_on_enter_and_the_arrows_move_the_choice(
 fn a_pdf_is_exported_on_the_paper_chosen_in_the_export_window() {
     let dir = tempfile::tempdir().unwrap();
     let mut h = harness(App::new(None, None));
-    h.get_by_label("Export").click();
-    h.run_steps(2);
-    h.get_by_label_contains("Page for print (PDF)…").click();
-    h.run_steps(3);
+    open_export_window(&mut h, "Page for print (PDF)…");
     // A3 instead of the A4 offered, turned landscape.
     h.get_by_label("Paper").click();
     h.run_steps(2);

@@ -1748,3 +1748,76 @@ fn markers_alone_are_placed_at_their_own_coordinates() {
         );
     }
 }
+
+#[test]
+fn screen_coordinates_that_grow_downward_are_turned_over_so_north_stays_up() {
+    // 14 US states (npm us-atlas 3.0.1, tests/data/geo/PROVENANCE.md) as plain coordinates, and
+    // the same file with every y negated, as maps made for web pages store them (us-atlas's own
+    // `*-albers-10m.json` files count y downward from the top of a 975 x 610 picture).
+    let source = super::support::root().join("tests/data/geo/us_states_subset.geojson");
+    let text = std::fs::read_to_string(&source).unwrap();
+    let mut json: serde_json::Value = serde_json::from_str(&text).unwrap();
+    fn negate_y(v: &mut serde_json::Value) {
+        match v {
+            serde_json::Value::Array(items) if items.len() == 2 && items[0].is_f64() => {
+                let y = items[1].as_f64().unwrap();
+                items[1] = serde_json::json!(-y);
+            }
+            serde_json::Value::Array(items) => items.iter_mut().for_each(negate_y),
+            _ => {}
+        }
+    }
+    for feature in json["features"].as_array_mut().unwrap() {
+        negate_y(&mut feature["geometry"]["coordinates"]);
+    }
+    let dir = tempfile::tempdir().unwrap();
+    let down = dir.path().join("down.geojson");
+    std::fs::write(&down, serde_json::to_string(&json).unwrap()).unwrap();
+    let planar = ImportOptions {
+        coordinates: CoordinateMode::Planar,
+        ..ImportOptions::default()
+    };
+    let upright = geo::import_path(&source, &planar).unwrap();
+    let turned = geo::import_path(
+        &down,
+        &ImportOptions {
+            coordinates: CoordinateMode::PlanarDown,
+            ..ImportOptions::default()
+        },
+    )
+    .unwrap();
+    // The same borders, and every region where it was: north up.
+    let pairs = |m: &geo::ImportedMap| -> BTreeSet<(String, String)> {
+        m.borders
+            .iter()
+            .map(|b| {
+                let (a, c) = (&m.regions[b.a].name, &m.regions[b.b].name);
+                (a.min(c).clone(), a.max(c).clone())
+            })
+            .collect()
+    };
+    assert_eq!(pairs(&upright), pairs(&turned));
+    // Each region's box (the lowest and highest corner of its outlines).
+    let position = |m: &geo::ImportedMap, name: &str| {
+        let r = m.regions.iter().find(|r| r.name == name).unwrap();
+        let points = r.parts.iter().flat_map(|p| p.exterior.iter());
+        let lo = points
+            .clone()
+            .fold([f64::INFINITY; 2], |a, p| [a[0].min(p[0]), a[1].min(p[1])]);
+        let hi = points.fold([f64::NEG_INFINITY; 2], |a, p| {
+            [a[0].max(p[0]), a[1].max(p[1])]
+        });
+        [lo[0], lo[1], hi[0], hi[1]]
+    };
+    for name in ["Idaho", "Texas", "Alaska"] {
+        let (a, b) = (position(&upright, name), position(&turned, name));
+        assert!(
+            a.iter().zip(&b).all(|(x, y)| (x - y).abs() < 1e-9),
+            "{name}: {a:?} {b:?}"
+        );
+    }
+    assert!(position(&turned, "Idaho")[1] > position(&turned, "Texas")[1]);
+    // Read as they are, the same file puts Texas north of Idaho: the map upside down.
+    let as_is = geo::import_path(&down, &planar).unwrap();
+    assert!(position(&as_is, "Idaho")[1] < position(&as_is, "Texas")[1]);
+}

@@ -51,7 +51,8 @@ pub struct GeoArgs {
     #[arg(long)]
     pub layer: Option<String>,
     /// How to read coordinates: auto (longitude/latitude when the file says so or the values
-    /// fit that range), lon-lat, or planar (map units, no projection).
+    /// fit that range), lon-lat, planar (map units, no projection), or planar-down (map units
+    /// whose y grows downward, as in screen or pixel coordinates: turned over so north is up).
     #[arg(long, value_enum, default_value = "auto")]
     pub coordinates: CoordinatesArg,
 }
@@ -62,6 +63,7 @@ pub enum CoordinatesArg {
     Auto,
     LonLat,
     Planar,
+    PlanarDown,
 }
 
 impl GeoArgs {
@@ -81,6 +83,7 @@ impl GeoArgs {
                 CoordinatesArg::Auto => geo::CoordinateMode::Auto,
                 CoordinatesArg::LonLat => geo::CoordinateMode::LonLat,
                 CoordinatesArg::Planar => geo::CoordinateMode::Planar,
+                CoordinatesArg::PlanarDown => geo::CoordinateMode::PlanarDown,
             },
             ..ImportOptions::default()
         }

@@ -277,6 +277,10 @@ pub enum CoordinateMode {
     Auto,
     LonLat,
     Planar,
+    /// Planar, with y growing downward (screen or pixel coordinates, as in maps projected for a
+    /// web page, such as us-atlas's `*-albers-10m.json`): y is turned over at import, so north
+    /// stays up.
+    PlanarDown,
 }
 
 /// Options for [`import_path`].
@@ -632,7 +636,7 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
     // Decide on longitude/latitude and project.
     let lon_lat = match options.coordinates {
         CoordinateMode::LonLat => true,
-        CoordinateMode::Planar => false,
+        CoordinateMode::Planar | CoordinateMode::PlanarDown => false,
         CoordinateMode::Auto => raw.lon_lat_hint.unwrap_or_else(|| {
             let mut all = cleaned
                 .iter()
@@ -661,6 +665,31 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
     } else {
         None
     };
+    // Screen coordinates: y turned over so that north is up (rings reversed to keep their turn).
+    if options.coordinates == CoordinateMode::PlanarDown {
+        let flip = |ring: &mut Ring| {
+            for p in ring.iter_mut() {
+                p[1] = -p[1];
+            }
+            ring.reverse();
+        };
+        for (parts, _, _) in &mut cleaned {
+            for polygon in parts.iter_mut() {
+                flip(&mut polygon.exterior);
+                polygon.holes.iter_mut().for_each(flip);
+            }
+        }
+        if let Some(arcs) = &mut raw.arcs {
+            for arc in arcs.iter_mut() {
+                for p in arc.iter_mut() {
+                    p[1] = -p[1];
+                }
+            }
+        }
+        for point in raw_points.iter_mut().flatten() {
+            point[1] = -point[1];
+        }
+    }
     // On a world map, rings across its edge are cut there (see `projection::split_at_edge`).
     if let Some(Projection::EqualEarth { lon0 }) = projection {
         for (parts, arcs, _) in &mut cleaned {

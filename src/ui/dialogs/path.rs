@@ -286,4 +286,18 @@ fn import_options_ui(ui: &mut egui::Ui, options: &mut crate::geo::ImportOptions)
         &mut options.split_parts,
         "One region per polygon part (the parts share a colour)",
     );
+    let mut down = options.coordinates == crate::geo::CoordinateMode::PlanarDown;
+    if ui
+        .checkbox(
+            &mut down,
+            "Coordinates grow downward (screen or pixel coordinates, as in maps made for web pages)",
+        )
+        .changed()
+    {
+        options.coordinates = if down {
+            crate::geo::CoordinateMode::PlanarDown
+        } else {
+            crate::geo::CoordinateMode::Auto
+        };
+    }
 }

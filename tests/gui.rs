@@ -1176,6 +1176,11 @@ fn greyscale_copies_in_the_project_settings_make_the_palette_check_ask_for_light
     h.run_steps(3);
     let warnings = |h: &Harness<'static, App>| h.state().palette_warnings.warnings.clone();
     assert!(warnings(&h).is_empty(), "{:?}", warnings(&h));
+    // The panel does not claim what was not checked.
+    assert!(
+        h.query_by_label_contains("greyscale copies not checked")
+            .is_some()
+    );
     open_project_settings(&mut h);
     h.get_by_label("The map will also be copied in greyscale")
         .click();
@@ -1187,6 +1192,10 @@ fn greyscale_copies_in_the_project_settings_make_the_palette_check_ask_for_light
         warnings(&h).iter().any(|w| w.contains("greyscale copy")),
         "{:?}",
         warnings(&h)
+    );
+    assert!(
+        h.query_by_label_contains("greyscale copies not checked")
+            .is_none()
     );
     // Undo takes the setting back, and the warnings go with it.
     press(&mut h, egui::Modifiers::COMMAND, egui::Key::Z);

@@ -25,10 +25,16 @@ pub fn show(frame: &Frame, ui: &mut egui::Ui) {
         });
     }
     match warnings.len() {
-        0 => marked(
+        0 if doc.settings().greyscale_copies => marked(
             ui,
             true,
             "Neighbouring colours stay distinct, also in greyscale and for colour-blind readers"
+                .into(),
+        ),
+        0 => marked(
+            ui,
+            true,
+            "Neighbouring colours stay distinct, also for colour-blind readers (greyscale copies not checked)"
                 .into(),
         ),
         n => {
@@ -36,7 +42,7 @@ pub fn show(frame: &Frame, ui: &mut egui::Ui) {
                 ui,
                 false,
                 format!(
-                    "{}: some neighbouring colours are hard to tell apart",
+                    "{}: see the palette check",
                     crate::ui::words::count(n, "warning", "warnings")
                 ),
             );

@@ -376,8 +376,8 @@ impl MainMass {
     /// The three projections a user may choose among for this data, each fitted to the main
     /// mass as the rules in the module documentation would fit it: Albers equal-area conic
     /// (standard parallels at one sixth and five sixths of the latitude span), Lambert azimuthal
-    /// equal-area centred on the main mass, and Equal Earth (its edge where a world map would
-    /// have it). [`MainMass::projection`] picks one of them, or a polar azimuthal.
+    /// equal-area centred on the main mass, and Equal Earth (centred on the main mass, or with its
+    /// edge where a world map would have it for world-wide data). [`MainMass::projection`] picks one of them, or a polar azimuthal.
     pub fn choices(&self) -> [Projection; 3] {
         let e = &self.extent;
         let [lon0, lat0] = e.centre();
@@ -399,8 +399,14 @@ impl MainMass {
         [
             albers,
             Projection::LambertAzimuthal { lon0, lat0 },
+            // Centred on the main mass, unless the data is world-wide (then its edge goes where
+            // it cuts the least, as at import).
             Projection::EqualEarth {
-                lon0: self.world_lon0,
+                lon0: if e.lon_span() > 200.0 || e.lat_span() > 120.0 {
+                    self.world_lon0
+                } else {
+                    lon0
+                },
             },
         ]
     }

@@ -401,6 +401,12 @@ fn a_map_can_be_drawn_in_another_projection_and_undo_takes_it_back() {
         choices.contains(&albers),
         "the chosen one is among the choices"
     );
+    // Equal Earth for a map that is not world-wide is centred on it too (the 13 states span
+    // about 124 W to 94 W).
+    assert!(choices.iter().any(|p| matches!(
+        p,
+        Projection::EqualEarth { lon0 } if (-115.0..=-100.0).contains(lon0)
+    )));
     let lambert = *choices
         .iter()
         .find(|p| matches!(p, Projection::LambertAzimuthal { .. }))

@@ -84,14 +84,66 @@ fn inside(rings: &[Ring], p: [f64; 2]) -> bool {
     c
 }
 
-/// True when segment `a b` crosses the interior of the box.
-fn segment_hits_box(a: [f64; 2], b: [f64; 2], bx: &[[f64; 2]; 2]) -> bool {
-    // Sampled finely: the test needs no exact geometry, only to catch a border through a name.
+/// True when two convex quadrilaterals overlap with area: the separating axis theorem, each
+/// edge normal of either as a candidate axis (common practice in collision tests).
+fn quads_overlap(a: &Quad, b: &Quad) -> bool {
+    let sides = |q: &Quad| (0..4).map(|k| (q[k], q[(k + 1) % 4])).collect::<Vec<_>>();
+    sides(a).into_iter().chain(sides(b)).all(|(p, q)| {
+        let n = [q[1] - p[1], p[0] - q[0]];
+        let span = |r: &Quad| {
+            let d: Vec<f64> = r.iter().map(|v| v[0] * n[0] + v[1] * n[1]).collect();
+            (
+                d.iter().cloned().fold(f64::INFINITY, f64::min),
+                d.iter().cloned().fold(f64::NEG_INFINITY, f64::max),
+            )
+        };
+        let ((a0, a1), (b0, b1)) = (span(a), span(b));
+        a1 > b0 && b1 > a0
+    })
+}
+
+/// True when `p` lies strictly inside the convex quad (corners in order either way round).
+fn in_quad(q: &Quad, p: [f64; 2]) -> bool {
+    let signs: Vec<f64> = (0..4)
+        .map(|k| {
+            let (a, b) = (q[k], q[(k + 1) % 4]);
+            (b[0] - a[0]) * (p[1] - a[1]) - (b[1] - a[1]) * (p[0] - a[0])
+        })
+        .collect();
+    signs.iter().all(|s| *s > 0.0) || signs.iter().all(|s| *s < 0.0)
+}
+
+/// True when segment `a b` crosses the interior of the quad.
+fn segment_hits_quad(a: [f64; 2], b: [f64; 2], q: &Quad) -> bool {
     (0..=64).any(|k| {
         let t = f64::from(k) / 64.0;
-        let p = [a[0] + t * (b[0] - a[0]), a[1] + t * (b[1] - a[1])];
-        p[0] > bx[0][0] && p[0] < bx[1][0] && p[1] > bx[0][1] && p[1] < bx[1][1]
+        in_quad(q, [a[0] + t * (b[0] - a[0]), a[1] + t * (b[1] - a[1])])
     })
+}
+
+type Quad = [[f64; 2]; 4];
+
+/// The corners of `b` turned by the label's `rotate(a x y)` transform, if it has one.
+fn turned_corners(b: [[f64; 2]; 2], transform: Option<&str>) -> (Quad, f64) {
+    let corners = [b[0], [b[1][0], b[0][1]], b[1], [b[0][0], b[1][1]]];
+    let Some(args) = transform
+        .and_then(|t| t.split("rotate(").nth(1))
+        .and_then(|t| t.split(')').next())
+    else {
+        return (corners, 0.0);
+    };
+    let v: Vec<f64> = args
+        .split([' ', ','])
+        .filter(|t| !t.is_empty())
+        .map(|t| t.parse().unwrap())
+        .collect();
+    let (angle, c) = (v[0], [v[1], v[2]]);
+    let (sin, cos) = angle.to_radians().sin_cos();
+    let quad = corners.map(|p| {
+        let (x, y) = (p[0] - c[0], p[1] - c[1]);
+        [c[0] + x * cos - y * sin, c[1] + x * sin + y * cos]
+    });
+    (quad, angle)
 }
 
 struct Label {
@@ -100,8 +152,12 @@ struct Label {
     ink: String,
     halo: String,
     italic: bool,
-    /// The text's layout box as usvg computes it with the PNG's font, in SVG units.
+    /// The text's layout box as usvg computes it with the PNG's font, in SVG units, before the
+    /// label's turn.
     bbox: [[f64; 2]; 2],
+    /// That box turned as the label is (its corners), and the turn in degrees.
+    quad: Quad,
+    angle: f64,
 }
 
 struct Checked {
@@ -193,6 +249,16 @@ fn check_labels(doc: &Document, options: &SvgOptions) -> Checked {
         let b = text.bounding_box();
         let parent = n.parent().unwrap();
         let attr = |a: &str| n.attribute(a).or_else(|| parent.attribute(a));
+        let bbox = [
+            [f64::from(b.left()), f64::from(b.top())],
+            [f64::from(b.right()), f64::from(b.bottom())],
+        ];
+        let (quad, angle) = turned_corners(bbox, n.attribute("transform"));
+        if angle != 0.0 {
+            // usvg reports a text's box in its own frame, before the turn: a name is wider
+            // than tall there.
+            assert!(bbox[1][0] - bbox[0][0] > bbox[1][1] - bbox[0][1], "{id}");
+        }
         labels.push(Label {
             id: id.trim_start_matches("label-").to_string(),
             text: n
@@ -204,10 +270,9 @@ fn check_labels(doc: &Document, options: &SvgOptions) -> Checked {
             ink: attr("fill").unwrap().to_string(),
             halo: attr("stroke").unwrap().to_string(),
             italic: attr("font-style") == Some("italic"),
-            bbox: [
-                [f64::from(b.left()), f64::from(b.top())],
-                [f64::from(b.right()), f64::from(b.bottom())],
-            ],
+            bbox,
+            quad,
+            angle,
         });
         assert_eq!(
             attr("paint-order"),
@@ -216,14 +281,15 @@ fn check_labels(doc: &Document, options: &SvgOptions) -> Checked {
         );
     }
 
-    // 1. No two label boxes overlap.
+    // 1. No two label boxes overlap (turned as they are drawn).
     for (i, a) in labels.iter().enumerate() {
         for b in &labels[i + 1..] {
-            let overlap = a.bbox[0][0] < b.bbox[1][0]
-                && b.bbox[0][0] < a.bbox[1][0]
-                && a.bbox[0][1] < b.bbox[1][1]
-                && b.bbox[0][1] < a.bbox[1][1];
-            assert!(!overlap, "labels {:?} and {:?} overlap", a.text, b.text);
+            assert!(
+                !quads_overlap(&a.quad, &b.quad),
+                "labels {:?} and {:?} overlap",
+                a.text,
+                b.text
+            );
         }
     }
     for l in &labels {
@@ -249,12 +315,13 @@ fn check_labels(doc: &Document, options: &SvgOptions) -> Checked {
             continue; // a region without an outline: its name stands above its marker
         };
         let [lo, hi] = l.bbox;
+        let q = l.quad;
         let corners = [
-            lo,
-            [hi[0], lo[1]],
-            hi,
-            [lo[0], hi[1]],
-            [(lo[0] + hi[0]) / 2.0, (lo[1] + hi[1]) / 2.0],
+            q[0],
+            q[1],
+            q[2],
+            q[3],
+            [(q[0][0] + q[2][0]) / 2.0, (q[0][1] + q[2][1]) / 2.0],
         ];
         match leaders.get(&l.id) {
             None => {
@@ -269,7 +336,7 @@ fn check_labels(doc: &Document, options: &SvgOptions) -> Checked {
                 for ring in rings {
                     for k in 0..ring.len() {
                         assert!(
-                            !segment_hits_box(ring[k], ring[(k + 1) % ring.len()], &l.bbox),
+                            !segment_hits_quad(ring[k], ring[(k + 1) % ring.len()], &l.quad),
                             "{}: its region's outline runs through it",
                             l.text
                         );
@@ -289,7 +356,12 @@ fn check_labels(doc: &Document, options: &SvgOptions) -> Checked {
                 );
             }
             Some([start, end]) => {
-                // 2'. Or joined by a leader line from inside the region to the label.
+                // 2'. Or joined by a leader line from inside the region to the label (set level).
+                assert_eq!(
+                    l.angle, 0.0,
+                    "{}: a name with a leader line is level",
+                    l.text
+                );
                 assert!(
                     inside(rings, *start),
                     "{}: the leader starts outside",
@@ -393,8 +465,9 @@ fn labels_on_us_states_and_columbus_fit_do_not_overlap_and_read() {
             let max = sizes.iter().cloned().fold(0.0, f64::max);
             let min = sizes.iter().cloned().fold(f64::INFINITY, f64::min);
             assert!(max > min, "{sizes:?}");
-            assert!(min >= options.label_min_mm * c.units_per_mm - 1e-6);
-            assert!(max <= options.label_max_mm * c.units_per_mm + 1e-6);
+            // Sizes are written to 3 decimals.
+            assert!(min >= (options.label_min_mm - 1e-3) * c.units_per_mm);
+            assert!(max <= (options.label_max_mm + 1e-3) * c.units_per_mm);
         }
     }
 }
@@ -639,6 +712,64 @@ fn cli_export_takes_the_layout_flags_and_says_how_many_names_were_left_out() {
         "{line}"
     );
     assert!(text.contains("Three Valleys") && text.contains("Source: invented"));
+
+    // Name sizes in points: 9 pt everywhere.
+    let nine = dir.path().join("nine.svg");
+    let o = tinct_path(
+        &["export"],
+        &project,
+        &[
+            "--svg",
+            nine.to_str().unwrap(),
+            "--labels",
+            "--name-size",
+            "9",
+        ],
+    );
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = std::fs::read_to_string(&nine).unwrap();
+    let xml = roxmltree::Document::parse(&text).unwrap();
+    let root_el = xml.root_element();
+    let width_mm: f64 = root_el
+        .attribute("width")
+        .unwrap()
+        .trim_end_matches("mm")
+        .parse()
+        .unwrap();
+    let view_w: f64 = root_el
+        .attribute("viewBox")
+        .unwrap()
+        .split_whitespace()
+        .nth(2)
+        .unwrap()
+        .parse()
+        .unwrap();
+    let sizes = xml_sizes(&text);
+    assert!(!sizes.is_empty());
+    for s in sizes {
+        let pt = s * width_mm / view_w * 72.0 / 25.4;
+        assert!((pt - 9.0).abs() < 0.01, "{pt} pt");
+    }
+    // Sizes the CLI refuses, with the reason.
+    for (bad, says) in [
+        ("12-8", "larger than the largest"),
+        ("1-8", "from 3 to 36 points"),
+        ("big", "not a size in points"),
+    ] {
+        let o = tinct_path(
+            &["export"],
+            &project,
+            &[
+                "--svg",
+                nine.to_str().unwrap(),
+                "--labels",
+                "--name-size",
+                bad,
+            ],
+        );
+        assert_eq!(o.status.code(), Some(2), "{bad}");
+        assert!(stderr(&o).contains(says), "{bad}: {}", stderr(&o));
+    }
 }
 
 #[test]
@@ -787,4 +918,62 @@ fn inset_captions_give_the_scale_as_a_factor() {
     assert_eq!(inset_caption(3.06), "scale ×3.1");
     assert_eq!(inset_caption(2.0), "scale ×2");
     assert_eq!(inset_caption(0.085), "scale ×0.085");
+}
+
+#[test]
+fn names_follow_long_narrow_states_and_large_coastal_ones_take_a_leader_on_the_whole_us() {
+    // Source: all 56 states and territories of us-atlas 3.0.1 (US Census Bureau), at the
+    // default 180 mm. Before names could turn, Florida, Indiana, Louisiana, Michigan and
+    // Mississippi were all left out here: their level names are wider than the states.
+    let doc = imported("us_states10m.topojson");
+    let c = check_labels(&doc, &labelled());
+    let placed = |name: &str| c.labels.iter().find(|l| l.text == name);
+    for name in ["Florida", "Indiana", "Louisiana", "Michigan", "Mississippi"] {
+        assert!(placed(name).is_some(), "{name}: {:?}", c.report);
+    }
+    // Indiana and Mississippi are tall and narrow: their names run along them, near upright.
+    for name in ["Indiana", "Mississippi"] {
+        let angle = placed(name).unwrap().angle;
+        assert!(angle.abs() > 60.0, "{name} at {angle} degrees");
+    }
+    // Wide states keep level names.
+    for name in ["Texas", "Montana", "Kansas"] {
+        assert_eq!(placed(name).unwrap().angle, 0.0, "{name}");
+    }
+    assert!(
+        c.labels.len() >= 48,
+        "{} of 56 placed: {:?}",
+        c.labels.len(),
+        c.report.left_out
+    );
+}
+
+#[test]
+fn name_sizes_follow_the_range_asked_for() {
+    // Points are 1/72 inch (25.4/72 mm), the printer's unit for type (common practice).
+    let doc = imported("us_states_subset.geojson");
+    let mm = |pt: f64| pt * 25.4 / 72.0;
+    let options = SvgOptions {
+        label_min_mm: mm(8.0),
+        label_max_mm: mm(12.0),
+        ..labelled()
+    };
+    let c = check_labels(&doc, &options);
+    let sizes = xml_sizes(&c.svg);
+    assert!(!sizes.is_empty());
+    for s in &sizes {
+        let s_mm = s / c.units_per_mm;
+        assert!(
+            s_mm >= mm(8.0) - 1e-3 && s_mm <= mm(12.0) + 1e-3,
+            "{s_mm} mm"
+        );
+    }
+    // Larger names, fewer fit than at 6 to 10 pt.
+    let default = check_labels(&doc, &labelled());
+    assert!(
+        c.report.left_out.len() >= default.report.left_out.len(),
+        "{:?} against {:?}",
+        c.report,
+        default.report
+    );
 }

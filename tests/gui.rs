@@ -463,6 +463,13 @@ fn a_print_export_takes_a_title_source_and_scale_bar_and_says_how_many_names_fit
     replace_text(&mut h, "Source", "us-atlas 3.0.1");
     // The legend is off by default: the fills of a map colouring carry no meaning.
     assert!(h.query_by_label("Legend heading").is_none());
+    // Name sizes are offered while names are on.
+    assert!(h.query_by_label("Names from").is_some());
+    h.get_by_label("Region names").click();
+    h.run_steps(2);
+    assert!(h.query_by_label("Names from").is_none());
+    h.get_by_label("Region names").click();
+    h.run_steps(2);
     h.get_all_by_label("Export").last().unwrap().click();
     h.run_steps(3);
     let message = last_message(&h);

@@ -456,3 +456,103 @@ fn a_map_can_be_drawn_in_another_projection_and_undo_takes_it_back() {
     assert!(tinct::geo::document::projection_choices(&sketch).is_empty());
     assert!(tinct::geo::document::reproject(&sketch, lambert).is_none());
 }
+
+#[test]
+fn the_49th_parallel_runs_level_at_the_central_meridian_and_bends_as_the_conic_says() {
+    // Source data: all states of us-atlas 3.0.1 (US Census Bureau; tests/data/geo/PROVENANCE.md).
+    // Washington to Minnesota, the border with Canada follows 49 N. On an Albers conic the
+    // parallels are arcs of circles about the cone's apex and the meridians are its radii: a
+    // point at longitude lon sits at the polar angle theta = n (lon - lon0) (Snyder 1987, USGS
+    // Professional Paper 1395, eq. 14-4), so a parallel runs level where it crosses the central
+    // meridian and its direction at lon is turned by theta. The export draws the map with no
+    // turn (map units to the page are a translation and a flip of y), so directions measured on
+    // the projected geometry are the export's.
+    let path = data("geo/us_states10m.topojson");
+    let doc = tinct::geo::import_path(&path, &tinct::geo::ImportOptions::default())
+        .unwrap()
+        .into_document("us");
+    let projection = doc
+        .settings()
+        .projection
+        .expect("imported from longitude/latitude");
+    let Projection::AlbersEqualArea {
+        lon0, lat1, lat2, ..
+    } = projection
+    else {
+        panic!("the conterminous US take a conic: {projection:?}")
+    };
+    // Snyder's n for the sphere (eq. 14-6); the ellipsoid's differs by far less than the
+    // tolerance below. Angles in degrees throughout (theta = n (lon - lon0) holds in any unit).
+    let n = (lat1.to_radians().sin() + lat2.to_radians().sin()) / 2.0;
+    // Each state's vertices on 49 N (the file is quantised to about 0.005 degrees, so the
+    // direction is measured over each state's whole stretch, and over all of it).
+    let mut all: Vec<(LonLat, LonLat)> = Vec::new();
+    let mut level_near_centre = 0;
+    let chord = |points: &[(LonLat, LonLat)]| {
+        let west = points
+            .iter()
+            .min_by(|a, b| a.0[0].total_cmp(&b.0[0]))
+            .unwrap();
+        let east = points
+            .iter()
+            .max_by(|a, b| a.0[0].total_cmp(&b.0[0]))
+            .unwrap();
+        let (p, q) = (west.1, east.1);
+        // Eastward, with y growing north.
+        let angle = (q[1] - p[1]).atan2(q[0] - p[0]).to_degrees();
+        (west.0[0], east.0[0], angle)
+    };
+    for name in [
+        "Washington",
+        "Idaho",
+        "Montana",
+        "North Dakota",
+        "Minnesota",
+    ] {
+        let region = doc
+            .regions()
+            .values()
+            .find(|r| r.name == name)
+            .unwrap_or_else(|| panic!("{name}"));
+        let on_49: Vec<(LonLat, LonLat)> = region
+            .geometry
+            .as_ref()
+            .unwrap()
+            .polygons
+            .iter()
+            .flat_map(|p| p.exterior.iter())
+            .map(|&xy| (projection.unproject(xy), xy))
+            .filter(|(ll, _)| (ll[1] - 49.0).abs() <= 0.006)
+            .collect();
+        let (west, east, angle) = chord(&on_49);
+        assert!(east - west >= 0.9, "{name}: {west} to {east}");
+        // A chord of the arc turns by theta at its middle; within a quarter degree, plus what
+        // the vertices' quantisation (0.006 degrees of latitude at each end) allows.
+        let theta = n * ((west + east) / 2.0 - lon0);
+        let tolerance = 0.25
+            + (0.012 / ((east - west) * 49f64.to_radians().cos()))
+                .atan()
+                .to_degrees();
+        assert!(
+            (angle - theta).abs() <= tolerance,
+            "{name}: 49 N from {west:.2} to {east:.2} runs at {angle:.2} degrees; the conic \
+             says {theta:.2}"
+        );
+        if ((west + east) / 2.0 - lon0).abs() <= 4.5 {
+            level_near_centre += 1;
+            assert!(angle.abs() <= 3.0, "{name} at {angle}");
+        }
+        all.extend(on_49);
+    }
+    // Washington to Minnesota as one chord.
+    let (west, east, angle) = chord(&all);
+    let theta = n * ((west + east) / 2.0 - lon0);
+    assert!(
+        (angle - theta).abs() <= 0.5,
+        "49 N from {west:.2} to {east:.2} runs at {angle:.2}; the conic says {theta:.2}"
+    );
+    assert!(
+        level_near_centre >= 1,
+        "none near the central meridian {lon0}"
+    );
+}

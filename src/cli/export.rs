@@ -87,6 +87,10 @@ pub struct ExportArgs {
     /// Write region names on the map (names that do not fit are left out, and counted).
     #[arg(long)]
     pub labels: bool,
+    /// The size of the names, in points (1/72 inch): "6-10" steps from 6 pt for the smallest
+    /// regions to 10 pt for the largest; one number sets every name alike.
+    #[arg(long = "name-size", value_name = "PT[-PT]", default_value = "6-10", value_parser = parse_name_size)]
+    pub name_size: NameSize,
     /// A title above the map.
     #[arg(long, value_name = "TEXT")]
     pub title: Option<String>,
@@ -111,6 +115,44 @@ pub struct ExportArgs {
     pub no_legend: bool,
 }
 
+/// The range of name sizes, in points.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct NameSize {
+    pub min_pt: f64,
+    pub max_pt: f64,
+}
+
+/// Reads `--name-size`: "6-10" or "8", each from 3 to 36 points.
+pub fn parse_name_size(text: &str) -> Result<NameSize, String> {
+    let number = |t: &str| {
+        t.trim()
+            .trim_end_matches("pt")
+            .trim()
+            .parse::<f64>()
+            .ok()
+            .filter(|v| v.is_finite())
+            .ok_or_else(|| format!("{t:?} is not a size in points (such as 6-10 or 8)"))
+    };
+    let (min_pt, max_pt) = match text.split_once('-') {
+        Some((a, b)) => (number(a)?, number(b)?),
+        None => {
+            let v = number(text)?;
+            (v, v)
+        }
+    };
+    if !(3.0..=36.0).contains(&min_pt) || !(3.0..=36.0).contains(&max_pt) {
+        return Err(format!(
+            "name sizes go from 3 to 36 points, not {min_pt} and {max_pt}"
+        ));
+    }
+    if min_pt > max_pt {
+        return Err(format!(
+            "the smallest name size ({min_pt} pt) is larger than the largest ({max_pt} pt)"
+        ));
+    }
+    Ok(NameSize { min_pt, max_pt })
+}
+
 /// Reads `--page` (clap reports the message and exits with the usage status, 2).
 fn parse_page(text: &str) -> Result<PageSize, String> {
     PageSize::parse(text).map_err(|e| e.to_string())
@@ -133,6 +175,8 @@ pub fn run_export(file: &Path, args: &ExportArgs, geo: &super::import::GeoArgs) 
         source: args.source.clone(),
         scale_bar: args.scale_bar,
         insets: !args.no_insets,
+        label_min_mm: args.name_size.min_pt * crate::export::svg::MM_PER_POINT,
+        label_max_mm: args.name_size.max_pt * crate::export::svg::MM_PER_POINT,
         ..SvgOptions::default()
     };
     let mut notes = Vec::new();

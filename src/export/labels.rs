@@ -15,10 +15,18 @@
 //!   [`INSIDE_MARGIN_MM`]) must lie inside the region: its corners and centre inside, and no edge
 //!   of the region's outline through it. Positions
 //!   around the pole are tried when the pole itself does not work.
-//! - **No overlap**: no two label boxes overlap (they keep [`LABEL_GAP_MM`] apart).
+//! - **Turned names**: when no level name fits and the largest part is long and narrow
+//!   ([`long_axis`]: its long axis at least [`TURN_MIN_ELONGATION`] times its short one and at
+//!   least [`TURN_MIN_DEGREES`] from level), the name is set along the long axis (and 12 degrees
+//!   either side), never upside down: between -90 degrees (reading upwards) and 90.
+//! - **No overlap**: no two label boxes overlap (they keep [`LABEL_GAP_MM`] apart), tested on the
+//!   turned boxes themselves ([`quads_overlap`]).
 //! - **Leader lines**: a small region whose name does not fit inside, and which is an island, an
 //!   enclave or on the coast, may have its name placed nearby outside (on empty page or water, or
 //!   for an enclave inside the region around it) with a thin line from inside the region to it.
+//!   A larger coastal region may too, on a map where most names go inside: its line starts just
+//!   inside the coast ([`LEADER_FROM_COAST_MM`]) and its name sits offshore. Names with leader
+//!   lines are level.
 //! - Otherwise the name is **left out**, and counted in the [`LabelReport`].
 //!
 //! **Text width** is estimated, not measured (the SVG may be shown with any sans-serif font): the
@@ -116,8 +124,11 @@ pub struct Placement {
     /// The centre of the text box, in page millimetres.
     pub centre_mm: [f64; 2],
     pub size_mm: f64,
-    /// The box it reserves (text box plus halo), in page millimetres.
+    /// The box it reserves (text box plus halo), in page millimetres, before it is turned.
     pub box_mm: BoxMm,
+    /// The turn of the name about its centre, in degrees clockwise on the page: 0 for a level
+    /// name; a name set along a long narrow region follows the region's long axis.
+    pub angle_deg: f64,
     pub ink: Rgb,
     pub halo: Rgb,
     /// Set in italic: a water name.
@@ -181,14 +192,12 @@ struct Candidate {
     rings: Vec<Vec<Point>>,
     /// The pole of the largest part and its distance to the outline, in millimetres.
     pole: Option<(Point, f64)>,
-    /// The largest part's bounding box, in millimetres.
-    part_box: BoxMm,
+    /// Which of `rings` is the largest part's outline.
+    part_ring: usize,
+    /// The long axis of the largest part, when it is long and narrow ([`long_axis`]).
+    axis: Option<f64>,
     water: bool,
     fill: Option<Rgb>,
-}
-
-fn boxes_overlap(a: &BoxMm, b: &BoxMm) -> bool {
-    a[0][0] < b[1][0] && b[0][0] < a[1][0] && a[0][1] < b[1][1] && b[0][1] < a[1][1]
 }
 
 /// True when the segment `p q` meets the box (Liang-Barsky clipping).
@@ -283,17 +292,101 @@ fn grown(b: &BoxMm, by: f64) -> BoxMm {
     [[b[0][0] - by, b[0][1] - by], [b[1][0] + by, b[1][1] + by]]
 }
 
-type Placed = RTree<GeomWithData<Rectangle<[f64; 2]>, usize>>;
+/// A box turned about its centre: the corners in order round it, in page millimetres.
+pub type Quad = [Point; 4];
 
-fn collides(placed: &Placed, b: &BoxMm) -> bool {
-    // Boxes keep the gap apart: grow the new one by the gap and ask for any overlap.
-    let g = grown(b, LABEL_GAP_MM);
-    placed
-        .locate_in_envelope_intersecting(AABB::from_corners(g[0], g[1]))
-        .any(|r| {
-            let e = r.geom().envelope_box();
-            boxes_overlap(&g, &e)
-        })
+/// The corners of `b` turned by `angle` (radians, clockwise on the page as y grows down) about
+/// its centre.
+pub fn turned(b: &BoxMm, angle: f64) -> Quad {
+    let c = [(b[0][0] + b[1][0]) / 2.0, (b[0][1] + b[1][1]) / 2.0];
+    let (sin, cos) = angle.sin_cos();
+    [b[0], [b[1][0], b[0][1]], b[1], [b[0][0], b[1][1]]].map(|p| {
+        let (x, y) = (p[0] - c[0], p[1] - c[1]);
+        [c[0] + x * cos - y * sin, c[1] + x * sin + y * cos]
+    })
+}
+
+/// The smallest upright box round a quad.
+pub fn quad_box(q: &Quad) -> BoxMm {
+    let mut b = [[f64::INFINITY; 2], [f64::NEG_INFINITY; 2]];
+    for p in q {
+        b = [
+            [b[0][0].min(p[0]), b[0][1].min(p[1])],
+            [b[1][0].max(p[0]), b[1][1].max(p[1])],
+        ];
+    }
+    b
+}
+
+/// True when two convex quads overlap with area (separating axis test on their edge normals).
+pub fn quads_overlap(a: &Quad, b: &Quad) -> bool {
+    for quad in [a, b] {
+        for k in 0..4 {
+            let (p, q) = (quad[k], quad[(k + 1) % 4]);
+            let axis = [q[1] - p[1], p[0] - q[0]];
+            let project = |r: &Quad| {
+                r.iter()
+                    .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| {
+                        let d = v[0] * axis[0] + v[1] * axis[1];
+                        (lo.min(d), hi.max(d))
+                    })
+            };
+            let (alo, ahi) = project(a);
+            let (blo, bhi) = project(b);
+            if ahi <= blo || bhi <= alo {
+                return false;
+            }
+        }
+    }
+    true
+}
+
+/// The labels, markers and captions placed so far: their upright boxes in an R-tree for the
+/// search, and their true (possibly turned) outlines for the test.
+struct Placed {
+    tree: RTree<GeomWithData<Rectangle<[f64; 2]>, usize>>,
+    quads: Vec<Quad>,
+}
+
+impl Placed {
+    fn new() -> Placed {
+        Placed {
+            tree: RTree::new(),
+            quads: Vec::new(),
+        }
+    }
+
+    /// Reserves the box `b` turned by `angle` about its centre.
+    fn insert(&mut self, b: &BoxMm, angle: f64) {
+        let quad = turned(b, angle);
+        let bb = quad_box(&quad);
+        self.tree.insert(GeomWithData::new(
+            Rectangle::from_corners(bb[0], bb[1]),
+            self.quads.len(),
+        ));
+        self.quads.push(quad);
+    }
+
+    /// True when the box `b` turned by `angle` comes within the label gap of anything placed.
+    fn collides(&self, b: &BoxMm, angle: f64) -> bool {
+        // Boxes keep the gap apart: grow the new one by the gap and ask for any overlap.
+        let g = turned(&grown(b, LABEL_GAP_MM), angle);
+        let gb = quad_box(&g);
+        self.tree
+            .locate_in_envelope_intersecting(AABB::from_corners(gb[0], gb[1]))
+            .any(|r| quads_overlap(&g, &self.quads[r.data]))
+    }
+
+    /// True when the segment `p q` meets the upright box of anything placed.
+    fn crossed_by(&self, p: Point, q: Point) -> bool {
+        let env = AABB::from_corners(
+            [p[0].min(q[0]), p[1].min(q[1])],
+            [p[0].max(q[0]), p[1].max(q[1])],
+        );
+        self.tree
+            .locate_in_envelope_intersecting(env)
+            .any(|r| segment_meets_box(p, q, &r.geom().envelope_box()))
+    }
 }
 
 trait EnvelopeBox {
@@ -352,25 +445,27 @@ pub fn place(
             .flat_map(|p| std::iter::once(&p.exterior).chain(p.holes.iter()))
             .map(|r| r.iter().map(|p| frame.to_page_mm(*p)).collect())
             .collect();
-        let largest = geometry.polygons.iter().max_by(|a, b| {
-            let area = |p: &crate::doc::Polygon| signed_area(&p.exterior).abs();
-            area(a).total_cmp(&area(b))
-        });
-        let mut part_box = [[f64::INFINITY; 2], [f64::NEG_INFINITY; 2]];
-        let pole = largest.and_then(|p| {
-            let part: Vec<Vec<Point>> = std::iter::once(&p.exterior)
-                .chain(p.holes.iter())
-                .map(|r| r.iter().map(|q| frame.to_page_mm(*q)).collect())
-                .collect();
-            for q in &part[0] {
-                part_box = [
-                    [part_box[0][0].min(q[0]), part_box[0][1].min(q[1])],
-                    [part_box[1][0].max(q[0]), part_box[1][1].max(q[1])],
-                ];
-            }
+        // The largest part, and where its outline sits among `rings`.
+        let largest = geometry
+            .polygons
+            .iter()
+            .enumerate()
+            .max_by(|(_, a), (_, b)| {
+                let area = |p: &crate::doc::Polygon| signed_area(&p.exterior).abs();
+                area(a).total_cmp(&area(b))
+            })
+            .map(|(k, _)| k);
+        let part_ring: usize = geometry.polygons[..largest.unwrap_or(0)]
+            .iter()
+            .map(|p| 1 + p.holes.len())
+            .sum();
+        let pole = largest.and_then(|k| {
+            let p = &geometry.polygons[k];
+            let part = &rings[part_ring..part_ring + 1 + p.holes.len()];
             let refs: Vec<&[Point]> = part.iter().map(Vec::as_slice).collect();
             pole_of_inaccessibility(&refs, 0.05)
         });
+        let axis = largest.and_then(|_| long_axis(&rings[part_ring]));
         let water = region.role == Role::Water;
         candidates.push(Candidate {
             id: *id,
@@ -378,7 +473,8 @@ pub fn place(
             area_mm2: geometry.area() * mm2_per_unit2,
             rings,
             pole,
-            part_box,
+            part_ring,
+            axis,
             water,
             fill: (!water).then(|| land_fill(doc, *id)),
         });
@@ -388,32 +484,29 @@ pub fn place(
     candidates.sort_by(|a, b| b.area_mm2.total_cmp(&a.area_mm2).then(a.id.cmp(&b.id)));
 
     let sizes = sizes_mm(options);
-    let mut placed: Placed = RTree::new();
+    let mut placed = Placed::new();
     // The markers of regions without outlines are drawn over the map: no name may cover one.
     for region in doc.regions().values().filter(|r| r.geometry.is_none()) {
         let [x, y] = frame.to_page_mm(region.anchor);
         let r = MARKER_RADIUS_MM;
-        placed.insert(GeomWithData::new(
-            Rectangle::from_corners([x - r, y - r], [x + r, y + r]),
-            usize::MAX,
-        ));
+        placed.insert(&[[x - r, y - r], [x + r, y + r]], 0.0);
     }
     for caption in insets.iter().filter_map(|i| i.caption_mm) {
-        placed.insert(GeomWithData::new(
-            Rectangle::from_corners(caption[0], caption[1]),
-            usize::MAX,
-        ));
+        placed.insert(&caption, 0.0);
     }
     let mut out: Vec<Placement> = Vec::new();
     let mut pending: Vec<&Candidate> = Vec::new();
     for c in &candidates {
         match place_inside(c, &sizes, &placed) {
-            Some((centre, size, b, set)) => {
+            Some(Inside {
+                centre,
+                size,
+                b,
+                lines: set,
+                angle,
+            }) => {
                 let (ink, halo) = inks(c);
-                placed.insert(GeomWithData::new(
-                    Rectangle::from_corners(b[0], b[1]),
-                    out.len(),
-                ));
+                placed.insert(&b, angle);
                 out.push(Placement {
                     id: c.id,
                     text: c.name.clone(),
@@ -421,6 +514,7 @@ pub fn place(
                     centre_mm: centre,
                     size_mm: size,
                     box_mm: b,
+                    angle_deg: angle.to_degrees(),
                     ink,
                     halo,
                     italic: c.water,
@@ -443,7 +537,10 @@ pub fn place(
     // like a random choice.
     let coastal_leaders = report.inside * 4 >= report.named;
     for c in pending {
-        let placement = if options.leaders && c.area_mm2 < LEADER_MAX_AREA_MM2 {
+        // A larger region takes a leader line only from its coast, on a map where names go
+        // inside: its name then sits offshore, beside the coast.
+        let small = c.area_mm2 < LEADER_MAX_AREA_MM2;
+        let placement = if options.leaders && (small || coastal_leaders) {
             lines
                 .touches
                 .get(&c.id)
@@ -456,7 +553,8 @@ pub fn place(
                             .iter()
                             .any(|n| doc.regions().get(n).is_some_and(|r| r.role == Role::Water));
                     // Water takes a leader only as a lake inside one region.
-                    let open = !c.water && (t.is_island() || (coastal_leaders && coastal));
+                    let open =
+                        !c.water && ((small && t.is_island()) || (coastal_leaders && coastal));
                     (host.is_some() || open).then_some(host)
                 })
                 .and_then(|host| {
@@ -476,10 +574,7 @@ pub fn place(
         match placement {
             Some(((centre, b, leader, set), host)) => {
                 let (ink, halo) = leader_inks(c, host);
-                placed.insert(GeomWithData::new(
-                    Rectangle::from_corners(b[0], b[1]),
-                    out.len(),
-                ));
+                placed.insert(&b, 0.0);
                 leaders.push(leader);
                 out.push(Placement {
                     id: c.id,
@@ -488,6 +583,7 @@ pub fn place(
                     centre_mm: centre,
                     size_mm: sizes[0],
                     box_mm: b,
+                    angle_deg: 0.0,
                     ink,
                     halo,
                     italic: c.water,
@@ -514,14 +610,11 @@ pub fn place(
         ];
         let set = vec![name.to_string()];
         let b = label_box(centre, &set, size);
-        if collides(&placed, &b) {
+        if placed.collides(&b, 0.0) {
             report.left_out.push(name.to_string());
             continue;
         }
-        placed.insert(GeomWithData::new(
-            Rectangle::from_corners(b[0], b[1]),
-            out.len(),
-        ));
+        placed.insert(&b, 0.0);
         out.push(Placement {
             id: *id,
             text: name.to_string(),
@@ -529,6 +622,7 @@ pub fn place(
             centre_mm: centre,
             size_mm: size,
             box_mm: b,
+            angle_deg: 0.0,
             ink: DARK_INK,
             halo: WHITE,
             italic: false,
@@ -570,20 +664,150 @@ fn inks(c: &Candidate) -> (Rgb, Rgb) {
     }
 }
 
-/// Where a name goes inside its region: centre, size, box and lines.
-type Inside = (Point, f64, BoxMm, Vec<String>);
+/// Where a name goes inside its region.
+struct Inside {
+    /// The centre on the page.
+    centre: Point,
+    size: f64,
+    /// The box round `centre` before it is turned.
+    b: BoxMm,
+    lines: Vec<String>,
+    /// The turn, in radians clockwise on the page.
+    angle: f64,
+}
+
+/// A turn by `angle` about `origin`, and back.
+#[derive(Clone, Copy)]
+struct Turn {
+    origin: Point,
+    sin: f64,
+    cos: f64,
+}
+
+impl Turn {
+    fn new(origin: Point, angle: f64) -> Turn {
+        let (sin, cos) = angle.sin_cos();
+        Turn { origin, sin, cos }
+    }
+    /// Page to the turned frame (where the name is level).
+    fn in_frame(&self, p: Point) -> Point {
+        let (x, y) = (p[0] - self.origin[0], p[1] - self.origin[1]);
+        [
+            self.origin[0] + x * self.cos + y * self.sin,
+            self.origin[1] - x * self.sin + y * self.cos,
+        ]
+    }
+    /// The turned frame back to the page.
+    fn onto_page(&self, p: Point) -> Point {
+        let (x, y) = (p[0] - self.origin[0], p[1] - self.origin[1]);
+        [
+            self.origin[0] + x * self.cos - y * self.sin,
+            self.origin[1] + x * self.sin + y * self.cos,
+        ]
+    }
+}
+
+/// A long narrow part counts as one whose long axis is at least this many times its short one
+/// (square roots of the second moments of its area).
+pub const TURN_MIN_ELONGATION: f64 = 1.5;
+/// A name is turned only when the long axis is at least this far from level, in degrees.
+pub const TURN_MIN_DEGREES: f64 = 10.0;
+
+/// The long axis of a ring, in radians clockwise from level on the page and within [-90°, 90°),
+/// when the ring is long and narrow enough for a turned name ([`TURN_MIN_ELONGATION`]).
+pub fn long_axis(ring: &[Point]) -> Option<f64> {
+    // Second moments of the area (the standard polygon sums, over each edge's cross product).
+    let (mut a, mut cx, mut cy, mut sxx, mut syy, mut sxy) = (0.0, 0.0, 0.0, 0.0, 0.0, 0.0);
+    let o = *ring.first()?;
+    for (p, q) in crate::geometry::edges(ring) {
+        let (x0, y0, x1, y1) = (p[0] - o[0], p[1] - o[1], q[0] - o[0], q[1] - o[1]);
+        let c = x0 * y1 - x1 * y0;
+        a += c;
+        cx += (x0 + x1) * c;
+        cy += (y0 + y1) * c;
+        sxx += c * (x0 * x0 + x0 * x1 + x1 * x1);
+        syy += c * (y0 * y0 + y0 * y1 + y1 * y1);
+        sxy += c * (x0 * y1 + 2.0 * x0 * y0 + 2.0 * x1 * y1 + x1 * y0);
+    }
+    if a.abs() < 1e-12 {
+        return None;
+    }
+    let area = a / 2.0;
+    let (cx, cy) = (cx / (6.0 * area), cy / (6.0 * area));
+    let mxx = sxx / 12.0 / area - cx * cx;
+    let myy = syy / 12.0 / area - cy * cy;
+    let mxy = sxy / 24.0 / area - cx * cy;
+    let mean = (mxx + myy) / 2.0;
+    let spread = (((mxx - myy) / 2.0).powi(2) + mxy * mxy).sqrt();
+    let (long, short) = (mean + spread, mean - spread);
+    if short <= 0.0 || (long / short).sqrt() < TURN_MIN_ELONGATION {
+        return None;
+    }
+    let angle = 0.5 * (2.0 * mxy).atan2(mxx - myy);
+    // Into [-90°, 90°): a name never reads upside down, and an upright one reads upwards.
+    let half = std::f64::consts::FRAC_PI_2;
+    let angle = (angle + half).rem_euclid(std::f64::consts::PI) - half;
+    (angle.abs().to_degrees() >= TURN_MIN_DEGREES).then_some(angle)
+}
 
 fn place_inside(c: &Candidate, sizes: &[f64; 3], placed: &Placed) -> Option<Inside> {
+    let (pole, _) = c.pole?;
+    if let Some(found) = place_in_frame(c, sizes, placed, Turn::new(pole, 0.0), 0.0, &c.rings) {
+        return Some(found);
+    }
+    // Level names did not fit: along the long axis of a long narrow part, whole degrees.
+    let axis = c.axis?.to_degrees().round();
+    let (lo, hi) = (-90.0, 90.0 - 1e-9);
+    let mut angles = vec![axis];
+    for delta in [-12.0f64, 12.0] {
+        let a = axis + delta;
+        if (lo..=hi).contains(&a) && a.abs() >= TURN_MIN_DEGREES {
+            angles.push(a);
+        }
+    }
+    for degrees in angles {
+        let angle = f64::to_radians(degrees);
+        let turn = Turn::new(pole, angle);
+        let rings: Vec<Vec<Point>> = c
+            .rings
+            .iter()
+            .map(|r| r.iter().map(|p| turn.in_frame(*p)).collect())
+            .collect();
+        if let Some(found) = place_in_frame(c, sizes, placed, turn, angle, &rings) {
+            return Some(found);
+        }
+    }
+    None
+}
+
+/// Searches for a level box in the frame turned by `turn` (where `rings` are the region's
+/// outlines), testing collisions on the page with the box turned back.
+fn place_in_frame(
+    c: &Candidate,
+    sizes: &[f64; 3],
+    placed: &Placed,
+    turn: Turn,
+    angle: f64,
+    rings: &[Vec<Point>],
+) -> Option<Inside> {
     let (pole, distance) = c.pole?;
     let step = size_step(c.area_mm2);
     let sets = layouts(&c.name);
+    let mut pb = [[f64::INFINITY; 2], [f64::NEG_INFINITY; 2]];
+    for q in &rings[c.part_ring] {
+        pb = [
+            [pb[0][0].min(q[0]), pb[0][1].min(q[1])],
+            [pb[1][0].max(q[0]), pb[1][1].max(q[1])],
+        ];
+    }
     for &size in sizes[..=step].iter().rev() {
         for set in &sets {
             let b0 = label_box([0.0, 0.0], set, size);
             let (w, h) = (b0[1][0] - b0[0][0], b0[1][1] - b0[0][1]);
             // A box inside the region keeps its centre at least half its smaller side from the
-            // outline, so when even the pole is closer than that, no position can work.
-            if distance < w.min(h) / 2.0 + INSIDE_MARGIN_MM {
+            // outline, so when even the pole is closer than that, no position can work; nor can
+            // one when the part is narrower than the box along its level.
+            if distance < w.min(h) / 2.0 + INSIDE_MARGIN_MM || pb[1][0] - pb[0][0] < w {
                 continue;
             }
             // Near the pole first (in steps of a quarter of the box's width and half its height),
@@ -595,7 +819,6 @@ fn place_inside(c: &Candidate, sizes: &[f64; 3], placed: &Placed) -> Option<Insi
                     centres.push([pole[0] + dx * w, pole[1] + dy * h]);
                 }
             }
-            let pb = &c.part_box;
             let span = [pb[1][0] - pb[0][0] - w, pb[1][1] - pb[0][1] - h];
             if span[0] > 0.0 && span[1] > 0.0 {
                 let cell = (span[0] * span[1] / 600.0).sqrt().max(h / 2.0);
@@ -614,9 +837,21 @@ fn place_inside(c: &Candidate, sizes: &[f64; 3], placed: &Placed) -> Option<Insi
                 centres.extend(grid);
             }
             for centre in centres {
-                let b = label_box(centre, set, size);
-                if !collides(placed, &b) && box_inside(&c.rings, &grown(&b, INSIDE_MARGIN_MM)) {
-                    return Some((centre, size, b, set.clone()));
+                let page_centre = turn.onto_page(centre);
+                let on_page = label_box(page_centre, set, size);
+                if !placed.collides(&on_page, angle)
+                    && box_inside(
+                        rings,
+                        &grown(&label_box(centre, set, size), INSIDE_MARGIN_MM),
+                    )
+                {
+                    return Some(Inside {
+                        centre: page_centre,
+                        size,
+                        b: on_page,
+                        lines: set.clone(),
+                        angle,
+                    });
                 }
             }
         }
@@ -694,17 +929,40 @@ fn place_with_leader(
     page: &Bounds,
     leaders: &[[[f64; 2]; 2]],
 ) -> Option<Outside> {
-    // Start the line at the pole (inside the region by construction).
-    let (start, _) = c.pole?;
+    let (pole, _) = c.pole?;
     for set in layouts(&c.name) {
         if let Some(found) =
-            place_set_with_leader(c, &set, start, size, host, placed, land, page, leaders)
+            place_set_with_leader(c, &set, pole, size, host, placed, land, page, leaders)
         {
             return Some(found);
         }
     }
     None
 }
+
+/// How far a ray from `origin` along `dir` (a unit vector) runs before it leaves `ring` for the
+/// last time: the largest distance at which it crosses the outline.
+fn last_exit(ring: &[Point], origin: Point, dir: [f64; 2]) -> f64 {
+    let mut far = 0.0f64;
+    for (p, q) in crate::geometry::edges(ring) {
+        let e = [q[0] - p[0], q[1] - p[1]];
+        let denom = dir[0] * e[1] - dir[1] * e[0];
+        if denom.abs() < 1e-12 {
+            continue;
+        }
+        let w = [p[0] - origin[0], p[1] - origin[1]];
+        let t = (w[0] * e[1] - w[1] * e[0]) / denom;
+        let u = (w[0] * dir[1] - w[1] * dir[0]) / denom;
+        if t > 0.0 && (0.0..=1.0).contains(&u) {
+            far = far.max(t);
+        }
+    }
+    far
+}
+
+/// A leader line starts at the pole unless the region reaches farther than this from it along
+/// the line's direction (millimetres); then it starts this far inside the coast.
+pub const LEADER_FROM_COAST_MM: f64 = 1.2;
 
 /// Where a name with a leader line goes: centre, box, the line, and the lines of the name.
 type Outside = (Point, BoxMm, [[f64; 2]; 2], Vec<String>);
@@ -713,7 +971,7 @@ type Outside = (Point, BoxMm, [[f64; 2]; 2], Vec<String>);
 fn place_set_with_leader(
     c: &Candidate,
     set: &[String],
-    start: Point,
+    pole: Point,
     size: f64,
     host: Option<&[Vec<Point>]>,
     placed: &Placed,
@@ -730,12 +988,25 @@ fn place_set_with_leader(
         .map(|k| f64::from(k) * std::f64::consts::PI / 8.0)
         .collect();
     directions.sort_by(|a, b| a.sin().abs().total_cmp(&b.sin().abs()).then(a.total_cmp(b)));
-    for gap in [1.5, 3.0, 5.0, 8.0] {
+    for gap in [1.5, 3.0, 5.0, 8.0, 12.0] {
         for &angle in &directions {
             let (dx, dy) = (angle.cos(), angle.sin());
-            // From the pole to the box's near side: the gap plus the half-extent along the ray.
-            let reach = gap + half_w * dx.abs() + half_h * dy.abs();
-            let centre = [start[0] + dx * reach, start[1] + dy * reach];
+            // A small region's line starts at its pole; a larger one's just inside the coast
+            // where the ray leaves the region's largest part for the last time.
+            let exit = last_exit(&c.rings[c.part_ring], pole, [dx, dy]);
+            let start = if exit > 3.0 * LEADER_FROM_COAST_MM {
+                let s = exit - LEADER_FROM_COAST_MM;
+                [pole[0] + dx * s, pole[1] + dy * s]
+            } else {
+                pole
+            };
+            if start != pole && !point_in_rings(c.rings.iter().map(Vec::as_slice), start) {
+                continue;
+            }
+            // From the start to the box's near side: the gap plus the half-extent along the ray.
+            let from = if start == pole { 0.0 } else { exit };
+            let reach = from + gap + half_w * dx.abs() + half_h * dy.abs();
+            let centre = [pole[0] + dx * reach, pole[1] + dy * reach];
             let b = label_box(centre, set, size);
             let inside_page = b[0][0] >= page[0][0]
                 && b[0][1] >= page[0][1]
@@ -744,7 +1015,7 @@ fn place_set_with_leader(
             let in_an_inset = bounds.avoid.iter().any(|a| {
                 b[0][0] < a[1][0] && a[0][0] < b[1][0] && b[0][1] < a[1][1] && a[0][1] < b[1][1]
             });
-            if !inside_page || in_an_inset || collides(placed, &b) {
+            if !inside_page || in_an_inset || placed.collides(&b, 0.0) {
                 continue;
             }
             let ok_ground = match host {
@@ -762,13 +1033,7 @@ fn place_set_with_leader(
             ];
             let end = nearest_on_box(start, &b).unwrap_or(end);
             let line = [start, end];
-            let env = AABB::from_corners(
-                [start[0].min(end[0]), start[1].min(end[1])],
-                [start[0].max(end[0]), start[1].max(end[1])],
-            );
-            let crosses_label = placed
-                .locate_in_envelope_intersecting(env)
-                .any(|r| segment_meets_box(start, end, &r.geom().envelope_box()));
+            let crosses_label = placed.crossed_by(start, end);
             let crosses_leader = leaders
                 .iter()
                 .any(|l| crate::geometry::segments_intersect(l[0], l[1], start, end));
@@ -834,6 +1099,75 @@ mod tests {
         let b1 = label_box([0.0, 0.0], &two[0], 2.0);
         let b2 = label_box([0.0, 0.0], &two[1], 2.0);
         assert!(b2[1][0] < b1[1][0] && b2[1][1] > b1[1][1]);
+    }
+
+    #[test]
+    fn a_long_narrow_ring_gives_its_long_axis_and_a_compact_one_none() {
+        // A 10 by 2 rectangle turned by `deg` (clockwise on the page): its long axis is the
+        // turn (the principal axes of a rectangle are its sides; common practice).
+        for deg in [-75.0f64, -30.0, 20.0, 60.0, 89.0] {
+            let (s, c) = deg.to_radians().sin_cos();
+            let ring: Vec<Point> = [[-5.0, -1.0], [5.0, -1.0], [5.0, 1.0], [-5.0, 1.0]]
+                .iter()
+                .map(|p: &[f64; 2]| [40.0 + p[0] * c - p[1] * s, 7.0 + p[0] * s + p[1] * c])
+                .collect();
+            let axis = long_axis(&ring).unwrap().to_degrees();
+            assert!((axis - deg).abs() < 1e-6, "{deg}: {axis}");
+            // Either way round.
+            let back: Vec<Point> = ring.iter().rev().copied().collect();
+            assert!((long_axis(&back).unwrap().to_degrees() - deg).abs() < 1e-6);
+        }
+        // Straight up reads upwards: -90, never +90.
+        let upright = vec![[0.0, 0.0], [2.0, 0.0], [2.0, 10.0], [0.0, 10.0]];
+        assert!((long_axis(&upright).unwrap().to_degrees() + 90.0).abs() < 1e-9);
+        // Level, or too compact: no turn.
+        assert_eq!(
+            long_axis(&[[0.0, 0.0], [10.0, 0.0], [10.0, 2.0], [0.0, 2.0]]),
+            None
+        );
+        assert_eq!(
+            long_axis(&[[0.0, 0.0], [10.0, 0.0], [10.0, 8.0], [0.0, 8.0]]),
+            None
+        );
+    }
+
+    #[test]
+    fn turned_boxes_overlap_only_where_they_meet() {
+        let b = [[0.0, 0.0], [10.0, 2.0]];
+        let level = turned(&b, 0.0);
+        assert!(quads_overlap(
+            &level,
+            &turned(&[[9.0, 1.0], [12.0, 3.0]], 0.0)
+        ));
+        assert!(!quads_overlap(
+            &level,
+            &turned(&[[10.5, 0.0], [12.0, 2.0]], 0.0)
+        ));
+        // A name turned upright at its centre (5, 1) crosses the level one. One turned 45
+        // degrees past the level one's corner (10, 0) misses it (every point of it has x - y of
+        // at least 11.29, every point of the level box at most 10), though their upright boxes
+        // meet.
+        assert!(quads_overlap(
+            &level,
+            &turned(&b, std::f64::consts::FRAC_PI_2)
+        ));
+        let beyond = [[7.0, -1.5], [15.0, -0.5]];
+        let upright = turned(&beyond, std::f64::consts::FRAC_PI_4);
+        assert!(!quads_overlap(&level, &upright));
+        let q = quad_box(&upright);
+        assert!(
+            q[0][0] < 10.0 && q[1][1] > 0.0,
+            "their upright boxes meet: {q:?}"
+        );
+    }
+
+    #[test]
+    fn a_ray_leaves_a_square_at_its_far_side() {
+        let square = vec![[0.0, 0.0], [10.0, 0.0], [10.0, 10.0], [0.0, 10.0]];
+        assert!((last_exit(&square, [2.0, 5.0], [1.0, 0.0]) - 8.0).abs() < 1e-12);
+        assert!((last_exit(&square, [2.0, 5.0], [-1.0, 0.0]) - 2.0).abs() < 1e-12);
+        let d = std::f64::consts::FRAC_1_SQRT_2;
+        assert!((last_exit(&square, [5.0, 5.0], [d, d]) - 50f64.sqrt()).abs() < 1e-9);
     }
 
     #[test]

@@ -95,14 +95,17 @@ impl Default for SvgOptions {
             coast_mm: 0.5,
             border_mm: 0.2,
             water_line_mm: 0.15,
-            // About 6 and 10 points: the usual range for place names on a page map.
-            label_min_mm: 2.1,
-            label_max_mm: 3.5,
+            // 6 and 10 points: the usual range for place names on a page map (common practice).
+            label_min_mm: 6.0 * MM_PER_POINT,
+            label_max_mm: 10.0 * MM_PER_POINT,
             leaders: true,
             insets: true,
         }
     }
 }
+
+/// A typographic point (1/72 inch), in millimetres: name sizes are given in points.
+pub const MM_PER_POINT: f64 = 25.4 / 72.0;
 
 /// The SVG and what label placement did.
 #[derive(Clone, Debug, PartialEq)]
@@ -673,21 +676,32 @@ pub(crate) fn render_with(
             } else {
                 escape(&p.text)
             };
+            // A name along a long narrow region turns about its centre.
+            let turn = if p.angle_deg == 0.0 {
+                String::new()
+            } else {
+                format!("rotate({} {} {})", num.f(p.angle_deg), num.f(x), num.f(y))
+            };
             let position = if p.italic && synthetic_oblique {
                 // 12 degrees, about the slant of a typical italic.
                 format!(
-                    r#"x="0" y="0" transform="translate({} {}) skewX(-12)""#,
-                    num.f(x),
-                    num.f(baseline)
-                )
-            } else if p.italic {
-                format!(
-                    r#"x="{}" y="{}" font-style="italic""#,
+                    r#"x="0" y="0" transform="{turn}{}translate({} {}) skewX(-12)""#,
+                    if turn.is_empty() { "" } else { " " },
                     num.f(x),
                     num.f(baseline)
                 )
             } else {
-                format!(r#"x="{}" y="{}""#, num.f(x), num.f(baseline))
+                let turn = if turn.is_empty() {
+                    turn
+                } else {
+                    format!(r#" transform="{turn}""#)
+                };
+                let style = if p.italic {
+                    r#" font-style="italic""#
+                } else {
+                    ""
+                };
+                format!(r#"x="{}" y="{}"{style}{turn}"#, num.f(x), num.f(baseline))
             };
             let _ = writeln!(
                 out,

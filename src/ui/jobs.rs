@@ -76,6 +76,8 @@ pub fn export_files(
         source: text(&options.source),
         scale_bar: options.scale_bar,
         insets: options.insets,
+        label_min_mm: options.name_pt[0] * crate::export::svg::MM_PER_POINT,
+        label_max_mm: options.name_pt[1] * crate::export::svg::MM_PER_POINT,
         ..Default::default()
     };
     let format = match format {

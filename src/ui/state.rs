@@ -77,6 +77,8 @@ pub enum PathPurpose {
 pub struct ExportOptions {
     /// Region names on the picture.
     pub labels: bool,
+    /// The smallest and largest name size, in points.
+    pub name_pt: [f64; 2],
     /// A legend of the colours in use; off by default, since in a plain map colouring the fills
     /// carry no meaning.
     pub legend: bool,
@@ -104,6 +106,7 @@ impl Default for ExportOptions {
     fn default() -> ExportOptions {
         ExportOptions {
             labels: true,
+            name_pt: [6.0, 10.0],
             legend: false,
             legend_heading: String::new(),
             title: String::new(),

@@ -162,6 +162,32 @@ fn export_options_ui(
             "The fills of a map colouring carry no meaning, so it is off unless you want one",
         );
     });
+    if options.labels {
+        ui.horizontal(|ui| {
+            ui.label("Names from");
+            let [lo, hi] = &mut options.name_pt;
+            ui.add(
+                egui::DragValue::new(lo)
+                    .range(3.0..=36.0)
+                    .speed(0.1)
+                    .fixed_decimals(1),
+            )
+            .on_hover_text("The size of the smallest regions' names, in points (1/72 inch)");
+            ui.label("to");
+            ui.add(
+                egui::DragValue::new(hi)
+                    .range(3.0..=36.0)
+                    .speed(0.1)
+                    .fixed_decimals(1),
+            )
+            .on_hover_text("The size of the largest regions' names, in points");
+            ui.label("pt");
+            // The largest is held at least as large as the smallest.
+            if *hi < *lo {
+                *hi = *lo;
+            }
+        });
+    }
     if options.legend {
         text_row(ui, "Legend heading", &mut options.legend_heading, "none");
     }

@@ -20,6 +20,9 @@ Outputs (all in tests/data/geo/):
   world50m_fiji.topojson     Fiji from world-atlas countries-50m.json: rings that cross the
                              180-degree meridian. `python3 make_fixtures.py edge` writes these two
                              and needs nothing but the unpacked world-atlas package.
+  us_states10m.topojson      us-atlas states-10m.json with its "nation" object removed: all 56
+                             states and territories, arcs unchanged. `python3 make_fixtures.py
+                             states` writes only this file and needs only the us-atlas package.
   columbus.shp/.shx/.dbf/.gal  copied unchanged from libpysal's bundled example.
   reference_edges.txt        rook and queen edges computed by libpysal (a general-purpose
                              spatial-weights library) for each fixture: "<fixture> <rule> <a>|<b>".
@@ -130,6 +133,14 @@ def edge():
         json.dump(sub, f, separators=(",", ":"))
 
 
+def states():
+    us = json.load(open(os.path.join(os.environ["US_ATLAS"], "states-10m.json")))
+    # The states object only (the nation object is the same arcs merged); arcs unchanged.
+    del us["objects"]["nation"]
+    with open(os.path.join(HERE, "us_states10m.topojson"), "w") as f:
+        json.dump(us, f, separators=(",", ":"))
+
+
 def main():
     import geopandas as gpd
     import libpysal
@@ -137,6 +148,7 @@ def main():
     lines = []
     caucasus()
     edge()
+    states()
 
     us = json.load(open(os.path.join(os.environ["US_ATLAS"], "states-10m.json")))
     keep = ["Utah", "Colorado", "Arizona", "New Mexico", "Nevada", "California", "Oregon", "Idaho",
@@ -183,5 +195,7 @@ if __name__ == "__main__":
         caucasus()
     elif sys.argv[1:] == ["edge"]:
         edge()
+    elif sys.argv[1:] == ["states"]:
+        states()
     else:
         main()

@@ -566,7 +566,27 @@ fn line_hierarchy_coast_heavier_than_borders_and_borders_match_the_derived_lengt
                     .sum::<f64>()
             })
             .sum();
-        let coast_len = length(&coast);
+        // Islets (whole islands under 2.5 mm across on the page) are drawn at half the coast's
+        // width, and count as coast.
+        let (islet_ink, islet_w, islets) = polylines(&svg, "islets");
+        if !islets.is_empty() {
+            assert_eq!(islet_ink, coast_ink);
+            assert!((islet_w.unwrap() - coast_w.unwrap() / 2.0).abs() <= 0.01 * unit);
+            for islet in &islets {
+                assert_eq!(islet.first(), islet.last(), "{file}: an islet is a whole ring");
+                let span = |k: usize| {
+                    let v: Vec<f64> = islet.iter().map(|p| p[k]).collect();
+                    v.iter().cloned().fold(f64::NEG_INFINITY, f64::max)
+                        - v.iter().cloned().fold(f64::INFINITY, f64::min)
+                };
+                assert!(span(0).max(span(1)) < 2.5 * unit, "{file}");
+            }
+        }
+        if file.starts_with("us_") {
+            // The Aleutians: many islets at 180 mm.
+            assert!(islets.len() >= 10, "{file}: {} islets", islets.len());
+        }
+        let coast_len = length(&coast) + length(&islets);
         assert!(
             (coast_len - (perimeter - 2.0 * derived)).abs() <= 0.01 * perimeter,
             "{file}: coast {coast_len}, perimeter {perimeter}, borders {derived}"

@@ -12,8 +12,10 @@
 //!
 //! Each region stays one element (`<path id="region-N">`, or a `<circle>` for a region without an
 //! outline) with a `<title>` of its name, so screen readers and other tools can tell regions
-//! apart. Lines are `<polyline>`s in the groups `coast`, `borders` and `water-lines`; labels are
-//! `<text id="label-N">` in the group `labels`, and leader lines `<line id="leader-N">`.
+//! apart. Lines are `<polyline>`s in the groups `coast`, `islets` (the whole coast of islands
+//! under [`ISLET_MM`] across, at half the coast's width), `borders` and `water-lines`; labels are
+//! `<text id="label-N">` in the group `labels` (turned by a `rotate(...)` transform when set along
+//! a long narrow region), and leader lines `<line id="leader-N">`.
 
 use std::fmt::Write as _;
 
@@ -106,6 +108,10 @@ impl Default for SvgOptions {
 
 /// A typographic point (1/72 inch), in millimetres: name sizes are given in points.
 pub const MM_PER_POINT: f64 = 25.4 / 72.0;
+
+/// An island whose outline is less than this across on the page (millimetres) is an islet: its
+/// coast is drawn at half the coast's width.
+pub const ISLET_MM: f64 = 2.5;
 
 /// The SVG and what label placement did.
 #[derive(Clone, Debug, PartialEq)]
@@ -472,8 +478,21 @@ pub(crate) fn render_with(
     }
     let _ = writeln!(out, "</g>");
 
-    // The line hierarchy: water lines under borders under the coast.
+    // The line hierarchy: water lines under borders under the coast. The whole coast of an
+    // islet (a ring less than ISLET_MM across on the page) is drawn at half the coast's width, so
+    // that a speck of land stays a shape and does not become a blot.
     let lines = lines::classify(doc);
+    let islet = |points: &Vec<Point>| {
+        let (Some(first), Some(last)) = (points.first(), points.last()) else {
+            return false;
+        };
+        let (mut lo, mut hi) = (*first, *first);
+        for p in points {
+            lo = [lo[0].min(p[0]), lo[1].min(p[1])];
+            hi = [hi[0].max(p[0]), hi[1].max(p[1])];
+        }
+        first == last && (hi[0] - lo[0]).max(hi[1] - lo[1]) * frame.mm_per_unit < ISLET_MM
+    };
     for (class, group, ink, width) in [
         (
             LineClass::Water,
@@ -483,11 +502,19 @@ pub(crate) fn render_with(
         ),
         (LineClass::Border, "borders", BORDER_INK, options.border_mm),
         (LineClass::Coast, "coast", COAST_INK, options.coast_mm),
+        (
+            LineClass::Coast,
+            "islets",
+            COAST_INK,
+            (options.coast_mm / 2.0).max(options.border_mm.min(options.coast_mm)),
+        ),
     ] {
         let chains: Vec<&Vec<Point>> = lines
             .chains
             .iter()
-            .filter(|(c, _)| *c == class)
+            .filter(|(c, p)| {
+                *c == class && (class != LineClass::Coast || (group == "islets") == islet(p))
+            })
             .map(|(_, p)| p)
             .collect();
         if chains.is_empty() || width <= 0.0 {

@@ -49,7 +49,7 @@ pub fn show(frame: &Frame, window: &mut PathWindow, ctx: &egui::Context) {
         PathPurpose::Open => "Open a file".to_string(),
         PathPurpose::SaveAs => "Save the project as".to_string(),
         PathPurpose::ExportProof => "Export the proof to a folder".to_string(),
-        PathPurpose::Export(format) => format!("Export a {}", format.name()),
+        PathPurpose::Export(format) => format!("Export: {}", format.name()),
     };
     #[derive(PartialEq)]
     enum Choice {

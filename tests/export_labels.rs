@@ -167,11 +167,8 @@ struct Checked {
     units_per_mm: f64,
 }
 
-/// Exports `doc` with labels and checks every label rule; returns what it found.
-fn check_labels(doc: &Document, options: &SvgOptions) -> Checked {
-    let made = render(doc, options).expect("exports");
-    let svg = made.svg.clone();
-    let xml = roxmltree::Document::parse(&svg).expect("well-formed XML");
+/// SVG user units per millimetre of the printed page: the viewBox's width over the width in mm.
+fn units_per_mm(xml: &roxmltree::Document) -> f64 {
     let root_el = xml.root_element();
     let width_mm: f64 = root_el
         .attribute("width")
@@ -187,7 +184,15 @@ fn check_labels(doc: &Document, options: &SvgOptions) -> Checked {
         .unwrap()
         .parse()
         .unwrap();
-    let units_per_mm = view_w / width_mm;
+    view_w / width_mm
+}
+
+/// Exports `doc` with labels and checks every label rule; returns what it found.
+fn check_labels(doc: &Document, options: &SvgOptions) -> Checked {
+    let made = render(doc, options).expect("exports");
+    let svg = made.svg.clone();
+    let xml = roxmltree::Document::parse(&svg).expect("well-formed XML");
+    let units_per_mm = units_per_mm(&xml);
     let water_ground = xml
         .descendants()
         .find(|n| n.attribute("id") == Some("water"))
@@ -573,7 +578,11 @@ fn line_hierarchy_coast_heavier_than_borders_and_borders_match_the_derived_lengt
             assert_eq!(islet_ink, coast_ink);
             assert!((islet_w.unwrap() - coast_w.unwrap() / 2.0).abs() <= 0.01 * unit);
             for islet in &islets {
-                assert_eq!(islet.first(), islet.last(), "{file}: an islet is a whole ring");
+                assert_eq!(
+                    islet.first(),
+                    islet.last(),
+                    "{file}: an islet is a whole ring"
+                );
                 let span = |k: usize| {
                     let v: Vec<f64> = islet.iter().map(|p| p[k]).collect();
                     v.iter().cloned().fold(f64::NEG_INFINITY, f64::max)
@@ -749,25 +758,11 @@ fn cli_export_takes_the_layout_flags_and_says_how_many_names_were_left_out() {
     assert!(o.status.success(), "{}", stderr(&o));
     let text = std::fs::read_to_string(&nine).unwrap();
     let xml = roxmltree::Document::parse(&text).unwrap();
-    let root_el = xml.root_element();
-    let width_mm: f64 = root_el
-        .attribute("width")
-        .unwrap()
-        .trim_end_matches("mm")
-        .parse()
-        .unwrap();
-    let view_w: f64 = root_el
-        .attribute("viewBox")
-        .unwrap()
-        .split_whitespace()
-        .nth(2)
-        .unwrap()
-        .parse()
-        .unwrap();
+    let per_mm = units_per_mm(&xml);
     let sizes = xml_sizes(&text);
     assert!(!sizes.is_empty());
     for s in sizes {
-        let pt = s * width_mm / view_w * 72.0 / 25.4;
+        let pt = s / per_mm * 72.0 / 25.4;
         assert!((pt - 9.0).abs() < 0.01, "{pt} pt");
     }
     // Sizes the CLI refuses, with the reason.

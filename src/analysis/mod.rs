@@ -7,6 +7,7 @@
 //! sleeps or prints.
 
 pub mod colouring;
+pub mod hierarchy;
 pub mod planarity;
 pub mod rules;
 mod verify;

@@ -9,6 +9,7 @@ pub mod ciede2000;
 pub mod cvd;
 pub mod design;
 pub mod distinct;
+pub mod families;
 pub mod palettes;
 pub mod space;
 pub mod weight;
@@ -21,6 +22,7 @@ pub use distinct::{
     NamedColour, PairDifference, Thresholds, View, Warning, distinctness_matrix,
     distinctness_warnings, pair_difference,
 };
+pub use families::{FamilyFill, family_palette};
 pub use palettes::{DEFAULT_PALETTES, DefaultPalette, TINCT_4_RESERVES, default_palette_for};
 pub use space::{
     Lab, Srgb8, lab_to_srgb8, lab_to_xyz, lightness, linear_to_lab, linear_to_srgb,

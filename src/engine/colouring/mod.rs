@@ -7,6 +7,7 @@ pub mod drat_check;
 pub mod dsatur;
 pub mod encoding;
 pub mod exact;
+pub mod hierarchy;
 pub mod lower_bound;
 pub mod obstruction;
 pub mod problem;
@@ -26,6 +27,7 @@ pub use drat_check::{DratError, DratSummary, check_drat, parse_dimacs};
 pub use dsatur::dsatur;
 pub use encoding::{Cnf, Symmetry, colour_var, colouring_cnf};
 pub use exact::{Decision, Limits, PartProof, k_colourable, k_colourable_logged, repair};
+pub use hierarchy::{HierarchyError, HierarchyReport, hierarchy_colouring, parent_graph};
 pub use lower_bound::{
     BoundEvidence, LowerBound, check_bound, find_clique, find_clique_in_order, lower_bound,
     lower_bound_in_order,

@@ -8,6 +8,7 @@
 
 pub mod colouring;
 pub mod planarity;
+pub mod relax;
 pub mod rules;
 mod verify;
 

@@ -373,3 +373,365 @@ proptest! {
         prop_assert_eq!(r.infeasible, best.is_none());
     }
 }
+
+// ---- The document mapping, its edit, the command line and real data ----
+
+use tinct::analysis::relax::{
+    Allowed, Relaxation, fewest_relaxations_uncontrolled, relaxation_edit,
+};
+use tinct::doc::{
+    Border, BorderKind, ConstraintGraph, Document, DocumentBuilder, Edit, Group, GroupId, Region,
+    RegionId, RegionPair, Settings, Units,
+};
+
+fn pair(a: u64, b: u64) -> RegionPair {
+    RegionPair::new(RegionId(a), RegionId(b)).unwrap()
+}
+
+/// Checks a region colouring against the document's own rules, read from the document (active
+/// borders, groups, pins), not from the relaxation problem.
+fn honours_every_rule(doc: &Document, colours: &std::collections::BTreeMap<RegionId, u32>, k: u32) {
+    for (p, _) in doc.active_borders() {
+        assert_ne!(colours[&p.a()], colours[&p.b()], "{p:?}");
+    }
+    for (id, region) in doc.land_regions() {
+        assert!(colours[&id] < k);
+        if let Some(pin) = region.pin {
+            assert_eq!(colours[&id], pin, "pin of {id}");
+        }
+        if let Some(g) = region.group {
+            for other in doc.group_members(g) {
+                assert_eq!(colours[&id], colours[&other], "group of {id}");
+            }
+        }
+    }
+}
+
+/// Invented demo map: five regions that all touch, four of them through shared boundaries and
+/// the fifth pair (Ashby and Corlen) at a single corner; a sixth region Dunmere in a group with
+/// Ashby although they border each other by hand; Edony pinned to slot 0 beside Fallow, also
+/// pinned to slot 0.
+fn demo_map() -> Document {
+    let mut b = DocumentBuilder::new("demo");
+    let names = [
+        "Ashby", "Brell", "Corlen", "Dunmere", "Esk", "Fallow", "Edony",
+    ];
+    for (i, name) in names.iter().enumerate() {
+        let mut r = Region::new(*name, [i as f64, 0.0]);
+        if *name == "Ashby" || *name == "Dunmere" {
+            r.group = Some(GroupId(1));
+        }
+        if *name == "Edony" || *name == "Fallow" {
+            r.pin = Some(0);
+        }
+        b.region(RegionId(i as u64 + 1), r);
+    }
+    b.group(
+        GroupId(1),
+        Group {
+            name: "Ashby with Dunmere".into(),
+        },
+    );
+    // K5 on 1, 2, 3, 5 and 6 ... built so that 1-3 is the only corner contact.
+    for (x, y) in [
+        (1, 2),
+        (1, 5),
+        (1, 6),
+        (2, 3),
+        (2, 5),
+        (2, 6),
+        (3, 5),
+        (3, 6),
+        (5, 6),
+    ] {
+        b.border(pair(x, y), Border::shared(10.0));
+    }
+    b.border(pair(1, 3), Border::corner());
+    b.border(pair(1, 4), Border::manual());
+    b.border(pair(6, 7), Border::shared(10.0));
+    b.settings(Settings {
+        corners_count: true,
+        ..Settings::default()
+    });
+    b.next_ids(8, 2);
+    b.build().unwrap()
+}
+
+#[test]
+fn the_document_answer_drops_the_corner_one_membership_and_one_pin() {
+    // By construction (see demo_map): the K5 needs its only corner contact dropped; Ashby and
+    // Dunmere border each other by hand yet share a group, so the hand-made border or a
+    // membership goes; the two pinned neighbours need a pin dropped, and pins are allowed here.
+    let doc = demo_map();
+    let allowed = Allowed::parse("corner,manual,group,pin", Units::Unitless).unwrap();
+    let v = fewest_relaxations_uncontrolled(&doc, 4, &allowed, std::time::Duration::from_secs(30))
+        .unwrap();
+    v.check.as_ref().unwrap();
+    assert!(v.report.proven_optimal);
+    assert_eq!(v.report.cost, Some(3));
+    let relaxations = v.relaxations();
+    assert!(relaxations.contains(&Relaxation::Border {
+        pair: pair(1, 3),
+        kind: "corner"
+    }));
+    assert_eq!(relaxations.iter().filter(|r| r.kind() == "pin").count(), 1);
+
+    // The edit applies it as one undoable step and keeps the borders on record.
+    let mut relaxed = doc.clone();
+    let edit = relaxation_edit(&doc, &relaxations, 4).unwrap();
+    assert!(matches!(edit, Edit::Batch { ref edits, .. } if edits.len() == 3));
+    let undo = relaxed.apply(edit).unwrap();
+    assert_eq!(relaxed.borders().len(), doc.borders().len());
+    assert!(relaxed.borders().get(&pair(1, 3)).unwrap().suppressed);
+    let colours = v
+        .model
+        .region_colouring(v.report.colouring.as_ref().unwrap());
+    honours_every_rule(&relaxed, &colours, 4);
+    assert!(ConstraintGraph::build(&relaxed).conflicts.is_empty());
+    relaxed.apply(undo).unwrap();
+    assert_eq!(relaxed, doc);
+}
+
+#[test]
+fn without_pins_allowed_the_pinned_neighbours_cannot_be_helped() {
+    // By construction: with pins hard, Edony and Fallow are neighbours pinned to one colour, so
+    // no allowed relaxation helps; the obstruction is those two regions.
+    let doc = demo_map();
+    let v = fewest_relaxations_uncontrolled(
+        &doc,
+        4,
+        &Allowed::default(),
+        std::time::Duration::from_secs(30),
+    )
+    .unwrap();
+    v.check.as_ref().unwrap();
+    assert!(v.report.infeasible);
+    let last = v.report.obstructions.last().unwrap();
+    assert_eq!(
+        v.model.regions_of(&last.vertices),
+        vec![RegionId(6), RegionId(7)]
+    );
+}
+
+#[test]
+fn short_borders_are_read_in_the_maps_units() {
+    assert_eq!(
+        Allowed::parse("short:2km", Units::Metres).unwrap().short,
+        Some(2000.0)
+    );
+    assert_eq!(
+        Allowed::parse("short:500m,pin", Units::Metres)
+            .unwrap()
+            .short,
+        Some(500.0)
+    );
+    assert!(Allowed::parse("short:5km", Units::Unitless).is_err());
+    assert!(Allowed::parse("corners", Units::Unitless).is_err());
+    // By construction: a K5 whose shortest shared border is below the limit drops that one.
+    let mut b = DocumentBuilder::new("short");
+    for i in 1..=5u64 {
+        b.region(RegionId(i), Region::new(format!("R{i}"), [i as f64, 0.0]));
+    }
+    for (x, y) in complete(5) {
+        let length = if (x, y) == (1, 3) { 0.5 } else { 5.0 };
+        b.border(
+            pair(u64::from(x) + 1, u64::from(y) + 1),
+            Border::shared(length),
+        );
+    }
+    b.next_ids(6, 1);
+    let doc = b.build().unwrap();
+    let allowed = Allowed::parse("short:1", Units::Unitless).unwrap();
+    let v = fewest_relaxations_uncontrolled(&doc, 4, &allowed, std::time::Duration::from_secs(30))
+        .unwrap();
+    v.check.as_ref().unwrap();
+    assert_eq!(
+        v.relaxations(),
+        vec![Relaxation::Border {
+            pair: pair(2, 4),
+            kind: "short"
+        }]
+    );
+    assert_eq!(
+        doc.borders().get(&pair(2, 4)).unwrap().kind,
+        BorderKind::Shared
+    );
+}
+
+#[test]
+fn relax_on_the_command_line_prints_words_json_and_applies() {
+    use super::support::{stderr, stdout, tinct_path};
+    let dir = tempfile::tempdir().unwrap();
+    let project = dir.path().join("demo.tinct");
+    tinct::formats::save(&demo_map(), &project).unwrap();
+    // Words: the corner contact by its regions' names.
+    let out = tinct_path(
+        &["relax"],
+        &project,
+        &["--colours", "4", "--allow", "corner,manual,group,pin"],
+    );
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    let text = stdout(&out);
+    assert!(text.contains("Ashby\u{2013}Corlen"), "{text}");
+    assert!(text.contains("this is the fewest"), "{text}");
+    // JSON: the documented fields.
+    let out = tinct_path(
+        &["relax"],
+        &project,
+        &[
+            "--colours",
+            "4",
+            "--allow",
+            "corner,manual,group,pin",
+            "--json",
+        ],
+    );
+    let json: serde_json::Value = serde_json::from_str(&stdout(&out)).unwrap();
+    assert_eq!(json["colours"], 4);
+    assert_eq!(json["cost"], 3);
+    assert_eq!(json["proven_optimal"], true);
+    assert_eq!(json["evidence"]["checked"], true);
+    assert!(
+        json["relaxations"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .any(|r| r["kind"] == "corner" && r["a"] == 1 && r["b"] == 3)
+    );
+    assert!(json["colouring"]["assignment"].as_object().unwrap().len() == 7);
+    // Nothing allowed helps: exit 1, and the part that cannot take 4 colours is named.
+    let out = tinct_path(&["relax"], &project, &["--colours", "4"]);
+    assert_eq!(out.status.code(), Some(1), "{}", stderr(&out));
+    assert!(
+        stdout(&out).contains("Fallow and Edony"),
+        "{}",
+        stdout(&out)
+    );
+    // --apply writes a project whose rules now fit 4 colours; bad input is exit 2.
+    let relaxed = dir.path().join("relaxed.tinct");
+    let out = tinct_path(
+        &["relax"],
+        &project,
+        &[
+            "--colours",
+            "4",
+            "--allow",
+            "corner,manual,group,pin",
+            "--apply",
+            "--out",
+            relaxed.to_str().unwrap(),
+        ],
+    );
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    let out = tinct_path(&["relax"], &relaxed, &["--colours", "4", "--json"]);
+    let json: serde_json::Value = serde_json::from_str(&stdout(&out)).unwrap();
+    assert_eq!(json["cost"], 0);
+    let out = tinct_path(
+        &["relax"],
+        &project,
+        &["--colours", "4", "--allow", "corners"],
+    );
+    assert_eq!(out.status.code(), Some(2));
+}
+
+/// The US counties under the queen rule, from the committed fixture (see
+/// tests/data/geo/PROVENANCE.md): regions named by FIPS code, shared boundaries and corner
+/// contacts as Tinct's import found them.
+pub fn counties() -> Document {
+    let text = include_str!("data/geo/us_counties_queen.txt");
+    let mut ids: Vec<&str> = Vec::new();
+    let mut borders = Vec::new();
+    for line in text.lines().filter(|l| !l.starts_with('#')) {
+        let parts: Vec<&str> = line.split_whitespace().collect();
+        ids.extend([parts[0], parts[1]]);
+        borders.push((parts[0], parts[1], parts[2] == "c"));
+    }
+    ids.sort_unstable();
+    ids.dedup();
+    let id = |fips: &str| RegionId(ids.binary_search(&fips).unwrap() as u64 + 1);
+    let mut b = DocumentBuilder::new("US counties, queen");
+    for (i, fips) in ids.iter().enumerate() {
+        b.region(RegionId(i as u64 + 1), Region::new(*fips, [0.0, 0.0]));
+    }
+    for (x, y, corner) in borders {
+        b.border(
+            RegionPair::new(id(x), id(y)).unwrap(),
+            if corner {
+                Border::corner()
+            } else {
+                Border::shared(1.0)
+            },
+        );
+    }
+    b.settings(Settings {
+        corners_count: true,
+        ..Settings::default()
+    });
+    b.next_ids(ids.len() as u64 + 1, 1);
+    b.build().unwrap()
+}
+
+#[test]
+fn us_counties_under_the_queen_rule_fit_four_colours_with_the_fewest_corners_dropped() {
+    // Source: us-atlas 3.0.1 (npm; US Census Bureau boundaries, public domain), imported by Tinct
+    // under the queen rule. The colouring engine proves (with its checked refutation) that the map
+    // needs 5 colours; the relaxation must then be proven fewest and pass the independent checker,
+    // and must drop only corner contacts (shared boundaries are hard under the default kinds).
+    let doc = counties();
+    let cg = ConstraintGraph::build(&doc);
+    let problem = tinct::engine::colouring::ColouringProblem::new(cg.graph.clone(), 8);
+    let cancel = AtomicBool::new(false);
+    let report = tinct::engine::colouring::solve(
+        &problem,
+        &tinct::engine::colouring::SolveOptions::default(),
+        &cancel,
+        &mut |_| {},
+    )
+    .unwrap();
+    assert_eq!((report.minimum, report.proven), (Some(5), true));
+    tinct::engine::colouring::check_colouring(&problem, report.colouring.as_ref().unwrap())
+        .unwrap();
+
+    let v = fewest_relaxations_uncontrolled(
+        &doc,
+        4,
+        &Allowed::default(),
+        std::time::Duration::from_secs(300),
+    )
+    .unwrap();
+    v.check.as_ref().unwrap();
+    assert!(v.report.proven_optimal && !v.report.stopped);
+    let relaxations = v.relaxations();
+    assert!(!relaxations.is_empty());
+    assert!(relaxations.iter().all(|r| r.kind() == "corner"));
+    assert_eq!(v.report.cost, Some(relaxations.len() as u64));
+    // Each obstruction's proof refutes its CNF, also for outside checkers (TINCT_PROOF_DIR).
+    let dir = std::env::var_os("TINCT_PROOF_DIR").map(std::path::PathBuf::from);
+    for (i, o) in v.report.obstructions.iter().enumerate() {
+        if let Some(dir) = &dir {
+            let cnf = obstruction_cnf(&v.model.problem, o).unwrap();
+            std::fs::create_dir_all(dir).unwrap();
+            std::fs::write(dir.join(format!("relax-counties-{i}.cnf")), &cnf).unwrap();
+            std::fs::write(dir.join(format!("relax-counties-{i}.drat")), &o.drat).unwrap();
+        }
+    }
+    // Applied, the map takes 4 colours: the colouring engine agrees, independently of the search.
+    let mut relaxed = doc.clone();
+    relaxed
+        .apply(relaxation_edit(&doc, &relaxations, 4).unwrap())
+        .unwrap();
+    let colours = v
+        .model
+        .region_colouring(v.report.colouring.as_ref().unwrap());
+    honours_every_rule(&relaxed, &colours, 4);
+    let cg = ConstraintGraph::build(&relaxed);
+    let problem = tinct::engine::colouring::ColouringProblem::new(cg.graph.clone(), 8);
+    let after = tinct::engine::colouring::solve(
+        &problem,
+        &tinct::engine::colouring::SolveOptions::default(),
+        &cancel,
+        &mut |_| {},
+    )
+    .unwrap();
+    assert_eq!(after.minimum, Some(4));
+}

@@ -243,7 +243,7 @@ fn render_text(doc: &Document, v: &RelaxVerdict, file: &str) -> String {
     }
     match &v.check {
         Ok(_) => out.push_str(
-            "  evidence: the colouring, every obstruction's DRAT proof and the count passed Tinct's own checker\n",
+            "  evidence: every colouring, DRAT proof and count above passed Tinct's own checker\n",
         ),
         Err(e) => out.push_str(&format!("  evidence REJECTED by the checker: {e}\n")),
     }

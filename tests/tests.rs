@@ -22,6 +22,7 @@ mod planarity;
 mod project_file;
 mod projections;
 mod recovery;
+mod relax;
 mod sample_maps;
 mod scale;
 mod support;

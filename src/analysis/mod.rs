@@ -9,6 +9,7 @@
 pub mod colouring;
 pub mod hierarchy;
 pub mod planarity;
+pub mod relax;
 pub mod rules;
 mod verify;
 

@@ -6,6 +6,7 @@ pub mod colouring;
 pub mod export;
 pub mod import;
 pub mod planarity;
+pub mod relax;
 
 use std::io::Write;
 use std::path::PathBuf;
@@ -98,6 +99,34 @@ pub enum Command {
         /// distinct as possible from the palette's colours) instead of refusing.
         #[arg(long)]
         add_slots: bool,
+        /// How a boundary file is imported (ignored for projects and graph files).
+        #[command(flatten)]
+        geo: import::GeoArgs,
+    },
+    /// Find the fewest corner contacts, hand-made borders, short borders, group memberships or
+    /// pins to drop so that a number of colours do, with evidence that no fewer would.
+    Relax {
+        /// The map (any file `analyse` reads).
+        file: PathBuf,
+        /// How many colours the map should take.
+        #[arg(long)]
+        colours: u32,
+        /// What may be dropped, comma-separated: corner, manual, short:LENGTH (m or km on maps in
+        /// metres), group, pin.
+        #[arg(long, default_value = "corner,manual,group")]
+        allow: String,
+        /// Print machine-readable JSON on standard output (shape documented in the README).
+        #[arg(long)]
+        json: bool,
+        /// Stop after this many seconds and report the best answer and the bound proven so far.
+        #[arg(long, value_name = "SECS", default_value_t = 60.0)]
+        time_limit: f64,
+        /// Apply the answer (one undoable edit) and write the project to --out.
+        #[arg(long, requires = "out")]
+        apply: bool,
+        /// The project file to write with --apply (.tinct).
+        #[arg(long)]
+        out: Option<PathBuf>,
         /// How a boundary file is imported (ignored for projects and graph files).
         #[command(flatten)]
         geo: import::GeoArgs,
@@ -319,6 +348,25 @@ pub fn execute(command: Command) -> CommandResult {
                 geo,
             })
         }
+        Command::Relax {
+            file,
+            colours,
+            allow,
+            json,
+            time_limit,
+            apply,
+            out,
+            geo,
+        } => relax::run_relax(&relax::RelaxArgs {
+            file,
+            colours,
+            allow,
+            json,
+            time_limit: seconds(time_limit)?,
+            apply,
+            out,
+            geo,
+        }),
         Command::Import { file, out, geo } => import::run_import(&file, &out, &geo),
         Command::Adjacency { file, json, geo } => import::run_adjacency(&file, json, &geo),
         Command::Export { file, args, geo } => export::run_export(&file, &args, &geo),

@@ -12,6 +12,7 @@ pub mod components;
 pub mod graph;
 pub mod petgraph;
 pub mod planarity;
+pub mod relax;
 
 pub use biconnected::{Biconnected, biconnected_components};
 pub use bipartite::{Bipartite, two_colouring};

@@ -8,9 +8,11 @@
 pub mod bipartite_check;
 pub mod embedding_check;
 pub mod kuratowski_check;
+pub mod relax_check;
 
 pub use bipartite_check::{
     OddCycleRejection, TwoColouringRejection, check_odd_cycle, check_two_colouring,
 };
 pub use embedding_check::{EmbeddingRejection, check_embedding};
 pub use kuratowski_check::{KuratowskiRejection, check_kuratowski};
+pub use relax_check::{RelaxCheck, RelaxRejection, check_relaxation, obstruction_cnf};

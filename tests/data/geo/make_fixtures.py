@@ -24,6 +24,12 @@ Outputs (all in tests/data/geo/):
                              states and territories, arcs unchanged. `python3 make_fixtures.py
                              states` writes only this file and needs only the us-atlas package.
   columbus.shp/.shx/.dbf/.gal  copied unchanged from libpysal's bundled example.
+  us_counties_queen.txt      the adjacency of all 3,231 counties of us-atlas counties-10m.json
+                             under the queen rule, as Tinct's own import derives it
+                             (`tinct adjacency --rule queen --json`): one line per border,
+                             "<FIPS a> <FIPS b> <s|c>" (shared boundary or corner contact).
+                             `TINCT=target/debug/tinct python3 make_fixtures.py counties` writes
+                             only this file and needs the unpacked us-atlas package and a build.
   reference_edges.txt        rook and queen edges computed by libpysal (a general-purpose
                              spatial-weights library) for each fixture: "<fixture> <rule> <a>|<b>".
 """
@@ -190,8 +196,30 @@ def main():
         f.write("\n".join(lines) + "\n")
 
 
+def counties():
+    """The county adjacency under the queen rule, from Tinct's own import, as FIPS pairs."""
+    import subprocess
+
+    path = os.path.join(os.environ["US_ATLAS"], "counties-10m.json")
+    tinct = os.environ.get("TINCT", "target/debug/tinct")
+    report = json.loads(subprocess.run([tinct, "adjacency", path, "--rule", "queen", "--json"],
+                                       check=True, capture_output=True, text=True).stdout)
+    topology = json.load(open(path))
+    geometries = topology["objects"]["counties"]["geometries"]
+    fips = {r["id"]: geometries[r["source_index"]]["id"] for r in report["regions"]}
+    lines = sorted("%s %s %s" % (min(fips[b["a"]], fips[b["b"]]), max(fips[b["a"]], fips[b["b"]]),
+                                 "c" if b["kind"] == "corner" else "s")
+                   for b in report["borders"])
+    with open(os.path.join(HERE, "us_counties_queen.txt"), "w") as f:
+        f.write("# us-atlas 3.0.1 counties-10m.json, queen rule, %d counties, %d borders "
+                "(see make_fixtures.py)\n" % (len(fips), len(lines)))
+        f.write("\n".join(lines) + "\n")
+
+
 if __name__ == "__main__":
-    if sys.argv[1:] == ["caucasus"]:
+    if sys.argv[1:] == ["counties"]:
+        counties()
+    elif sys.argv[1:] == ["caucasus"]:
         caucasus()
     elif sys.argv[1:] == ["edge"]:
         edge()

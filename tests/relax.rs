@@ -636,7 +636,7 @@ fn relax_on_the_command_line_prints_words_json_and_applies() {
 
 /// The US counties under the queen rule, from the committed fixture (see
 /// tests/data/geo/PROVENANCE.md): regions named by FIPS code, shared boundaries and corner
-/// contacts as Tinct's import found them.
+/// contacts as Tinct's import found them; each county's FIPS code also as its attribute GEOID.
 pub fn counties() -> Document {
     let text = include_str!("data/geo/us_counties_queen.txt");
     let mut ids: Vec<&str> = Vec::new();
@@ -651,7 +651,16 @@ pub fn counties() -> Document {
     let id = |fips: &str| RegionId(ids.binary_search(&fips).unwrap() as u64 + 1);
     let mut b = DocumentBuilder::new("US counties, queen");
     for (i, fips) in ids.iter().enumerate() {
-        b.region(RegionId(i as u64 + 1), Region::new(*fips, [0.0, 0.0]));
+        // The FIPS code also as the attribute GEOID, as Census files carry it: its first two
+        // digits name the state.
+        let mut region = Region::new(*fips, [0.0, 0.0]);
+        region.attributes = [(
+            "GEOID".to_string(),
+            tinct::doc::AttrValue::Text(fips.to_string()),
+        )]
+        .into_iter()
+        .collect();
+        b.region(RegionId(i as u64 + 1), region);
     }
     for (x, y, corner) in borders {
         b.border(

@@ -15,6 +15,7 @@ mod gis_export;
 mod graph_formats;
 #[cfg(feature = "gui")]
 mod gui;
+mod hierarchy;
 mod hostile;
 mod interrupted_saves;
 mod invariants;

@@ -7,70 +7,10 @@
 use std::collections::BTreeMap;
 
 use crate::colour::families::{MAX_FAMILIES, MAX_TINTS, family_palette};
-use crate::doc::{AttrValue, ConstraintGraph, Document, Edit, Palette, RegionId, Rgb, Slot};
-use crate::engine::colouring::{HierarchyReport, SolveOptions, hierarchy_colouring};
+use crate::doc::{ConstraintGraph, Document, Edit, Palette, ParentKey, RegionId, Rgb, Slot};
+use crate::engine::colouring::{HierarchyReport, SolveOptions, arrange_tints, hierarchy_colouring};
 
 use super::Control;
-
-/// Where a region's parent unit is written: an attribute, or its first `prefix` characters.
-#[derive(Clone, Debug, PartialEq, Eq)]
-pub struct ParentKey {
-    pub field: String,
-    pub prefix: Option<usize>,
-}
-
-impl ParentKey {
-    /// Reads "STATE" or "GEOID:2" (the first two characters of GEOID).
-    pub fn parse(text: &str) -> Result<ParentKey, String> {
-        let (field, prefix) = match text.rsplit_once(':') {
-            Some((f, n)) => {
-                let n: usize = n.trim().parse().map_err(|_| {
-                    format!("{n:?} is not a number of leading characters (as in GEOID:2)")
-                })?;
-                if n == 0 {
-                    return Err("the number of leading characters must be at least 1".into());
-                }
-                (f, Some(n))
-            }
-            None => (text, None),
-        };
-        let field = field.trim();
-        if field.is_empty() {
-            return Err("name the attribute that holds the parent unit (such as STATE)".into());
-        }
-        Ok(ParentKey {
-            field: field.to_string(),
-            prefix,
-        })
-    }
-
-    /// The parent unit named by `value`, if it names one.
-    pub fn parent_of(&self, value: &AttrValue) -> Option<String> {
-        let text = match value {
-            AttrValue::Null => return None,
-            AttrValue::Bool(b) => b.to_string(),
-            AttrValue::Number(n) if n.fract() == 0.0 && n.abs() < 1e15 => format!("{}", *n as i64),
-            AttrValue::Number(n) => n.to_string(),
-            AttrValue::Text(t) => t.trim().to_string(),
-        };
-        if text.is_empty() {
-            return None;
-        }
-        Some(match self.prefix {
-            Some(n) => text.chars().take(n).collect(),
-            None => text,
-        })
-    }
-}
-
-impl std::fmt::Display for ParentKey {
-    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        match self.prefix {
-            Some(n) => write!(f, "{}:{n}", self.field),
-            None => f.write_str(&self.field),
-        }
-    }
-}
 
 /// Why the map cannot be coloured by parent unit.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -111,6 +51,12 @@ pub struct HierarchyOutcome {
     /// Regions pinned to a slot: pins are not part of this colouring (they keep their pin, and
     /// the colouring may give them another fill).
     pub pins_ignored: usize,
+    /// Neighbours across parent borders whose fills a reader may confuse (below the palette
+    /// check's thresholds in some view), before and after the tints were arranged against it.
+    pub clashes_before: usize,
+    pub clashes_after: usize,
+    /// Pairs of neighbours across parent borders, in all.
+    pub across: usize,
 }
 
 impl HierarchyOutcome {
@@ -199,7 +145,7 @@ pub fn colour_by_parent(
         .map(|(i, p)| (p.as_str(), i as u32))
         .collect();
     let parent_of: Vec<u32> = vertex_parent.iter().map(|p| index[p.as_str()]).collect();
-    let report = hierarchy_colouring(
+    let mut report = hierarchy_colouring(
         &cg.graph,
         &parent_of,
         parents.len(),
@@ -226,6 +172,25 @@ pub fn colour_by_parent(
             max_tints: MAX_TINTS,
         },
     )?;
+    // Across parent borders, tints arranged so that as few neighbouring fills as possible are
+    // ones a reader may confuse (in any view the palette check uses for this map).
+    let thresholds = crate::doc::palette_check::thresholds(doc);
+    let clashes: Vec<Vec<bool>> = fills
+        .iter()
+        .map(|a| {
+            fills
+                .iter()
+                .map(|b| {
+                    let d = crate::colour::pair_difference(a.colour, b.colour);
+                    thresholds.views().any(|v| {
+                        d.in_view(v) < crate::colour::PairDifference::threshold(v, &thresholds)
+                    })
+                })
+                .collect()
+        })
+        .collect();
+    let clash = |a: u32, b: u32| clashes[a as usize][b as usize];
+    let (clashes_before, clashes_after) = arrange_tints(&cg.graph, &parent_of, &mut report, &clash);
     let palette = Palette {
         name: format!(
             "{} families of {} tints by {key}",
@@ -258,5 +223,12 @@ pub fn colour_by_parent(
             edits: vec![Edit::SetPalette(palette), Edit::SetColouring(colouring)],
         },
         pins_ignored,
+        clashes_before,
+        clashes_after,
+        across: cg
+            .graph
+            .edges()
+            .filter(|&(u, v)| parent_of[u as usize] != parent_of[v as usize])
+            .count(),
     })
 }

@@ -319,3 +319,47 @@ pub fn run_colour(a: &ColourArgs) -> CommandResult {
     }
     Ok(Outcome::notes(vec![summary]))
 }
+
+/// `tinct colour FILE --by-parent KEY --out OUT`: colours that follow a hierarchy, with a palette
+/// of families; writes the project and says how many families and tints, and whether each is the
+/// fewest.
+pub fn run_colour_by_parent(
+    file: &std::path::Path,
+    out: &std::path::Path,
+    key: &crate::doc::ParentKey,
+    time_limit: Duration,
+    geo: &super::import::GeoArgs,
+) -> CommandResult {
+    let loaded = super::load(file, geo)?;
+    let mut doc = loaded.doc;
+    let options = crate::engine::colouring::SolveOptions {
+        time_limit: Some(time_limit),
+        prove_three: false,
+        ..Default::default()
+    };
+    let outcome =
+        analysis::uncontrolled(|c| analysis::hierarchy::colour_by_parent(&doc, key, &options, c))
+            .map_err(|e| Failure::BadInput(anyhow::anyhow!("{e}")))?;
+    doc.apply(outcome.edit.clone()).bad_input()?;
+    super::save(&doc, out)?;
+    let mut notes = vec![format!(
+        "coloured {} by parent unit: {}",
+        file.display(),
+        outcome.summary()
+    )];
+    notes.push(if outcome.clashes_after == 0 {
+        "every pair of neighbours across a parent border is clearly distinct in every view the palette check uses".to_string()
+    } else {
+        format!(
+            "{} of the {} pairs of neighbours across parent borders may look alike to some readers ({} before the tints were arranged); `tinct palette` lists the fill pairs",
+            outcome.clashes_after, outcome.across, outcome.clashes_before
+        )
+    });
+    if outcome.pins_ignored > 0 {
+        notes.push(format!(
+            "{} pinned regions: pins name slots of the old palette, so this colouring does not follow them",
+            outcome.pins_ignored
+        ));
+    }
+    Ok(Outcome::notes(notes))
+}

@@ -46,6 +46,12 @@ pub struct GeoArgs {
     /// one region get its value in brackets, as "Shelby (Tennessee)" ("id" means the feature id).
     #[arg(long = "qualify-field", value_name = "FIELD")]
     pub qualify_field: Option<String>,
+    /// Where each region's parent unit is written, kept as its attribute "parent" for
+    /// `tinct colour --by-parent`: a field, or FIELD:N for its first N characters (as in
+    /// hierarchical codes: id:2 gives a US county's state from its FIPS code; "id" means the
+    /// feature id).
+    #[arg(long = "parent-field", value_name = "FIELD[:N]", value_parser = parse_parent_key)]
+    pub parent_field: Option<crate::doc::ParentKey>,
     /// The layer to import: a TopoJSON object (default: the one with the most polygons) or a
     /// GeoPackage feature table (needed when the file has several polygon layers).
     #[arg(long)]
@@ -79,6 +85,7 @@ impl GeoArgs {
             split_parts: self.split_parts,
             layer: self.layer.clone(),
             qualify_field: self.qualify_field.clone(),
+            parent_field: self.parent_field.clone(),
             coordinates: match self.coordinates {
                 CoordinatesArg::Auto => geo::CoordinateMode::Auto,
                 CoordinatesArg::LonLat => geo::CoordinateMode::LonLat,
@@ -88,6 +95,11 @@ impl GeoArgs {
             ..ImportOptions::default()
         }
     }
+}
+
+/// Reads `--parent-field` and `--by-parent` (clap reports the message, exit status 2).
+pub fn parse_parent_key(text: &str) -> Result<crate::doc::ParentKey, String> {
+    crate::doc::ParentKey::parse(text)
 }
 
 /// True for the extensions the geometry importers read.

@@ -99,6 +99,13 @@ pub enum Command {
         /// distinct as possible from the palette's colours) instead of refusing.
         #[arg(long)]
         add_slots: bool,
+        /// Colours that follow a hierarchy: a family of tints for each parent unit (neighbouring
+        /// parents get different families), a tint for each region (neighbours within a parent
+        /// get different tints). The parent is the attribute "parent" (see import's
+        /// --parent-field), or FIELD, or FIELD:N for its first N characters. Replaces the palette
+        /// with one of families.
+        #[arg(long = "by-parent", value_name = "FIELD[:N]", num_args = 0..=1, default_missing_value = "parent", value_parser = import::parse_parent_key, conflicts_with_all = ["keep_colours", "balance", "add_slots"])]
+        by_parent: Option<crate::doc::ParentKey>,
         /// How a boundary file is imported (ignored for projects and graph files).
         #[command(flatten)]
         geo: import::GeoArgs,
@@ -332,8 +339,18 @@ pub fn execute(command: Command) -> CommandResult {
             balance,
             time_limit,
             add_slots,
+            by_parent,
             geo,
         } => {
+            if let Some(key) = by_parent {
+                return colouring::run_colour_by_parent(
+                    &file,
+                    &out,
+                    &key,
+                    seconds(time_limit)?,
+                    &geo,
+                );
+            }
             let balance = balance.map(|b| match b {
                 BalanceArg::Count => crate::analysis::BalanceBy::Count,
                 BalanceArg::Area => crate::analysis::BalanceBy::Area,

@@ -1,9 +1,9 @@
 //! Palettes of families and tints, for colours that follow a hierarchy: each family is one hue
 //! (a parent unit's), each tint a lightness of it (its children's).
 //!
-//! The hues are those of the default palette for colour with as many colours as there are
-//! families ("Tinct N", fills of equal weight whose hues stay apart for readers with a
-//! colour-vision deficiency); with one or two families, the first of "Tinct 3". The tints of
+//! The families' hues are spread evenly over the CIELAB hue circle outside the arc that reads
+//! as water ([`WATER_HUES`], the blues and cyans), so that families differ in hue as much as
+//! they can; each family keeps one hue through all its tints. The tints of
 //! every family span the same lightness range, [`TINT_LIGHTEST`] to [`TINT_DARKEST`] L*, in
 //! steps that CIEDE2000 sees as equal (its lightness weight S_L grows away from L* 50, so the
 //! steps are longer at the light end), lightest first, with chroma growing towards the dark end (a light tint of a
@@ -12,15 +12,38 @@
 //! greyscale copy keep. Neighbouring children of different parents differ in hue and sometimes
 //! also in lightness; the palette check measures those pairs as for any palette.
 
-use super::design::Purpose;
-use super::palettes::default_palette_for;
-use super::space::{Lab, Srgb8, lab_to_srgb8, srgb8_to_lab};
+use super::space::{Lab, Srgb8, lab_to_srgb8};
 
 /// The lightest tint's CIELAB lightness.
 pub const TINT_LIGHTEST: f64 = 94.0;
 /// The darkest tint's lightness: near the darkest fill on which black text still meets the WCAG
 /// 2.1 contrast ratio of 4.5:1 (L* 50 has relative luminance 0.184: (0.184 + 0.05) / 0.05 = 4.7).
 pub const TINT_DARKEST: f64 = 50.0;
+/// CIELAB hue angles (degrees) that read as water: no family takes a hue in this arc.
+pub const WATER_HUES: (f64, f64) = (190.0, 290.0);
+/// The chroma of a family's darkest tint (lighter tints take less; see [`family_palette`]).
+pub const FAMILY_CHROMA: f64 = 36.0;
+
+/// A name for a family by its CIELAB hue angle in degrees: our own words for the arcs.
+pub fn hue_name(degrees: f64) -> &'static str {
+    const NAMES: [(f64, &str); 9] = [
+        (15.0, "Berry"),
+        (45.0, "Rose"),
+        (70.0, "Clay"),
+        (95.0, "Ochre"),
+        (125.0, "Olive"),
+        (165.0, "Fern"),
+        (190.0, "Jade"),
+        (320.0, "Violet"),
+        (345.0, "Plum"),
+    ];
+    let d = degrees.rem_euclid(360.0);
+    NAMES
+        .iter()
+        .find(|(upto, _)| d < *upto)
+        .map_or("Berry", |(_, n)| n)
+}
+
 /// The most families and tints a palette of families offers.
 pub const MAX_FAMILIES: usize = 8;
 pub const MAX_TINTS: usize = 6;
@@ -64,12 +87,15 @@ pub fn family_palette(families: usize, tints: usize) -> Option<Vec<FamilyFill>> 
     if families == 0 || tints == 0 || families > MAX_FAMILIES || tints > MAX_TINTS {
         return None;
     }
-    let base = default_palette_for(families.max(3), Purpose::Colour)?;
     let mut out = Vec::with_capacity(families * tints);
-    for (family, (name, colour)) in base.slots.iter().take(families).enumerate() {
-        let lab = srgb8_to_lab(*colour);
-        let chroma = lab.a.hypot(lab.b);
-        let hue = lab.b.atan2(lab.a);
+    for family in 0..families {
+        // Hues spread evenly over the arc that avoids water's blues and cyans.
+        let degrees = (WATER_HUES.1
+            + (360.0 - (WATER_HUES.1 - WATER_HUES.0)) * (family as f64 + 0.5) / families as f64)
+            .rem_euclid(360.0);
+        let hue = degrees.to_radians();
+        let name = hue_name(degrees);
+        let chroma = FAMILY_CHROMA;
         for tint in 0..tints {
             // Position from the lightest (0) to the darkest (1).
             let t = if tints == 1 {
@@ -102,12 +128,25 @@ pub fn family_palette(families: usize, tints: usize) -> Option<Vec<FamilyFill>> 
     Some(out)
 }
 
+/// True when `colours` are exactly a palette of families made by [`family_palette`] with at
+/// least two tints: its tints differ in weight by design, so the check for a fill that
+/// dominates does not apply.
+pub fn is_family_palette(colours: &[Srgb8]) -> bool {
+    (1..=MAX_FAMILIES).any(|f| {
+        (2..=MAX_TINTS).any(|t| {
+            f * t == colours.len()
+                && family_palette(f, t)
+                    .is_some_and(|p| p.iter().zip(colours).all(|(fill, c)| fill.colour == *c))
+        })
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
     use crate::colour::ciede2000::ciede2000;
     use crate::colour::cvd::Vision;
-    use crate::colour::space::lightness;
+    use crate::colour::space::{lightness, srgb8_to_lab};
 
     #[test]
     fn tints_of_one_family_stay_apart_in_every_view_and_in_greyscale() {
@@ -131,6 +170,24 @@ mod tests {
                 }
             }
         }
+    }
+
+    #[test]
+    fn a_palette_of_families_is_recognised_and_a_changed_one_is_not() {
+        let mut colours: Vec<Srgb8> = family_palette(4, 3)
+            .unwrap()
+            .iter()
+            .map(|f| f.colour)
+            .collect();
+        assert!(is_family_palette(&colours));
+        colours[5] = [0x80, 0x80, 0x80];
+        assert!(!is_family_palette(&colours));
+        let one_tint: Vec<Srgb8> = family_palette(4, 1)
+            .unwrap()
+            .iter()
+            .map(|f| f.colour)
+            .collect();
+        assert!(!is_family_palette(&one_tint));
     }
 
     #[test]

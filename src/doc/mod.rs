@@ -16,6 +16,7 @@ pub mod history;
 pub mod model;
 pub mod palette_check;
 pub mod palette_edit;
+pub mod parent;
 pub mod recovery;
 pub mod store;
 
@@ -31,4 +32,5 @@ pub use model::{
 };
 pub use palette_check::{PaletteReport, palette_report, simulated_palettes, slot_assignment_edit};
 pub use palette_edit::PaletteEditError;
+pub use parent::{PARENT_ATTRIBUTE, ParentKey};
 pub use store::{BorderIndex, Borders, Colouring, Regions, SlotLookup};

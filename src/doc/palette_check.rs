@@ -173,7 +173,14 @@ pub fn fill_warnings(doc: &Document, palette: &Palette) -> Vec<FillWarning> {
         }
     }
     let colours: Vec<colour::Srgb8> = slots.iter().map(|&s| palette.slots[s].colour.0).collect();
-    for (i, weight, median) in colour::dominant_fills(&colours) {
+    // Tints of a palette of families differ in weight by design.
+    let all: Vec<colour::Srgb8> = palette.slots.iter().map(|s| s.colour.0).collect();
+    let dominant = if colour::families::is_family_palette(&all) {
+        Vec::new()
+    } else {
+        colour::dominant_fills(&colours)
+    };
+    for (i, weight, median) in dominant {
         let s = slots[i];
         out.push(FillWarning {
             slot: s,

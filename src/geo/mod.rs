@@ -307,6 +307,10 @@ pub struct ImportOptions {
     /// one region get its value in brackets ("Shelby (Tennessee)"). `"id"` falls back to the
     /// feature id when no property has that name.
     pub qualify_field: Option<String>,
+    /// Where each feature's parent unit is written (a field, or its leading characters; `"id"`
+    /// falls back to the feature id): kept as the region's attribute `parent`
+    /// ([`crate::doc::PARENT_ATTRIBUTE`]), for colours that follow a hierarchy.
+    pub parent_field: Option<crate::doc::ParentKey>,
 }
 
 impl Default for ImportOptions {
@@ -321,6 +325,7 @@ impl Default for ImportOptions {
             coordinates: CoordinateMode::Auto,
             gap_width: None,
             qualify_field: None,
+            parent_field: None,
         }
     }
 }
@@ -356,6 +361,11 @@ pub enum ImportError {
     FlatGeobuf { reason: String },
     #[error("no property {field:?} names the regions; available fields: {}", available.join(", "))]
     MissingNameField {
+        field: String,
+        available: Vec<String>,
+    },
+    #[error("no property {field:?} holds the parent units; available fields: {}", available.join(", "))]
+    MissingParentField {
         field: String,
         available: Vec<String>,
     },
@@ -600,6 +610,9 @@ fn finish(mut raw: RawMap, options: &ImportOptions) -> Result<ImportedMap, Impor
     let mut names = choose_names(&raw, options.name_field.as_deref())?;
     if let Some(field) = options.qualify_field.as_deref() {
         qualify_names(&raw, &mut names, field)?;
+    }
+    if let Some(key) = &options.parent_field {
+        set_parents(&mut raw, key)?;
     }
     let mut diagnostics = std::mem::take(&mut raw.diagnostics);
 
@@ -967,6 +980,45 @@ fn duplicate_names(regions: &[ImportedRegion], separating: &Option<String>) -> V
             regions: ids,
         })
         .collect()
+}
+
+/// Writes each feature's parent unit, read by `key`, as its `parent` property; refuses when the
+/// field is missing from the file, and notes features without a value.
+fn set_parents(raw: &mut RawMap, key: &crate::doc::ParentKey) -> Result<(), ImportError> {
+    let has_field = raw.field_names.iter().any(|n| *n == key.field)
+        || raw
+            .features
+            .iter()
+            .any(|x| x.properties.contains_key(&key.field))
+        || (key.field == "id" && raw.features.iter().any(|x| x.id.is_some()));
+    if !has_field {
+        return Err(ImportError::MissingParentField {
+            field: key.field.clone(),
+            available: available_fields(raw, "id (the feature id)"),
+        });
+    }
+    let mut without: Vec<usize> = Vec::new();
+    for (i, feature) in raw.features.iter_mut().enumerate() {
+        match field_value(feature, &key.field).and_then(|v| key.cut(&v)) {
+            Some(parent) => feature.properties.insert(
+                crate::doc::PARENT_ATTRIBUTE.to_string(),
+                serde_json::Value::String(parent),
+            ),
+            None => without.push(i),
+        }
+    }
+    if !without.is_empty() {
+        raw.diagnostics.push(Diagnostic {
+            kind: DiagnosticKind::File,
+            message: format!(
+                "{} features have no {} (their regions have no parent unit)",
+                without.len(),
+                key
+            ),
+            regions: Vec::new(),
+        });
+    }
+    Ok(())
 }
 
 /// The value of `field` for a feature, as a name: the property, or for `"id"` the feature id

@@ -27,7 +27,9 @@ pub use drat_check::{DratError, DratSummary, check_drat, parse_dimacs};
 pub use dsatur::dsatur;
 pub use encoding::{Cnf, Symmetry, colour_var, colouring_cnf};
 pub use exact::{Decision, Limits, PartProof, k_colourable, k_colourable_logged, repair};
-pub use hierarchy::{HierarchyError, HierarchyReport, hierarchy_colouring, parent_graph};
+pub use hierarchy::{
+    HierarchyError, HierarchyReport, arrange_tints, hierarchy_colouring, parent_graph,
+};
 pub use lower_bound::{
     BoundEvidence, LowerBound, check_bound, find_clique, find_clique_in_order, lower_bound,
     lower_bound_in_order,

@@ -1338,3 +1338,62 @@ fn saving_runs_on_the_file_thread_and_the_project_is_clean_once_written() {
             .any(|(_, r)| r.name == "Saved in the background")
     );
 }
+
+#[test]
+fn colour_by_parent_unit_from_the_colour_menu_in_one_undoable_step() {
+    // Columbus neighbourhoods (GeoDa sample data via libpysal) with EW (east or west of the
+    // centre) kept as each region's parent unit at import.
+    let dir = tempfile::tempdir().unwrap();
+    let options = tinct::geo::ImportOptions {
+        parent_field: Some(tinct::doc::ParentKey::parse("EW").unwrap()),
+        ..Default::default()
+    };
+    let doc = tinct::geo::import_path(&root().join("tests/data/geo/columbus.shp"), &options)
+        .unwrap()
+        .into_document("Columbus");
+    let path = dir.path().join("columbus.tinct");
+    tinct::doc::file::save(&doc, &path).unwrap();
+    let mut h = harness(App::new(None, Some(path)));
+    h.run_steps(3);
+    let before = h.state().session.doc().palette().clone();
+    let open_window = |h: &mut Harness<'static, App>| {
+        h.get_by_label("Colour").click();
+        h.run_steps(2);
+        h.get_by_label_contains("Colour by parent unit").click();
+        h.run_steps(3);
+    };
+    // Escape closes the window, changing nothing.
+    open_window(&mut h);
+    assert!(h.query_by_label_contains("First characters only").is_some());
+    press(&mut h, egui::Modifiers::NONE, egui::Key::Escape);
+    assert!(h.query_by_label_contains("First characters only").is_none());
+    open_window(&mut h);
+    // The attribute the import wrote is chosen, and the window counts what it gives.
+    assert!(
+        h.query_by_label_contains("2 parent units; every land region has one")
+            .is_some()
+    );
+    h.get_all_by_label("Colour").last().unwrap().click();
+    h.run_steps(4);
+    let message = last_message(&h);
+    assert!(
+        message.starts_with("Coloured by parent unit: 2 families"),
+        "{message}"
+    );
+    let doc = h.state().session.doc();
+    assert!(
+        doc.palette().name.contains("families"),
+        "{}",
+        doc.palette().name
+    );
+    assert!(tinct::doc::check_colouring(doc).is_clean());
+    h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::Z);
+    h.run_steps(3);
+    let doc = h.state().session.doc();
+    assert_eq!(
+        *doc.palette(),
+        before,
+        "one undo takes back the palette and the colours"
+    );
+    assert!(doc.colouring().is_empty());
+}

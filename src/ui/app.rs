@@ -401,6 +401,32 @@ impl App {
                     self.apply_fewest(false);
                 }
             }
+            JobResult::ColouredByParent { revision, result } => {
+                if revision != self.session.doc().revision() {
+                    self.say(
+                        Level::Warning,
+                        "The map changed while it was being coloured by parent unit; try again",
+                    );
+                } else {
+                    match result {
+                        Ok(outcome) => {
+                            self.edit(outcome.edit.clone());
+                            let mut text =
+                                format!("Coloured by parent unit: {}", outcome.summary());
+                            if outcome.clashes_after > 0 {
+                                text.push_str(&format!(
+                                    "; {} of {} pairs of neighbours across parent borders may look alike to some readers (see the palette check)",
+                                    outcome.clashes_after, outcome.across
+                                ));
+                            }
+                            self.say(Level::Info, text);
+                        }
+                        Err(why) => {
+                            self.say(Level::Error, format!("Not coloured by parent unit: {why}"))
+                        }
+                    }
+                }
+            }
             JobResult::Balanced { revision, verdict } => {
                 if revision != self.session.doc().revision() {
                     self.say(
@@ -956,6 +982,29 @@ impl App {
         match action {
             Action::Run(command) => self.run(ctx, command),
             Action::Edit(edit) => self.edit(edit),
+            Action::ColourByParent(key) => {
+                let revision = self.session.doc().revision();
+                let snapshot = crate::worker::snapshot(self.session.doc());
+                let job = move |ctx: &crate::worker::JobContext| JobResult::ColouredByParent {
+                    revision,
+                    result: ctx
+                        .with_control(|c| {
+                            analysis::hierarchy::colour_by_parent(
+                                &snapshot,
+                                &key,
+                                &crate::engine::colouring::SolveOptions {
+                                    time_limit: Some(analysis::COLOURING_TIME_LIMIT),
+                                    prove_three: false,
+                                    ..Default::default()
+                                },
+                                c,
+                            )
+                        })
+                        .map(Box::new)
+                        .map_err(|e| e.to_string()),
+                };
+                self.run_job(revision, JobKind::Other, Box::new(job));
+            }
             Action::Say(level, text) => self.say(level, text),
             Action::Select(id) => self.view.selection = id,
             Action::GoTo(regions) => self.go_to(regions),
@@ -1115,6 +1164,11 @@ impl App {
                 };
                 self.run_job(revision, JobKind::Other, Box::new(job));
             }
+            Command::ColourByParent => {
+                self.dialogs.by_parent = Some(
+                    super::dialogs::by_parent::ByParentDraft::for_document(self.session.doc()),
+                );
+            }
             Command::ExportProof => {
                 self.dialogs.path.prompt = Some(PathPrompt::new(PathPurpose::ExportProof, ""))
             }
@@ -1196,7 +1250,8 @@ impl App {
     }
 
     /// Escape closes what is open, the innermost first: the command list, a path prompt, the
-    /// unsaved-changes question (as Cancel), the palette window, an open menu; with nothing
+    /// unsaved-changes question (as Cancel), the palette window, the project settings, the
+    /// colour-by-parent window, an open menu; with nothing
     /// open it clears the selection.
     fn escape(&mut self, ctx: &egui::Context) {
         if self.dialogs.commands.is_none() && self.dialogs.path.prompt.is_some() {
@@ -1206,7 +1261,8 @@ impl App {
             || self.dialogs.path.prompt.take().is_some()
             || self.confirm_discard.take().is_some()
             || self.dialogs.palette.take().is_some()
-            || self.dialogs.settings.take().is_some();
+            || self.dialogs.settings.take().is_some()
+            || self.dialogs.by_parent.take().is_some();
         if closed {
             return;
         }

@@ -154,6 +154,8 @@ pub enum Command {
     /// Adds the palette slots the fewest-colours colouring lacks, then applies it.
     ColourAddingSlots,
     BalanceColours,
+    /// Opens the colour-by-parent-unit window (families of tints by parent unit).
+    ColourByParent,
     ExportProof,
     ClearColours,
     CommandList,
@@ -222,6 +224,7 @@ impl Command {
             Command::ColourFewest,
             Command::ColourAddingSlots,
             Command::BalanceColours,
+            Command::ColourByParent,
             Command::PaletteWindow,
             Command::AssignSlots,
             Command::ExportProof,
@@ -249,6 +252,7 @@ impl Command {
             Command::ColourFewest
             | Command::ColourAddingSlots
             | Command::BalanceColours
+            | Command::ColourByParent
             | Command::ExportProof
             | Command::ClearColours
             | Command::PaletteWindow
@@ -276,6 +280,7 @@ impl Command {
             Command::ColourFewest => "Colour with the fewest colours".into(),
             Command::ColourAddingSlots => "Add the missing palette slots and colour".into(),
             Command::BalanceColours => "Even out colour use".into(),
+            Command::ColourByParent => "Colour by parent unit…".into(),
             Command::ExportProof => "Export the proof…".into(),
             Command::ClearColours => "Remove all colours".into(),
             Command::PaletteWindow => "Palette and print check…".into(),
@@ -317,6 +322,9 @@ impl Command {
             }
             Command::BalanceColours => {
                 "Recolour with the same number of colours, each used about equally often (undoable)"
+            }
+            Command::ColourByParent => {
+                "Colours that follow a hierarchy: a family of tints for each parent unit (a county's state), neighbouring parents in different families, neighbours within a parent in different tints (undoable)"
             }
             Command::ExportProof => {
                 "Write the CNF and DRAT proof of each part of the map that rules out fewer colours, for checking with any DRAT checker"
@@ -384,6 +392,7 @@ impl Command {
             Command::ColourFewest => ctrl(Key::Enter),
             Command::ColourAddingSlots => None,
             Command::BalanceColours => None,
+            Command::ColourByParent => None,
             Command::ExportProof => None,
             Command::ClearColours => None,
             Command::PaletteWindow => None,

@@ -62,6 +62,8 @@ pub enum Action {
     Unsaved(UnsavedAnswer),
     /// Takes back (true) or drops (false) the unsaved work of an earlier session.
     Recover(bool),
+    /// Colours the map by the parent units `ParentKey` reads (in the background).
+    ColourByParent(crate::doc::ParentKey),
 }
 
 /// The read-only view of the editor that panels draw from during one frame.

@@ -20,6 +20,11 @@ pub enum JobResult {
         revision: u64,
         verdict: Box<analysis::ColouringVerdict>,
     },
+    /// A colouring by parent unit for a revision, or why there is none.
+    ColouredByParent {
+        revision: u64,
+        result: Result<Box<analysis::hierarchy::HierarchyOutcome>, String>,
+    },
     /// An export written (its size in bytes) or the reason it was not.
     Exported {
         format: ExportFormat,

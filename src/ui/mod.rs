@@ -59,6 +59,7 @@ fn draw(frame: &Frame, panels: &mut Panels, dialogs: &mut Dialogs, ui: &mut egui
     dialogs::argument::show(frame, &mut dialogs.walk, &ctx);
     dialogs::palette::show(frame, &mut dialogs.palette, &ctx);
     dialogs::settings::show(frame, &mut dialogs.settings, &ctx);
+    dialogs::by_parent::show(frame, &mut dialogs.by_parent, &ctx);
 }
 
 impl eframe::App for App {

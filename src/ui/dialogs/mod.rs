@@ -2,6 +2,7 @@
 //! actions; each keeps its own state (open or not, the text being typed, a draft) here.
 
 pub mod argument;
+pub mod by_parent;
 pub mod command_list;
 pub mod palette;
 pub mod path;
@@ -16,16 +17,6 @@ pub struct Dialogs {
     pub commands: Option<command_list::CommandList>,
     pub palette: Option<palette::PaletteEditor>,
     pub settings: Option<settings::SettingsDraft>,
+    pub by_parent: Option<by_parent::ByParentDraft>,
     pub walk: Option<argument::Walk>,
-}
-
-impl Dialogs {
-    /// Closes the innermost open window (for Escape): the command list, the path window, the
-    /// palette window, the project settings. False when none was open.
-    pub fn close_innermost(&mut self) -> bool {
-        self.commands.take().is_some()
-            || self.path.prompt.take().is_some()
-            || self.palette.take().is_some()
-            || self.settings.take().is_some()
-    }
 }

@@ -96,6 +96,8 @@ pub struct App {
     last_title: String,
     /// How many documents this editor has put in front of the user (each Open, New, recovery).
     documents: u64,
+    /// What to drop for one colour fewer, once asked (for the revision it names).
+    pub relax: Option<super::state::RelaxAnswer>,
 }
 
 impl App {
@@ -142,6 +144,7 @@ impl App {
             dialog_results,
             dialog_sender,
             pending: Vec::new(),
+            relax: None,
             quit_confirmed: false,
             last_title: String::new(),
             documents: 1,
@@ -401,6 +404,23 @@ impl App {
                     self.apply_fewest(false);
                 }
             }
+            JobResult::Relaxed { revision, result } => match result {
+                Ok(answer) if revision == self.session.doc().revision() => {
+                    let text = relax_words(&answer);
+                    let level = if answer.impossible || answer.relaxations.is_empty() {
+                        Level::Warning
+                    } else {
+                        Level::Info
+                    };
+                    self.relax = Some(*answer);
+                    self.say(level, text);
+                }
+                Ok(_) => self.say(
+                    Level::Warning,
+                    "The map changed while the rules to drop were being found; ask again",
+                ),
+                Err(why) => self.say(Level::Error, format!("No answer: {why}")),
+            },
             JobResult::ColouredByParent { revision, result } => {
                 if revision != self.session.doc().revision() {
                     self.say(
@@ -453,6 +473,7 @@ impl App {
             w.cancel(JobKind::Analysis);
         }
         self.session = session;
+        self.relax = None;
         self.documents += 1;
         self.notices.clear();
         self.view = ViewState::default();
@@ -955,6 +976,7 @@ impl App {
             notices: &self.notices,
             recovery_offer: self.recovery_offer.as_ref(),
             unsaved_question: self.confirm_discard,
+            relax: self.relax.as_ref(),
             actions: Default::default(),
         };
         super::draw(&frame, &mut self.panels, &mut self.dialogs, ui);
@@ -1164,6 +1186,8 @@ impl App {
                 };
                 self.run_job(revision, JobKind::Other, Box::new(job));
             }
+            Command::FindRelaxations => self.find_relaxations(),
+            Command::ApplyRelaxations => self.apply_relaxations(),
             Command::ColourByParent => {
                 self.dialogs.by_parent = Some(
                     super::dialogs::by_parent::ByParentDraft::for_document(self.session.doc()),
@@ -1281,6 +1305,76 @@ impl App {
         }
     }
 
+    /// Starts the search for the fewest rules to drop for one colour fewer than the proven
+    /// minimum (in the background).
+    fn find_relaxations(&mut self) {
+        let minimum = self
+            .analysis
+            .as_ref()
+            .filter(|_| !self.analysis_is_stale())
+            .and_then(|a| a.colouring.as_ref())
+            .filter(|c| c.proven)
+            .and_then(|c| c.minimum);
+        let Some(minimum) = minimum.filter(|m| *m >= 2) else {
+            self.say(
+                Level::Info,
+                "The fewest colours must be known first: wait for the analysis to prove them",
+            );
+            return;
+        };
+        let revision = self.session.doc().revision();
+        let snapshot = crate::worker::snapshot(self.session.doc());
+        let job = move |ctx: &crate::worker::JobContext| JobResult::Relaxed {
+            revision,
+            result: ctx
+                .with_control(|c| {
+                    analysis::relax::fewest_relaxations(
+                        &snapshot,
+                        minimum - 1,
+                        &analysis::relax::Allowed::default(),
+                        analysis::COLOURING_TIME_LIMIT,
+                        c,
+                    )
+                })
+                .map(|v| Box::new(relax_answer(&snapshot, revision, minimum, &v)))
+                .map_err(|e| e.to_string()),
+        };
+        self.run_job(revision, JobKind::Other, Box::new(job));
+    }
+
+    /// Drops the rules found for the current revision, as one undoable step.
+    fn apply_relaxations(&mut self) {
+        let revision = self.session.doc().revision();
+        let Some(answer) = self.relax.as_ref().filter(|a| a.revision == revision) else {
+            self.say(
+                Level::Info,
+                "Nothing to drop yet: ask what to drop for one colour fewer first",
+            );
+            return;
+        };
+        let colours = answer.colours;
+        match analysis::relax::relaxation_edit(
+            self.session.doc(),
+            &answer.relaxations.clone(),
+            colours,
+        ) {
+            Some(edit) => {
+                let n = answer.relaxations.len();
+                self.edit(edit);
+                self.relax = None;
+                self.say(
+                    Level::Info,
+                    format!(
+                        "Dropped {n} {} so that {colours} colours do (undo puts {} back)",
+                        if n == 1 { "rule" } else { "rules" },
+                        if n == 1 { "it" } else { "them" }
+                    ),
+                );
+            }
+            None => self.say(Level::Info, "Nothing to drop"),
+        }
+    }
+
     /// Where a world point is on screen, given the canvas drawn last frame (for tests and tools).
     pub fn screen_of(&self, p: [f64; 2]) -> Option<egui::Pos2> {
         self.panels.canvas.screen_of(p)
@@ -1303,6 +1397,11 @@ impl App {
                 .and_then(|c| c.minimum_impossible.as_ref())
                 .map(|why| why.regions.clone())
                 .unwrap_or_default(),
+            Highlight::Relaxations => self
+                .relax
+                .as_ref()
+                .map(super::state::RelaxAnswer::regions)
+                .unwrap_or_default(),
         }
     }
 
@@ -1313,4 +1412,117 @@ impl App {
             self.panels.canvas.go_to = Some(regions);
         }
     }
+}
+
+/// The answer of the relaxation search in the editor's terms.
+fn relax_answer(
+    doc: &doc::Document,
+    revision: u64,
+    minimum: u32,
+    verdict: &analysis::relax::RelaxVerdict,
+) -> super::state::RelaxAnswer {
+    let relaxations = verdict.relaxations();
+    let mut kinds: std::collections::BTreeMap<&str, usize> = std::collections::BTreeMap::new();
+    for r in &relaxations {
+        *kinds.entry(r.kind()).or_default() += 1;
+    }
+    let counts = kinds
+        .iter()
+        .map(|(kind, n)| {
+            let (one, many) = match *kind {
+                "corner" => ("corner contact", "corner contacts"),
+                "manual" => ("border added by hand", "borders added by hand"),
+                "short" => ("short border", "short borders"),
+                "group" => ("group membership", "group memberships"),
+                _ => ("pin", "pins"),
+            };
+            format!("{n} {}", if *n == 1 { one } else { many })
+        })
+        .collect::<Vec<_>>()
+        .join(" and ");
+    let report = &verdict.report;
+    // The part that needs more colours whatever is dropped: the last obstruction's regions.
+    let part = if report.infeasible {
+        report
+            .obstructions
+            .last()
+            .map(|o| {
+                let mut ids: Vec<doc::RegionId> = o
+                    .vertices
+                    .iter()
+                    .filter_map(|&v| {
+                        verdict
+                            .model
+                            .vertex_region
+                            .get(v as usize)
+                            .copied()
+                            .flatten()
+                    })
+                    .collect();
+                ids.sort();
+                ids.dedup();
+                ids
+            })
+            .unwrap_or_default()
+    } else {
+        Vec::new()
+    };
+    super::state::RelaxAnswer {
+        revision,
+        minimum,
+        colours: report.colours,
+        words: relaxations.iter().map(|r| r.describe(doc)).collect(),
+        relaxations,
+        counts,
+        proven: report.proven_optimal,
+        lower_bound: report.lower_bound,
+        impossible: report.infeasible,
+        part,
+        stopped: report.stopped,
+        checked: verdict.check.is_ok(),
+    }
+}
+
+/// The answer in one line, for the status area and the verdict panel.
+pub fn relax_words(a: &super::state::RelaxAnswer) -> String {
+    if a.impossible {
+        return format!(
+            "No corner contact, border added by hand or group membership can be dropped to use {}: a part of {} regions needs {} whatever is dropped",
+            a.colours,
+            a.part.len(),
+            a.minimum
+        );
+    }
+    if a.relaxations.is_empty() {
+        return if a.stopped {
+            format!(
+                "No set of rules to drop for {} colours was found before the time limit (at least {} needed)",
+                a.colours, a.lower_bound
+            )
+        } else {
+            format!("{} colours already do", a.colours)
+        };
+    }
+    const SHOWN: usize = 6;
+    let mut names = a
+        .words
+        .iter()
+        .take(SHOWN)
+        .cloned()
+        .collect::<Vec<_>>()
+        .join(", ");
+    if a.words.len() > SHOWN {
+        names.push_str(&format!(" and {} more", a.words.len() - SHOWN));
+    }
+    let proof = if a.proven && a.checked {
+        " (proven fewest)".to_string()
+    } else if a.proven {
+        " (the fewest, but the checker did not accept the evidence)".to_string()
+    } else {
+        format!(" (not proven fewest: at least {} needed)", a.lower_bound)
+    };
+    format!(
+        "Needs {}; drop {} to use {}{proof}: {names}",
+        a.minimum, a.counts, a.colours
+    )
 }

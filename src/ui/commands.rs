@@ -156,6 +156,11 @@ pub enum Command {
     BalanceColours,
     /// Opens the colour-by-parent-unit window (families of tints by parent unit).
     ColourByParent,
+    /// Finds the fewest rules to drop (corner contacts, borders added by hand, group
+    /// memberships) so that the map takes one colour fewer than its minimum.
+    FindRelaxations,
+    /// Drops the rules found by `FindRelaxations` (one undoable step).
+    ApplyRelaxations,
     ExportProof,
     ClearColours,
     CommandList,
@@ -225,6 +230,8 @@ impl Command {
             Command::ColourAddingSlots,
             Command::BalanceColours,
             Command::ColourByParent,
+            Command::FindRelaxations,
+            Command::ApplyRelaxations,
             Command::PaletteWindow,
             Command::AssignSlots,
             Command::ExportProof,
@@ -253,6 +260,8 @@ impl Command {
             | Command::ColourAddingSlots
             | Command::BalanceColours
             | Command::ColourByParent
+            | Command::FindRelaxations
+            | Command::ApplyRelaxations
             | Command::ExportProof
             | Command::ClearColours
             | Command::PaletteWindow
@@ -281,6 +290,8 @@ impl Command {
             Command::ColourAddingSlots => "Add the missing palette slots and colour".into(),
             Command::BalanceColours => "Even out colour use".into(),
             Command::ColourByParent => "Colour by parent unit…".into(),
+            Command::FindRelaxations => "What to drop for one colour fewer".into(),
+            Command::ApplyRelaxations => "Drop the rules found".into(),
             Command::ExportProof => "Export the proof…".into(),
             Command::ClearColours => "Remove all colours".into(),
             Command::PaletteWindow => "Palette and print check…".into(),
@@ -322,6 +333,12 @@ impl Command {
             }
             Command::BalanceColours => {
                 "Recolour with the same number of colours, each used about equally often (undoable)"
+            }
+            Command::FindRelaxations => {
+                "Find the fewest corner contacts, borders added by hand or group memberships to drop so that the map takes one colour fewer than it needs, with a proof that no smaller choice works"
+            }
+            Command::ApplyRelaxations => {
+                "Drop the rules found for one colour fewer: borders are kept on record as removed, regions leave their groups (one undoable step)"
             }
             Command::ColourByParent => {
                 "Colours that follow a hierarchy: a family of tints for each parent unit (a county's state), neighbouring parents in different families, neighbours within a parent in different tints (undoable)"
@@ -393,6 +410,8 @@ impl Command {
             Command::ColourAddingSlots => None,
             Command::BalanceColours => None,
             Command::ColourByParent => None,
+            Command::FindRelaxations => None,
+            Command::ApplyRelaxations => None,
             Command::ExportProof => None,
             Command::ClearColours => None,
             Command::PaletteWindow => None,

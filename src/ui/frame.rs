@@ -88,6 +88,9 @@ pub struct Frame<'a> {
     pub recovery_offer: Option<&'a Recovered>,
     /// A command waiting for the user to decide about unsaved changes.
     pub unsaved_question: Option<Command>,
+    /// What to drop for one colour fewer, when it was worked out (possibly for an older
+    /// revision: panels show it only for the current one).
+    pub relax: Option<&'a super::state::RelaxAnswer>,
     /// The queue `send` adds to (the app makes it empty with each frame).
     pub(super) actions: RefCell<Vec<Action>>,
 }

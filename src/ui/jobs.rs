@@ -20,6 +20,11 @@ pub enum JobResult {
         revision: u64,
         verdict: Box<analysis::ColouringVerdict>,
     },
+    /// What to drop for one colour fewer, for a revision, or why it was not found.
+    Relaxed {
+        revision: u64,
+        result: Result<Box<super::state::RelaxAnswer>, String>,
+    },
     /// A colouring by parent unit for a revision, or why there is none.
     ColouredByParent {
         revision: u64,

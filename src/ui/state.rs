@@ -43,6 +43,49 @@ pub enum Highlight {
     NotThreeColourable,
     /// The regions that cannot take one colour fewer than the minimum.
     NotFewerColourable,
+    /// The rules to drop for one colour fewer (the fewest relaxations), or the part of the map
+    /// that no allowed relaxation helps.
+    Relaxations,
+}
+
+/// What to drop so that the map takes one colour fewer: the fewest relaxations found for a
+/// revision, in words, with what the checker said.
+#[derive(Clone, Debug, PartialEq)]
+pub struct RelaxAnswer {
+    pub revision: u64,
+    /// The map's proven minimum when asked, and the target (one fewer).
+    pub minimum: u32,
+    pub colours: u32,
+    pub relaxations: Vec<crate::analysis::relax::Relaxation>,
+    /// The kinds and their counts in words: "1 corner contact", "2 borders added by hand".
+    pub counts: String,
+    /// Each relaxation in words ("Glades–Martin").
+    pub words: Vec<String>,
+    /// No cheaper set exists (every cheaper one misses a checked obstruction).
+    pub proven: bool,
+    pub lower_bound: u64,
+    /// No allowed relaxation helps: `part` needs more colours whatever is dropped.
+    pub impossible: bool,
+    pub part: Vec<crate::doc::RegionId>,
+    /// The search stopped at its time limit (the answer may not be the fewest).
+    pub stopped: bool,
+    /// The independent checker accepted the answer and its evidence.
+    pub checked: bool,
+}
+
+impl RelaxAnswer {
+    /// The regions to show on the map.
+    pub fn regions(&self) -> Vec<crate::doc::RegionId> {
+        let mut out: Vec<crate::doc::RegionId> = self
+            .relaxations
+            .iter()
+            .flat_map(|r| r.regions())
+            .chain(self.part.iter().copied())
+            .collect();
+        out.sort();
+        out.dedup();
+        out
+    }
 }
 
 /// How serious a message in the status area is.

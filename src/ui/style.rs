@@ -21,3 +21,5 @@ pub const OBSTRUCTION: Color32 = Color32::from_rgb(0xb3, 0x4a, 0x00);
 pub const GOOD: Color32 = Color32::from_rgb(0x2e, 0x7d, 0x32);
 /// A warning: worth a look, not an error.
 pub const WARNING: Color32 = Color32::from_rgb(0xa0, 0x60, 0x00);
+/// The rules to drop for one colour fewer, shown on the map.
+pub const RELAXED: Color32 = Color32::from_rgb(0x00, 0x6d, 0x77);

@@ -449,6 +449,21 @@ fn draw(
 
     // Evidence asked for: the regions that cannot be drawn flat, or that cannot take three colours.
     let colouring = frame.analysis.and_then(|a| a.colouring.as_ref());
+    // The rules to drop for one colour fewer: their regions, and each dropped border as a link.
+    let relaxed: Option<(Vec<RegionId>, Vec<RegionPair>)> = frame
+        .relax
+        .filter(|a| a.revision == doc.revision())
+        .map(|a| {
+            let links = a
+                .relaxations
+                .iter()
+                .filter_map(|r| match r {
+                    crate::analysis::relax::Relaxation::Border { pair, .. } => Some(*pair),
+                    _ => None,
+                })
+                .collect();
+            (a.regions(), links)
+        });
     let evidence = match (
         frame.view.highlight,
         frame.analysis.and_then(|a| a.planarity.as_ref()),
@@ -465,6 +480,9 @@ fn draw(
         (Some(Highlight::NotFewerColourable), _) => colouring
             .and_then(|c| c.minimum_impossible.as_ref())
             .map(|why| (&why.regions, &why.links, &[][..], style::OBSTRUCTION)),
+        (Some(Highlight::Relaxations), _) => relaxed
+            .as_ref()
+            .map(|(regions, links)| (regions, links, &[][..], style::RELAXED)),
         _ => None,
     };
     if let Some((regions, links, corners, colour)) = evidence {

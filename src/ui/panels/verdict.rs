@@ -190,6 +190,44 @@ pub fn show(frame: &Frame, ui: &mut egui::Ui) {
     planarity_ui(frame, ui);
 }
 
+/// The fewest rules to drop for one colour fewer than the proven minimum `m`: a button that
+/// asks, then the answer with *Show on map* and *Drop them*.
+fn relax_ui(frame: &Frame, ui: &mut egui::Ui, m: u32) {
+    let answer = frame
+        .relax
+        .filter(|a| a.revision == frame.doc().revision() && a.minimum == m);
+    let Some(answer) = answer else {
+        if ui
+            .button(format!("What to drop for {} colours", m - 1))
+            .on_hover_text(Command::FindRelaxations.tooltip())
+            .clicked()
+        {
+            frame.run(Command::FindRelaxations);
+        }
+        return;
+    };
+    let words = crate::ui::app::relax_words(answer);
+    marked(
+        ui,
+        !answer.relaxations.is_empty() && !answer.impossible,
+        format!("{words}."),
+    );
+    ui.horizontal(|ui| {
+        let regions = answer.regions();
+        if !regions.is_empty() && ui.button("Show on map").clicked() {
+            frame.send(Action::ShowHighlight(Highlight::Relaxations, regions));
+        }
+        if !answer.relaxations.is_empty()
+            && ui
+                .button("Drop them")
+                .on_hover_text(Command::ApplyRelaxations.tooltip())
+                .clicked()
+        {
+            frame.run(Command::ApplyRelaxations);
+        }
+    });
+}
+
 /// The fewest colours, whether three can do, and the proof when they cannot.
 fn colouring_ui(frame: &Frame, ui: &mut egui::Ui) {
     let verdict = frame.analysis.and_then(|a| a.colouring.as_ref());
@@ -233,6 +271,12 @@ fn colouring_ui(frame: &Frame, ui: &mut egui::Ui) {
         None => {
             ui.label("No colouring found yet.");
         }
+    }
+    // What to drop for one colour fewer than a proven minimum.
+    if let (Some(m), true) = (verdict.minimum, verdict.proven && !frame.analysis_stale)
+        && m >= 3
+    {
+        relax_ui(frame, ui, m);
     }
     // The part of the map that rules out one colour fewer, when no clique of regions shows it
     // (the three-colour case has its own line below).

@@ -134,9 +134,42 @@ fn the_command_line_imports_a_parent_field_and_colours_by_it() {
             (*id, key.parent_of(p).unwrap())
         })
         .collect();
-    let (families, _) = check_by_parent(&doc, &parent);
+    let (families, fills) = check_by_parent(&doc, &parent);
     // East and west meet: two families.
     assert_eq!(families, 2);
+
+    // The legend groups the fills by family: a row per family, a swatch per tint in use.
+    let svg = dir.path().join("by-side.svg");
+    let o = tinct_path(
+        &["export"],
+        &coloured,
+        &["--svg", svg.to_str().unwrap(), "--legend"],
+    );
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = std::fs::read_to_string(&svg).unwrap();
+    let xml = roxmltree::Document::parse(&text).unwrap();
+    let legend = xml
+        .descendants()
+        .find(|n| n.attribute("id") == Some("legend"))
+        .expect("a legend");
+    let rows: Vec<&str> = legend
+        .children()
+        .filter(|n| n.has_tag_name("text"))
+        .filter_map(|n| n.text())
+        .collect();
+    let swatches = legend.children().filter(|n| n.has_tag_name("rect")).count();
+    assert_eq!(rows.len(), 2, "{rows:?}");
+    assert_eq!(swatches, fills);
+    let names: BTreeSet<String> = doc
+        .palette()
+        .slots
+        .iter()
+        .map(|s| s.name.rsplit_once(' ').unwrap().0.to_string())
+        .collect();
+    assert!(
+        rows.iter().all(|r| names.contains(*r)),
+        "{rows:?} against {names:?}"
+    );
 
     // A field the file does not have: refused at import, with the fields it has.
     let o = tinct_path(

@@ -132,13 +132,19 @@ pub fn family_palette(families: usize, tints: usize) -> Option<Vec<FamilyFill>> 
 /// least two tints: its tints differ in weight by design, so the check for a fill that
 /// dominates does not apply.
 pub fn is_family_palette(colours: &[Srgb8]) -> bool {
-    (1..=MAX_FAMILIES).any(|f| {
-        (2..=MAX_TINTS).any(|t| {
+    family_shape(colours).is_some()
+}
+
+/// The families and tints of a palette made by [`family_palette`] with at least two tints, or
+/// `None` for any other palette.
+pub fn family_shape(colours: &[Srgb8]) -> Option<(usize, usize)> {
+    (1..=MAX_FAMILIES)
+        .flat_map(|f| (2..=MAX_TINTS).map(move |t| (f, t)))
+        .find(|&(f, t)| {
             f * t == colours.len()
                 && family_palette(f, t)
                     .is_some_and(|p| p.iter().zip(colours).all(|(fill, c)| fill.colour == *c))
         })
-    })
 }
 
 #[cfg(test)]

@@ -299,14 +299,41 @@ pub fn length_words(metres: f64) -> String {
 }
 
 /// Slots in use with their region counts, in slot order; land regions only.
-fn legend_entries(doc: &Document) -> Vec<(u32, usize)> {
-    let mut counts = std::collections::BTreeMap::new();
+/// The legend's rows: the slots in use and the row's words. One slot per row, named after the
+/// slot; with a palette of families (colours that follow a hierarchy), one row per family with
+/// a swatch for each of its tints in use, named after the family.
+fn legend_entries(doc: &Document) -> Vec<(Vec<u32>, String)> {
+    let mut used = std::collections::BTreeSet::new();
     for (id, _) in doc.land_regions() {
         if let Some(&s) = doc.colouring().get(&id) {
-            *counts.entry(s).or_insert(0usize) += 1;
+            used.insert(s);
         }
     }
-    counts.into_iter().collect()
+    let slots = &doc.palette().slots;
+    let name = |s: u32| match slots.get(s as usize) {
+        Some(slot) => slot.name.clone(),
+        None => format!("Slot {} (not in palette)", s + 1),
+    };
+    let colours: Vec<crate::colour::Srgb8> = slots.iter().map(|s| s.colour.0).collect();
+    match crate::colour::families::family_shape(&colours) {
+        Some((_, tints)) => {
+            let mut rows: std::collections::BTreeMap<usize, Vec<u32>> = Default::default();
+            for &s in &used {
+                rows.entry(s as usize / tints).or_default().push(s);
+            }
+            rows.into_values()
+                .map(|row| {
+                    // "Plum 2" is a tint of the family "Plum".
+                    let family = name(row[0]);
+                    let family = family
+                        .rsplit_once(' ')
+                        .map_or(family.clone(), |(f, _)| f.to_string());
+                    (row, family)
+                })
+                .collect()
+        }
+        None => used.into_iter().map(|s| (vec![s], name(s))).collect(),
+    }
 }
 
 /// Escapes text for XML character data and attribute values, dropping characters XML 1.0 forbids.
@@ -881,31 +908,32 @@ fn write_layout(
                 );
             }
             let rows = entries.len().div_ceil(frame.legend_columns);
-            for (k, (slot, _)) in entries.iter().enumerate() {
+            for (k, (row_slots, name)) in entries.iter().enumerate() {
                 let (col, row) = (k / rows, k % rows);
                 let x = MARGIN_MM + col as f64 * LEGEND_COLUMN_MM;
                 let y = frame.legend_top_mm + row as f64 * LEGEND_ROW_MM;
-                let (name, fill) = match doc.palette().slots.get(*slot as usize) {
-                    Some(s) => (s.name.clone(), s.colour.to_hex()),
-                    None => (
-                        format!("Slot {} (not in palette)", slot + 1),
-                        UNCOLOURED_FILL.into(),
-                    ),
-                };
-                let _ = writeln!(
-                    out,
-                    r#"<rect x="{}" y="{}" width="{s}" height="{s}" fill="{fill}" stroke="{BORDER_INK}" stroke-width="{}"/>"#,
-                    mm(x),
-                    mm(y),
-                    mm(options.border_mm),
-                    s = mm(4.0)
-                );
+                // One swatch per slot of the row, side by side.
+                for (i, slot) in row_slots.iter().enumerate() {
+                    let fill = doc
+                        .palette()
+                        .slots
+                        .get(*slot as usize)
+                        .map_or_else(|| UNCOLOURED_FILL.to_string(), |s| s.colour.to_hex());
+                    let _ = writeln!(
+                        out,
+                        r#"<rect x="{}" y="{}" width="{s}" height="{s}" fill="{fill}" stroke="{BORDER_INK}" stroke-width="{}"/>"#,
+                        mm(x + i as f64 * 4.5),
+                        mm(y),
+                        mm(options.border_mm),
+                        s = mm(4.0)
+                    );
+                }
                 let _ = writeln!(
                     out,
                     r#"<text x="{}" y="{}">{}</text>"#,
-                    mm(x + 6.0),
+                    mm(x + 6.0 + (row_slots.len() as f64 - 1.0) * 4.5),
                     mm(y + 2.0 + 0.35 * LEGEND_SIZE_MM),
-                    escape(&name)
+                    escape(name)
                 );
             }
             let _ = writeln!(out, "</g>");

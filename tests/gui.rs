@@ -1441,3 +1441,38 @@ fn what_to_drop_for_one_colour_fewer_is_asked_shown_and_applied_in_one_undoable_
         "one undo puts the border back"
     );
 }
+
+#[test]
+fn a_parent_unit_typed_in_the_region_details_is_one_undoable_edit_and_colours_by_parent() {
+    // The invented sample map: give the first land region the parent unit "Upland" by clicking
+    // it and typing in the details panel, as a user does.
+    let mut h = harness(App::new(None, None));
+    let first = h.state().session.doc().land_regions().next().unwrap().0;
+    click_region(&mut h, first);
+    h.run_steps(2);
+    replace_text(&mut h, "Region parent unit", "Upland");
+    press(&mut h, egui::Modifiers::NONE, egui::Key::Enter);
+    let doc = h.state().session.doc();
+    assert_eq!(
+        doc.regions()[&first].attributes.get("parent"),
+        Some(&tinct::doc::AttrValue::Text("Upland".into()))
+    );
+    // The window counts what is missing: every other land region has no parent unit yet.
+    let land = doc.land_regions().count();
+    h.get_by_label("Colour").click();
+    h.run_steps(2);
+    h.get_by_label_contains("Colour by parent unit").click();
+    h.run_steps(3);
+    let missing = format!("1 parent units; {} land regions have none", land - 1);
+    assert!(h.query_by_label_contains(&missing).is_some(), "{missing}");
+    press(&mut h, egui::Modifiers::NONE, egui::Key::Escape);
+    // One undo takes the parent unit away again.
+    h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::Z);
+    h.run_steps(3);
+    assert!(
+        h.state().session.doc().regions()[&first]
+            .attributes
+            .get("parent")
+            .is_none()
+    );
+}

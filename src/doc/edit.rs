@@ -5,8 +5,8 @@ use std::collections::BTreeMap;
 use std::sync::Arc;
 
 use super::model::{
-    Border, Document, Geometry, Group, GroupId, Palette, Point, Region, RegionId, RegionPair, Role,
-    Settings,
+    AttrValue, Border, Document, Geometry, Group, GroupId, Palette, Point, Region, RegionId,
+    RegionPair, Role, Settings,
 };
 
 /// One change to a region's fields.
@@ -18,6 +18,11 @@ pub enum RegionChange {
     Geometry(Option<Arc<Geometry>>),
     Pin(Option<u32>),
     Group(Option<GroupId>),
+    /// Sets (`Some`) or removes (`None`) one attribute, such as the parent unit.
+    Attribute {
+        name: String,
+        value: Option<AttrValue>,
+    },
 }
 
 /// A change to the document. Each variant sets something to a value; its inverse sets it back.
@@ -146,6 +151,7 @@ impl Edit {
                 RegionChange::Geometry(_) => "Change outline",
                 RegionChange::Pin(_) => "Pin colour",
                 RegionChange::Group(_) => "Change group",
+                RegionChange::Attribute { .. } => "Change attribute",
             }
             .into(),
             Edit::PutBorder {
@@ -266,6 +272,13 @@ impl Document {
                     }
                     RegionChange::Group(v) => {
                         RegionChange::Group(std::mem::replace(&mut region.group, v))
+                    }
+                    RegionChange::Attribute { name, value } => {
+                        let old = match value {
+                            Some(v) => region.attributes.insert(name.clone(), v),
+                            None => region.attributes.remove(&name),
+                        };
+                        RegionChange::Attribute { name, value: old }
                     }
                 };
                 Edit::UpdateRegion { id, change: old }

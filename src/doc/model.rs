@@ -187,6 +187,13 @@ impl Attributes {
             }
         }
     }
+    /// Removes `name`; returns its value.
+    pub fn remove(&mut self, name: &str) -> Option<AttrValue> {
+        self.0
+            .binary_search_by(|(k, _)| k.as_str().cmp(name))
+            .ok()
+            .map(|i| self.0.remove(i).1)
+    }
     /// The value of `name`.
     pub fn get(&self, name: &str) -> Option<&AttrValue> {
         self.0

@@ -18,8 +18,9 @@ pub struct ByParentDraft {
     pub field: String,
     /// Leading characters to keep (0: the whole value).
     pub prefix: u32,
-    /// (field, prefix) -> (parent units, land regions without one), worked out once each.
-    counted: BTreeMap<(String, u32), (usize, usize)>,
+    /// (field, prefix, revision) -> (parent units, land regions without one), worked out once
+    /// each.
+    counted: BTreeMap<(String, u32, u64), (usize, usize)>,
 }
 
 impl ByParentDraft {
@@ -61,7 +62,7 @@ impl ByParentDraft {
     /// Parent units and land regions without one, for the current choice.
     fn count(&mut self, doc: &Document) -> Option<(usize, usize)> {
         let key = self.key()?;
-        let entry = (self.field.clone(), self.prefix);
+        let entry = (self.field.clone(), self.prefix, doc.revision());
         if let Some(c) = self.counted.get(&entry) {
             return Some(*c);
         }

@@ -1,14 +1,18 @@
-//! The selected region's details: name, land or water, pin, group, and its borders.
+//! The selected region's details: name, land or water, pin, group, parent unit, and its borders.
 
 use egui::RichText;
 
-use crate::doc::{BorderKind, Edit, GroupId, RegionChange, RegionId, Role};
+use crate::doc::{
+    AttrValue, BorderKind, Edit, GroupId, PARENT_ATTRIBUTE, ParentKey, RegionChange, RegionId, Role,
+};
 use crate::ui::frame::Frame;
 
 /// The panel's own state: the name being typed for the selected region.
 #[derive(Default)]
 pub struct Details {
     name_draft: Option<(RegionId, String)>,
+    /// The parent unit being typed for the selected region.
+    parent_draft: Option<(RegionId, String)>,
 }
 
 pub fn show(frame: &Frame, details: &mut Details, ui: &mut egui::Ui) {
@@ -105,6 +109,48 @@ pub fn show(frame: &Frame, details: &mut Details, ui: &mut egui::Ui) {
             change: RegionChange::Group(group),
         });
     }
+
+    // The parent unit (for colours that follow a hierarchy): the attribute `parent`, typed like
+    // the name and committed when the field loses focus; empty removes it.
+    let parent_id = egui::Id::unique(("region-parent", id));
+    let focused = ui.memory(|m| m.has_focus(parent_id));
+    let current = region
+        .attributes
+        .get(PARENT_ATTRIBUTE)
+        .and_then(|v| {
+            ParentKey {
+                field: PARENT_ATTRIBUTE.into(),
+                prefix: None,
+            }
+            .parent_of(v)
+        })
+        .unwrap_or_default();
+    let mut text = match &details.parent_draft {
+        Some((d, t)) if *d == id && focused => t.clone(),
+        _ => current.clone(),
+    };
+    ui.horizontal(|ui| {
+        ui.label("Parent unit");
+        let r = ui.add(
+            egui::TextEdit::singleline(&mut text)
+                .id(parent_id)
+                .hint_text("none (as a county's state)"),
+        );
+        r.widget_info(|| {
+            egui::WidgetInfo::labeled(egui::Role::TextInput, true, "Region parent unit")
+        });
+        if r.lost_focus() && text.trim() != current {
+            let value = text.trim();
+            frame.edit(Edit::UpdateRegion {
+                id,
+                change: RegionChange::Attribute {
+                    name: PARENT_ATTRIBUTE.into(),
+                    value: (!value.is_empty()).then(|| AttrValue::Text(value.to_string())),
+                },
+            });
+        }
+    });
+    details.parent_draft = Some((id, text));
 
     ui.separator();
     let neighbours = doc.borders_of(id);

@@ -985,7 +985,7 @@ fn duplicate_names(regions: &[ImportedRegion], separating: &Option<String>) -> V
 /// Writes each feature's parent unit, read by `key`, as its `parent` property; refuses when the
 /// field is missing from the file, and notes features without a value.
 fn set_parents(raw: &mut RawMap, key: &crate::doc::ParentKey) -> Result<(), ImportError> {
-    let has_field = raw.field_names.iter().any(|n| *n == key.field)
+    let has_field = raw.field_names.contains(&key.field)
         || raw
             .features
             .iter()

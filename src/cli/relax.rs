@@ -469,9 +469,11 @@ fn run_relax_planar(a: &RelaxArgs) -> CommandResult {
         render_planar_text(&doc, &verdict, &file)
     };
     let mut notes = Vec::new();
-    if allowed.group || allowed.pin {
+    // Groups are in the default kinds, so only an explicit pin earns the note; the README says
+    // that group memberships are not dropped for a flat drawing.
+    if allowed.pin {
         notes.push(
-            "note: group memberships and pins are not dropped for a flat drawing (a group is drawn as one region; a pin changes no drawing)"
+            "note: pins and group memberships are not dropped for a flat drawing (a pin changes no drawing; a group is drawn as one region)"
                 .to_string(),
         );
     }

@@ -143,10 +143,10 @@ pub fn is_family_palette(colours: &[Srgb8]) -> bool {
 
 #[cfg(test)]
 mod tests {
+    use super::super::ciede2000::ciede2000;
+    use super::super::cvd::Vision;
+    use super::super::space::{lightness, srgb8_to_lab};
     use super::*;
-    use crate::colour::ciede2000::ciede2000;
-    use crate::colour::cvd::Vision;
-    use crate::colour::space::{lightness, srgb8_to_lab};
 
     #[test]
     fn tints_of_one_family_stay_apart_in_every_view_and_in_greyscale() {

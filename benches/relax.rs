@@ -5,6 +5,9 @@
 //! from us-atlas 3.0.1, public domain) for 4 colours, and chains of K5s joined by paths with every
 //! edge soft. Run with `cargo bench --no-default-features --bench relax`.
 //!
+//! Then the fewest relaxations for a flat drawing (the world at 1:110m and the counties under the
+//! queen rule, K5 chains), against one planarity test with its certificate of the same graph.
+//!
 //! Also colours that follow a hierarchy on the same counties, by state (the first two digits of
 //! each FIPS code): time to the proven fewest families and tints, with the tints arranged against
 //! clashes, against the same plain `solve`.
@@ -12,14 +15,17 @@
 use std::sync::atomic::AtomicBool;
 use std::time::{Duration, Instant};
 
-use tinct::analysis::relax::{Allowed, fewest_relaxations_uncontrolled};
+use tinct::analysis::relax::{
+    Allowed, fewest_relaxations_planar_uncontrolled, fewest_relaxations_uncontrolled,
+};
 use tinct::doc::{
     Border, ConstraintGraph, Document, DocumentBuilder, Region, RegionId, RegionPair, Settings,
 };
-use tinct::engine::certify::check_relaxation;
+use tinct::engine::certify::{check_planar_relaxation, check_relaxation};
 use tinct::engine::colouring::{
     ColouringProblem, SolveOptions, arrange_tints, hierarchy_colouring, solve,
 };
+use tinct::engine::planarity::planarity;
 
 fn ms(d: Duration) -> f64 {
     d.as_secs_f64() * 1000.0
@@ -131,7 +137,64 @@ fn main() {
         "ratio: time to the proven fewest relaxations over one proven `solve` of the same graph"
     );
     println!();
+    println!(
+        "| flat drawing               | regions | dropped    | K-subgraphs | relax (ms) | planarity (ms) | ratio    | check (ms)"
+    );
+    println!(
+        "|----------------------------|---------|------------|-------------|------------|----------------|----------|-----------"
+    );
+    // Natural Earth 1:110m countries (npm world-atlas 2.0.2, tests/data/geo/PROVENANCE.md).
+    let path =
+        std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/data/geo/world110m.topojson");
+    let options = tinct::geo::ImportOptions {
+        rule: tinct::geo::Rule::Queen,
+        ..Default::default()
+    };
+    let world = tinct::geo::import_path(&path, &options)
+        .expect("the fixture imports")
+        .into_document("world");
+    planar_row("world 1:110m, queen", &world);
+    planar_row("US counties, queen", &counties());
+    for copies in [10, 100] {
+        planar_row(&format!("{copies} K5s in a chain"), &k5_chain(copies));
+    }
+    println!(
+        "ratio: time to the proven fewest relaxations for a flat drawing over one planarity test (with its certificate) of the same graph"
+    );
+    println!();
     hierarchy_row();
+}
+
+fn planar_row(name: &str, doc: &Document) {
+    let cg = ConstraintGraph::build(doc);
+    let cancel = AtomicBool::new(false);
+    let start = Instant::now();
+    planarity(&cg.graph, &cancel, &mut |_| {}).expect("not cancelled");
+    let base = start.elapsed();
+    let start = Instant::now();
+    let v =
+        fewest_relaxations_planar_uncontrolled(doc, &Allowed::default(), Duration::from_secs(600))
+            .expect("valid");
+    let ours = start.elapsed();
+    let start = Instant::now();
+    check_planar_relaxation(&v.model.problem, &v.report).expect("the answer passes the checker");
+    let check = start.elapsed();
+    let outcome = if v.report.infeasible {
+        "none helps".to_string()
+    } else {
+        assert!(v.report.proven_optimal);
+        v.report.cost.unwrap_or(0).to_string()
+    };
+    println!(
+        "| {name:<26} | {:>7} | {:>10} | {:>11} | {:>10.1} | {:>14.2} | {:>7.1}x | {:>9.1}",
+        cg.vertex_count(),
+        outcome,
+        v.report.obstructions.len(),
+        ms(ours),
+        ms(base),
+        ms(ours) / ms(base).max(1e-3),
+        ms(check),
+    );
 }
 
 /// The counties by state: families and tints, proven, then arranged (every tint pair of one

@@ -411,7 +411,7 @@ fn honours_every_rule(doc: &Document, colours: &std::collections::BTreeMap<Regio
 /// the fifth pair (Ashby and Corlen) at a single corner; a sixth region Dunmere in a group with
 /// Ashby although they border each other by hand; Edony pinned to slot 0 beside Fallow, also
 /// pinned to slot 0.
-fn demo_map() -> Document {
+pub fn demo_map() -> Document {
     let mut b = DocumentBuilder::new("demo");
     let names = [
         "Ashby", "Brell", "Corlen", "Dunmere", "Esk", "Fallow", "Edony",

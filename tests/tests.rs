@@ -24,6 +24,7 @@ mod project_file;
 mod projections;
 mod recovery;
 mod relax;
+mod relax_planar;
 mod sample_maps;
 mod scale;
 mod support;

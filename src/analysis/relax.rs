@@ -6,6 +6,11 @@
 //! same-colour group is a constraint "same colour as the group", the group being a vertex of its
 //! own with no borders). Active borders are "differ" constraints, pins are pins. Those of an
 //! allowed kind are soft, at cost 1; the rest are hard.
+//!
+//! The same question for a flat drawing ([`fewest_relaxations_planar`]): which borders to drop so
+//! that the borders can be drawn without crossings (the constraint graph is planar, so the
+//! four-colour theorem applies). There a same-colour group is one vertex, so only borders
+//! (corner, manual, short) are relaxable.
 
 use std::collections::BTreeMap;
 use std::sync::atomic::AtomicBool;
@@ -13,12 +18,17 @@ use std::time::{Duration, Instant};
 
 use super::Control;
 use crate::doc::{
-    Border, BorderKind, Document, Edit, GroupId, RegionChange, RegionId, RegionPair, Units,
+    Border, BorderKind, ConstraintGraph, Document, Edit, GroupId, RegionChange, RegionId,
+    RegionPair, Units,
 };
 use crate::engine::Vertex;
-use crate::engine::certify::{RelaxCheck, RelaxRejection, check_relaxation};
+use crate::engine::certify::{
+    PlanarRelaxCheck, PlanarRelaxRejection, RelaxCheck, RelaxRejection, check_planar_relaxation,
+    check_relaxation,
+};
 use crate::engine::relax::{
-    Constraint, RelaxError, RelaxOptions, RelaxProblem, RelaxReport, SoftItem, relax,
+    Constraint, PlanarRelaxProblem, PlanarRelaxReport, RelaxError, RelaxOptions, RelaxProblem,
+    RelaxReport, SoftEdge, SoftItem, relax, relax_planar,
 };
 
 /// Which kinds of rule may be dropped.
@@ -368,6 +378,16 @@ pub fn fewest_relaxations_uncontrolled(
 /// nothing is lost and re-deriving adjacency does not bring them back unnoticed; a hand-made
 /// border too), regions leave their groups, pins are removed. `None` when there is nothing to do.
 pub fn relaxation_edit(doc: &Document, relaxations: &[Relaxation], colours: u32) -> Option<Edit> {
+    batch(doc, relaxations, &format!("so that {colours} colours do"))
+}
+
+/// [`relaxation_edit`] for the answer of [`fewest_relaxations_planar`]: the same one undoable
+/// edit, labelled for a flat drawing.
+pub fn planar_relaxation_edit(doc: &Document, relaxations: &[Relaxation]) -> Option<Edit> {
+    batch(doc, relaxations, "so that the borders can be drawn flat")
+}
+
+fn batch(doc: &Document, relaxations: &[Relaxation], purpose: &str) -> Option<Edit> {
     let mut edits = Vec::new();
     for r in relaxations {
         match *r {
@@ -394,10 +414,267 @@ pub fn relaxation_edit(doc: &Document, relaxations: &[Relaxation], colours: u32)
     }
     (!edits.is_empty()).then(|| Edit::Batch {
         label: format!(
-            "Drop {} {} so that {colours} colours do",
+            "Drop {} {} {purpose}",
             edits.len(),
             if edits.len() == 1 { "rule" } else { "rules" }
         ),
         edits,
     })
+}
+
+// ---- The same question for a flat drawing ----
+
+/// The flat-drawing problem of a document, and the way back.
+///
+/// Vertices are those of the constraint graph (a same-colour group is one vertex, drawn as one
+/// region), so group memberships are not relaxable here, and pins do not matter to a drawing.
+/// Every active border between two vertices is an edge; the borders between the same two vertices
+/// (a group's members beside one region) make one edge, soft only when every one of them is of an
+/// allowed kind, at a cost of one per border.
+#[derive(Clone, Debug)]
+pub struct PlanarModel {
+    pub problem: PlanarRelaxProblem,
+    /// What each soft edge of the problem stands for: the borders dropped with it.
+    pub items: Vec<Vec<Relaxation>>,
+    pub graph: ConstraintGraph,
+}
+
+impl PlanarModel {
+    /// Builds the flat-drawing problem of `doc`, with borders of the `allowed` kinds soft.
+    ///
+    /// # Complexity
+    /// O(R + B log B) for R regions and B borders.
+    pub fn build(doc: &Document, allowed: &Allowed) -> PlanarModel {
+        let graph = ConstraintGraph::build(doc);
+        let min = doc.settings().min_border_length;
+        let mut pairs: BTreeMap<(Vertex, Vertex), (bool, Vec<Relaxation>)> = BTreeMap::new();
+        for (pair, border) in doc.active_borders() {
+            let (Some(u), Some(v)) = (graph.vertex_of(pair.a()), graph.vertex_of(pair.b())) else {
+                continue;
+            };
+            if u == v {
+                continue;
+            }
+            let entry = pairs.entry((u.min(v), u.max(v))).or_default();
+            match relaxable_kind(border, min, allowed) {
+                Some(kind) => entry.1.push(Relaxation::Border { pair, kind }),
+                None => entry.0 = true,
+            }
+        }
+        let mut hard = Vec::new();
+        let mut soft = Vec::new();
+        let mut items = Vec::new();
+        for ((u, v), (is_hard, relaxations)) in pairs {
+            if is_hard {
+                hard.push((u, v));
+            } else {
+                soft.push(SoftEdge {
+                    u,
+                    v,
+                    cost: relaxations.len() as u64,
+                });
+                items.push(relaxations);
+            }
+        }
+        PlanarModel {
+            problem: PlanarRelaxProblem {
+                vertex_count: graph.vertex_count(),
+                hard,
+                soft,
+            },
+            items,
+            graph,
+        }
+    }
+
+    /// Every region on some vertices (groups expanded), ascending.
+    pub fn regions_of(&self, vertices: impl IntoIterator<Item = Vertex>) -> Vec<RegionId> {
+        let mut out: Vec<RegionId> = vertices
+            .into_iter()
+            .flat_map(|v| self.graph.members(v).iter().copied())
+            .collect();
+        out.sort();
+        out.dedup();
+        out
+    }
+}
+
+/// A Kuratowski subgraph of the answer's evidence in region terms.
+#[derive(Clone, Debug, PartialEq)]
+pub struct PlanarObstacle {
+    /// `"K5"` or `"K3,3"`.
+    pub kind: &'static str,
+    /// Every region it passes through, ascending.
+    pub regions: Vec<RegionId>,
+    /// Its branch vertices, each named by its first region.
+    pub branch_regions: Vec<RegionId>,
+    /// The allowed relaxations on it: at least one of them must be dropped.
+    pub candidates: Vec<Relaxation>,
+}
+
+/// The flat-drawing answer for a document, with the checker's verdict on it.
+#[derive(Clone, Debug)]
+pub struct PlanarRelaxVerdict {
+    pub model: PlanarModel,
+    pub report: PlanarRelaxReport,
+    /// The independent checker's verdict on the whole report.
+    pub check: Result<PlanarRelaxCheck, PlanarRelaxRejection>,
+}
+
+impl PlanarRelaxVerdict {
+    /// The borders the answer drops, in problem order.
+    pub fn relaxations(&self) -> Vec<Relaxation> {
+        self.report
+            .relaxation
+            .iter()
+            .flatten()
+            .flat_map(|&j| self.model.items[j].iter().copied())
+            .collect()
+    }
+
+    /// Every Kuratowski subgraph found, in region terms.
+    pub fn obstacles(&self) -> Vec<PlanarObstacle> {
+        self.report
+            .obstructions
+            .iter()
+            .map(|o| {
+                let k = &o.kuratowski;
+                PlanarObstacle {
+                    kind: k.kind.name(),
+                    regions: self
+                        .model
+                        .regions_of(k.edges.iter().flat_map(|&(a, b)| [a, b])),
+                    branch_regions: k
+                        .branch_vertices
+                        .iter()
+                        .map(|&v| self.model.graph.first_member(v))
+                        .collect(),
+                    candidates: o
+                        .soft
+                        .iter()
+                        .flat_map(|&j| self.model.items[j].iter().copied())
+                        .collect(),
+                }
+            })
+            .collect()
+    }
+
+    /// The verdict in words (one line, no file name): the cause named when one border is enough.
+    pub fn summary(&self, doc: &Document) -> String {
+        let r = &self.report;
+        if r.infeasible {
+            let regions: Vec<String> = self
+                .obstacles()
+                .last()
+                .map(|o| o.regions.iter().map(|&id| region_name(doc, id)).collect())
+                .unwrap_or_default();
+            return format!(
+                "these borders cannot be drawn flat whatever allowed rule is dropped: the borders among {} that must stay already cross",
+                super::and_list(&regions)
+            );
+        }
+        let Some(set) = &r.relaxation else {
+            return format!(
+                "no answer before the time limit; at least {} to drop for a flat drawing",
+                r.lower_bound
+            );
+        };
+        let relaxations = self.relaxations();
+        match relaxations.as_slice() {
+            [] if set.is_empty() => {
+                "these borders can be drawn flat as they are; nothing needs to be dropped".into()
+            }
+            [one] if r.proven_optimal => format!(
+                "{} makes these borders impossible to draw flat",
+                one.cause(doc)
+            ),
+            _ => {
+                let list: Vec<String> = relaxations.iter().map(|x| x.cause(doc)).collect();
+                format!(
+                    "these borders cannot be drawn flat as they stand; to draw them flat, drop {}",
+                    super::and_list(&list)
+                )
+            }
+        }
+    }
+}
+
+fn region_name(doc: &Document, id: RegionId) -> String {
+    doc.regions()
+        .get(&id)
+        .map_or_else(|| format!("#{id}"), |r| r.name.clone())
+}
+
+impl Relaxation {
+    /// As a cause: "the corner contact of Ashby and Corlen", "the border of Ashby and Esk added
+    /// by hand", "the short border of Ashby and Brell", "Ashby's membership of group North",
+    /// "Ashby's pin".
+    pub fn cause(&self, doc: &Document) -> String {
+        match *self {
+            Relaxation::Border { pair, kind } => {
+                let (a, b) = (region_name(doc, pair.a()), region_name(doc, pair.b()));
+                match kind {
+                    "corner" => format!("the corner contact of {a} and {b}"),
+                    "manual" => format!("the border of {a} and {b} added by hand"),
+                    _ => format!("the short border of {a} and {b}"),
+                }
+            }
+            Relaxation::Group { .. } | Relaxation::Pin { .. } => self.describe(doc),
+        }
+    }
+}
+
+/// Finds the fewest borders of the `allowed` kinds whose loss lets `doc`'s borders be drawn flat
+/// (a planar graph), within `time_limit`, and checks the answer. Group memberships and pins are
+/// not relaxed: a group is drawn as one region, and a pin does not change a drawing.
+pub fn fewest_relaxations_planar(
+    doc: &Document,
+    allowed: &Allowed,
+    time_limit: Duration,
+    control: &Control,
+) -> Result<PlanarRelaxVerdict, RelaxError> {
+    (control.progress)("Building the flat-drawing problem", 0.0);
+    let model = PlanarModel::build(doc, allowed);
+    let options = RelaxOptions {
+        deadline: Some(Instant::now() + time_limit),
+        ..RelaxOptions::default()
+    };
+    let report = relax_planar(&model.problem, &options, control.cancel, &mut |p| {
+        let fraction = match p.best_cost {
+            Some(best) if best > 0 => p.lower_bound as f64 / best as f64,
+            _ => 0.0,
+        };
+        (control.progress)(
+            &format!(
+                "{} Kuratowski subgraphs; at least {} to drop",
+                p.obstructions, p.lower_bound
+            ),
+            fraction.min(1.0),
+        );
+    })?;
+    let check = check_planar_relaxation(&model.problem, &report);
+    (control.progress)("Done", 1.0);
+    Ok(PlanarRelaxVerdict {
+        model,
+        report,
+        check,
+    })
+}
+
+/// [`fewest_relaxations_planar`] with no cancellation and no progress (the command line).
+pub fn fewest_relaxations_planar_uncontrolled(
+    doc: &Document,
+    allowed: &Allowed,
+    time_limit: Duration,
+) -> Result<PlanarRelaxVerdict, RelaxError> {
+    let never = AtomicBool::new(false);
+    fewest_relaxations_planar(
+        doc,
+        allowed,
+        time_limit,
+        &Control {
+            cancel: &never,
+            progress: &|_, _| {},
+        },
+    )
 }

@@ -117,7 +117,11 @@ pub enum Command {
         file: PathBuf,
         /// How many colours the map should take.
         #[arg(long)]
-        colours: u32,
+        colours: Option<u32>,
+        /// Instead of --colours: the fewest borders to drop so that the borders can be drawn flat
+        /// (without crossings). Only corner, manual and short borders are dropped for this.
+        #[arg(long)]
+        planar: bool,
         /// What may be dropped, comma-separated: corner, manual, short:LENGTH (m or km on maps in
         /// metres), group, pin.
         #[arg(long, default_value = "corner,manual,group")]
@@ -368,6 +372,7 @@ pub fn execute(command: Command) -> CommandResult {
         Command::Relax {
             file,
             colours,
+            planar,
             allow,
             json,
             time_limit,
@@ -377,6 +382,7 @@ pub fn execute(command: Command) -> CommandResult {
         } => relax::run_relax(&relax::RelaxArgs {
             file,
             colours,
+            planar,
             allow,
             json,
             time_limit: seconds(time_limit)?,

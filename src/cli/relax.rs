@@ -11,6 +11,15 @@
 //! DRAT proof and the lower bound passed Tinct's independent checker); `colouring`:
 //! `{"assignment": {"<region id>": colour}}` of the map with the relaxations dropped (colours
 //! `0..k`), absent when there is none.
+//!
+//! With `--planar` (the fewest borders to drop so that the borders can be drawn flat) the shape is
+//! the same without `colours` and `colouring`: `planar: true`; `relaxations`, `cost`,
+//! `proven_optimal`, `lower_bound`, `impossible` (the borders that must stay already cross),
+//! `stopped`; `evidence`: `{"kuratowski": [{"kind": "K5" | "K3,3", "regions", "branch_regions"
+//! (one region naming each branch vertex), "candidates" (the allowed relaxations on it: at least
+//! one must be dropped), "hard_only"}], "embedding": {"faces"} (the relaxed map's plane
+//! embedding; absent when there is none), "checked"}` (`checked`: the embedding, every Kuratowski
+//! subgraph and the lower bound passed Tinct's independent checker).
 
 use std::collections::BTreeMap;
 use std::path::PathBuf;
@@ -20,14 +29,17 @@ use serde::Serialize;
 
 use super::{CommandResult, Failure, OrFail, Outcome};
 use crate::analysis::relax::{
-    Allowed, RelaxVerdict, Relaxation, fewest_relaxations_uncontrolled, relaxation_edit,
+    Allowed, PlanarRelaxVerdict, RelaxVerdict, Relaxation, fewest_relaxations_planar_uncontrolled,
+    fewest_relaxations_uncontrolled, planar_relaxation_edit, relaxation_edit,
 };
 use crate::doc::Document;
 
 /// What `tinct relax` was asked.
 pub struct RelaxArgs {
     pub file: PathBuf,
-    pub colours: u32,
+    pub colours: Option<u32>,
+    /// The flat-drawing question instead of the colours one.
+    pub planar: bool,
     pub allow: String,
     pub json: bool,
     pub time_limit: Duration,
@@ -250,14 +262,28 @@ fn render_text(doc: &Document, v: &RelaxVerdict, file: &str) -> String {
     out
 }
 
-/// `tinct relax FILE --colours K`.
+/// `tinct relax FILE --colours K` or `tinct relax FILE --planar`.
 pub fn run_relax(a: &RelaxArgs) -> CommandResult {
     if a.apply && a.out.is_none() {
         return Err(Failure::BadInput(anyhow::anyhow!(
             "--apply needs --out FILE.tinct to write the relaxed project to"
         )));
     }
-    if a.colours == 0 {
+    let colours = match (a.colours, a.planar) {
+        (Some(_), true) => {
+            return Err(Failure::BadInput(anyhow::anyhow!(
+                "--colours and --planar ask different questions: give one of them"
+            )));
+        }
+        (None, true) => return run_relax_planar(a),
+        (None, false) => {
+            return Err(Failure::BadInput(anyhow::anyhow!(
+                "give --colours K (the fewest relaxations for K colours) or --planar (for a flat drawing)"
+            )));
+        }
+        (Some(k), false) => k,
+    };
+    if colours == 0 {
         return Err(Failure::BadInput(anyhow::anyhow!(
             "--colours must be at least 1"
         )));
@@ -268,7 +294,7 @@ pub fn run_relax(a: &RelaxArgs) -> CommandResult {
         .map_err(|e| anyhow::anyhow!("--allow: {e}"))
         .bad_input()?;
     let verdict =
-        fewest_relaxations_uncontrolled(&doc, a.colours, &allowed, a.time_limit).bad_input()?;
+        fewest_relaxations_uncontrolled(&doc, colours, &allowed, a.time_limit).bad_input()?;
     let file = a.file.display().to_string();
     let stdout = if a.json {
         serde_json::to_string_pretty(&to_out(&doc, &verdict))
@@ -289,7 +315,179 @@ pub fn run_relax(a: &RelaxArgs) -> CommandResult {
             )));
         }
         let relaxations = verdict.relaxations();
-        if let Some(edit) = relaxation_edit(&doc, &relaxations, a.colours) {
+        if let Some(edit) = relaxation_edit(&doc, &relaxations, colours) {
+            doc.apply(edit).bad_input()?;
+        }
+        super::save(&doc, out)?;
+        notes.push(format!(
+            "wrote {} with {} dropped (undo restores them)",
+            out.display(),
+            relaxations.len()
+        ));
+    }
+    Ok(Outcome {
+        stdout,
+        notes,
+        problems: !found,
+    })
+}
+
+#[derive(Serialize)]
+struct KuratowskiOut {
+    kind: &'static str,
+    regions: Vec<u64>,
+    branch_regions: Vec<u64>,
+    candidates: Vec<RelaxationOut>,
+    hard_only: bool,
+}
+
+#[derive(Serialize)]
+struct EmbeddingOut {
+    faces: usize,
+}
+
+#[derive(Serialize)]
+struct PlanarEvidenceOut {
+    kuratowski: Vec<KuratowskiOut>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    embedding: Option<EmbeddingOut>,
+    checked: bool,
+}
+
+#[derive(Serialize)]
+struct PlanarRelaxOut {
+    planar: bool,
+    relaxations: Vec<RelaxationOut>,
+    cost: Option<u64>,
+    proven_optimal: bool,
+    lower_bound: u64,
+    impossible: bool,
+    stopped: bool,
+    evidence: PlanarEvidenceOut,
+}
+
+fn planar_out(doc: &Document, v: &PlanarRelaxVerdict) -> PlanarRelaxOut {
+    let r = &v.report;
+    PlanarRelaxOut {
+        planar: true,
+        relaxations: v
+            .relaxations()
+            .iter()
+            .map(|x| relaxation_out(doc, x))
+            .collect(),
+        cost: r.cost,
+        proven_optimal: r.proven_optimal,
+        lower_bound: r.lower_bound,
+        impossible: r.infeasible,
+        stopped: r.stopped,
+        evidence: PlanarEvidenceOut {
+            kuratowski: v
+                .obstacles()
+                .into_iter()
+                .map(|o| KuratowskiOut {
+                    kind: o.kind,
+                    regions: o.regions.iter().map(|id| id.0).collect(),
+                    branch_regions: o.branch_regions.iter().map(|id| id.0).collect(),
+                    hard_only: o.candidates.is_empty(),
+                    candidates: o
+                        .candidates
+                        .iter()
+                        .map(|x| relaxation_out(doc, x))
+                        .collect(),
+                })
+                .collect(),
+            embedding: v
+                .check
+                .as_ref()
+                .ok()
+                .and_then(|c| c.faces)
+                .map(|faces| EmbeddingOut { faces }),
+            checked: v.check.is_ok(),
+        },
+    }
+}
+
+fn render_planar_text(doc: &Document, v: &PlanarRelaxVerdict, file: &str) -> String {
+    let r = &v.report;
+    let mut out = format!("{file}: {}\n", v.summary(doc));
+    let subgraphs = |n: usize| {
+        if n == 1 {
+            "1 Kuratowski subgraph".to_string()
+        } else {
+            format!("{n} Kuratowski subgraphs")
+        }
+    };
+    if r.infeasible {
+        if let Some(o) = v.obstacles().last() {
+            out.push_str(&format!(
+                "  a {} subdivision through {} regions, every border of it one that must stay\n",
+                o.kind,
+                o.regions.len()
+            ));
+        }
+    } else if r.relaxation.as_ref().is_some_and(|s| !s.is_empty()) {
+        if r.proven_optimal {
+            out.push_str(&format!(
+                "  this is the fewest: {} found (each a K5 or K3,3 drawn in borders, which no flat drawing has), and no smaller choice breaks them all\n",
+                subgraphs(r.obstructions.len())
+            ));
+        } else {
+            out.push_str(&format!(
+                "  the best found before the time limit; at least {} must be dropped\n",
+                r.lower_bound
+            ));
+        }
+        out.push_str(
+            "  dropping a border changes no region: it only leaves that contact outside what the four-colour guarantee covers\n",
+        );
+    }
+    match &v.check {
+        Ok(_) => out.push_str(
+            "  evidence: the flat drawing of what is left and every Kuratowski subgraph above passed Tinct's own checker\n",
+        ),
+        Err(e) => out.push_str(&format!("  evidence REJECTED by the checker: {e}\n")),
+    }
+    out
+}
+
+/// `tinct relax FILE --planar`.
+fn run_relax_planar(a: &RelaxArgs) -> CommandResult {
+    let loaded = super::load(&a.file, &a.geo)?;
+    let mut doc = loaded.doc;
+    let allowed = Allowed::parse(&a.allow, doc.settings().units)
+        .map_err(|e| anyhow::anyhow!("--allow: {e}"))
+        .bad_input()?;
+    let verdict =
+        fewest_relaxations_planar_uncontrolled(&doc, &allowed, a.time_limit).bad_input()?;
+    let file = a.file.display().to_string();
+    let stdout = if a.json {
+        serde_json::to_string_pretty(&planar_out(&doc, &verdict))
+            .map_err(anyhow::Error::from)
+            .bad_input()?
+            + "\n"
+    } else {
+        render_planar_text(&doc, &verdict, &file)
+    };
+    let mut notes = Vec::new();
+    // Groups are in the default kinds, so only an explicit pin earns the note; the README says
+    // that group memberships are not dropped for a flat drawing.
+    if allowed.pin {
+        notes.push(
+            "note: pins and group memberships are not dropped for a flat drawing (a pin changes no drawing; a group is drawn as one region)"
+                .to_string(),
+        );
+    }
+    let found = verdict.report.relaxation.is_some() && verdict.check.is_ok();
+    if a.apply
+        && let Some(out) = &a.out
+    {
+        if !found {
+            return Err(Failure::BadInput(anyhow::anyhow!(
+                "nothing to apply: no checked set of relaxations was found"
+            )));
+        }
+        let relaxations = verdict.relaxations();
+        if let Some(edit) = planar_relaxation_edit(&doc, &relaxations) {
             doc.apply(edit).bad_input()?;
         }
         super::save(&doc, out)?;

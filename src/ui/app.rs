@@ -406,7 +406,7 @@ impl App {
             }
             JobResult::Relaxed { revision, result } => match result {
                 Ok(answer) if revision == self.session.doc().revision() => {
-                    let text = relax_words(&answer);
+                    let text = answer.words_line();
                     let level = if answer.impossible || answer.relaxations.is_empty() {
                         Level::Warning
                     } else {
@@ -1481,48 +1481,4 @@ fn relax_answer(
         stopped: report.stopped,
         checked: verdict.check.is_ok(),
     }
-}
-
-/// The answer in one line, for the status area and the verdict panel.
-pub fn relax_words(a: &super::state::RelaxAnswer) -> String {
-    if a.impossible {
-        return format!(
-            "No corner contact, border added by hand or group membership can be dropped to use {}: a part of {} regions needs {} whatever is dropped",
-            a.colours,
-            a.part.len(),
-            a.minimum
-        );
-    }
-    if a.relaxations.is_empty() {
-        return if a.stopped {
-            format!(
-                "No set of rules to drop for {} colours was found before the time limit (at least {} needed)",
-                a.colours, a.lower_bound
-            )
-        } else {
-            format!("{} colours already do", a.colours)
-        };
-    }
-    const SHOWN: usize = 6;
-    let mut names = a
-        .words
-        .iter()
-        .take(SHOWN)
-        .cloned()
-        .collect::<Vec<_>>()
-        .join(", ");
-    if a.words.len() > SHOWN {
-        names.push_str(&format!(" and {} more", a.words.len() - SHOWN));
-    }
-    let proof = if a.proven && a.checked {
-        " (proven fewest)".to_string()
-    } else if a.proven {
-        " (the fewest, but the checker did not accept the evidence)".to_string()
-    } else {
-        format!(" (not proven fewest: at least {} needed)", a.lower_bound)
-    };
-    format!(
-        "Needs {}; drop {} to use {}{proof}: {names}",
-        a.minimum, a.counts, a.colours
-    )
 }

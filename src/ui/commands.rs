@@ -338,7 +338,7 @@ impl Command {
                 "Find the fewest corner contacts, borders added by hand or group memberships to drop so that the map takes one colour fewer than it needs, with a proof that no smaller choice works"
             }
             Command::ApplyRelaxations => {
-                "Drop the rules found for one colour fewer: borders are kept on record as removed, regions leave their groups (one undoable step)"
+                "Drop the rules found for one colour fewer, in one undoable step: the borders stay on record as not counting, and regions leave their groups"
             }
             Command::ColourByParent => {
                 "Colours that follow a hierarchy: a family of tints for each parent unit (a county's state), neighbouring parents in different families, neighbours within a parent in different tints (undoable)"

@@ -8,6 +8,7 @@
 pub mod bipartite_check;
 pub mod embedding_check;
 pub mod kuratowski_check;
+pub mod planar_relax_check;
 pub mod relax_check;
 
 pub use bipartite_check::{
@@ -15,4 +16,5 @@ pub use bipartite_check::{
 };
 pub use embedding_check::{EmbeddingRejection, check_embedding};
 pub use kuratowski_check::{KuratowskiRejection, check_kuratowski};
+pub use planar_relax_check::{PlanarRelaxCheck, PlanarRelaxRejection, check_planar_relaxation};
 pub use relax_check::{RelaxCheck, RelaxRejection, check_relaxation, obstruction_cnf};

@@ -271,7 +271,7 @@ pub fn obstruction_cnf(problem: &RelaxProblem, o: &RelaxObstruction) -> Result<S
 /// that share elements (the least costs add up over groups), then each group is searched
 /// exhaustively, taking the first set not yet met and trying each of its elements, cutting off a
 /// branch once it costs as much as the best found.
-fn least_cover(sets: &[&[usize]], cost: &[u64]) -> u64 {
+pub(super) fn least_cover(sets: &[&[usize]], cost: &[u64]) -> u64 {
     // Groups: repeatedly pull in every set sharing an element with the group.
     let mut unassigned: Vec<usize> = (0..sets.len()).collect();
     let mut total = 0;

@@ -12,16 +12,22 @@
 //! set approach to solve combinatorial optimization problems with an application to multigenome
 //! alignment", Operations Research 61(2), 2013), the scheme of core-guided MaxSAT: `search.rs` runs
 //! the loop, `shrink.rs` finds and shrinks obstructions with selector literals, `hitting_set.rs`
-//! computes minimum-cost hitting sets by branch and bound. The independent checker is
+//! computes minimum-cost hitting sets by branch and bound. `planar.rs` asks the same question for
+//! a flat drawing (which soft edges to drop so that the graph is planar), with Kuratowski
+//! subgraphs as the obstructions. The independent checker is
 //! [`crate::engine::certify::relax_check`], which shares no code with any of them.
 
 pub mod hitting_set;
+pub mod planar;
 pub mod search;
 pub mod shrink;
 
 use crate::engine::graph::Vertex;
 
 pub use hitting_set::{HittingSet, min_cost_hitting_set};
+pub use planar::{
+    PlanarObstruction, PlanarRelaxProblem, PlanarRelaxReport, SoftEdge, relax_planar,
+};
 pub use search::relax;
 
 /// One constraint on a colouring.
@@ -73,6 +79,10 @@ pub enum RelaxError {
     /// A soft item costs nothing.
     #[error("soft item {item} has cost 0; costs must be positive")]
     ZeroCost { item: usize },
+    /// An edge joins a vertex to itself, or a pair of vertices is named twice (a flat drawing
+    /// problem needs each pair once, hard or soft).
+    #[error("the pair {u}-{v} is a loop or is named more than once")]
+    RepeatedPair { u: Vertex, v: Vertex },
     /// No colours at all were asked for.
     #[error("at least one colour is needed")]
     NoColours,

@@ -206,7 +206,7 @@ fn relax_ui(frame: &Frame, ui: &mut egui::Ui, m: u32) {
         }
         return;
     };
-    let words = crate::ui::app::relax_words(answer);
+    let words = answer.words_line();
     marked(
         ui,
         !answer.relaxations.is_empty() && !answer.impossible,

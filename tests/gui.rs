@@ -1476,3 +1476,43 @@ fn a_parent_unit_typed_in_the_region_details_is_one_undoable_edit_and_colours_by
             .is_none()
     );
 }
+
+#[test]
+fn what_to_drop_to_draw_the_borders_flat_is_asked_shown_and_applied_in_one_undoable_step() {
+    // K5 is not planar (Kuratowski 1930); dropping any one of its edges leaves a planar graph
+    // (common practice). Every edge of a graph file is a border added by hand.
+    let dir = tempfile::tempdir().unwrap();
+    let k5 = super::support::generators::complete(5);
+    let mut h = open_edges(dir.path(), 5, &k5);
+    h.run_steps(3);
+    h.get_by_label("What to drop to draw the borders flat").click();
+    h.run_steps(4);
+    let line = "added by hand makes these borders impossible to draw flat (proven fewest)";
+    assert_eq!(
+        h.query_all_by_label_contains(line).count(),
+        2,
+        "in the panel and the status line: {}",
+        last_message(&h)
+    );
+    // The answer's "Show on map" follows the Kuratowski subgraph's.
+    h.get_all_by_label("Show on map").last().unwrap().click();
+    h.run_steps(2);
+    assert_eq!(
+        h.state().view.highlight,
+        Some(tinct::ui::state::Highlight::FlatRelaxations)
+    );
+    h.get_by_label("Drop them").click();
+    h.run_steps(4);
+    assert!(
+        last_message(&h).starts_with("Dropped 1 contact so that the borders can be drawn flat"),
+        "{}",
+        last_message(&h)
+    );
+    assert!(
+        h.query_by_label_contains("Yes: the border graph is planar")
+            .is_some()
+    );
+    h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::Z);
+    h.run_steps(3);
+    assert_eq!(h.state().session.doc().active_borders().count(), 10);
+}

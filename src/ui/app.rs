@@ -98,6 +98,8 @@ pub struct App {
     documents: u64,
     /// What to drop for one colour fewer, once asked (for the revision it names).
     pub relax: Option<super::state::RelaxAnswer>,
+    /// What to drop so that the borders can be drawn flat, once asked.
+    pub relax_flat: Option<super::state::RelaxAnswer>,
 }
 
 impl App {
@@ -145,6 +147,7 @@ impl App {
             dialog_sender,
             pending: Vec::new(),
             relax: None,
+            relax_flat: None,
             quit_confirmed: false,
             last_title: String::new(),
             documents: 1,
@@ -412,7 +415,11 @@ impl App {
                     } else {
                         Level::Info
                     };
-                    self.relax = Some(*answer);
+                    if answer.flat.is_some() {
+                        self.relax_flat = Some(*answer);
+                    } else {
+                        self.relax = Some(*answer);
+                    }
                     self.say(level, text);
                 }
                 Ok(_) => self.say(
@@ -474,6 +481,7 @@ impl App {
         }
         self.session = session;
         self.relax = None;
+        self.relax_flat = None;
         self.documents += 1;
         self.notices.clear();
         self.view = ViewState::default();
@@ -977,6 +985,7 @@ impl App {
             recovery_offer: self.recovery_offer.as_ref(),
             unsaved_question: self.confirm_discard,
             relax: self.relax.as_ref(),
+            relax_flat: self.relax_flat.as_ref(),
             actions: Default::default(),
         };
         super::draw(&frame, &mut self.panels, &mut self.dialogs, ui);
@@ -1188,6 +1197,8 @@ impl App {
             }
             Command::FindRelaxations => self.find_relaxations(),
             Command::ApplyRelaxations => self.apply_relaxations(),
+            Command::FindFlatRelaxations => self.find_flat_relaxations(),
+            Command::ApplyFlatRelaxations => self.apply_flat_relaxations(),
             Command::ColourByParent => {
                 self.dialogs.by_parent = Some(
                     super::dialogs::by_parent::ByParentDraft::for_document(self.session.doc()),
@@ -1342,6 +1353,56 @@ impl App {
         self.run_job(revision, JobKind::Other, Box::new(job));
     }
 
+    /// Starts the search for the fewest contacts to drop so that the borders can be drawn flat.
+    fn find_flat_relaxations(&mut self) {
+        let revision = self.session.doc().revision();
+        let snapshot = crate::worker::snapshot(self.session.doc());
+        let job = move |ctx: &crate::worker::JobContext| JobResult::Relaxed {
+            revision,
+            result: ctx
+                .with_control(|c| {
+                    analysis::relax::fewest_relaxations_planar(
+                        &snapshot,
+                        &analysis::relax::Allowed::default(),
+                        analysis::COLOURING_TIME_LIMIT,
+                        c,
+                    )
+                })
+                .map(|v| Box::new(flat_answer(&snapshot, revision, &v)))
+                .map_err(|e| e.to_string()),
+        };
+        self.run_job(revision, JobKind::Other, Box::new(job));
+    }
+
+    /// Drops the contacts found for a flat drawing, as one undoable step.
+    fn apply_flat_relaxations(&mut self) {
+        let revision = self.session.doc().revision();
+        let Some(answer) = self.relax_flat.as_ref().filter(|a| a.revision == revision) else {
+            self.say(
+                Level::Info,
+                "Nothing to drop yet: ask what to drop to draw the borders flat first",
+            );
+            return;
+        };
+        let relaxations = answer.relaxations.clone();
+        match analysis::relax::planar_relaxation_edit(self.session.doc(), &relaxations) {
+            Some(edit) => {
+                let n = relaxations.len();
+                self.edit(edit);
+                self.relax_flat = None;
+                self.say(
+                    Level::Info,
+                    format!(
+                        "Dropped {n} {} so that the borders can be drawn flat (undo puts {} back)",
+                        if n == 1 { "contact" } else { "contacts" },
+                        if n == 1 { "it" } else { "them" }
+                    ),
+                );
+            }
+            None => self.say(Level::Info, "Nothing to drop"),
+        }
+    }
+
     /// Drops the rules found for the current revision, as one undoable step.
     fn apply_relaxations(&mut self) {
         let revision = self.session.doc().revision();
@@ -1399,6 +1460,11 @@ impl App {
                 .unwrap_or_default(),
             Highlight::Relaxations => self
                 .relax
+                .as_ref()
+                .map(super::state::RelaxAnswer::regions)
+                .unwrap_or_default(),
+            Highlight::FlatRelaxations => self
+                .relax_flat
                 .as_ref()
                 .map(super::state::RelaxAnswer::regions)
                 .unwrap_or_default(),
@@ -1480,5 +1546,41 @@ fn relax_answer(
         part,
         stopped: report.stopped,
         checked: verdict.check.is_ok(),
+        flat: None,
+    }
+}
+
+/// The flat-drawing answer in the editor's terms.
+fn flat_answer(
+    doc: &doc::Document,
+    revision: u64,
+    verdict: &analysis::relax::PlanarRelaxVerdict,
+) -> super::state::RelaxAnswer {
+    let relaxations = verdict.relaxations();
+    let report = &verdict.report;
+    let part = if report.infeasible {
+        verdict
+            .obstacles()
+            .last()
+            .map(|o| o.regions.clone())
+            .unwrap_or_default()
+    } else {
+        Vec::new()
+    };
+    let n = relaxations.len();
+    super::state::RelaxAnswer {
+        revision,
+        minimum: 0,
+        colours: 0,
+        words: relaxations.iter().map(|r| r.describe(doc)).collect(),
+        counts: format!("{n} {}", if n == 1 { "contact" } else { "contacts" }),
+        relaxations,
+        proven: report.proven_optimal,
+        lower_bound: report.lower_bound,
+        impossible: report.infeasible,
+        part,
+        stopped: report.stopped,
+        checked: verdict.check.is_ok(),
+        flat: Some(verdict.summary(doc)),
     }
 }

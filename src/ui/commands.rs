@@ -161,6 +161,11 @@ pub enum Command {
     FindRelaxations,
     /// Drops the rules found by `FindRelaxations` (one undoable step).
     ApplyRelaxations,
+    /// Finds the fewest corner contacts or borders added by hand to drop so that the borders
+    /// can be drawn flat.
+    FindFlatRelaxations,
+    /// Drops the contacts found by `FindFlatRelaxations` (one undoable step).
+    ApplyFlatRelaxations,
     ExportProof,
     ClearColours,
     CommandList,
@@ -232,6 +237,8 @@ impl Command {
             Command::ColourByParent,
             Command::FindRelaxations,
             Command::ApplyRelaxations,
+            Command::FindFlatRelaxations,
+            Command::ApplyFlatRelaxations,
             Command::PaletteWindow,
             Command::AssignSlots,
             Command::ExportProof,
@@ -262,6 +269,8 @@ impl Command {
             | Command::ColourByParent
             | Command::FindRelaxations
             | Command::ApplyRelaxations
+            | Command::FindFlatRelaxations
+            | Command::ApplyFlatRelaxations
             | Command::ExportProof
             | Command::ClearColours
             | Command::PaletteWindow
@@ -292,6 +301,8 @@ impl Command {
             Command::ColourByParent => "Colour by parent unit…".into(),
             Command::FindRelaxations => "What to drop for one colour fewer".into(),
             Command::ApplyRelaxations => "Drop the rules found".into(),
+            Command::FindFlatRelaxations => "What to drop to draw the borders flat".into(),
+            Command::ApplyFlatRelaxations => "Drop the contacts found for a flat drawing".into(),
             Command::ExportProof => "Export the proof…".into(),
             Command::ClearColours => "Remove all colours".into(),
             Command::PaletteWindow => "Palette and print check…".into(),
@@ -336,6 +347,12 @@ impl Command {
             }
             Command::FindRelaxations => {
                 "Find the fewest corner contacts, borders added by hand or group memberships to drop so that the map takes one colour fewer than it needs, with a proof that no smaller choice works"
+            }
+            Command::FindFlatRelaxations => {
+                "Find the fewest corner contacts or borders added by hand to drop so that the borders can be drawn flat (and four colours are guaranteed), with proof that no smaller choice works"
+            }
+            Command::ApplyFlatRelaxations => {
+                "Drop the contacts found for a flat drawing, in one undoable step: the borders stay on record as not counting"
             }
             Command::ApplyRelaxations => {
                 "Drop the rules found for one colour fewer, in one undoable step: the borders stay on record as not counting, and regions leave their groups"
@@ -412,6 +429,8 @@ impl Command {
             Command::ColourByParent => None,
             Command::FindRelaxations => None,
             Command::ApplyRelaxations => None,
+            Command::FindFlatRelaxations => None,
+            Command::ApplyFlatRelaxations => None,
             Command::ExportProof => None,
             Command::ClearColours => None,
             Command::PaletteWindow => None,

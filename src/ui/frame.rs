@@ -91,6 +91,8 @@ pub struct Frame<'a> {
     /// What to drop for one colour fewer, when it was worked out (possibly for an older
     /// revision: panels show it only for the current one).
     pub relax: Option<&'a super::state::RelaxAnswer>,
+    /// What to drop so that the borders can be drawn flat, likewise.
+    pub relax_flat: Option<&'a super::state::RelaxAnswer>,
     /// The queue `send` adds to (the app makes it empty with each frame).
     pub(super) actions: RefCell<Vec<Action>>,
 }

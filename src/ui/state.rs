@@ -46,6 +46,8 @@ pub enum Highlight {
     /// The rules to drop for one colour fewer (the fewest relaxations), or the part of the map
     /// that no allowed relaxation helps.
     Relaxations,
+    /// The contacts to drop so that the borders can be drawn flat.
+    FlatRelaxations,
 }
 
 /// What to drop so that the map takes one colour fewer: the fewest relaxations found for a
@@ -71,12 +73,31 @@ pub struct RelaxAnswer {
     pub stopped: bool,
     /// The independent checker accepted the answer and its evidence.
     pub checked: bool,
+    /// The answer to "what to drop to draw the borders flat" (not to colours), and its verdict
+    /// in words ("the corner contact of A and B makes these borders impossible to draw flat").
+    pub flat: Option<String>,
 }
 
 impl RelaxAnswer {
     /// The answer in one line, for the status area and the verdict panel.
     pub fn words_line(&self) -> String {
         let a = self;
+        if let Some(summary) = &a.flat {
+            let mut text = summary.clone();
+            if let Some(first) = text.get(..1) {
+                text = first.to_uppercase() + &text[1..];
+            }
+            if !a.relaxations.is_empty() && !a.impossible {
+                text.push_str(if a.proven && a.checked {
+                    " (proven fewest)"
+                } else if a.proven {
+                    " (the fewest, but the checker did not accept the evidence)"
+                } else {
+                    " (not proven fewest)"
+                });
+            }
+            return text;
+        }
         if a.impossible {
             return format!(
                 "No corner contact, border added by hand or group membership can be dropped to use {}: a part of {} regions needs {} whatever is dropped",

@@ -450,10 +450,12 @@ fn draw(
     // Evidence asked for: the regions that cannot be drawn flat, or that cannot take three colours.
     let colouring = frame.analysis.and_then(|a| a.colouring.as_ref());
     // The rules to drop for one colour fewer: their regions, and each dropped border as a link.
-    let relaxed: Option<(Vec<RegionId>, Vec<RegionPair>)> = frame
-        .relax
-        .filter(|a| a.revision == doc.revision())
-        .map(|a| {
+    let answer = match frame.view.highlight {
+        Some(Highlight::FlatRelaxations) => frame.relax_flat,
+        _ => frame.relax,
+    };
+    let relaxed: Option<(Vec<RegionId>, Vec<RegionPair>)> =
+        answer.filter(|a| a.revision == doc.revision()).map(|a| {
             let links = a
                 .relaxations
                 .iter()
@@ -480,7 +482,7 @@ fn draw(
         (Some(Highlight::NotFewerColourable), _) => colouring
             .and_then(|c| c.minimum_impossible.as_ref())
             .map(|why| (&why.regions, &why.links, &[][..], style::OBSTRUCTION)),
-        (Some(Highlight::Relaxations), _) => relaxed
+        (Some(Highlight::Relaxations | Highlight::FlatRelaxations), _) => relaxed
             .as_ref()
             .map(|(regions, links)| (regions, links, &[][..], style::RELAXED)),
         _ => None,

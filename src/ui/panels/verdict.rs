@@ -206,6 +206,48 @@ fn relax_ui(frame: &Frame, ui: &mut egui::Ui, m: u32) {
         }
         return;
     };
+    answer_ui(
+        frame,
+        ui,
+        answer,
+        Highlight::Relaxations,
+        Command::ApplyRelaxations,
+    );
+}
+
+/// The fewest contacts to drop so that the borders can be drawn flat: a button that asks, then
+/// the answer with *Show on map* and *Drop them*.
+fn flat_relax_ui(frame: &Frame, ui: &mut egui::Ui) {
+    let answer = frame
+        .relax_flat
+        .filter(|a| a.revision == frame.doc().revision());
+    let Some(answer) = answer else {
+        if ui
+            .button(Command::FindFlatRelaxations.label())
+            .on_hover_text(Command::FindFlatRelaxations.tooltip())
+            .clicked()
+        {
+            frame.run(Command::FindFlatRelaxations);
+        }
+        return;
+    };
+    answer_ui(
+        frame,
+        ui,
+        answer,
+        Highlight::FlatRelaxations,
+        Command::ApplyFlatRelaxations,
+    );
+}
+
+/// An answer of the relaxation search: its line, *Show on map* and *Drop them*.
+fn answer_ui(
+    frame: &Frame,
+    ui: &mut egui::Ui,
+    answer: &crate::ui::state::RelaxAnswer,
+    highlight: Highlight,
+    apply: Command,
+) {
     let words = answer.words_line();
     marked(
         ui,
@@ -215,15 +257,15 @@ fn relax_ui(frame: &Frame, ui: &mut egui::Ui, m: u32) {
     ui.horizontal(|ui| {
         let regions = answer.regions();
         if !regions.is_empty() && ui.button("Show on map").clicked() {
-            frame.send(Action::ShowHighlight(Highlight::Relaxations, regions));
+            frame.send(Action::ShowHighlight(highlight, regions));
         }
         if !answer.relaxations.is_empty()
             && ui
                 .button("Drop them")
-                .on_hover_text(Command::ApplyRelaxations.tooltip())
+                .on_hover_text(apply.tooltip())
                 .clicked()
         {
-            frame.run(Command::ApplyRelaxations);
+            frame.run(apply);
         }
     });
 }
@@ -453,6 +495,9 @@ fn planarity_ui(frame: &Frame, ui: &mut egui::Ui) {
                 } else {
                     Action::ShowHighlight(Highlight::NotPlanar, o.regions.clone())
                 });
+            }
+            if !stale {
+                flat_relax_ui(frame, ui);
             }
         }
         PlanarityVerdict::Unknown => {

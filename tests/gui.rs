@@ -1485,7 +1485,8 @@ fn what_to_drop_to_draw_the_borders_flat_is_asked_shown_and_applied_in_one_undoa
     let k5 = super::support::generators::complete(5);
     let mut h = open_edges(dir.path(), 5, &k5);
     h.run_steps(3);
-    h.get_by_label("What to drop to draw the borders flat").click();
+    h.get_by_label("What to drop to draw the borders flat")
+        .click();
     h.run_steps(4);
     let line = "added by hand makes these borders impossible to draw flat (proven fewest)";
     assert_eq!(

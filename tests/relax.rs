@@ -285,12 +285,37 @@ fn proof_files_for_outside_checkers() {
         for (i, o) in r.obstructions.iter().enumerate() {
             let cnf = obstruction_cnf(&problem, o).unwrap();
             assert!(tinct::engine::colouring::check_drat(&cnf, &o.drat).is_ok());
+            outside_solver_refutes(&cnf, name);
             if let Some(dir) = &dir {
                 std::fs::create_dir_all(dir).unwrap();
                 std::fs::write(dir.join(format!("{name}-{i}.cnf")), &cnf).unwrap();
                 std::fs::write(dir.join(format!("{name}-{i}.drat")), &o.drat).unwrap();
             }
         }
+    }
+}
+
+/// An outside SAT solver, PicoSAT (Debian `picosat`, Biere 2008), must find `cnf` unsatisfiable
+/// (its exit status 20; 10 means satisfiable). CI installs it and sets
+/// `TINCT_REQUIRE_SAT_SOLVER=1`; elsewhere a machine without it skips this check.
+fn outside_solver_refutes(cnf: &str, what: &str) {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("obstruction.cnf");
+    std::fs::write(&path, cnf).unwrap();
+    match std::process::Command::new("picosat").arg(&path).output() {
+        Ok(out) => assert_eq!(
+            out.status.code(),
+            Some(20),
+            "{what}: PicoSAT does not find the obstruction unsatisfiable: {}",
+            String::from_utf8_lossy(&out.stdout)
+                .lines()
+                .next()
+                .unwrap_or("")
+        ),
+        Err(e) => assert!(
+            std::env::var_os("TINCT_REQUIRE_SAT_SOLVER").is_none(),
+            "TINCT_REQUIRE_SAT_SOLVER is set but picosat cannot run: {e}"
+        ),
     }
 }
 
@@ -714,9 +739,14 @@ fn us_counties_under_the_queen_rule_fit_four_colours_with_the_fewest_corners_dro
     assert!(!relaxations.is_empty());
     assert!(relaxations.iter().all(|r| r.kind() == "corner"));
     assert_eq!(v.report.cost, Some(relaxations.len() as u64));
-    // Each obstruction's proof refutes its CNF, also for outside checkers (TINCT_PROOF_DIR).
+    // Each obstruction's CNF is unsatisfiable for an outside SAT solver, and its proof refutes it
+    // for outside DRAT checkers too (TINCT_PROOF_DIR).
     let dir = std::env::var_os("TINCT_PROOF_DIR").map(std::path::PathBuf::from);
     for (i, o) in v.report.obstructions.iter().enumerate() {
+        outside_solver_refutes(
+            &obstruction_cnf(&v.model.problem, o).unwrap(),
+            "a county obstruction",
+        );
         if let Some(dir) = &dir {
             let cnf = obstruction_cnf(&v.model.problem, o).unwrap();
             std::fs::create_dir_all(dir).unwrap();

@@ -1196,9 +1196,9 @@ impl App {
                 self.run_job(revision, JobKind::Other, Box::new(job));
             }
             Command::FindRelaxations => self.find_relaxations(),
-            Command::ApplyRelaxations => self.apply_relaxations(),
+            Command::ApplyRelaxations => self.apply_answer(false),
             Command::FindFlatRelaxations => self.find_flat_relaxations(),
-            Command::ApplyFlatRelaxations => self.apply_flat_relaxations(),
+            Command::ApplyFlatRelaxations => self.apply_answer(true),
             Command::ColourByParent => {
                 self.dialogs.by_parent = Some(
                     super::dialogs::by_parent::ByParentDraft::for_document(self.session.doc()),
@@ -1374,66 +1374,57 @@ impl App {
         self.run_job(revision, JobKind::Other, Box::new(job));
     }
 
-    /// Drops the contacts found for a flat drawing, as one undoable step.
-    fn apply_flat_relaxations(&mut self) {
+    /// Drops the rules found for the current revision (for a flat drawing when `flat`, else for
+    /// one colour fewer), as one undoable step.
+    fn apply_answer(&mut self, flat: bool) {
         let revision = self.session.doc().revision();
-        let Some(answer) = self.relax_flat.as_ref().filter(|a| a.revision == revision) else {
+        let slot = if flat { &self.relax_flat } else { &self.relax };
+        let Some(answer) = slot.as_ref().filter(|a| a.revision == revision) else {
+            let ask = if flat {
+                "to draw the borders flat"
+            } else {
+                "for one colour fewer"
+            };
             self.say(
                 Level::Info,
-                "Nothing to drop yet: ask what to drop to draw the borders flat first",
+                format!("Nothing to drop yet: ask what to drop {ask} first"),
             );
             return;
         };
-        let relaxations = answer.relaxations.clone();
-        match analysis::relax::planar_relaxation_edit(self.session.doc(), &relaxations) {
-            Some(edit) => {
-                let n = relaxations.len();
-                self.edit(edit);
-                self.relax_flat = None;
-                self.say(
-                    Level::Info,
-                    format!(
-                        "Dropped {n} {} so that the borders can be drawn flat (undo puts {} back)",
-                        if n == 1 { "contact" } else { "contacts" },
-                        if n == 1 { "it" } else { "them" }
-                    ),
-                );
-            }
-            None => self.say(Level::Info, "Nothing to drop"),
-        }
-    }
-
-    /// Drops the rules found for the current revision, as one undoable step.
-    fn apply_relaxations(&mut self) {
-        let revision = self.session.doc().revision();
-        let Some(answer) = self.relax.as_ref().filter(|a| a.revision == revision) else {
-            self.say(
-                Level::Info,
-                "Nothing to drop yet: ask what to drop for one colour fewer first",
-            );
+        let (relaxations, colours) = (answer.relaxations.clone(), answer.colours);
+        let doc = self.session.doc();
+        let (edit, what, goal) = if flat {
+            (
+                analysis::relax::planar_relaxation_edit(doc, &relaxations),
+                ("contact", "contacts"),
+                "the borders can be drawn flat".to_string(),
+            )
+        } else {
+            (
+                analysis::relax::relaxation_edit(doc, &relaxations, colours),
+                ("rule", "rules"),
+                format!("{colours} colours do"),
+            )
+        };
+        let Some(edit) = edit else {
+            self.say(Level::Info, "Nothing to drop");
             return;
         };
-        let colours = answer.colours;
-        match analysis::relax::relaxation_edit(
-            self.session.doc(),
-            &answer.relaxations.clone(),
-            colours,
-        ) {
-            Some(edit) => {
-                let n = answer.relaxations.len();
-                self.edit(edit);
-                self.relax = None;
-                self.say(
-                    Level::Info,
-                    format!(
-                        "Dropped {n} {} so that {colours} colours do (undo puts {} back)",
-                        if n == 1 { "rule" } else { "rules" },
-                        if n == 1 { "it" } else { "them" }
-                    ),
-                );
-            }
-            None => self.say(Level::Info, "Nothing to drop"),
+        let n = relaxations.len();
+        self.edit(edit);
+        if flat {
+            self.relax_flat = None;
+        } else {
+            self.relax = None;
         }
+        self.say(
+            Level::Info,
+            format!(
+                "Dropped {n} {} so that {goal} (undo puts {} back)",
+                if n == 1 { what.0 } else { what.1 },
+                if n == 1 { "it" } else { "them" }
+            ),
+        );
     }
 
     /// Where a world point is on screen, given the canvas drawn last frame (for tests and tools).

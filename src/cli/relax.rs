@@ -289,7 +289,7 @@ pub fn run_relax(a: &RelaxArgs) -> CommandResult {
         )));
     }
     let loaded = super::load(&a.file, &a.geo)?;
-    let mut doc = loaded.doc;
+    let doc = loaded.doc;
     let allowed = Allowed::parse(&a.allow, doc.settings().units)
         .map_err(|e| anyhow::anyhow!("--allow: {e}"))
         .bad_input()?;
@@ -304,32 +304,11 @@ pub fn run_relax(a: &RelaxArgs) -> CommandResult {
     } else {
         render_text(&doc, &verdict, &file)
     };
-    let mut notes = Vec::new();
+    let notes = Vec::new();
     let found = verdict.report.relaxation.is_some() && verdict.check.is_ok();
-    if a.apply
-        && let Some(out) = &a.out
-    {
-        if !found {
-            return Err(Failure::BadInput(anyhow::anyhow!(
-                "nothing to apply: no checked set of relaxations was found"
-            )));
-        }
-        let relaxations = verdict.relaxations();
-        if let Some(edit) = relaxation_edit(&doc, &relaxations, colours) {
-            doc.apply(edit).bad_input()?;
-        }
-        super::save(&doc, out)?;
-        notes.push(format!(
-            "wrote {} with {} dropped (undo restores them)",
-            out.display(),
-            relaxations.len()
-        ));
-    }
-    Ok(Outcome {
-        stdout,
-        notes,
-        problems: !found,
-    })
+    let relaxations = verdict.relaxations();
+    let edit = relaxation_edit(&doc, &relaxations, colours);
+    finish(a, doc, stdout, notes, found, relaxations.len(), edit)
 }
 
 #[derive(Serialize)]
@@ -453,7 +432,7 @@ fn render_planar_text(doc: &Document, v: &PlanarRelaxVerdict, file: &str) -> Str
 /// `tinct relax FILE --planar`.
 fn run_relax_planar(a: &RelaxArgs) -> CommandResult {
     let loaded = super::load(&a.file, &a.geo)?;
-    let mut doc = loaded.doc;
+    let doc = loaded.doc;
     let allowed = Allowed::parse(&a.allow, doc.settings().units)
         .map_err(|e| anyhow::anyhow!("--allow: {e}"))
         .bad_input()?;
@@ -478,6 +457,22 @@ fn run_relax_planar(a: &RelaxArgs) -> CommandResult {
         );
     }
     let found = verdict.report.relaxation.is_some() && verdict.check.is_ok();
+    let relaxations = verdict.relaxations();
+    let edit = planar_relaxation_edit(&doc, &relaxations);
+    finish(a, doc, stdout, notes, found, relaxations.len(), edit)
+}
+
+/// The end of `tinct relax`: with `--apply --out`, the answer's `edit` applied and the project
+/// written (refused when no checked answer was `found`); the outcome, a problem when none was.
+fn finish(
+    a: &RelaxArgs,
+    mut doc: Document,
+    stdout: String,
+    mut notes: Vec<String>,
+    found: bool,
+    dropped: usize,
+    edit: Option<crate::doc::Edit>,
+) -> CommandResult {
     if a.apply
         && let Some(out) = &a.out
     {
@@ -486,15 +481,13 @@ fn run_relax_planar(a: &RelaxArgs) -> CommandResult {
                 "nothing to apply: no checked set of relaxations was found"
             )));
         }
-        let relaxations = verdict.relaxations();
-        if let Some(edit) = planar_relaxation_edit(&doc, &relaxations) {
+        if let Some(edit) = edit {
             doc.apply(edit).bad_input()?;
         }
         super::save(&doc, out)?;
         notes.push(format!(
-            "wrote {} with {} dropped (undo restores them)",
+            "wrote {} with {dropped} dropped (undo restores them)",
             out.display(),
-            relaxations.len()
         ));
     }
     Ok(Outcome {

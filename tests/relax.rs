@@ -774,3 +774,62 @@ fn us_counties_under_the_queen_rule_fit_four_colours_with_the_fewest_corners_dro
     .unwrap();
     assert_eq!(after.minimum, Some(4));
 }
+
+#[test]
+fn weighed_by_length_the_shortest_shared_border_goes_first() {
+    // By construction: five regions all sharing borders (a K5) of lengths 10, 20, ..., 100 map
+    // units, every one of them short enough to drop. Unweighed, any one border is an answer of
+    // cost 1; weighed by length, only the shortest is the cheapest (cost 1 + 10/10 = 2), for
+    // four colours and for a flat drawing alike.
+    let mut b = DocumentBuilder::new("five shared borders");
+    for i in 1..=5u64 {
+        b.region(RegionId(i), Region::new(format!("R{i}"), [i as f64, 0.0]));
+    }
+    let mut length = 0.0;
+    let mut shortest = None;
+    for i in 1..=5u64 {
+        for j in i + 1..=5 {
+            length += 10.0;
+            let pair = RegionPair::new(RegionId(i), RegionId(j)).unwrap();
+            shortest.get_or_insert(pair);
+            b.border(pair, Border::shared(length));
+        }
+    }
+    b.next_ids(6, 1);
+    let doc = b.build().unwrap();
+    let shortest = shortest.unwrap();
+    let allowed = Allowed {
+        by_length: true,
+        ..Allowed::parse("short:1000", Units::Unitless).unwrap()
+    };
+    let v = fewest_relaxations_uncontrolled(&doc, 4, &allowed, std::time::Duration::from_secs(60))
+        .unwrap();
+    v.check.as_ref().unwrap();
+    assert!(v.report.proven_optimal);
+    assert_eq!(v.report.cost, Some(2));
+    assert_eq!(
+        v.relaxations(),
+        vec![Relaxation::Border {
+            pair: shortest,
+            kind: "short"
+        }]
+    );
+    let flat = tinct::analysis::relax::fewest_relaxations_planar_uncontrolled(
+        &doc,
+        &allowed,
+        std::time::Duration::from_secs(60),
+    )
+    .unwrap();
+    flat.check.as_ref().unwrap();
+    assert_eq!(flat.report.cost, Some(2));
+    assert_eq!(flat.relaxations().len(), 1);
+    assert_eq!(
+        flat.relaxations()[0].regions(),
+        vec![shortest.a(), shortest.b()]
+    );
+    // The costs do not depend on the units: the shortest costs 2, corners and hand-made 1.
+    assert_eq!(
+        tinct::analysis::relax::border_costs(&[0.0, 0.5, 1.0, 5.0]),
+        vec![1, 2, 3, 11]
+    );
+}

@@ -45,6 +45,10 @@ pub struct Allowed {
     pub group: bool,
     /// Pins.
     pub pin: bool,
+    /// Borders cost more the longer they are, so the shortest go first: a corner contact (or a
+    /// hand-made border) costs 1, the shortest soft shared border 2, one `n` times as long about
+    /// `n + 1` ([`border_costs`]). Otherwise every relaxation costs 1.
+    pub by_length: bool,
 }
 
 impl Default for Allowed {
@@ -56,8 +60,30 @@ impl Default for Allowed {
             short: None,
             group: true,
             pin: false,
+            by_length: false,
         }
     }
+}
+
+/// The cost of each border in `lengths` (0 for corner contacts and hand-made borders) when
+/// borders are weighed by length: 1 + ⌈length / q⌉, q being the shortest positive length among
+/// them, so that the costs do not depend on the map's units.
+pub fn border_costs(lengths: &[f64]) -> Vec<u64> {
+    let q = lengths
+        .iter()
+        .copied()
+        .filter(|l| *l > 0.0 && l.is_finite())
+        .fold(f64::INFINITY, f64::min);
+    lengths
+        .iter()
+        .map(|&l| {
+            if l > 0.0 && q.is_finite() {
+                1 + (l / q).ceil().min(1e12) as u64
+            } else {
+                1
+            }
+        })
+        .collect()
 }
 
 impl Allowed {
@@ -70,6 +96,7 @@ impl Allowed {
             short: None,
             group: false,
             pin: false,
+            by_length: false,
         };
         for word in text.split(',').map(str::trim).filter(|w| !w.is_empty()) {
             match word {
@@ -88,6 +115,15 @@ impl Allowed {
             }
         }
         Ok(allowed)
+    }
+}
+
+/// A border's length for weighing: shared borders their length, every other kind 0.
+fn border_length(border: &Border) -> f64 {
+    if border.kind == BorderKind::Shared {
+        border.length
+    } else {
+        0.0
     }
 }
 
@@ -203,6 +239,7 @@ impl RelaxModel {
         let mut soft = Vec::new();
         let mut items = Vec::new();
         let min = doc.settings().min_border_length;
+        let mut lengths = Vec::new();
         for (pair, border) in doc.active_borders() {
             let (Some(&u), Some(&v)) = (vertex_of.get(&pair.a()), vertex_of.get(&pair.b())) else {
                 continue;
@@ -216,8 +253,14 @@ impl RelaxModel {
                         cost: 1,
                     });
                     items.push(Relaxation::Border { pair, kind });
+                    lengths.push(border_length(border));
                 }
                 None => hard.push(constraint),
+            }
+        }
+        if allowed.by_length {
+            for (item, cost) in soft.iter_mut().zip(border_costs(&lengths)) {
+                item.cost = cost;
             }
         }
         for (id, region) in doc.land_regions() {
@@ -447,7 +490,7 @@ impl PlanarModel {
     pub fn build(doc: &Document, allowed: &Allowed) -> PlanarModel {
         let graph = ConstraintGraph::build(doc);
         let min = doc.settings().min_border_length;
-        let mut pairs: BTreeMap<(Vertex, Vertex), (bool, Vec<Relaxation>)> = BTreeMap::new();
+        let mut pairs: BTreeMap<(Vertex, Vertex), (bool, Vec<(Relaxation, f64)>)> = BTreeMap::new();
         for (pair, border) in doc.active_borders() {
             let (Some(u), Some(v)) = (graph.vertex_of(pair.a()), graph.vertex_of(pair.b())) else {
                 continue;
@@ -457,10 +500,20 @@ impl PlanarModel {
             }
             let entry = pairs.entry((u.min(v), u.max(v))).or_default();
             match relaxable_kind(border, min, allowed) {
-                Some(kind) => entry.1.push(Relaxation::Border { pair, kind }),
+                Some(kind) => entry
+                    .1
+                    .push((Relaxation::Border { pair, kind }, border_length(border))),
                 None => entry.0 = true,
             }
         }
+        // Each soft edge costs what its borders cost together.
+        let all_lengths: Vec<f64> = pairs
+            .values()
+            .filter(|(is_hard, _)| !is_hard)
+            .flat_map(|(_, r)| r.iter().map(|(_, l)| *l))
+            .collect();
+        let costs = border_costs(&all_lengths);
+        let mut next_cost = costs.iter();
         let mut hard = Vec::new();
         let mut soft = Vec::new();
         let mut items = Vec::new();
@@ -468,12 +521,20 @@ impl PlanarModel {
             if is_hard {
                 hard.push((u, v));
             } else {
+                let weighed: u64 = relaxations
+                    .iter()
+                    .map(|_| next_cost.next().copied().unwrap_or(1))
+                    .sum();
                 soft.push(SoftEdge {
                     u,
                     v,
-                    cost: relaxations.len() as u64,
+                    cost: if allowed.by_length {
+                        weighed
+                    } else {
+                        relaxations.len() as u64
+                    },
                 });
-                items.push(relaxations);
+                items.push(relaxations.into_iter().map(|(r, _)| r).collect());
             }
         }
         PlanarModel {

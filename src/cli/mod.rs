@@ -126,6 +126,11 @@ pub enum Command {
         /// metres), group, pin.
         #[arg(long, default_value = "corner,manual,group")]
         allow: String,
+        /// Weigh borders by length, so the shortest go first: a corner contact costs 1, the
+        /// shortest shared border that may go 2, one n times as long about n + 1 (otherwise
+        /// every relaxation costs 1).
+        #[arg(long = "by-length")]
+        by_length: bool,
         /// Print machine-readable JSON on standard output (shape documented in the README).
         #[arg(long)]
         json: bool,
@@ -374,6 +379,7 @@ pub fn execute(command: Command) -> CommandResult {
             colours,
             planar,
             allow,
+            by_length,
             json,
             time_limit,
             apply,
@@ -384,6 +390,7 @@ pub fn execute(command: Command) -> CommandResult {
             colours,
             planar,
             allow,
+            by_length,
             json,
             time_limit: seconds(time_limit)?,
             apply,

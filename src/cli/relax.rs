@@ -41,6 +41,8 @@ pub struct RelaxArgs {
     /// The flat-drawing question instead of the colours one.
     pub planar: bool,
     pub allow: String,
+    /// Borders weighed by length (`Allowed::by_length`).
+    pub by_length: bool,
     pub json: bool,
     pub time_limit: Duration,
     pub apply: bool,
@@ -290,9 +292,12 @@ pub fn run_relax(a: &RelaxArgs) -> CommandResult {
     }
     let loaded = super::load(&a.file, &a.geo)?;
     let doc = loaded.doc;
-    let allowed = Allowed::parse(&a.allow, doc.settings().units)
-        .map_err(|e| anyhow::anyhow!("--allow: {e}"))
-        .bad_input()?;
+    let allowed = Allowed {
+        by_length: a.by_length,
+        ..Allowed::parse(&a.allow, doc.settings().units)
+            .map_err(|e| anyhow::anyhow!("--allow: {e}"))
+            .bad_input()?
+    };
     let verdict =
         fewest_relaxations_uncontrolled(&doc, colours, &allowed, a.time_limit).bad_input()?;
     let file = a.file.display().to_string();
@@ -433,9 +438,12 @@ fn render_planar_text(doc: &Document, v: &PlanarRelaxVerdict, file: &str) -> Str
 fn run_relax_planar(a: &RelaxArgs) -> CommandResult {
     let loaded = super::load(&a.file, &a.geo)?;
     let doc = loaded.doc;
-    let allowed = Allowed::parse(&a.allow, doc.settings().units)
-        .map_err(|e| anyhow::anyhow!("--allow: {e}"))
-        .bad_input()?;
+    let allowed = Allowed {
+        by_length: a.by_length,
+        ..Allowed::parse(&a.allow, doc.settings().units)
+            .map_err(|e| anyhow::anyhow!("--allow: {e}"))
+            .bad_input()?
+    };
     let verdict =
         fewest_relaxations_planar_uncontrolled(&doc, &allowed, a.time_limit).bad_input()?;
     let file = a.file.display().to_string();

@@ -482,6 +482,10 @@ pub struct PlanarModel {
     pub graph: ConstraintGraph,
 }
 
+/// The borders between two vertices: whether any of them must stay, and those that may go with
+/// their lengths.
+type PairBorders = (bool, Vec<(Relaxation, f64)>);
+
 impl PlanarModel {
     /// Builds the flat-drawing problem of `doc`, with borders of the `allowed` kinds soft.
     ///
@@ -490,7 +494,7 @@ impl PlanarModel {
     pub fn build(doc: &Document, allowed: &Allowed) -> PlanarModel {
         let graph = ConstraintGraph::build(doc);
         let min = doc.settings().min_border_length;
-        let mut pairs: BTreeMap<(Vertex, Vertex), (bool, Vec<(Relaxation, f64)>)> = BTreeMap::new();
+        let mut pairs: BTreeMap<(Vertex, Vertex), PairBorders> = BTreeMap::new();
         for (pair, border) in doc.active_borders() {
             let (Some(u), Some(v)) = (graph.vertex_of(pair.a()), graph.vertex_of(pair.b())) else {
                 continue;

@@ -6,6 +6,7 @@
 //! first reason for rejection.
 
 pub mod bipartite_check;
+mod cover_check;
 pub mod embedding_check;
 pub mod kuratowski_check;
 pub mod planar_relax_check;

@@ -9,9 +9,9 @@
 
 use std::collections::BTreeMap;
 
+use super::cover_check::{CostFault, check_bounds, relaxation_mask};
 use super::embedding_check::check_embedding;
 use super::kuratowski_check::check_kuratowski;
-use super::relax_check::least_cover;
 use crate::engine::graph::{Graph, Vertex};
 use crate::engine::relax::{PlanarRelaxProblem, PlanarRelaxReport};
 
@@ -40,6 +40,24 @@ pub enum PlanarRelaxRejection {
         "the graph is called impossible to relax but no obstruction is made of hard edges only"
     )]
     NoHardObstruction,
+}
+
+impl From<CostFault> for PlanarRelaxRejection {
+    fn from(fault: CostFault) -> PlanarRelaxRejection {
+        match fault {
+            CostFault::BadItem(j) => PlanarRelaxRejection::BadItem(j),
+            CostFault::WrongCost { claimed, actual } => {
+                PlanarRelaxRejection::WrongCost { claimed, actual }
+            }
+            CostFault::NoHardObstruction => PlanarRelaxRejection::NoHardObstruction,
+            CostFault::BoundTooHigh { claimed, proven } => {
+                PlanarRelaxRejection::BoundTooHigh { claimed, proven }
+            }
+            CostFault::NotOptimal { cost, proven } => {
+                PlanarRelaxRejection::NotOptimal { cost, proven }
+            }
+        }
+    }
 }
 
 /// What the check established.
@@ -81,24 +99,12 @@ pub fn check_planar_relaxation(
     let whole = Graph::from_edges(n, &whole_edges)
         .map_err(|_| PlanarRelaxRejection::BadProblem)?
         .0;
+    let cost: Vec<u64> = problem.soft.iter().map(|s| s.cost).collect();
     let mut dropped = vec![false; problem.soft.len()];
     let mut faces = None;
     match (&report.relaxation, &report.embedding) {
         (Some(set), Some(embedding)) => {
-            let mut total = 0u64;
-            for &j in set {
-                if j >= problem.soft.len() || dropped[j] {
-                    return Err(PlanarRelaxRejection::BadItem(j));
-                }
-                dropped[j] = true;
-                total += problem.soft[j].cost;
-            }
-            if report.cost != Some(total) {
-                return Err(PlanarRelaxRejection::WrongCost {
-                    claimed: report.cost.unwrap_or(0),
-                    actual: total,
-                });
-            }
+            dropped = relaxation_mask(set, &cost, report.cost)?;
             let relaxed_edges: Vec<(Vertex, Vertex)> = pair_item
                 .iter()
                 .filter(|(_, item)| item.is_none_or(|j| !dropped[j]))
@@ -134,39 +140,12 @@ pub fn check_planar_relaxation(
             return Err(bad("the relaxation drops none of its soft edges".into()));
         }
     }
-    let sets: Vec<&[usize]> = report
-        .obstructions
-        .iter()
-        .map(|o| o.soft.as_slice())
-        .collect();
-    let proven = if sets.iter().any(|s| s.is_empty()) {
-        None
-    } else {
-        let cost: Vec<u64> = problem.soft.iter().map(|s| s.cost).collect();
-        Some(least_cover(&sets, &cost))
-    };
-    match proven {
-        // A hard-only obstruction beside an embedding was caught above (the relaxation drops
-        // none of its soft edges).
-        None => {}
-        Some(p) => {
-            if report.infeasible {
-                return Err(PlanarRelaxRejection::NoHardObstruction);
-            }
-            if report.lower_bound > p {
-                return Err(PlanarRelaxRejection::BoundTooHigh {
-                    claimed: report.lower_bound,
-                    proven: p,
-                });
-            }
-            if report.proven_optimal && report.cost != Some(p) {
-                return Err(PlanarRelaxRejection::NotOptimal {
-                    cost: report.cost.unwrap_or(0),
-                    proven: p,
-                });
-            }
-        }
-    }
+    let claims = (report.infeasible, report.lower_bound, report.proven_optimal);
+    let soft_sets = report.obstructions.iter().map(|o| o.soft.as_slice());
+    // With no proven cover, a hard-only obstruction beside an embedding was caught above (the
+    // relaxation drops none of its soft edges).
+    let (proven, verdict) = check_bounds(soft_sets, &cost, claims, report.cost);
+    verdict?;
     Ok(PlanarRelaxCheck {
         proven_lower_bound: proven,
         obstructions: report.obstructions.len(),

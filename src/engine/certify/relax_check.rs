@@ -9,6 +9,7 @@
 
 use std::fmt::Write;
 
+use super::cover_check::{CostFault, check_bounds, relaxation_mask};
 use crate::engine::colouring::check_drat;
 use crate::engine::relax::{Constraint, RelaxObstruction, RelaxProblem, RelaxReport};
 
@@ -47,6 +48,22 @@ pub enum RelaxRejection {
     NoHardObstruction,
 }
 
+impl From<CostFault> for RelaxRejection {
+    fn from(fault: CostFault) -> RelaxRejection {
+        match fault {
+            CostFault::BadItem(j) => RelaxRejection::BadItem(j),
+            CostFault::WrongCost { claimed, actual } => {
+                RelaxRejection::WrongCost { claimed, actual }
+            }
+            CostFault::NoHardObstruction => RelaxRejection::NoHardObstruction,
+            CostFault::BoundTooHigh { claimed, proven } => {
+                RelaxRejection::BoundTooHigh { claimed, proven }
+            }
+            CostFault::NotOptimal { cost, proven } => RelaxRejection::NotOptimal { cost, proven },
+        }
+    }
+}
+
 /// What the check established.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct RelaxCheck {
@@ -63,23 +80,10 @@ pub fn check_relaxation(
     report: &RelaxReport,
 ) -> Result<RelaxCheck, RelaxRejection> {
     let k = problem.colours;
+    let cost: Vec<u64> = problem.soft.iter().map(|s| s.cost).collect();
     match (&report.relaxation, &report.colouring) {
         (Some(set), Some(colouring)) => {
-            let mut dropped = vec![false; problem.soft.len()];
-            let mut total = 0u64;
-            for &j in set {
-                if j >= problem.soft.len() || dropped[j] {
-                    return Err(RelaxRejection::BadItem(j));
-                }
-                dropped[j] = true;
-                total += problem.soft[j].cost;
-            }
-            if report.cost != Some(total) {
-                return Err(RelaxRejection::WrongCost {
-                    claimed: report.cost.unwrap_or(0),
-                    actual: total,
-                });
-            }
+            let dropped = relaxation_mask(set, &cost, report.cost)?;
             if colouring.len() != problem.vertex_count {
                 return Err(RelaxRejection::ColouringLength {
                     given: colouring.len(),
@@ -130,49 +134,21 @@ pub fn check_relaxation(
             why: format!("proof rejected: {e}"),
         })?;
     }
-    let sets: Vec<&[usize]> = report
-        .obstructions
-        .iter()
-        .map(|o| o.soft.as_slice())
-        .collect();
-    let proven = if sets.iter().any(|s| s.is_empty()) {
-        None
-    } else {
-        let cost: Vec<u64> = problem.soft.iter().map(|s| s.cost).collect();
-        Some(least_cover(&sets, &cost))
-    };
-    match proven {
-        None => {
-            if report.relaxation.is_some() {
-                // A colouring was checked above, yet an obstruction of hard constraints alone was
-                // accepted: that cannot both be right.
-                return Err(RelaxRejection::BadObstruction {
-                    index: report
-                        .obstructions
-                        .iter()
-                        .position(|o| o.soft.is_empty())
-                        .unwrap_or(0),
-                    why: "hard-only obstruction beside a colouring".into(),
-                });
-            }
-        }
-        Some(p) => {
-            if report.infeasible {
-                return Err(RelaxRejection::NoHardObstruction);
-            }
-            if report.lower_bound > p {
-                return Err(RelaxRejection::BoundTooHigh {
-                    claimed: report.lower_bound,
-                    proven: p,
-                });
-            }
-            if report.proven_optimal && report.cost != Some(p) {
-                return Err(RelaxRejection::NotOptimal {
-                    cost: report.cost.unwrap_or(0),
-                    proven: p,
-                });
-            }
-        }
+    let claims = (report.infeasible, report.lower_bound, report.proven_optimal);
+    let soft_sets = report.obstructions.iter().map(|o| o.soft.as_slice());
+    let (proven, verdict) = check_bounds(soft_sets, &cost, claims, report.cost);
+    verdict?;
+    if proven.is_none() && report.relaxation.is_some() {
+        // A colouring was checked above, yet an obstruction of hard constraints alone was
+        // accepted: that cannot both be right.
+        return Err(RelaxRejection::BadObstruction {
+            index: report
+                .obstructions
+                .iter()
+                .position(|o| o.soft.is_empty())
+                .unwrap_or(0),
+            why: "hard-only obstruction beside a colouring".into(),
+        });
     }
     Ok(RelaxCheck {
         proven_lower_bound: proven,
@@ -265,55 +241,4 @@ pub fn obstruction_cnf(problem: &RelaxProblem, o: &RelaxObstruction) -> Result<S
         text.push_str("0\n");
     }
     Ok(text)
-}
-
-/// The least total cost of a set of elements meeting every set: sets are first split into groups
-/// that share elements (the least costs add up over groups), then each group is searched
-/// exhaustively, taking the first set not yet met and trying each of its elements, cutting off a
-/// branch once it costs as much as the best found.
-pub(super) fn least_cover(sets: &[&[usize]], cost: &[u64]) -> u64 {
-    // Groups: repeatedly pull in every set sharing an element with the group.
-    let mut unassigned: Vec<usize> = (0..sets.len()).collect();
-    let mut total = 0;
-    while let Some(first) = unassigned.pop() {
-        let mut group = vec![first];
-        let mut elements: Vec<usize> = sets[first].to_vec();
-        let mut grew = true;
-        while grew {
-            grew = false;
-            let mut i = 0;
-            while i < unassigned.len() {
-                let s = sets[unassigned[i]];
-                if s.iter().any(|e| elements.contains(e)) {
-                    elements.extend_from_slice(s);
-                    group.push(unassigned.swap_remove(i));
-                    grew = true;
-                } else {
-                    i += 1;
-                }
-            }
-        }
-        let group_sets: Vec<&[usize]> = group.iter().map(|&i| sets[i]).collect();
-        let mut best = elements.iter().map(|&e| cost[e]).sum::<u64>();
-        let mut chosen = Vec::new();
-        cover(&group_sets, cost, &mut chosen, 0, &mut best);
-        total += best;
-    }
-    total
-}
-
-fn cover(sets: &[&[usize]], cost: &[u64], chosen: &mut Vec<usize>, spent: u64, best: &mut u64) {
-    if spent >= *best {
-        return;
-    }
-    match sets.iter().find(|s| !s.iter().any(|e| chosen.contains(e))) {
-        None => *best = spent,
-        Some(open) => {
-            for &e in open.iter() {
-                chosen.push(e);
-                cover(sets, cost, chosen, spent + cost[e], best);
-                chosen.pop();
-            }
-        }
-    }
 }

@@ -10,13 +10,15 @@
 //!
 //! The search is the implicit hitting set method (Moreno-Centeno and Karp, "The implicit hitting
 //! set approach to solve combinatorial optimization problems with an application to multigenome
-//! alignment", Operations Research 61(2), 2013), the scheme of core-guided MaxSAT: `search.rs` runs
-//! the loop, `shrink.rs` finds and shrinks obstructions with selector literals, `hitting_set.rs`
-//! computes minimum-cost hitting sets by branch and bound. `planar.rs` asks the same question for
+//! alignment", Operations Research 61(2), 2013), the scheme of core-guided MaxSAT: `driver.rs`
+//! runs the loop for both searches, `search.rs` tests colourings, `shrink.rs` finds and shrinks
+//! obstructions with selector literals, `hitting_set.rs` computes minimum-cost hitting sets by
+//! branch and bound. `planar.rs` asks the same question for
 //! a flat drawing (which soft edges to drop so that the graph is planar), with Kuratowski
 //! subgraphs as the obstructions. The independent checker is
 //! [`crate::engine::certify::relax_check`], which shares no code with any of them.
 
+mod driver;
 pub mod hitting_set;
 pub mod planar;
 pub mod search;

@@ -9,10 +9,9 @@
 //! Only edges are modelled. A same-colour group is one vertex of the constraint graph, so the
 //! caller merges its members before building the problem; a membership is not relaxable here.
 
-use std::sync::atomic::{AtomicBool, Ordering};
-use std::time::Instant;
+use std::sync::atomic::AtomicBool;
 
-use super::hitting_set::min_cost_hitting_set;
+use super::driver::{Tested, hitting_set_loop};
 use super::{RelaxError, RelaxOptions, RelaxProgress};
 use crate::engine::graph::{Graph, Vertex};
 use crate::engine::planarity::{
@@ -106,95 +105,37 @@ pub fn relax_planar(
 ) -> Result<PlanarRelaxReport, RelaxError> {
     validate(problem)?;
     let cost: Vec<u64> = problem.soft.iter().map(|s| s.cost).collect();
-    let stopped =
-        || cancel.load(Ordering::Relaxed) || options.deadline.is_some_and(|d| Instant::now() >= d);
-    let mut report = PlanarRelaxReport {
-        relaxation: None,
-        cost: None,
-        embedding: None,
-        lower_bound: 0,
-        proven_optimal: false,
-        infeasible: false,
-        obstructions: Vec::new(),
-        stopped: false,
-        rounds: 0,
-    };
-    let tell = |report: &PlanarRelaxReport, progress: &mut dyn FnMut(RelaxProgress)| {
-        progress(RelaxProgress {
-            obstructions: report.obstructions.len(),
-            lower_bound: report.lower_bound,
-            best_cost: report.cost,
-        })
-    };
     let soft_of = SoftIndex::new(problem);
-    'rounds: loop {
-        if stopped() {
-            report.stopped = true;
-            break;
-        }
-        report.rounds += 1;
-        let sets: Vec<Vec<usize>> = report.obstructions.iter().map(|o| o.soft.clone()).collect();
-        let hs = min_cost_hitting_set(&sets, &cost, Some(cancel), options.deadline);
-        report.lower_bound = report.lower_bound.max(hs.lower_bound);
-        if report.cost == Some(report.lower_bound) {
-            break;
-        }
-        if hs.lower_bound < hs.cost {
-            report.stopped = true;
-            break;
-        }
-        let mut dropped = vec![false; problem.soft.len()];
-        for &e in &hs.elements {
-            dropped[e] = true;
-        }
-        loop {
+    let found = hitting_set_loop(
+        &cost,
+        options.deadline,
+        cancel,
+        progress,
+        |o: &PlanarObstruction| &o.soft,
+        |dropped| {
             let kept: Vec<usize> = (0..problem.soft.len()).filter(|&j| !dropped[j]).collect();
             let g = graph_of(problem, &kept);
             match planarity(&g, cancel, &mut |_| {}) {
-                Ok(Planarity::Planar(embedding)) => {
-                    let set: Vec<usize> = (0..dropped.len()).filter(|&j| dropped[j]).collect();
-                    let total: u64 = set.iter().map(|&j| cost[j]).sum();
-                    if report.cost.is_none_or(|c| total < c) {
-                        report.relaxation = Some(set);
-                        report.cost = Some(total);
-                        report.embedding = Some(embedding);
-                    }
-                    break;
-                }
-                Ok(Planarity::NonPlanar(k)) => {
-                    let o = match obstruction(problem, &soft_of, &k, cancel) {
-                        Ok(o) => o,
-                        Err(_) => {
-                            report.stopped = true;
-                            break 'rounds;
-                        }
-                    };
-                    let hard_only = o.soft.is_empty();
-                    for &j in &o.soft {
-                        dropped[j] = true;
-                    }
-                    report.obstructions.push(o);
-                    tell(&report, progress);
-                    if hard_only {
-                        report.infeasible = true;
-                        report.relaxation = None;
-                        report.cost = None;
-                        report.embedding = None;
-                        break 'rounds;
-                    }
-                }
-                Err(_) => {
-                    report.stopped = true;
-                    break 'rounds;
-                }
+                Ok(Planarity::Planar(embedding)) => Tested::Works(embedding),
+                Ok(Planarity::NonPlanar(k)) => match obstruction(problem, &soft_of, &k, cancel) {
+                    Ok(o) => Tested::Obstruction(o),
+                    Err(_) => Tested::Stopped,
+                },
+                Err(_) => Tested::Stopped,
             }
-        }
-        tell(&report, progress);
-    }
-    report.proven_optimal = !report.infeasible && report.cost == Some(report.lower_bound);
-    if report.proven_optimal {
-        report.stopped = false;
-    }
+        },
+    );
+    let report = PlanarRelaxReport {
+        relaxation: found.relaxation,
+        cost: found.cost,
+        embedding: found.witness,
+        lower_bound: found.lower_bound,
+        proven_optimal: found.proven_optimal,
+        infeasible: found.infeasible,
+        obstructions: found.obstructions,
+        stopped: found.stopped,
+        rounds: found.rounds,
+    };
     Ok(report)
 }
 

@@ -1,10 +1,9 @@
 //! The implicit hitting set loop: obstructions, a minimum-cost hitting set of them, a colouring
 //! test of what is left, repeated until the test succeeds.
 
-use std::sync::atomic::{AtomicBool, Ordering};
-use std::time::Instant;
+use std::sync::atomic::AtomicBool;
 
-use super::hitting_set::min_cost_hitting_set;
+use super::driver::{Tested, hitting_set_loop};
 use super::shrink::{Local, local_obstruction};
 use super::{
     Constraint, RelaxError, RelaxObstruction, RelaxOptions, RelaxProblem, RelaxProgress,
@@ -50,86 +49,26 @@ pub fn relax(
 ) -> Result<RelaxReport, RelaxError> {
     validate(problem)?;
     let cost: Vec<u64> = problem.soft.iter().map(|s| s.cost).collect();
-    let stopped =
-        || cancel.load(Ordering::Relaxed) || options.deadline.is_some_and(|d| Instant::now() >= d);
-    let mut report = RelaxReport {
+    let found = hitting_set_loop(
+        &cost,
+        options.deadline,
+        cancel,
+        progress,
+        |o: &RelaxObstruction| &o.soft,
+        |dropped| decide(problem, dropped, options, cancel),
+    );
+    let report = RelaxReport {
         colours: problem.colours,
-        relaxation: None,
-        cost: None,
-        colouring: None,
-        lower_bound: 0,
-        proven_optimal: false,
-        infeasible: false,
-        obstructions: Vec::new(),
-        stopped: false,
-        rounds: 0,
+        relaxation: found.relaxation,
+        cost: found.cost,
+        colouring: found.witness,
+        lower_bound: found.lower_bound,
+        proven_optimal: found.proven_optimal,
+        infeasible: found.infeasible,
+        obstructions: found.obstructions,
+        stopped: found.stopped,
+        rounds: found.rounds,
     };
-    let tell = |report: &RelaxReport, progress: &mut dyn FnMut(RelaxProgress)| {
-        progress(RelaxProgress {
-            obstructions: report.obstructions.len(),
-            lower_bound: report.lower_bound,
-            best_cost: report.cost,
-        })
-    };
-    'rounds: loop {
-        if stopped() {
-            report.stopped = true;
-            break;
-        }
-        report.rounds += 1;
-        let sets: Vec<Vec<usize>> = report.obstructions.iter().map(|o| o.soft.clone()).collect();
-        let hs = min_cost_hitting_set(&sets, &cost, Some(cancel), options.deadline);
-        report.lower_bound = report.lower_bound.max(hs.lower_bound);
-        if report.cost == Some(report.lower_bound) {
-            break;
-        }
-        if hs.lower_bound < hs.cost {
-            report.stopped = true;
-            break;
-        }
-        let mut dropped = vec![false; problem.soft.len()];
-        for &e in &hs.elements {
-            dropped[e] = true;
-        }
-        loop {
-            match decide(problem, &dropped, options, cancel) {
-                Decided::Coloured(colouring) => {
-                    let set: Vec<usize> = (0..dropped.len()).filter(|&j| dropped[j]).collect();
-                    let total: u64 = set.iter().map(|&j| cost[j]).sum();
-                    if report.cost.is_none_or(|c| total < c) {
-                        report.relaxation = Some(set);
-                        report.cost = Some(total);
-                        report.colouring = Some(colouring);
-                    }
-                    break;
-                }
-                Decided::Obstruction(o) => {
-                    let hard_only = o.soft.is_empty();
-                    for &j in &o.soft {
-                        dropped[j] = true;
-                    }
-                    report.obstructions.push(o);
-                    tell(&report, progress);
-                    if hard_only {
-                        report.infeasible = true;
-                        report.relaxation = None;
-                        report.cost = None;
-                        report.colouring = None;
-                        break 'rounds;
-                    }
-                }
-                Decided::Stopped => {
-                    report.stopped = true;
-                    break 'rounds;
-                }
-            }
-        }
-        tell(&report, progress);
-    }
-    report.proven_optimal = !report.infeasible && report.cost == Some(report.lower_bound);
-    if report.proven_optimal {
-        report.stopped = false;
-    }
     Ok(report)
 }
 
@@ -156,11 +95,8 @@ fn validate(problem: &RelaxProblem) -> Result<(), RelaxError> {
     Ok(())
 }
 
-enum Decided {
-    Coloured(Vec<u32>),
-    Obstruction(RelaxObstruction),
-    Stopped,
-}
+/// A colouring of the problem without the dropped items, or an obstruction among those kept.
+type Decided = Tested<Vec<u32>, RelaxObstruction>;
 
 fn find(parent: &mut [u32], mut x: u32) -> u32 {
     while parent[x as usize] != x {
@@ -264,14 +200,14 @@ fn decide(
         .certain();
     }
     let Ok((g, _)) = Graph::from_edges(classes as usize, &edges) else {
-        return Decided::Stopped;
+        return Tested::Stopped;
     };
     let expand = |class_colour: &[u32]| -> Vec<u32> {
         (0..n).map(|v| class_colour[class_of[v] as usize]).collect()
     };
     let outcome = kempe_colouring(&g, &pin, k);
     if outcome.uncoloured.is_empty() {
-        return Decided::Coloured(expand(&outcome.colour));
+        return Tested::Works(expand(&outcome.colour));
     }
     // SAT on small neighbourhoods of the vertices the heuristic could not colour.
     for &stuck in outcome.uncoloured.iter().take(3) {
@@ -287,21 +223,21 @@ fn decide(
             cancel,
         ) {
             Grown::Nothing => {}
-            Grown::Found(o) => return Decided::Obstruction(o),
-            Grown::Stopped => return Decided::Stopped,
+            Grown::Found(o) => return Tested::Obstruction(o),
+            Grown::Stopped => return Tested::Stopped,
         }
     }
     let mut colour = outcome.colour.clone();
     if repair(&g, &pin, k, &mut colour, options.local_vertices, limits)
         && colour.iter().all(|&c| c < k)
     {
-        return Decided::Coloured(expand(&colour));
+        return Tested::Works(expand(&colour));
     }
     if limits.stopped() {
-        return Decided::Stopped;
+        return Tested::Stopped;
     }
     match k_colourable(&g, &pin, k, limits) {
-        Decision::Colourable(c) => Decided::Coloured(expand(&c)),
+        Decision::Colourable(c) => Tested::Works(expand(&c)),
         Decision::NotColourable { part, .. } => {
             let mut allowed = vec![false; n];
             let mut seed = None;
@@ -323,10 +259,10 @@ fn decide(
                     cancel,
                 )
                 .certain(),
-                None => Decided::Stopped,
+                None => Tested::Stopped,
             }
         }
-        Decision::Unknown => Decided::Stopped,
+        Decision::Unknown => Tested::Stopped,
     }
 }
 
@@ -406,12 +342,12 @@ impl Grown {
     /// colourable): finding none would be a bug, reported as a stop rather than as a colouring.
     fn certain(self) -> Decided {
         match self {
-            Grown::Found(o) => Decided::Obstruction(o),
+            Grown::Found(o) => Tested::Obstruction(o),
             Grown::Nothing => {
                 debug_assert!(false, "no obstruction in a part known not to be colourable");
-                Decided::Stopped
+                Tested::Stopped
             }
-            Grown::Stopped => Decided::Stopped,
+            Grown::Stopped => Tested::Stopped,
         }
     }
 }

@@ -290,14 +290,7 @@ pub fn run_relax(a: &RelaxArgs) -> CommandResult {
             "--colours must be at least 1"
         )));
     }
-    let loaded = super::load(&a.file, &a.geo)?;
-    let doc = loaded.doc;
-    let allowed = Allowed {
-        by_length: a.by_length,
-        ..Allowed::parse(&a.allow, doc.settings().units)
-            .map_err(|e| anyhow::anyhow!("--allow: {e}"))
-            .bad_input()?
-    };
+    let (doc, allowed) = load_allowing(a)?;
     let verdict =
         fewest_relaxations_uncontrolled(&doc, colours, &allowed, a.time_limit).bad_input()?;
     let file = a.file.display().to_string();
@@ -434,16 +427,21 @@ fn render_planar_text(doc: &Document, v: &PlanarRelaxVerdict, file: &str) -> Str
     out
 }
 
-/// `tinct relax FILE --planar`.
-fn run_relax_planar(a: &RelaxArgs) -> CommandResult {
-    let loaded = super::load(&a.file, &a.geo)?;
-    let doc = loaded.doc;
+/// The map of `tinct relax`, and what may be dropped on it (`--allow`, `--by-length`).
+fn load_allowing(a: &RelaxArgs) -> Result<(Document, Allowed), Failure> {
+    let doc = super::load(&a.file, &a.geo)?.doc;
     let allowed = Allowed {
         by_length: a.by_length,
         ..Allowed::parse(&a.allow, doc.settings().units)
             .map_err(|e| anyhow::anyhow!("--allow: {e}"))
             .bad_input()?
     };
+    Ok((doc, allowed))
+}
+
+/// `tinct relax FILE --planar`.
+fn run_relax_planar(a: &RelaxArgs) -> CommandResult {
+    let (doc, allowed) = load_allowing(a)?;
     let verdict =
         fewest_relaxations_planar_uncontrolled(&doc, &allowed, a.time_limit).bad_input()?;
     let file = a.file.display().to_string();

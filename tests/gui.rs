@@ -1463,7 +1463,7 @@ fn a_parent_unit_typed_in_the_region_details_is_one_undoable_edit_and_colours_by
     h.run_steps(2);
     h.get_by_label_contains("Colour by parent unit").click();
     h.run_steps(3);
-    let missing = format!("1 parent units; {} land regions have none", land - 1);
+    let missing = format!("1 parent unit; {} land regions have none", land - 1);
     assert!(h.query_by_label_contains(&missing).is_some(), "{missing}");
     press(&mut h, egui::Modifiers::NONE, egui::Key::Escape);
     // One undo takes the parent unit away again.

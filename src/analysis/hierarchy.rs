@@ -65,14 +65,15 @@ impl HierarchyOutcome {
         let proven = |p: bool| if p { " (proven fewest)" } else { "" };
         let r = &self.report;
         format!(
-            "{} famil{}{} of {} tint{}{} for {} parent units",
+            "{} famil{}{} of {} tint{}{} for {} parent unit{}",
             r.families,
             if r.families == 1 { "y" } else { "ies" },
             proven(r.families_proven),
             r.tints,
             if r.tints == 1 { "" } else { "s" },
             proven(r.tints_proven),
-            self.parents.len()
+            self.parents.len(),
+            if self.parents.len() == 1 { "" } else { "s" }
         )
     }
 }

@@ -124,10 +124,15 @@ pub fn show(frame: &Frame, window: &mut Option<ByParentDraft>, ctx: &egui::Conte
                     .on_hover_text("0 takes the whole value; 2 takes the first two characters, as a county's FIPS code names its state");
             });
             if let Some((parents, without)) = draft.count(frame.doc()) {
-                let text = if without == 0 {
-                    format!("{parents} parent units; every land region has one")
+                let units = if parents == 1 {
+                    "1 parent unit".to_string()
                 } else {
-                    format!("{parents} parent units; {without} land regions have none, so the map cannot be coloured this way")
+                    format!("{parents} parent units")
+                };
+                let text = match without {
+                    0 => format!("{units}; every land region has one"),
+                    1 => format!("{units}; 1 land region has none, so the map cannot be coloured this way"),
+                    n => format!("{units}; {n} land regions have none, so the map cannot be coloured this way"),
                 };
                 ui.label(text);
                 ui.horizontal(|ui| {
